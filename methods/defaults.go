@@ -1,0 +1,123 @@
+package methods
+
+// Defaults of format 1, applied in one place (applyDefaults) after decoding.
+// A key that is present keeps its value, even when it is zero.
+const (
+	DefaultCO2ppm         = 400
+	DefaultWindSDMs       = 1.0
+	DefaultCLASDM2        = 1.0
+	DefaultCalSDPct       = 1.0
+	DefaultGrowthMm       = 0.5
+	DefaultGrowthSDMm     = 0.5
+	DefaultSpeedTolKmh    = 1.5
+	DefaultMinDurationS   = 4
+	DefaultFilterTauS     = 0.5
+	DefaultModelSDPct     = 25
+	DefaultDragSDPct      = 20
+	DefaultSoftnessM2     = 0.03
+	DefaultCredible       = 0.90
+	DefaultSeed           = 1
+	DefaultCostH          = 1.0
+	MisreadFastback       = 0.05
+	MisreadNotchbackRaked = 0.15
+)
+
+// DefaultSpeedsKmh are the report speeds when none are given.
+var DefaultSpeedsKmh = []float64{100, 150}
+
+// DefaultMisread returns the vortex misread probability for a body style and
+// whether the vortex method applies to that body at all (fastbacks, and
+// notchbacks with a steeply raked rear window: common practice, no source).
+func DefaultMisread(body string) (float64, bool) {
+	switch body {
+	case BodyFastback:
+		return MisreadFastback, true
+	case BodyNotchbackRaked:
+		return MisreadNotchbackRaked, true
+	}
+	return 0, false
+}
+
+func applyDefaults(c *Campaign) {
+	if !c.Air.At.Has("co2_ppm") {
+		c.Air.CO2ppm = DefaultCO2ppm
+	}
+	if !c.Air.At.Has("wind_sd_ms") {
+		c.Air.WindSDMs = DefaultWindSDMs
+	}
+	if !c.Prior.At.Has("cla_sd_m2") {
+		c.Prior.CLASDM2 = DefaultCLASDM2
+	}
+	if c.Prior.SpeedModel == "" {
+		c.Prior.SpeedModel = SpeedConstant
+	}
+	if d := c.Vehicle.Drag; d != nil && !d.At.Has("sd_pct") {
+		d.SDPct = DefaultDragSDPct
+	}
+	for i := range c.Evidence.RideHeight {
+		e := &c.Evidence.RideHeight[i]
+		if !e.Calibration.At.Has("sd_pct") {
+			e.Calibration.SDPct = DefaultCalSDPct
+		}
+		if !e.TyreGrowth.At.Has("mm_at_100kmh") {
+			e.TyreGrowth.MmAt100kmh = DefaultGrowthMm
+		}
+		if !e.TyreGrowth.At.Has("sd_mm") {
+			e.TyreGrowth.SDMm = DefaultGrowthSDMm
+		}
+		if !e.Steady.At.Has("speed_tol_kmh") {
+			e.Steady.SpeedTolKmh = DefaultSpeedTolKmh
+		}
+		if !e.Steady.At.Has("min_duration_s") {
+			e.Steady.MinDurationS = DefaultMinDurationS
+		}
+		if !e.At.Has("filter_tau_s") {
+			e.FilterTauS = DefaultFilterTauS
+		}
+	}
+	for i := range c.Evidence.Pressure {
+		if e := &c.Evidence.Pressure[i]; !e.At.Has("model_sd_pct") {
+			e.ModelSDPct = DefaultModelSDPct
+		}
+	}
+	for i := range c.Evidence.Vortex {
+		e := &c.Evidence.Vortex[i]
+		if e.Informs == "" {
+			e.Informs = AxleTotal
+		}
+		if !e.At.Has("misread") {
+			e.Misread, _ = DefaultMisread(c.Vehicle.Body)
+		}
+		if !e.At.Has("softness_m2") {
+			e.SoftnessM2 = DefaultSoftnessM2
+		}
+	}
+	r := &c.Report
+	if !r.At.Has("speeds_kmh") {
+		r.SpeedsKmh = append([]float64(nil), DefaultSpeedsKmh...)
+	}
+	if !r.At.Has("credible") {
+		r.Credible = DefaultCredible
+	}
+	if r.ForceUnit == "" {
+		r.ForceUnit = UnitKgf
+	}
+	if r.ReferenceConfig == "" && len(c.Configurations) > 0 {
+		r.ReferenceConfig = c.Configurations[0].ID
+	}
+	if !r.At.Has("seed") {
+		r.Seed = DefaultSeed
+	}
+}
+
+// CostH returns the hours it takes to repeat an evidence entry (plan.cost_h,
+// default 1 h).
+func (c *Campaign) CostH(entry string) float64 {
+	if v, ok := c.Plan.CostH.Get(entry); ok {
+		return v
+	}
+	return DefaultCostH
+}
+
+// Density returns the campaign's air density in kg/m³.
+func (c *Campaign) Density() float64 { return c.Air.Density() }

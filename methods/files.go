@@ -1,0 +1,364 @@
+package methods
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"liftfuse/methods/logs"
+)
+
+// LogColumns returns the columns a log spec asks for, in a fixed order:
+// time, speed, signal, then direction and config when named. The indices
+// are returned as a LogIndex.
+func (l *LogSpec) LogColumns() ([]logs.Column, LogIndex) {
+	cols := []logs.Column{{Name: l.Time}, {Name: l.SpeedColumn()}, {Name: l.Signal}}
+	ix := LogIndex{Time: 0, Speed: 1, Signal: 2, Direction: -1, Config: -1}
+	if l.Direction != "" {
+		ix.Direction = len(cols)
+		cols = append(cols, logs.Column{Name: l.Direction})
+	}
+	if l.Config != "" {
+		ix.Config = len(cols)
+		cols = append(cols, logs.Column{Name: l.Config, Text: true})
+	}
+	return cols, ix
+}
+
+// LogIndex places each named column among those LogColumns asks for; -1
+// means not named.
+type LogIndex struct {
+	Time, Speed, Signal, Direction, Config int
+}
+
+// SpeedColumn is the name of the speed column, in km/h or m/s.
+func (l *LogSpec) SpeedColumn() string {
+	if l.SpeedMs != "" {
+		return l.SpeedMs
+	}
+	return l.SpeedKmh
+}
+
+// SpeedToMs converts a value of the speed column to m/s.
+func (l *LogSpec) SpeedToMs(x float64) float64 {
+	if l.SpeedMs != "" {
+		return x
+	}
+	return KmhToMs(x)
+}
+
+// logKeys names the spec key of each asked-for column, for messages.
+func (l *LogSpec) logKeys() []string {
+	keys := []string{"time", "speed_kmh", "signal"}
+	if l.SpeedMs != "" {
+		keys[1] = "speed_ms"
+	}
+	if l.Direction != "" {
+		keys = append(keys, "direction")
+	}
+	if l.Config != "" {
+		keys = append(keys, "config")
+	}
+	return keys
+}
+
+// logProblem turns a log reader error into a Problem at the log's position.
+func logProblem(err error, path string) *Problem {
+	var pe *logs.ParseError
+	if !errors.As(err, &pe) {
+		return &Problem{Path: path, Err: wrapf(ErrFile, "%v", err)}
+	}
+	msg := pe.Err.Error()
+	if pe.Field != "" {
+		msg = fmt.Sprintf("column %q: %s", pe.Field, msg)
+	}
+	return &Problem{Where: Where{File: pe.File, Line: pe.Line, Column: pe.Column}, Path: path, Err: wrapf(ErrColumn, "%s", msg)}
+}
+
+// scanLog checks a log: the file opens, the named columns exist, and (unless
+// HeadersOnly) every used cell is a finite number, time increases, direction
+// is ±1, configuration ids are known and segments lie inside the log's span.
+func (v *validator) scanLog(l *LogSpec, path string) {
+	if l.File == "" {
+		return
+	}
+	name := v.c.Path(l.File)
+	f, err := os.Open(name)
+	if err != nil {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot read log %q: %v", l.File, unwrapPath(err))
+		return
+	}
+	defer f.Close()
+	v.c.addFile(name)
+	hr, err := logs.NewReader(f, name, nil)
+	if err != nil {
+		v.errs = append(v.errs, logProblem(err, path+".file"))
+		return
+	}
+	have := map[string]bool{}
+	for _, n := range hr.Names() {
+		have[n] = true
+	}
+	cols, ix := l.LogColumns()
+	missing := false
+	for k, c := range cols {
+		if c.Name != "" && !have[c.Name] {
+			key := l.logKeys()[k]
+			v.errf(l.At.Of(key), path+"."+key, ErrColumn, "column %q is not in the header of %s", c.Name, l.File)
+			missing = true
+		}
+	}
+	if missing || v.opt.HeadersOnly || l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
+		return
+	}
+	if _, err := f.Seek(0, io.SeekStart); err != nil {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot re-read log %q: %v", l.File, err)
+		return
+	}
+	r, err := logs.NewReader(f, name, cols)
+	if err != nil {
+		v.errs = append(v.errs, logProblem(err, path))
+		return
+	}
+	r.Increasing = ix.Time
+	t0, t1, rows := math.Inf(1), math.Inf(-1), 0
+	unknown := map[string]bool{}
+	for r.Next() {
+		rows++
+		t := r.Float(ix.Time)
+		t0, t1 = math.Min(t0, t), math.Max(t1, t)
+		if ix.Direction >= 0 {
+			if d := r.Float(ix.Direction); d != 1 && d != -1 {
+				v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
+					Err: wrapf(ErrRange, "column %q: direction must be 1 or -1, got %g", l.Direction, d)})
+				return
+			}
+		}
+		if ix.Config >= 0 {
+			id := r.Text(ix.Config)
+			if !v.configs[string(id)] {
+				if !unknown[string(id)] && len(unknown) < 5 {
+					v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Config)}, Path: path + ".config",
+						Err: wrapf(ErrReference, "column %q: unknown configuration %q (known: %s)", l.Config, id, v.configList())})
+				}
+				unknown[string(id)] = true
+			} else {
+				v.informed[string(id)] = true
+			}
+		}
+	}
+	if err := r.Err(); err != nil {
+		v.errs = append(v.errs, logProblem(err, path))
+		return
+	}
+	if rows == 0 {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "log %q has a header but no data rows", l.File)
+		return
+	}
+	for k, s := range l.Segments {
+		if s.FromS < t0 || s.ToS > t1 {
+			v.errf(s.At.Where, fmt.Sprintf("%s.segments[%d]", path, k), ErrRange,
+				"segment %g–%g s lies outside the log's time span %g–%g s", s.FromS, s.ToS, t0, t1)
+		}
+	}
+}
+
+// csvTable reads a small CSV table (taps_file, readings_file) with its header,
+// giving each cell's position.
+type csvTable struct {
+	name   string
+	header []string
+	rows   [][]string
+	pos    [][]Where
+}
+
+func readTable(name string) (*csvTable, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	cr := csv.NewReader(io.LimitReader(f, 16<<20))
+	cr.TrimLeadingSpace = true
+	cr.FieldsPerRecord = 0
+	t := &csvTable{name: name}
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		if t.header == nil {
+			t.header = rec
+			continue
+		}
+		pos := make([]Where, len(rec))
+		for i := range rec {
+			line, col := cr.FieldPos(i)
+			pos[i] = Where{File: name, Line: line, Column: col}
+		}
+		t.rows = append(t.rows, rec)
+		t.pos = append(t.pos, pos)
+	}
+	if t.header == nil {
+		return nil, fmt.Errorf("empty file: no header row")
+	}
+	return t, nil
+}
+
+// tableNumber parses a cell as a finite number.
+func (v *validator) tableNumber(cell string, w Where, path, col string) (float64, bool) {
+	x, err := strconv.ParseFloat(strings.TrimSpace(cell), 64)
+	if err != nil || math.IsInf(x, 0) || math.IsNaN(x) {
+		v.errf(w, path, ErrType, "column %q: want a finite number, got %q", col, cell)
+		return 0, false
+	}
+	return x, true
+}
+
+func (v *validator) openTable(p Place, path, key, file string) *csvTable {
+	name := v.c.Path(file)
+	t, err := readTable(name)
+	if err != nil {
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: pe.Line, Column: pe.Column}, Path: path + "." + key, Err: wrapf(ErrFile, "%v", pe.Err)})
+		} else {
+			v.errf(p.Of(key), path+"."+key, ErrFile, "cannot read %q: %v", file, unwrapPath(err))
+		}
+		return nil
+	}
+	v.c.addFile(name)
+	return t
+}
+
+// loadTaps fills e.Taps from taps_file: columns id, x_m, surface, and
+// area_m2 with nz (panels) or width_m (strips, nz optional).
+func (v *validator) loadTaps(e *PressureEntry, path string) {
+	t := v.openTable(e.At, path, "taps_file", e.TapsFile)
+	if t == nil {
+		return
+	}
+	col := map[string]int{}
+	for i, h := range t.header {
+		col[strings.TrimSpace(h)] = i
+	}
+	for _, need := range []string{"id", "x_m", "surface"} {
+		if _, ok := col[need]; !ok {
+			v.errf(Where{File: t.name, Line: 1}, path+".taps_file", ErrColumn, "column %q is missing from the header", need)
+			return
+		}
+	}
+	for r, rec := range t.rows {
+		tp := fmt.Sprintf("%s.taps[%d]", path, r)
+		tap := Tap{At: Place{Where: t.pos[r][0], keys: map[string]Where{}}}
+		for name, i := range col {
+			if i >= len(rec) {
+				continue
+			}
+			w := t.pos[r][i]
+			cell := strings.TrimSpace(rec[i])
+			switch name {
+			case "id":
+				tap.ID = cell
+			case "surface":
+				tap.Surface = cell
+			case "x_m", "area_m2", "width_m", "nz":
+				if cell == "" {
+					continue
+				}
+				x, ok := v.tableNumber(cell, w, tp+"."+name, name)
+				if !ok {
+					continue
+				}
+				switch name {
+				case "x_m":
+					tap.XM = x
+				case "area_m2":
+					tap.AreaM2 = x
+				case "width_m":
+					tap.WidthM = x
+				case "nz":
+					tap.Nz = x
+				}
+			default:
+				continue
+			}
+			tap.At.keys[name] = w
+		}
+		e.Taps = append(e.Taps, tap)
+	}
+}
+
+// loadReadings fills e.Readings from readings_file: columns config,
+// speed_kmh, direction (optional), then one column per tap id.
+func (v *validator) loadReadings(e *PressureEntry, path string) {
+	t := v.openTable(e.At, path, "readings_file", e.ReadingsFile)
+	if t == nil {
+		return
+	}
+	fixed := map[string]bool{"config": true, "speed_kmh": true, "direction": true}
+	col := map[string]int{}
+	for i, h := range t.header {
+		col[strings.TrimSpace(h)] = i
+	}
+	for _, need := range []string{"config", "speed_kmh"} {
+		if _, ok := col[need]; !ok {
+			v.errf(Where{File: t.name, Line: 1}, path+".readings_file", ErrColumn, "column %q is missing from the header", need)
+			return
+		}
+	}
+	for r, rec := range t.rows {
+		rp := fmt.Sprintf("%s.readings[%d]", path, r)
+		rd := Reading{At: Place{Where: t.pos[r][0], keys: map[string]Where{}}}
+		for i, h := range t.header {
+			h = strings.TrimSpace(h)
+			if i >= len(rec) {
+				continue
+			}
+			w, cell := t.pos[r][i], strings.TrimSpace(rec[i])
+			switch {
+			case h == "config":
+				rd.Config = cell
+			case cell == "" && !fixed[h]:
+				continue // a missing tap reading is reported by the tap check
+			case h == "speed_kmh":
+				rd.SpeedKmh, _ = v.tableNumber(cell, w, rp+".speed_kmh", h)
+			case h == "direction":
+				if cell != "" {
+					d, _ := v.tableNumber(cell, w, rp+".direction", h)
+					rd.Direction = int(d)
+					if float64(rd.Direction) != d {
+						v.errf(w, rp+".direction", ErrRange, "direction must be 1 or -1, got %q", cell)
+					}
+				}
+			default:
+				if x, ok := v.tableNumber(cell, w, rp+".pa."+h, h); ok {
+					rd.Pa = append(rd.Pa, Value{Key: h, V: x, At: w})
+				}
+			}
+			if fixed[h] {
+				rd.At.keys[h] = w
+			}
+		}
+		rd.At.keys["pa"] = rd.At.Where
+		e.Readings = append(e.Readings, rd)
+	}
+}
+
+// addFile records a file the campaign reads, once.
+func (c *Campaign) addFile(name string) {
+	for _, f := range c.Files {
+		if f == name {
+			return
+		}
+	}
+	c.Files = append(c.Files, name)
+}

@@ -1,0 +1,111 @@
+package methods
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strconv"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// Options changes how a campaign is loaded.
+type Options struct {
+	// HeadersOnly skips reading the bodies of log files: headers are still
+	// checked, but bad cells, time order and segment spans are left to the
+	// adapter that streams the log anyway.
+	HeadersOnly bool
+}
+
+// Load reads, decodes and validates the campaign at path. On any error it
+// returns Problems listing every one found, in file order; warnings are in
+// the returned campaign's Warnings.
+func Load(path string, opt Options) (*Campaign, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, Problems{{Where: Where{File: path}, Err: wrapf(ErrFile, "cannot read campaign: %v", unwrapPath(err))}}
+	}
+	defer f.Close()
+	return Parse(f, path, filepath.Dir(path), opt)
+}
+
+// Parse reads a campaign from src; name is used in messages and dir is the
+// folder relative to which the campaign's paths are resolved.
+func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
+	data, err := io.ReadAll(io.LimitReader(src, 64<<20))
+	if err != nil {
+		return nil, Problems{{Where: Where{File: name}, Err: wrapf(ErrFile, "cannot read campaign: %v", err)}}
+	}
+	var doc yaml.Node
+	if err := yaml.NewDecoder(bytes.NewReader(data)).Decode(&doc); err != nil {
+		if err == io.EOF {
+			return nil, Problems{{Where: Where{File: name, Line: 1}, Err: wrapf(ErrSyntax, "empty campaign file")}}
+		}
+		return nil, Problems{syntaxProblem(name, err)}
+	}
+	root := &doc
+	if root.Kind == yaml.DocumentNode && len(root.Content) == 1 {
+		root = root.Content[0]
+	}
+	c := &Campaign{File: name, Dir: dir, Files: []string{name}}
+	d := &decoder{file: name}
+	if root.Kind == yaml.MappingNode {
+		// Check the format number first: a file of another format gets one
+		// clear message instead of a list of unknown keys.
+		for i := 0; i+1 < len(root.Content); i += 2 {
+			if k, v := root.Content[i], root.Content[i+1]; k.Value == "liftfuse" && v.Value != "1" {
+				return nil, Problems{{Where: d.where(v), Path: "liftfuse",
+					Err: wrapf(ErrFormat, "campaign format %q is not supported (this liftfuse reads format 1)", v.Value)}}
+			}
+		}
+	}
+	d.decode(root, reflectValue(c), "")
+	if len(d.probs) > 0 {
+		sortProblems(d.probs)
+		return nil, Problems(d.probs)
+	}
+	applyDefaults(c)
+	v := &validator{c: c, opt: opt}
+	v.run()
+	if len(v.errs) > 0 {
+		sortProblems(v.errs)
+		return nil, Problems(v.errs)
+	}
+	c.Warnings = v.warns
+	return c, nil
+}
+
+var yamlLine = regexp.MustCompile(`line (\d+)`)
+
+// syntaxProblem turns a yaml syntax error ("yaml: line 4: did not find …")
+// into a Problem at that line.
+func syntaxProblem(name string, err error) *Problem {
+	w := Where{File: name, Line: 1}
+	msg := err.Error()
+	if m := yamlLine.FindStringSubmatch(msg); m != nil {
+		w.Line, _ = strconv.Atoi(m[1])
+	}
+	msg = yamlLine.ReplaceAllString(msg, "")
+	msg = regexp.MustCompile(`^yaml: *:? *`).ReplaceAllString(msg, "")
+	return &Problem{Where: w, Err: wrapf(ErrSyntax, "%s", msg)}
+}
+
+// Path resolves a path written in the campaign against its folder.
+func (c *Campaign) Path(p string) string {
+	if filepath.IsAbs(p) {
+		return p
+	}
+	return filepath.Join(c.Dir, p)
+}
+
+func unwrapPath(err error) error {
+	if pe, ok := err.(*os.PathError); ok {
+		return pe.Err
+	}
+	return err
+}
+
+func errorf(format string, args ...any) error { return fmt.Errorf(format, args...) }

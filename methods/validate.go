@@ -1,0 +1,490 @@
+package methods
+
+import (
+	"fmt"
+	"regexp"
+	"sort"
+	"time"
+)
+
+// validator checks a decoded campaign against every rule of format 1 and
+// collects all errors and warnings.
+type validator struct {
+	c     *Campaign
+	opt   Options
+	errs  []*Problem
+	warns []*Problem
+
+	configs  map[string]bool
+	informed map[string]bool // configs that some evidence speaks of
+}
+
+func (v *validator) errf(w Where, path string, kind error, format string, args ...any) {
+	v.errs = append(v.errs, &Problem{Where: w, Path: path, Err: wrapf(kind, format, args...)})
+}
+
+func (v *validator) warnf(w Where, path string, format string, args ...any) {
+	v.warns = append(v.warns, &Problem{Where: w, Path: path, Err: fmt.Errorf(format, args...), Warning: true})
+}
+
+var (
+	configID = regexp.MustCompile(`^[a-z0-9-]+$`)
+	tapID    = regexp.MustCompile(`^[A-Za-z0-9_.-]+$`)
+)
+
+// positive requires x > 0.
+func (v *validator) positive(p Place, path, key string, x float64) {
+	if !(x > 0) {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s must be positive, got %g", key, x)
+	}
+}
+
+// nonNegative requires x ≥ 0.
+func (v *validator) nonNegative(p Place, path, key string, x float64) {
+	if x < 0 {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s must not be negative, got %g", key, x)
+	}
+}
+
+// percent requires x in [0, 100).
+func (v *validator) percent(p Place, path, key string, x float64) {
+	if !(x >= 0 && x < 100) {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s is a percentage in [0, 100), got %g", key, x)
+	}
+}
+
+// oneOf requires s to be one of the words.
+func (v *validator) oneOf(p Place, path, key, s string, words ...string) bool {
+	for _, w := range words {
+		if s == w {
+			return true
+		}
+	}
+	v.errf(p.Of(key), join(path, key), ErrRange, "%s must be one of %v, got %q", key, words, s)
+	return false
+}
+
+// config requires id to name a configuration.
+func (v *validator) config(p Place, path, key, id string) {
+	if !v.configs[id] {
+		v.errf(p.Of(key), join(path, key), ErrReference, "unknown configuration %q (known: %s)", id, v.configList())
+		return
+	}
+	v.informed[id] = true
+}
+
+func (v *validator) configList() string {
+	ids := make([]string, len(v.c.Configurations))
+	for i, cf := range v.c.Configurations {
+		ids[i] = cf.ID
+	}
+	return fmt.Sprint(ids)
+}
+
+func (v *validator) direction(p Place, path, key string, d int) {
+	if d != -1 && d != 0 && d != 1 {
+		v.errf(p.Of(key), join(path, key), ErrRange, "direction must be 1 or -1, got %d", d)
+	}
+}
+
+func (v *validator) run() {
+	c := v.c
+	v.configs = map[string]bool{}
+	v.informed = map[string]bool{}
+
+	if _, err := time.Parse("2006-01-02", c.Campaign.Date); err != nil {
+		v.errf(c.Campaign.At.Of("date"), "campaign.date", ErrRange, "date must be an ISO date such as 2026-10-14, got %q", c.Campaign.Date)
+	}
+	v.vehicle()
+	if len(c.Configurations) == 0 {
+		v.errf(c.At.Of("configurations"), "configurations", ErrRange, "at least one configuration is needed")
+	}
+	for i, cf := range c.Configurations {
+		path := fmt.Sprintf("configurations[%d]", i)
+		switch {
+		case !configID.MatchString(cf.ID):
+			v.errf(cf.At.Of("id"), path+".id", ErrRange, "configuration id %q must use only a-z, 0-9 and -", cf.ID)
+		case v.configs[cf.ID]:
+			v.errf(cf.At.Of("id"), path+".id", ErrDuplicate, "configuration %q is listed twice", cf.ID)
+		}
+		v.configs[cf.ID] = true
+	}
+	v.air()
+	if c.Prior.At.Has("cla_sd_m2") {
+		v.positive(c.Prior.At, "prior", "cla_sd_m2", c.Prior.CLASDM2)
+	}
+	v.oneOf(c.Prior.At, "prior", "speed_model", c.Prior.SpeedModel, SpeedConstant, SpeedLinear)
+	v.evidence()
+	v.report()
+	v.plan()
+
+	for _, cf := range c.Configurations {
+		if !v.informed[cf.ID] {
+			v.warnf(cf.At.Where, "configurations", "configuration %q is informed by no method: its result is the prior alone", cf.ID)
+		}
+	}
+}
+
+func (v *validator) vehicle() {
+	veh := &v.c.Vehicle
+	const path = "vehicle"
+	v.oneOf(veh.At, path, "body", veh.Body, BodyFastback, BodyNotchbackRaked, BodyNotchback, BodyHatchback, BodyWagon, BodyOpenWheel, BodyOther)
+	v.positive(veh.At, path, "wheelbase_m", veh.WheelbaseM)
+	v.positive(veh.At, path, "mass_kg", veh.MassKg)
+	if veh.At.Has("front_static_kg") && !(veh.FrontStaticKg > 0 && veh.FrontStaticKg < veh.MassKg) {
+		v.errf(veh.At.Of("front_static_kg"), path+".front_static_kg", ErrRange, "front_static_kg must lie between 0 and mass_kg (%g), got %g", veh.MassKg, veh.FrontStaticKg)
+	}
+	if veh.At.Has("frontal_area_m2") {
+		v.positive(veh.At, path, "frontal_area_m2", veh.FrontalAreaM2)
+	}
+	if d := veh.Drag; d != nil {
+		v.positive(d.At, path+".drag", "cda_m2", d.CdAM2)
+		v.positive(d.At, path+".drag", "centre_height_m", d.CentreHeightM)
+		v.percent(d.At, path+".drag", "sd_pct", d.SDPct)
+	}
+	for _, ax := range []struct {
+		name string
+		a    *Axle
+	}{{"front", &veh.Axles.Front}, {"rear", &veh.Axles.Rear}} {
+		p := path + ".axles." + ax.name
+		v.positive(ax.a.At, p, "spring_n_per_mm", ax.a.SpringNPerMm)
+		v.percent(ax.a.At, p, "spring_sd_pct", ax.a.SpringSDPct)
+		v.positive(ax.a.At, p, "motion_ratio", ax.a.MotionRatio)
+		v.nonNegative(ax.a.At, p, "motion_ratio_sd", ax.a.MotionRatioSD)
+		v.positive(ax.a.At, p, "tyre_n_per_mm", ax.a.TyreNPerMm)
+		v.percent(ax.a.At, p, "tyre_sd_pct", ax.a.TyreSDPct)
+	}
+}
+
+func (v *validator) air() {
+	a := &v.c.Air
+	if !(a.TemperatureC >= -40 && a.TemperatureC <= 60) {
+		v.errf(a.At.Of("temperature_c"), "air.temperature_c", ErrRange, "temperature_c must lie in [-40, 60] °C, got %g", a.TemperatureC)
+	}
+	if !(a.PressureHPa >= 500 && a.PressureHPa <= 1100) {
+		v.errf(a.At.Of("pressure_hpa"), "air.pressure_hpa", ErrRange, "pressure_hpa must lie in [500, 1100] hPa, got %g", a.PressureHPa)
+	}
+	if !(a.HumidityPct >= 0 && a.HumidityPct <= 100) {
+		v.errf(a.At.Of("humidity_pct"), "air.humidity_pct", ErrRange, "humidity_pct must lie in [0, 100], got %g", a.HumidityPct)
+	}
+	if !(a.CO2ppm >= 0 && a.CO2ppm <= 10000) {
+		v.errf(a.At.Of("co2_ppm"), "air.co2_ppm", ErrRange, "co2_ppm must lie in [0, 10000], got %g", a.CO2ppm)
+	}
+	v.nonNegative(a.At, "air", "wind_sd_ms", a.WindSDMs)
+}
+
+func (v *validator) evidence() {
+	c := v.c
+	e := &c.Evidence
+	if len(e.RideHeight)+len(e.Pressure)+len(e.Vortex) == 0 {
+		v.errf(c.At.Of("evidence"), "evidence", ErrMissing, "no evidence entries: give at least one of ride_height, pressure, vortex")
+	}
+	ids := map[string]bool{}
+	entryID := func(p Place, path, id string) {
+		switch {
+		case !configID.MatchString(id):
+			v.errf(p.Of("id"), path+".id", ErrRange, "entry id %q must use only a-z, 0-9 and -", id)
+		case ids[id]:
+			v.errf(p.Of("id"), path+".id", ErrDuplicate, "evidence id %q is used twice", id)
+		}
+		ids[id] = true
+	}
+	heightAxles := map[string]bool{}
+	for i := range e.RideHeight {
+		path := fmt.Sprintf("evidence.ride_height[%d]", i)
+		entryID(e.RideHeight[i].At, path, e.RideHeight[i].ID)
+		v.rideHeight(&e.RideHeight[i], path)
+		heightAxles[e.RideHeight[i].Axle] = true
+	}
+	if len(e.RideHeight) > 0 {
+		for _, ax := range []string{AxleFront, AxleRear} {
+			if !heightAxles[ax] {
+				v.warnf(e.At.Of("ride_height"), "evidence.ride_height", "no ride-height evidence on the %s axle: its figure rests on the other methods alone", ax)
+			}
+		}
+	}
+	for i := range e.Pressure {
+		path := fmt.Sprintf("evidence.pressure[%d]", i)
+		entryID(e.Pressure[i].At, path, e.Pressure[i].ID)
+		v.pressure(&e.Pressure[i], path)
+	}
+	for i := range e.Vortex {
+		path := fmt.Sprintf("evidence.vortex[%d]", i)
+		entryID(e.Vortex[i].At, path, e.Vortex[i].ID)
+		v.vortex(&e.Vortex[i], path)
+	}
+	for _, cv := range c.Plan.CostH {
+		if !ids[cv.Key] {
+			v.errf(cv.At, "plan.cost_h."+cv.Key, ErrReference, "no evidence entry %q", cv.Key)
+		} else if !(cv.V > 0) {
+			v.errf(cv.At, "plan.cost_h."+cv.Key, ErrRange, "cost must be positive hours, got %g", cv.V)
+		}
+	}
+}
+
+func (v *validator) rideHeight(e *RideHeightEntry, path string) {
+	v.oneOf(e.At, path, "axle", e.Axle, AxleFront, AxleRear)
+	v.oneOf(e.At, path, "sensor", e.Sensor, SensorPot, SensorLaser)
+
+	cal := &e.Calibration
+	cp := path + ".calibration"
+	switch hasGain, hasPts := cal.At.Has("mm_per_unit"), cal.At.Has("points"); {
+	case hasGain == hasPts:
+		v.errf(e.At.Of("calibration"), cp, ErrMissing, "give exactly one of mm_per_unit and points")
+	case hasGain && cal.MmPerUnit == 0:
+		v.errf(cal.At.Of("mm_per_unit"), cp+".mm_per_unit", ErrRange, "mm_per_unit must not be zero")
+	case hasPts:
+		if distinct(len(cal.Points), func(i int) float64 { return cal.Points[i].A }) < 2 {
+			v.errf(cal.At.Of("points"), cp+".points", ErrRange, "a points calibration needs at least 2 distinct signals")
+		}
+	}
+	v.percent(cal.At, cp, "sd_pct", cal.SDPct)
+
+	st := &e.Stiffness
+	sp := path + ".stiffness"
+	if v.oneOf(st.At, sp, "from", st.From, FromSprings, FromBallast) {
+		switch {
+		case st.From == FromBallast && distinct(len(st.Ballast), func(i int) float64 { return st.Ballast[i].AddedKg }) < 2:
+			v.errf(st.At.Of("ballast"), sp+".ballast", ErrRange, "a ballast stiffness needs at least 2 distinct added masses")
+		case st.From == FromSprings && st.At.Has("ballast"):
+			v.errf(st.At.Of("ballast"), sp+".ballast", ErrRange, "ballast points are given but from is springs")
+		}
+	}
+	for j, b := range st.Ballast {
+		bp := fmt.Sprintf("%s.ballast[%d]", sp, j)
+		v.nonNegative(b.At, bp, "added_kg", b.AddedKg)
+		if !(b.XM >= -2 && b.XM <= v.c.Vehicle.WheelbaseM+2) {
+			v.errf(b.At.Of("x_m"), bp+".x_m", ErrRange, "x_m (from the front axle, rearward) %g is off the car", b.XM)
+		}
+	}
+	v.nonNegative(e.At, path, "friction_mm", e.FrictionMm)
+	if e.Sensor == SensorLaser {
+		if !e.At.Has("tyre_growth") {
+			v.warnf(e.At.Where, path, "laser %q has no tyre_growth prior: using %g ± %g mm at 100 km/h", e.ID, DefaultGrowthMm, DefaultGrowthSDMm)
+		}
+		v.positive(e.TyreGrowth.At, path+".tyre_growth", "sd_mm", e.TyreGrowth.SDMm)
+	} else if e.At.Has("tyre_growth") {
+		v.warnf(e.At.Of("tyre_growth"), path+".tyre_growth", "tyre_growth is ignored for a suspension potentiometer (it does not see the tyres)")
+	}
+	v.positive(e.Steady.At, path+".steady", "speed_tol_kmh", e.Steady.SpeedTolKmh)
+	v.positive(e.Steady.At, path+".steady", "min_duration_s", e.Steady.MinDurationS)
+	v.positive(e.At, path, "filter_tau_s", e.FilterTauS)
+	if len(e.Logs) == 0 {
+		v.errf(e.At.Of("logs"), path+".logs", ErrMissing, "at least one log is needed")
+	}
+	for j := range e.Logs {
+		v.logSpec(&e.Logs[j], fmt.Sprintf("%s.logs[%d]", path, j))
+	}
+}
+
+// distinct counts the distinct values among n.
+func distinct(n int, at func(int) float64) int {
+	seen := map[float64]bool{}
+	for i := range n {
+		seen[at(i)] = true
+	}
+	return len(seen)
+}
+
+func (v *validator) logSpec(l *LogSpec, path string) {
+	if l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
+		v.errf(l.At.Where, path, ErrMissing, "give exactly one of speed_kmh and speed_ms (the speed column)")
+	}
+	hasCol, hasSeg := l.At.Has("config"), len(l.Segments) > 0
+	switch {
+	case hasCol && hasSeg:
+		v.errf(l.At.Of("segments"), path+".segments", ErrRange, "give a config column or segments, not both")
+	case !hasCol && !hasSeg && len(v.c.Configurations) > 1:
+		v.errf(l.At.Where, path, ErrMissing, "with %d configurations a log needs a config column or segments", len(v.c.Configurations))
+	case !hasCol && !hasSeg && len(v.c.Configurations) == 1:
+		v.informed[v.c.Configurations[0].ID] = true
+	}
+	for k, s := range l.Segments {
+		sp := fmt.Sprintf("%s.segments[%d]", path, k)
+		v.config(s.At, sp, "config", s.Config)
+		v.direction(s.At, sp, "direction", s.Direction)
+		if !(s.ToS > s.FromS) {
+			v.errf(s.At.Of("to_s"), sp+".to_s", ErrRange, "to_s (%g) must be after from_s (%g)", s.ToS, s.FromS)
+		}
+	}
+	order := make([]int, len(l.Segments))
+	for k := range order {
+		order[k] = k
+	}
+	sort.SliceStable(order, func(a, b int) bool { return l.Segments[order[a]].FromS < l.Segments[order[b]].FromS })
+	for k := 1; k < len(order); k++ {
+		prev, cur := l.Segments[order[k-1]], l.Segments[order[k]]
+		if cur.FromS < prev.ToS {
+			v.errf(cur.At.Of("from_s"), fmt.Sprintf("%s.segments[%d]", path, order[k]), ErrOverlap,
+				"segment %g–%g s overlaps segment %g–%g s", cur.FromS, cur.ToS, prev.FromS, prev.ToS)
+		}
+	}
+	v.scanLog(l, path)
+}
+
+func (v *validator) pressure(e *PressureEntry, path string) {
+	modeOK := v.oneOf(e.At, path, "mode", e.Mode, ModePanels, ModeStrips)
+	v.positive(e.At, path, "sensor_sd_pa", e.SensorSDPa)
+	v.nonNegative(e.At, path, "reference_sd_pa", e.ReferenceSDPa)
+	v.percent(e.At, path, "model_sd_pct", e.ModelSDPct)
+
+	switch hasTaps, hasFile := e.At.Has("taps"), e.At.Has("taps_file"); {
+	case hasTaps == hasFile:
+		v.errf(e.At.Where, path, ErrMissing, "give exactly one of taps and taps_file")
+	case hasFile:
+		v.loadTaps(e, path)
+	}
+	switch hasR, hasFile := e.At.Has("readings"), e.At.Has("readings_file"); {
+	case hasR == hasFile:
+		v.errf(e.At.Where, path, ErrMissing, "give exactly one of readings and readings_file")
+	case hasFile:
+		v.loadReadings(e, path)
+	}
+
+	taps := map[string]bool{}
+	var upper, lower float64
+	for i := range e.Taps {
+		t := &e.Taps[i]
+		tp := fmt.Sprintf("%s.taps[%d]", path, i)
+		switch {
+		case !tapID.MatchString(t.ID):
+			v.errf(t.At.Of("id"), tp+".id", ErrRange, "tap id %q must use only letters, digits, _ . -", t.ID)
+		case taps[t.ID]:
+			v.errf(t.At.Of("id"), tp+".id", ErrDuplicate, "tap %q is listed twice", t.ID)
+		}
+		taps[t.ID] = true
+		v.oneOf(t.At, tp, "surface", t.Surface, SurfaceUpper, SurfaceLower)
+		if !modeOK {
+			continue
+		}
+		if e.Mode == ModePanels {
+			if t.At.Has("width_m") {
+				v.errf(t.At.Of("width_m"), tp+".width_m", ErrRange, "width_m is for strips mode; panels take area_m2 and nz")
+			}
+			if !t.At.Has("area_m2") {
+				v.errf(t.At.Where, tp+".area_m2", ErrMissing, "missing required key \"area_m2\"")
+			} else {
+				v.positive(t.At, tp, "area_m2", t.AreaM2)
+			}
+			if !t.At.Has("nz") {
+				v.errf(t.At.Where, tp+".nz", ErrMissing, "missing required key \"nz\"")
+			}
+		} else {
+			if t.At.Has("area_m2") {
+				v.errf(t.At.Of("area_m2"), tp+".area_m2", ErrRange, "area_m2 is for panels mode; strips take width_m")
+			}
+			if !t.At.Has("width_m") {
+				v.errf(t.At.Where, tp+".width_m", ErrMissing, "missing required key \"width_m\"")
+			} else {
+				v.positive(t.At, tp, "width_m", t.WidthM)
+			}
+		}
+		if t.At.Has("nz") && !(t.Nz >= -1 && t.Nz <= 1 && t.Nz != 0) {
+			v.errf(t.At.Of("nz"), tp+".nz", ErrRange, "nz is the vertical component of the outward unit normal, in [-1, 1] and not 0; got %g", t.Nz)
+		}
+		if t.Surface == SurfaceUpper {
+			upper += t.AreaM2 + t.WidthM
+		} else {
+			lower += t.AreaM2 + t.WidthM
+		}
+	}
+	if len(e.Taps) == 0 && e.At.Has("taps") {
+		v.errf(e.At.Of("taps"), path+".taps", ErrMissing, "no taps")
+	}
+	if len(e.Taps) > 0 && (upper == 0 || lower == 0 || upper > 4*lower || lower > 4*upper) {
+		v.warnf(e.At.Of("taps"), path+".taps", "upper and lower surfaces are covered very unequally: the reference-port offset will not cancel")
+	}
+	if len(e.Uncovered) == 0 {
+		v.warnf(e.At.Where, path, "no uncovered patches declared: the integration assumes the taps see the whole body")
+	}
+	for i, u := range e.Uncovered {
+		up := fmt.Sprintf("%s.uncovered[%d]", path, i)
+		v.oneOf(u.At, up, "surface", u.Surface, SurfaceUpper, SurfaceLower)
+		v.positive(u.At, up, "area_m2", u.AreaM2)
+		v.nonNegative(u.At, up, "cp_sd", u.CpSD)
+		if !(u.Nz >= -1 && u.Nz <= 1) {
+			v.errf(u.At.Of("nz"), up+".nz", ErrRange, "nz must lie in [-1, 1], got %g", u.Nz)
+		}
+	}
+	if len(e.Readings) == 0 && e.At.Has("readings") {
+		v.errf(e.At.Of("readings"), path+".readings", ErrMissing, "no readings")
+	}
+	for i := range e.Readings {
+		r := &e.Readings[i]
+		rp := fmt.Sprintf("%s.readings[%d]", path, i)
+		v.config(r.At, rp, "config", r.Config)
+		v.positive(r.At, rp, "speed_kmh", r.SpeedKmh)
+		v.direction(r.At, rp, "direction", r.Direction)
+		for _, pv := range r.Pa {
+			if !taps[pv.Key] {
+				v.errf(pv.At, rp+".pa."+pv.Key, ErrReference, "reading names tap %q, which is not among the taps", pv.Key)
+			}
+		}
+		for _, t := range e.Taps {
+			if _, ok := r.Pa.Get(t.ID); !ok {
+				v.errf(r.At.Of("pa"), rp, ErrMissing, "tap %q has no reading", t.ID)
+			}
+		}
+	}
+}
+
+func (v *validator) vortex(e *VortexEntry, path string) {
+	v.oneOf(e.At, path, "side", e.Side, SideLeft, SideRight)
+	v.oneOf(e.At, path, "informs", e.Informs, AxleTotal, AxleRear)
+	if _, applies := DefaultMisread(v.c.Vehicle.Body); !applies && !e.At.Has("misread") {
+		v.errf(e.At.Where, path, ErrNotApply,
+			"the vortex-sense method applies to fastbacks and raked notchbacks, not to a %s body; set misread to use it anyway", v.c.Vehicle.Body)
+	}
+	if !(e.Misread >= 0 && e.Misread < 0.5) {
+		v.errf(e.At.Of("misread"), path+".misread", ErrRange, "misread is a probability in [0, 0.5), got %g", e.Misread)
+	}
+	v.positive(e.At, path, "softness_m2", e.SoftnessM2)
+	if len(e.Observations) == 0 {
+		v.errf(e.At.Of("observations"), path+".observations", ErrMissing, "no observations")
+	}
+	for i, o := range e.Observations {
+		op := fmt.Sprintf("%s.observations[%d]", path, i)
+		v.config(o.At, op, "config", o.Config)
+		v.positive(o.At, op, "speed_kmh", o.SpeedKmh)
+		v.oneOf(o.At, op, "sense", o.Sense, SenseCW, SenseCCW)
+		v.nonNegative(o.At, op, "rpm", o.RPM)
+	}
+}
+
+func (v *validator) report() {
+	r := &v.c.Report
+	if len(r.SpeedsKmh) == 0 {
+		v.errf(r.At.Of("speeds_kmh"), "report.speeds_kmh", ErrRange, "at least one report speed is needed")
+	}
+	for i, s := range r.SpeedsKmh {
+		if !(s > 0 && s < 500) {
+			v.errf(r.At.Of("speeds_kmh"), fmt.Sprintf("report.speeds_kmh[%d]", i), ErrRange, "report speed must lie in (0, 500) km/h, got %g", s)
+		}
+	}
+	if !(r.Credible > 0 && r.Credible < 1) {
+		v.errf(r.At.Of("credible"), "report.credible", ErrRange, "credible is a probability in (0, 1), got %g", r.Credible)
+	}
+	v.oneOf(r.At, "report", "force_unit", r.ForceUnit, UnitKgf, UnitN, UnitLbf)
+	if r.At.Has("reference_config") && !v.configs[r.ReferenceConfig] {
+		v.errf(r.At.Of("reference_config"), "report.reference_config", ErrReference, "unknown configuration %q (known: %s)", r.ReferenceConfig, v.configList())
+	}
+}
+
+func (v *validator) plan() {
+	t := &v.c.Plan.Target
+	if !v.c.Plan.At.Has("target") {
+		return
+	}
+	if !v.configs[t.Config] {
+		v.errf(t.At.Of("config"), "plan.target.config", ErrReference, "unknown configuration %q (known: %s)", t.Config, v.configList())
+	}
+	v.oneOf(t.At, "plan.target", "axle", t.Axle, AxleFront, AxleRear, AxleTotal)
+	if t.At.Has("versus") {
+		switch {
+		case !v.configs[t.Versus]:
+			v.errf(t.At.Of("versus"), "plan.target.versus", ErrReference, "unknown configuration %q (known: %s)", t.Versus, v.configList())
+		case t.Versus == t.Config:
+			v.errf(t.At.Of("versus"), "plan.target.versus", ErrRange, "a difference needs two different configurations")
+		}
+	}
+}
