@@ -1,12 +1,14 @@
 module liftfuse
 
-go 1.26.8
+go 1.26
 
 require (
-	codeberg.org/go-pdf/fpdf v0.12.0 // indirect
+	github.com/spf13/cobra v1.10.2
+	go.yaml.in/yaml/v3 v3.0.6
+	gonum.org/v1/gonum v0.17.0
+)
+
+require (
 	github.com/inconshreveable/mousetrap v1.1.0 // indirect
-	github.com/spf13/cobra v1.10.2 // indirect
 	github.com/spf13/pflag v1.0.9 // indirect
-	go.yaml.in/yaml/v3 v3.0.6 // indirect
-	gonum.org/v1/gonum v0.17.0 // indirect
 )

@@ -46,7 +46,14 @@ var placeType = reflect.TypeFor[Place]()
 type decoder struct {
 	file  string
 	probs []*Problem
+	// visits counts the nodes decoded: aliases can make a small document
+	// expand exponentially ("billion laughs"), so decoding stops at a bound.
+	visits int
 }
+
+// maxVisits bounds the nodes one document may expand to; a campaign with
+// a million-row readings table belongs in a readings_file.
+const maxVisits = 2_000_000
 
 func (d *decoder) where(n *yaml.Node) Where {
 	return Where{File: d.file, Line: n.Line, Column: n.Column}
@@ -115,6 +122,13 @@ func describe(n *yaml.Node) string {
 }
 
 func (d *decoder) decode(n *yaml.Node, v reflect.Value, path string) {
+	d.visits++
+	if d.visits == maxVisits {
+		d.fail(n, path, wrapf(ErrSyntax, "the document expands to more than %d values (aliases?)", maxVisits))
+	}
+	if d.visits >= maxVisits {
+		return
+	}
 	for n.Kind == yaml.AliasNode {
 		n = n.Alias
 	}

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"regexp"
 	"strconv"
+	"strings"
 
 	"go.yaml.in/yaml/v3"
 )
@@ -78,6 +79,16 @@ func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
 	return c, nil
 }
 
+// parserProblems are the messages of yaml.v3's parser (not its scanner).
+var parserProblems = []string{
+	"did not find expected node content",
+	"did not find expected ',' or '}'",
+	"did not find expected ',' or ']'",
+	"did not find expected key",
+	"did not find expected '-' indicator",
+	"did not find expected <document start>",
+}
+
 var yamlLine = regexp.MustCompile(`line (\d+)`)
 
 // syntaxProblem turns a yaml syntax error ("yaml: line 4: did not find …")
@@ -87,6 +98,14 @@ func syntaxProblem(name string, err error) *Problem {
 	msg := err.Error()
 	if m := yamlLine.FindStringSubmatch(msg); m != nil {
 		w.Line, _ = strconv.Atoi(m[1])
+		// yaml.v3 reports a parser error (unlike a scanner error) at the
+		// 0-based line of its context mark: make it 1-based.
+		for _, p := range parserProblems {
+			if strings.Contains(msg, p) {
+				w.Line++
+				break
+			}
+		}
 	}
 	msg = yamlLine.ReplaceAllString(msg, "")
 	msg = regexp.MustCompile(`^yaml: *:? *`).ReplaceAllString(msg, "")

@@ -253,7 +253,7 @@ func (v *validator) rideHeight(e *RideHeightEntry, path string) {
 	for j, b := range st.Ballast {
 		bp := fmt.Sprintf("%s.ballast[%d]", sp, j)
 		v.nonNegative(b.At, bp, "added_kg", b.AddedKg)
-		if !(b.XM >= -2 && b.XM <= v.c.Vehicle.WheelbaseM+2) {
+		if L := v.c.Vehicle.WheelbaseM; L > 0 && !(b.XM >= -2 && b.XM <= L+2) {
 			v.errf(b.At.Of("x_m"), bp+".x_m", ErrRange, "x_m (from the front axle, rearward) %g is off the car", b.XM)
 		}
 	}
