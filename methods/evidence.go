@@ -98,6 +98,15 @@ type Airspeed struct {
 	Wind string  // name of the wind nuisance, or ""
 }
 
+// ScaleRef names a scale group and the power with which it multiplies the
+// lift term: the term is multiplied by s_g^Pow. Most references have Pow 1;
+// a laser's compliance depends on springs and tyres in series, so each
+// enters with the fraction of compliance it carries (first order in logs).
+type ScaleRef struct {
+	Name string
+	Pow  float64
+}
+
 // Coef is the coefficient of a named additive nuisance.
 type Coef struct {
 	Name string
@@ -109,7 +118,7 @@ type Obs struct {
 	Y      float64
 	Terms  []Term
 	Air    Airspeed
-	Scales []string // names of scale groups multiplying the lift term
+	Scales []ScaleRef // scale groups multiplying the lift term: s = Π s_g^Pow
 	Nuis   []Coef
 	Label  string // what it is, for the report ("window 3 at 101 km/h")
 }
@@ -139,8 +148,6 @@ type Nuisance struct {
 	Mean  float64
 	SD    float64
 	Flat  bool
-	// Scale is the effect of one unit of the nuisance on the data, for the
-	// cross-check's plain-words notes; informational only.
 }
 
 // ScaleGroup is a multiplicative factor s with a log-normal prior of median 1:
@@ -264,8 +271,8 @@ func (e *Evidence) Check() error {
 				return err
 			}
 			for _, s := range o.Scales {
-				if !scales[s] {
-					return badf("entry %q: %s names undeclared scale group %q", e.Entry, what, s)
+				if !scales[s.Name] || !finite(s.Pow) {
+					return badf("entry %q: %s names undeclared scale group %q", e.Entry, what, s.Name)
 				}
 			}
 			for _, c := range o.Nuis {

@@ -1,0 +1,350 @@
+package fuse
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+
+	"liftfuse/methods"
+)
+
+// Settings are the campaign-level choices fusion needs.
+type Settings struct {
+	Configs  []string // configuration ids, in campaign order
+	PriorSD  float64  // σ_β of the lift parameters (and γ), m²
+	Linear   bool     // speed_model: linear
+	Seed     uint64
+	Credible float64 // central interval level, e.g. 0.9
+
+	// MinESS is the bulk effective sample size the sampler draws for
+	// (default 2000); MaxDraws bounds the draws per chain (default 20000).
+	MinESS   float64
+	MaxDraws int
+}
+
+func (s Settings) withDefaults() Settings {
+	if s.PriorSD == 0 {
+		s.PriorSD = methods.DefaultCLASDM2
+	}
+	if s.Credible == 0 {
+		s.Credible = methods.DefaultCredible
+	}
+	if s.MinESS == 0 {
+		s.MinESS = 2000
+	}
+	if s.MaxDraws == 0 {
+		s.MaxDraws = 20000
+	}
+	return s
+}
+
+// Param kinds of the linear part.
+const (
+	kindBeta = iota
+	kindGamma
+	kindNuisance
+)
+
+// linParam is one parameter of the linear-Gaussian part: a lift parameter
+// β (or its speed slope γ) or an additive nuisance.
+type linParam struct {
+	kind   int
+	config string
+	axle   string
+	nuis   methods.Nuisance
+	mean   float64
+	prec   float64 // prior precision; 0 for a flat prior
+	owners map[int]bool
+}
+
+// phiParam is one parameter of the non-linear part: the log of a scale
+// factor, or a wind speed.
+type phiParam struct {
+	name   string
+	label  string
+	sd     float64
+	wind   bool
+	unit   string
+	owners map[int]bool
+}
+
+type entryRef struct {
+	col int
+	v   float64
+}
+
+type phiRef struct {
+	idx int
+	pow float64
+}
+
+// row is one Gaussian observation in indexed form:
+//
+//	y = s(φ)·q(w)·Σ_k w_k·(β_k + γ_k·vfac) + Σ_j c_j·ν_j + ε
+//	q(w) = q0 + a·w + c·w²
+type row struct {
+	y        float64
+	lift     []entryRef // β columns with their weights w_k
+	gamma    []entryRef // γ columns with weights w_k·vfac
+	q0, a, c float64
+	wind     int // φ index of the wind, or −1
+	scales   []phiRef
+	nuis     []entryRef
+	entry    int
+	label    string
+}
+
+// block is a set of rows with a full (or diagonal) error covariance.
+type block struct {
+	rows   []int
+	diag   []float64     // 1/σ² when the covariance is diagonal
+	prec   *mat.SymDense // Σ⁻¹ otherwise
+	logdet float64       // log|Σ|
+	entry  int
+}
+
+// sign is one sign observation in indexed form.
+type sign struct {
+	lift     []entryRef
+	gamma    []entryRef
+	up       bool
+	misread  float64
+	softness float64
+	entry    int
+	label    string
+	v        float64
+}
+
+// model is the joint model of a set of Evidence values.
+type model struct {
+	set     Settings
+	entries []string
+	kinds   []methods.Kind
+	lin     []linParam
+	phi     []phiParam
+	rows    []row
+	blocks  []block
+	signs   []sign
+	beta    map[[2]string]int // (config, axle) → column of β
+	gamma   map[[2]string]int
+	// inflate[e] > 1 multiplies entry e's error sd and its own nuisance and
+	// scale prior sds (the robust layer's "entry looks off" alternative).
+	inflate []float64
+}
+
+// vref is V_ref of the linear speed model, m/s.
+var vref = methods.KmhToMs(methods.RefSpeedKmh)
+
+// newModel indexes the evidence. Nuisances and scale groups of the same name
+// in several entries are one parameter; their priors must agree.
+func newModel(evs []methods.Evidence, set Settings) (*model, error) {
+	set = set.withDefaults()
+	m := &model{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}}
+	for _, c := range set.Configs {
+		for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
+			m.beta[[2]string{c, ax}] = len(m.lin)
+			m.lin = append(m.lin, linParam{kind: kindBeta, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
+		}
+	}
+	if set.Linear {
+		for _, c := range set.Configs {
+			for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
+				m.gamma[[2]string{c, ax}] = len(m.lin)
+				m.lin = append(m.lin, linParam{kind: kindGamma, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
+			}
+		}
+	}
+	nuisIdx := map[string]int{}
+	phiIdx := map[string]int{}
+	// Winds are the nuisances that some observation uses as its airspeed's
+	// wind: they enter non-linearly.
+	winds := map[string]bool{}
+	for _, ev := range evs {
+		for _, b := range ev.Blocks {
+			for _, o := range b.Obs {
+				if o.Air.Wind != "" {
+					winds[o.Air.Wind] = true
+				}
+			}
+		}
+	}
+	for ei, ev := range evs {
+		if err := ev.Check(); err != nil {
+			return nil, err
+		}
+		m.entries = append(m.entries, ev.Entry)
+		m.kinds = append(m.kinds, ev.Kind)
+		m.inflate = append(m.inflate, 1)
+		for _, n := range ev.Nuisances {
+			if winds[n.Name] {
+				if i, ok := phiIdx[n.Name]; ok {
+					if m.phi[i].sd != n.SD {
+						return nil, fmt.Errorf("fuse: wind %q is declared with sd %g and %g", n.Name, m.phi[i].sd, n.SD)
+					}
+					m.phi[i].owners[ei] = true
+					continue
+				}
+				phiIdx[n.Name] = len(m.phi)
+				m.phi = append(m.phi, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, unit: n.Unit, owners: map[int]bool{ei: true}})
+				continue
+			}
+			if i, ok := nuisIdx[n.Name]; ok {
+				p := &m.lin[i]
+				if p.nuis.Mean != n.Mean || p.nuis.SD != n.SD || p.nuis.Flat != n.Flat {
+					return nil, fmt.Errorf("fuse: nuisance %q is declared twice with different priors (%g ± %g and %g ± %g)", n.Name, p.nuis.Mean, p.nuis.SD, n.Mean, n.SD)
+				}
+				p.owners[ei] = true
+				continue
+			}
+			prec := 0.0
+			if !n.Flat {
+				prec = 1 / (n.SD * n.SD)
+			}
+			nuisIdx[n.Name] = len(m.lin)
+			m.lin = append(m.lin, linParam{kind: kindNuisance, nuis: n, mean: n.Mean, prec: prec, owners: map[int]bool{ei: true}})
+		}
+		for _, s := range ev.Scales {
+			if s.SD == 0 {
+				continue
+			}
+			if i, ok := phiIdx[s.Name]; ok {
+				if m.phi[i].sd != s.SD {
+					return nil, fmt.Errorf("fuse: scale group %q is declared with sd %g and %g", s.Name, m.phi[i].sd, s.SD)
+				}
+				m.phi[i].owners[ei] = true
+				continue
+			}
+			phiIdx[s.Name] = len(m.phi)
+			m.phi = append(m.phi, phiParam{name: s.Name, label: s.Label, sd: s.SD, owners: map[int]bool{ei: true}})
+		}
+	}
+	terms := func(ts []methods.Term, v float64) (lift, gam []entryRef, err error) {
+		for _, t := range ts {
+			k := [2]string{t.Config, t.Axle}
+			i, ok := m.beta[k]
+			if !ok {
+				return nil, nil, fmt.Errorf("fuse: evidence names configuration %q, which the campaign does not list", t.Config)
+			}
+			lift = append(lift, entryRef{i, t.W})
+			if set.Linear {
+				gam = append(gam, entryRef{m.gamma[k], t.W * (v - vref) / vref})
+			}
+		}
+		return lift, gam, nil
+	}
+	for ei, ev := range evs {
+		for _, b := range ev.Blocks {
+			bl := block{entry: ei}
+			for _, o := range b.Obs {
+				r := row{y: o.Y, entry: ei, label: o.Label, wind: -1, q0: o.Air.Q}
+				var err error
+				if r.lift, r.gamma, err = terms(o.Terms, o.Air.V); err != nil {
+					return nil, err
+				}
+				if o.Air.Wind != "" {
+					r.wind = phiIdx[o.Air.Wind]
+					r.a = o.Air.Rho * o.Air.Dir * o.Air.V
+					r.c = 0.5 * o.Air.Rho
+				}
+				for _, s := range o.Scales {
+					if i, ok := phiIdx[s.Name]; ok {
+						r.scales = append(r.scales, phiRef{i, s.Pow})
+					}
+				}
+				for _, c := range o.Nuis {
+					r.nuis = append(r.nuis, entryRef{nuisIdx[c.Name], c.C})
+				}
+				bl.rows = append(bl.rows, len(m.rows))
+				m.rows = append(m.rows, r)
+			}
+			if err := bl.setCov(b.Cov); err != nil {
+				return nil, fmt.Errorf("fuse: entry %q: %w", ev.Entry, err)
+			}
+			m.blocks = append(m.blocks, bl)
+		}
+		for _, s := range ev.Signs {
+			sg := sign{up: s.Lift, misread: s.Misread, softness: s.Softness, entry: ei, label: s.Label, v: s.Air.V}
+			var err error
+			if sg.lift, sg.gamma, err = terms(s.Terms, s.Air.V); err != nil {
+				return nil, err
+			}
+			m.signs = append(m.signs, sg)
+		}
+	}
+	return m, nil
+}
+
+// setCov stores the inverse covariance and its log-determinant.
+func (b *block) setCov(cov *mat.SymDense) error {
+	n := cov.SymmetricDim()
+	diagonal := true
+	for i := 0; i < n && diagonal; i++ {
+		for j := i + 1; j < n; j++ {
+			if cov.At(i, j) != 0 {
+				diagonal = false
+				break
+			}
+		}
+	}
+	if diagonal {
+		b.diag = make([]float64, n)
+		for i := range n {
+			v := cov.At(i, i)
+			b.diag[i] = 1 / v
+			b.logdet += math.Log(v)
+		}
+		return nil
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(cov) {
+		return fmt.Errorf("covariance not positive definite")
+	}
+	b.logdet = ch.LogDet()
+	b.prec = mat.NewSymDense(n, nil)
+	return ch.InverseTo(b.prec)
+}
+
+// quantities returns the column weights of a quantity (front, rear or total
+// β of a configuration) at V_ref.
+func (m *model) quantity(q methods.Quantity) []entryRef {
+	switch q.Axle {
+	case methods.AxleTotal:
+		return []entryRef{{m.beta[[2]string{q.Config, methods.AxleFront}], 1}, {m.beta[[2]string{q.Config, methods.AxleRear}], 1}}
+	default:
+		return []entryRef{{m.beta[[2]string{q.Config, q.Axle}], 1}}
+	}
+}
+
+// entryIndex returns the index of an entry, or −1.
+func (m *model) entryIndex(id string) int {
+	for i, e := range m.entries {
+		if e == id {
+			return i
+		}
+	}
+	return -1
+}
+
+// linNames lists the linear parameters, for messages.
+func (m *model) linName(i int) string {
+	p := m.lin[i]
+	switch p.kind {
+	case kindBeta:
+		return fmt.Sprintf("C_L·A %s %s", p.config, p.axle)
+	case kindGamma:
+		return fmt.Sprintf("speed slope %s %s", p.config, p.axle)
+	}
+	return p.nuis.Label
+}
+
+// sortedEntries returns entry indices ordered by id, for stable output.
+func (m *model) sortedEntries() []int {
+	idx := make([]int, len(m.entries))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return m.entries[idx[a]] < m.entries[idx[b]] })
+	return idx
+}

@@ -1,0 +1,184 @@
+package fuse
+
+import (
+	"math"
+	"math/rand/v2"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"liftfuse/methods"
+)
+
+// Estimate summarises a posterior: mean, standard deviation and the central
+// credible interval [Lo, Hi] at the posterior's level.
+type Estimate struct {
+	Mean float64 `json:"mean"`
+	SD   float64 `json:"sd"`
+	Lo   float64 `json:"lo"`
+	Hi   float64 `json:"hi"`
+}
+
+// Scale returns the estimate multiplied by k (k > 0), e.g. to newtons.
+func (e Estimate) Scale(k float64) Estimate {
+	return Estimate{Mean: e.Mean * k, SD: e.SD * math.Abs(k), Lo: e.Lo * k, Hi: e.Hi * k}
+}
+
+// Posterior is the joint posterior of the lift parameters given a set of
+// Evidence values.
+type Posterior struct {
+	p     *posterior
+	level float64
+	// joint draws for non-linear summaries of a closed-form posterior,
+	// made on first use
+	gdraws [][]float64
+}
+
+// Fit computes the posterior of the evidence under the settings.
+func Fit(evs []methods.Evidence, set Settings) (*Posterior, error) {
+	m, err := newModel(evs, set)
+	if err != nil {
+		return nil, err
+	}
+	return m.fit()
+}
+
+func (m *model) fit() (*Posterior, error) {
+	p, err := m.sample()
+	if err != nil {
+		return nil, err
+	}
+	return &Posterior{p: p, level: m.set.Credible}, nil
+}
+
+// Diagnostics returns how the posterior was computed.
+func (P *Posterior) Diagnostics() Diagnostics { return P.p.diag }
+
+// weights turns terms on (configuration, axle) into column weights; a
+// "total" axle counts front and rear.
+func (P *Posterior) weights(ts []methods.Term) []entryRef {
+	var w []entryRef
+	for _, t := range ts {
+		for _, r := range P.p.m.quantity(methods.Quantity{Config: t.Config, Axle: t.Axle}) {
+			w = append(w, entryRef{r.col, r.v * t.W})
+		}
+	}
+	return w
+}
+
+// Linear returns the estimate of Σ W·β over the terms (axle "total" allowed)
+// and P(Σ W·β < 0).
+func (P *Posterior) Linear(ts ...methods.Term) (Estimate, float64) {
+	w := P.weights(ts)
+	if P.p.gaussian {
+		mean, sd := P.p.gaussMoments(w)
+		z := distuv.UnitNormal.Quantile(0.5 + P.level/2)
+		pneg := 1.0
+		if sd > 0 {
+			pneg = distuv.UnitNormal.CDF(-mean / sd)
+		} else if mean > 0 {
+			pneg = 0
+		}
+		return Estimate{Mean: mean, SD: sd, Lo: mean - z*sd, Hi: mean + z*sd}, pneg
+	}
+	return summarize(flatten(P.p.series(w)), P.level)
+}
+
+// Quantity returns the estimate of an axle (front, rear or total) of a
+// configuration, and P(downforce).
+func (P *Posterior) Quantity(q methods.Quantity) (Estimate, float64) {
+	return P.Linear(methods.Term{Config: q.Config, Axle: q.Axle, W: 1})
+}
+
+// Delta returns the estimate of an axle of config minus the same axle of
+// versus, and P(difference < 0).
+func (P *Posterior) Delta(config, versus, axle string) (Estimate, float64) {
+	return P.Linear(methods.Term{Config: config, Axle: axle, W: 1}, methods.Term{Config: versus, Axle: axle, W: -1})
+}
+
+// Ratio returns the estimate of num/den (e.g. the front share β_f/β_t) from
+// joint draws. Draws with a zero denominator are left out.
+func (P *Posterior) Ratio(num, den []methods.Term) Estimate {
+	a := flatten(P.seriesOf(P.weights(num)))
+	b := flatten(P.seriesOf(P.weights(den)))
+	r := make([]float64, 0, len(a))
+	for i := range a {
+		if b[i] != 0 {
+			r = append(r, a[i]/b[i])
+		}
+	}
+	e, _ := summarize(r, P.level)
+	return e
+}
+
+// Draws returns pooled draws of Σ W·β (for charts and checks).
+func (P *Posterior) Draws(ts ...methods.Term) []float64 {
+	return flatten(P.seriesOf(P.weights(ts)))
+}
+
+// seriesOf returns chain-wise draws, making joint Gaussian draws for a
+// closed-form posterior on first use (seeded, so output is reproducible).
+func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
+	if !P.p.gaussian {
+		return P.p.series(w)
+	}
+	if P.gdraws == nil {
+		p := len(P.p.m.lin)
+		const n = 2000
+		P.gdraws = make([][]float64, nChains)
+		for c := range P.gdraws {
+			rng := rand.New(rand.NewPCG(P.p.m.set.Seed, uint64(c)+101))
+			d := make([]float64, n*p)
+			z := make([]float64, p)
+			for i := range n {
+				for j := range z {
+					z[j] = rng.NormFloat64()
+				}
+				P.p.cond.draw(z, d[i*p:(i+1)*p])
+			}
+			P.gdraws[c] = d
+		}
+	}
+	saved := P.p.draws
+	P.p.draws, P.p.n = P.gdraws, len(P.gdraws[0])/len(P.p.m.lin)
+	defer func() { P.p.draws = saved }()
+	return P.p.series(w)
+}
+
+// gaussMoments returns the exact mean and sd of wᵀθ under the closed form.
+func (p *posterior) gaussMoments(w []entryRef) (float64, float64) {
+	n := len(p.m.lin)
+	a := make([]float64, n)
+	for _, t := range w {
+		a[t.col] += t.v
+	}
+	av := mat.NewVecDense(n, a)
+	var x mat.VecDense
+	if err := p.cond.chol.SolveVecTo(&x, av); err != nil {
+		return math.NaN(), math.NaN()
+	}
+	return mat.Dot(av, mat.NewVecDense(n, p.cond.mean)), math.Sqrt(math.Max(0, mat.Dot(av, &x)))
+}
+
+func flatten(chains [][]float64) []float64 {
+	var out []float64
+	for _, c := range chains {
+		out = append(out, c...)
+	}
+	return out
+}
+
+// summarize returns mean, sd, central interval and P(x < 0) of draws.
+func summarize(x []float64, level float64) (Estimate, float64) {
+	if len(x) == 0 {
+		nan := math.NaN()
+		return Estimate{nan, nan, nan, nan}, nan
+	}
+	m, v := meanVar(x)
+	s := append([]float64(nil), x...)
+	sort.Float64s(s)
+	neg := sort.SearchFloat64s(s, 0)
+	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSorted(s, 0.5-level/2), Hi: quantileSorted(s, 0.5+level/2)},
+		float64(neg) / float64(len(s))
+}

@@ -1,0 +1,290 @@
+package height
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+
+	"liftfuse/methods"
+)
+
+// Result is everything one ride-height entry yields: its windows and traces
+// for the report, its stiffness and calibration, the Evidence for fusion,
+// detectability figures and warnings.
+type Result struct {
+	Entry       *methods.RideHeightEntry
+	Calibration Calibration
+	Stiffness   Stiffness
+	Windows     []Window
+	Traces      [][]TracePoint // per log
+	Evidence    methods.Evidence
+	Detect      Detectability
+	Warnings    []string
+}
+
+// Drift prior: 1 mm per 10 minutes (fuel burn, warming dampers; common
+// practice, no source).
+const driftSDmmPerS = 1.0 / 600
+
+// WindName is the nuisance name of the along-road wind of the campaign's one
+// session, shared by every entry.
+const WindName = "wind"
+
+// typicalCLA is the size of axle lift (C_L·A, m²) the stiff-axle warning
+// asks a sensor to resolve (common practice, no source).
+const typicalCLA = 0.1
+
+// Reduce reads every log of a ride-height entry and returns its Result.
+func Reduce(c *methods.Campaign, e *methods.RideHeightEntry, opt Options) (*Result, error) {
+	cal, err := NewCalibration(e.Calibration)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", e.ID, err)
+	}
+	res := &Result{Entry: e, Calibration: cal}
+	if e.Stiffness.From == methods.FromBallast {
+		res.Stiffness, err = BallastStiffness(e.ID, e.Axle, e.Stiffness.Ballast, c.Vehicle.WheelbaseM, cal)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", e.ID, err)
+		}
+	} else {
+		ax := c.Vehicle.Axles.Front
+		if e.Axle == methods.AxleRear {
+			ax = c.Vehicle.Axles.Rear
+		}
+		res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == methods.SensorLaser)
+	}
+	only := ""
+	if len(c.Configurations) == 1 {
+		only = c.Configurations[0].ID
+	}
+	rho := c.Density()
+	for li := range e.Logs {
+		name := c.Path(e.Logs[li].File)
+		f, size, err := openLog(name)
+		if err != nil {
+			return nil, err
+		}
+		var src io.Reader = f
+		if opt.Progress != nil {
+			src = &progressReader{r: f, total: size, report: opt.Progress}
+		}
+		w, tr, err := Windows(src, name, e, li, cal, rho, only)
+		f.Close()
+		if err != nil {
+			return nil, err
+		}
+		res.Windows = append(res.Windows, w...)
+		res.Traces = append(res.Traces, tr)
+	}
+	if len(res.Windows) == 0 {
+		return nil, fmt.Errorf("%s: no steady windows found (speed within ±%g km/h for %g s): check the speed column and the steady settings",
+			e.ID, e.Steady.SpeedTolKmh, e.Steady.MinDurationS)
+	}
+	res.Evidence, err = evidence(c, e, res)
+	if err != nil {
+		return nil, err
+	}
+	res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
+	res.Warnings = warnings(e, res, rho)
+	res.Evidence.Warnings = res.Warnings
+	return res, nil
+}
+
+// evidence turns the windows into Gaussian observations, one diagonal block
+// per log.
+func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (methods.Evidence, error) {
+	ev := methods.Evidence{Entry: e.ID, Kind: methods.KindRideHeight}
+	ev.Scales = append(ev.Scales, res.Stiffness.Groups...)
+	refs := append([]methods.ScaleRef(nil), res.Stiffness.Refs...)
+	if !res.Stiffness.GainCancels && res.Calibration.RelSD > 0 {
+		g := methods.ScaleGroup{Name: e.ID + "/gain", Label: e.ID + " calibration gain", SD: res.Calibration.RelSD}
+		ev.Scales = append(ev.Scales, g)
+		refs = append(refs, methods.ScaleRef{Name: g.Name, Pow: 1})
+	}
+	wind := ""
+	if c.Air.WindSDMs > 0 {
+		wind = WindName
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs})
+	}
+	laser := e.Sensor == methods.SensorLaser
+	growth := e.Axle + "-tyre-growth"
+	if laser {
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: growth, Label: e.Axle + " tyre growth", Unit: "mm at 100 km/h",
+			Mean: e.TyreGrowth.MmAt100kmh, SD: e.TyreGrowth.SDMm})
+	}
+	friction := e.FrictionMm * e.FrictionMm / 3
+	informs := map[string]bool{}
+	for li := range e.Logs {
+		offset := fmt.Sprintf("%s/offset[%d]", e.ID, li)
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true})
+		drift := fmt.Sprintf("%s/drift[%d]", e.ID, li)
+		var tbar float64
+		var obs []methods.Obs
+		var sd []float64
+		for _, w := range res.Windows {
+			if w.Log == li {
+				tbar += (w.From + w.To) / 2
+			}
+		}
+		nw := 0
+		for _, w := range res.Windows {
+			if w.Log == li {
+				nw++
+			}
+		}
+		if nw == 0 {
+			continue
+		}
+		tbar /= float64(nw)
+		if e.Drift {
+			ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS})
+		}
+		for i, w := range res.Windows {
+			if w.Log != li {
+				continue
+			}
+			o := methods.Obs{
+				Y:      w.HeightMM,
+				Terms:  []methods.Term{{Config: w.Config, Axle: e.Axle, W: 1 / res.Stiffness.K}},
+				Air:    methods.Airspeed{Q: w.Q, V: methods.KmhToMs(w.SpeedKmh), Rho: c.Density(), Dir: float64(w.Direction), Wind: wind},
+				Scales: refs,
+				Nuis:   []methods.Coef{{Name: offset, C: 1}},
+				Label:  fmt.Sprintf("window %d, %s, %.0f km/h, %.0f–%.0f s", i+1, w.Config, w.SpeedKmh, w.From, w.To),
+			}
+			if laser {
+				o.Nuis = append(o.Nuis, methods.Coef{Name: growth, C: w.SpeedSq})
+			}
+			if e.Drift {
+				o.Nuis = append(o.Nuis, methods.Coef{Name: drift, C: (w.From+w.To)/2 - tbar})
+			}
+			obs = append(obs, o)
+			sd = append(sd, math.Sqrt(w.SE*w.SE+friction+1e-12))
+			if w.Q > 0 {
+				informs[w.Config] = true
+			}
+		}
+		b, err := methods.Diagonal(obs, sd)
+		if err != nil {
+			return ev, fmt.Errorf("%s: %w", e.ID, err)
+		}
+		ev.Blocks = append(ev.Blocks, b)
+	}
+	for _, cf := range c.Configurations {
+		if informs[cf.ID] {
+			ev.Informs = append(ev.Informs, methods.Quantity{Config: cf.ID, Axle: e.Axle})
+		}
+	}
+	return ev, ev.Check()
+}
+
+// Detectability says what a height entry can resolve.
+type Detectability struct {
+	SigmaMM     float64 // typical window sd at speed incl. friction, mm
+	ResolvableN float64 // smallest axle load resolvable at 2 sd, N
+	// ResolvableCLA100 is ResolvableN as C_L·A at 100 km/h, m².
+	ResolvableCLA100 float64
+	K                float64 // N/mm
+	Rho              float64
+}
+
+// Detect computes detectability from the windows at speed: a deflection is
+// resolvable at two standard deviations of one window, so the smallest
+// load is L = 2·σ·K whatever the speed, and the C_L·A it takes to make that
+// load is L/q(V). A stiffer car needs more speed for the same C_L·A (common
+// practice, no source).
+func Detect(ws []Window, frictionMM, K, rho float64) Detectability {
+	var maxV float64
+	for _, w := range ws {
+		maxV = math.Max(maxV, w.SpeedKmh)
+	}
+	var ses []float64
+	for _, w := range ws {
+		if w.SpeedKmh >= 0.5*maxV {
+			ses = append(ses, w.SE)
+		}
+	}
+	sort.Float64s(ses)
+	se := ses[len(ses)/2]
+	sigma := math.Sqrt(se*se + frictionMM*frictionMM/3)
+	L := 2 * sigma * K
+	return Detectability{SigmaMM: sigma, ResolvableN: L, K: K, Rho: rho,
+		ResolvableCLA100: L / methods.DynamicPressure(rho, methods.KmhToMs(100))}
+}
+
+// SpeedFor returns the speed (km/h) at which an axle C_L·A of size |cla| m²
+// makes a resolvable load: ½ρV²|β| = L.
+func (d Detectability) SpeedFor(cla float64) float64 {
+	return methods.MsToKmh(math.Sqrt(2 * d.ResolvableN / (d.Rho * math.Abs(cla))))
+}
+
+func warnings(e *methods.RideHeightEntry, res *Result, rho float64) []string {
+	var out []string
+	var scatter []float64
+	var maxV, maxQ float64
+	for _, w := range res.Windows {
+		scatter = append(scatter, w.Scatter)
+		maxV, maxQ = math.Max(maxV, w.SpeedKmh), math.Max(maxQ, w.Q)
+	}
+	sort.Float64s(scatter)
+	if s := scatter[len(scatter)/2]; s >= 3 {
+		out = append(out, fmt.Sprintf("%s: within-window scatter is ±%.1f mm; a sensor this noisy (cheap ultrasonic sensors scatter ±3–4 mm) cannot resolve the 0.5–2 mm changes that matter", e.ID, s))
+	}
+	for li := range e.Logs {
+		low := 0
+		for _, w := range res.Windows {
+			if w.Log == li && w.SpeedKmh < 0.4*maxV {
+				low++
+			}
+		}
+		if low < 2 {
+			out = append(out, fmt.Sprintf("%s: log %s has %d low-speed windows: the static offset is poorly pinned; add slow or standing stretches", e.ID, e.Logs[li].File, low))
+		}
+	}
+	if e.Sensor == methods.SensorLaser {
+		bands := map[int]map[string]bool{}
+		configs := map[string]bool{}
+		for _, w := range res.Windows {
+			if w.SpeedKmh < 0.4*maxV {
+				continue
+			}
+			b := int(math.Round(w.SpeedKmh / 10))
+			if bands[b] == nil {
+				bands[b] = map[string]bool{}
+			}
+			bands[b][w.Config] = true
+			configs[w.Config] = true
+		}
+		paired := false
+		for _, cs := range bands {
+			paired = paired || len(cs) >= 2
+		}
+		if len(configs) >= 2 && !paired {
+			out = append(out, fmt.Sprintf("%s: no speed was driven in two configurations: a laser cannot tell lift from tyre growth without A/B runs at matched speeds", e.ID))
+		}
+	}
+	if defl := maxQ * typicalCLA / res.Stiffness.K; defl < res.Detect.SigmaMM {
+		out = append(out, fmt.Sprintf("%s: at the top speed (%.0f km/h) a C_L·A of %.1f m² deflects this axle only %.2f mm, under the window scatter of %.2f mm: drive faster or use a softer set-up",
+			e.ID, maxV, typicalCLA, defl, res.Detect.SigmaMM))
+	}
+	return out
+}
+
+// progressReader reports bytes read.
+type progressReader struct {
+	r      io.Reader
+	done   int64
+	total  int64
+	report func(done, total int64)
+	last   int64
+}
+
+func (p *progressReader) Read(b []byte) (int, error) {
+	n, err := p.r.Read(b)
+	p.done += int64(n)
+	if p.done-p.last >= 4<<20 || err == io.EOF {
+		p.report(p.done, p.total)
+		p.last = p.done
+	}
+	return n, err
+}

@@ -1,0 +1,66 @@
+package height
+
+import "math"
+
+// LowPass is a first-order low-pass filter, the software twin of an RC
+// smoothing circuit: for a sample x after a step Δt,
+//
+//	y ← y + α·(x − y),   α = 1 − exp(−Δt/τ)
+//
+// the exact discretisation of dy/dt = (x − y)/τ for an input held constant
+// over the step (zero-order hold; Franklin, Powell & Workman, Digital Control
+// of Dynamic Systems — from memory). Its −3 dB cutoff is 1/(2πτ).
+type LowPass struct {
+	Tau   float64 // time constant, s
+	y     float64
+	t     float64
+	begun bool
+}
+
+// Alpha returns the smoothing factor for a step dt with time constant tau.
+func Alpha(dt, tau float64) float64 { return -math.Expm1(-dt / tau) }
+
+// Cutoff returns the −3 dB frequency in Hz of a first-order low-pass.
+func Cutoff(tau float64) float64 { return 1 / (2 * math.Pi * tau) }
+
+// Step feeds the sample x taken at time t and returns the filtered value.
+// The first sample initialises the output.
+func (f *LowPass) Step(t, x float64) float64 {
+	if !f.begun {
+		f.y, f.t, f.begun = x, t, true
+		return x
+	}
+	f.y += Alpha(t-f.t, f.Tau) * (x - f.y)
+	f.t = t
+	return f.y
+}
+
+// MovingAverage is the mean of the last N samples.
+type MovingAverage struct {
+	buf  []float64
+	next int
+	full bool
+	sum  float64
+}
+
+// NewMovingAverage returns a moving average over n ≥ 1 samples.
+func NewMovingAverage(n int) *MovingAverage {
+	return &MovingAverage{buf: make([]float64, max(n, 1))}
+}
+
+// Step adds x and returns the mean of the samples held.
+func (m *MovingAverage) Step(x float64) float64 {
+	if m.full {
+		m.sum -= m.buf[m.next]
+	}
+	m.buf[m.next] = x
+	m.sum += x
+	m.next++
+	if m.next == len(m.buf) {
+		m.next, m.full = 0, true
+	}
+	if m.full {
+		return m.sum / float64(len(m.buf))
+	}
+	return m.sum / float64(m.next)
+}

@@ -1,0 +1,103 @@
+package height
+
+import (
+	"fmt"
+	"math"
+
+	"liftfuse/methods"
+)
+
+// WheelRate returns the wheel rate of a spring k (N/mm) acting through an
+// installation (motion) ratio MR = spring travel per wheel travel:
+//
+//	k_w = k·MR²
+//
+// (Milliken & Milliken, Race Car Vehicle Dynamics, ch. 16 — from memory).
+func WheelRate(spring, mr float64) float64 { return spring * mr * mr }
+
+// Series returns the rate of two springs in series: 1/k = 1/k1 + 1/k2.
+func Series(k1, k2 float64) float64 { return 1 / (1/k1 + 1/k2) }
+
+// ScaleRef names a log-normal scale group and the power to which it enters a
+// compliance (1/K): a pot's compliance is 1/(2·k·MR²), so the spring group
+// enters with power −1 and the motion-ratio group with −2.
+type ScaleRef = methods.ScaleRef
+
+// Stiffness is the heave stiffness K (N/mm, both wheels of the axle) seen at
+// a sensor, and how its uncertainty enters the lift term's scale factor.
+type Stiffness struct {
+	K      float64
+	Groups []methods.ScaleGroup // groups declared by this stiffness
+	Refs   []ScaleRef           // powers on the compliance 1/K
+	Source string               // "springs" or "ballast", for the report
+	SE     float64              // ballast: standard error of K, N/mm
+	// GainCancels is true for a ballast stiffness: it is measured in the
+	// sensor's own calibration, so a gain error cancels from the lift term.
+	GainCancels bool
+}
+
+// RelSD returns the first-order relative uncertainty of the compliance.
+func (s Stiffness) RelSD() float64 {
+	var v float64
+	for _, r := range s.Refs {
+		for _, g := range s.Groups {
+			if g.Name == r.Name {
+				v += r.Pow * r.Pow * g.SD * g.SD
+			}
+		}
+	}
+	return math.Sqrt(v)
+}
+
+// SpringStiffness returns the axle heave stiffness from the springs, seen by a
+// potentiometer (K = 2·k·MR²) or by a body-to-ground laser, which also sees
+// the tyres in series (1/K = 1/(2 k_w) + 1/(2 k_t)). The scale groups are
+// named by axle so that two sensors on the same springs share them.
+//
+// To first order in the log domain, with compliance C = C_w + C_t,
+// ∂ln C/∂ln k_w = −C_w/C and ∂ln C/∂ln k_t = −C_t/C.
+func SpringStiffness(axle string, a methods.Axle, laser bool) Stiffness {
+	groups := []methods.ScaleGroup{
+		{Name: axle + "-springs", Label: axle + " spring rate", SD: a.SpringSDPct / 100},
+		{Name: axle + "-motion-ratio", Label: axle + " motion ratio", SD: a.MotionRatioSD / a.MotionRatio},
+	}
+	kw := 2 * WheelRate(a.SpringNPerMm, a.MotionRatio)
+	if !laser {
+		return Stiffness{K: kw, Groups: groups, Source: methods.FromSprings,
+			Refs: []ScaleRef{{Name: groups[0].Name, Pow: -1}, {Name: groups[1].Name, Pow: -2}}}
+	}
+	kt := 2 * a.TyreNPerMm
+	K := Series(kw, kt)
+	cw, ct := (1/kw)*K, (1/kt)*K // shares of the compliance
+	groups = append(groups, methods.ScaleGroup{Name: axle + "-tyres", Label: axle + " tyre rate", SD: a.TyreSDPct / 100})
+	return Stiffness{K: K, Groups: groups, Source: methods.FromSprings, Refs: []ScaleRef{
+		{Name: groups[0].Name, Pow: -cw}, {Name: groups[1].Name, Pow: -2 * cw}, {Name: groups[2].Name, Pow: -ct}}}
+}
+
+// BallastStiffness fits static sensor height (mm, through cal) against the
+// load each added mass puts on the axle, F = m·g·x/L for the rear and
+// m·g·(1 − x/L) for the front, and returns K = −1/slope with the slope's
+// standard error carried as a log-normal scale group of the entry.
+func BallastStiffness(entry, axle string, pts []methods.BallastPoint, wheelbase float64, cal Calibration) (Stiffness, error) {
+	xs := make([]float64, len(pts))
+	ys := make([]float64, len(pts))
+	for i, p := range pts {
+		share := p.XM / wheelbase
+		if axle == methods.AxleFront {
+			share = 1 - share
+		}
+		xs[i] = p.AddedKg * methods.StandardGravity * share
+		ys[i] = cal.MM(p.Signal)
+	}
+	_, slope, se, err := LineFit(xs, ys)
+	if err != nil {
+		return Stiffness{}, fmt.Errorf("ballast: %w", err)
+	}
+	if !(slope < 0) {
+		return Stiffness{}, fmt.Errorf("ballast: the body does not sink under added mass (slope %.4g mm/N): check the sensor's sign, the calibration or x_m", slope)
+	}
+	K := -1 / slope
+	g := methods.ScaleGroup{Name: entry + "/ballast-stiffness", Label: entry + " ballast stiffness", SD: se / -slope}
+	return Stiffness{K: K, SE: K * g.SD, Groups: []methods.ScaleGroup{g}, Source: methods.FromBallast,
+		Refs: []ScaleRef{{Name: g.Name, Pow: 1}}, GainCancels: true}, nil
+}
