@@ -1,8 +1,9 @@
 package fuse
 
 import (
+	"cmp"
 	"math"
-	"sort"
+	"slices"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -26,33 +27,90 @@ func splitChains(chains [][]float64) [][]float64 {
 // rankNormalize replaces every draw by the normal score of its pooled
 // fractional rank, Φ⁻¹((r − 3/8)/(S + 1/4)), ties getting their average rank.
 func rankNormalize(chains [][]float64) [][]float64 {
-	type item struct {
-		v    float64
-		c, i int
+	vals, idx := pooledOrder(chains)
+	return reshape(normalScores(vals, idx), chains)
+}
+
+// pooledOrder returns the pooled draws and their ascending order.
+func pooledOrder(chains [][]float64) ([]float64, []int32) {
+	var vals []float64
+	for _, ch := range chains {
+		vals = append(vals, ch...)
 	}
-	var all []item
-	for c, ch := range chains {
-		for i, v := range ch {
-			all = append(all, item{v, c, i})
+	return vals, argsort(vals)
+}
+
+// argsort returns the indices that sort vals ascending (vals hold no NaN):
+// an LSD radix sort on the order-preserving bit pattern of each float, in
+// 8-bit passes (a pass whose digit is the same everywhere is skipped),
+// which for the few thousand draws diagnosed here beats a comparison sort.
+func argsort(vals []float64) []int32 {
+	n := len(vals)
+	keys := make([]uint64, n)
+	idx := make([]int32, n)
+	for i, v := range vals {
+		b := math.Float64bits(v)
+		if b>>63 == 1 {
+			b = ^b // negative: reverse the order of magnitudes
+		} else {
+			b |= 1 << 63
 		}
+		keys[i], idx[i] = b, int32(i)
 	}
-	sort.Slice(all, func(a, b int) bool { return all[a].v < all[b].v })
-	S := float64(len(all))
-	out := make([][]float64, len(chains))
-	for c, ch := range chains {
-		out[c] = make([]float64, len(ch))
+	k2 := make([]uint64, n)
+	i2 := make([]int32, n)
+	var count [256]int
+	for shift := uint(0); shift < 64; shift += 8 {
+		clear(count[:])
+		for _, k := range keys {
+			count[(k>>shift)&0xff]++
+		}
+		if count[(keys[0]>>shift)&0xff] == n {
+			continue
+		}
+		sum := 0
+		for d, c := range count {
+			count[d] = sum
+			sum += c
+		}
+		for i, k := range keys {
+			d := (k >> shift) & 0xff
+			k2[count[d]], i2[count[d]] = k, idx[i]
+			count[d]++
+		}
+		keys, k2 = k2, keys
+		idx, i2 = i2, idx
 	}
-	for lo := 0; lo < len(all); {
+	return idx
+}
+
+// normalScores gives each value the normal score of its average rank,
+// given the values' ascending order.
+func normalScores(vals []float64, idx []int32) []float64 {
+	S := float64(len(vals))
+	z := make([]float64, len(vals))
+	for lo := 0; lo < len(idx); {
 		hi := lo
-		for hi+1 < len(all) && all[hi+1].v == all[lo].v {
+		for hi+1 < len(idx) && vals[idx[hi+1]] == vals[idx[lo]] {
 			hi++
 		}
 		r := float64(lo+hi)/2 + 1
-		z := distuv.UnitNormal.Quantile((r - 0.375) / (S + 0.25))
+		q := distuv.UnitNormal.Quantile((r - 0.375) / (S + 0.25))
 		for k := lo; k <= hi; k++ {
-			out[all[k].c][all[k].i] = z
+			z[idx[k]] = q
 		}
 		lo = hi + 1
+	}
+	return z
+}
+
+// reshape cuts pooled values back into chains of the given lengths.
+func reshape(z []float64, chains [][]float64) [][]float64 {
+	out := make([][]float64, len(chains))
+	off := 0
+	for c, ch := range chains {
+		out[c] = z[off : off+len(ch)]
+		off += len(ch)
 	}
 	return out
 }
@@ -99,26 +157,43 @@ func meanVar(x []float64) (float64, float64) {
 // Rhat returns the rank-normalised split R̂: the larger of the R̂ of the
 // rank-normalised split chains and of their folded (|x − median|) version.
 func Rhat(chains [][]float64) float64 {
-	split := splitChains(chains)
-	bulk := basicRhat(rankNormalize(split))
-	med := median(split)
-	folded := make([][]float64, len(split))
-	for i, c := range split {
-		folded[i] = make([]float64, len(c))
-		for j, v := range c {
-			folded[i][j] = math.Abs(v - med)
-		}
-	}
-	return math.Max(bulk, basicRhat(rankNormalize(folded)))
+	r, _ := RhatESS(chains)
+	return r
 }
 
-func median(chains [][]float64) float64 {
-	var all []float64
-	for _, c := range chains {
-		all = append(all, c...)
+// RhatESS returns the rank-normalised split R̂ and the bulk ESS together.
+// The draws are sorted once: the folded values |x − median| are ordered by
+// merging the two halves of that order, outward from the median.
+func RhatESS(chains [][]float64) (rhat, essBulk float64) {
+	split := splitChains(chains)
+	vals, idx := pooledOrder(split)
+	z := reshape(normalScores(vals, idx), split)
+	n := len(idx)
+	var med float64
+	if n%2 == 1 {
+		med = vals[idx[n/2]]
+	} else {
+		med = 0.5 * (vals[idx[n/2-1]] + vals[idx[n/2]])
 	}
-	sort.Float64s(all)
-	return quantileSorted(all, 0.5)
+	folded := make([]float64, n)
+	for i, v := range vals {
+		folded[i] = math.Abs(v - med)
+	}
+	// Below the median the order of |x − med| is the reverse of x's.
+	cut, _ := slices.BinarySearchFunc(idx, med, func(i int32, t float64) int { return cmp.Compare(vals[i], t) })
+	order := make([]int32, 0, n)
+	i, j := cut-1, cut
+	for i >= 0 || j < n {
+		if j >= n || (i >= 0 && folded[idx[i]] <= folded[idx[j]]) {
+			order = append(order, idx[i])
+			i--
+		} else {
+			order = append(order, idx[j])
+			j++
+		}
+	}
+	fz := reshape(normalScores(folded, order), split)
+	return math.Max(basicRhat(z), basicRhat(fz)), ess(z)
 }
 
 // ESSBulk returns the bulk effective sample size: the ESS of the
@@ -134,11 +209,9 @@ func ess(chains [][]float64) float64 {
 	if n < 4 {
 		return float64(M * n)
 	}
-	acovs := make([][]float64, M)
 	var W float64
 	means := make([]float64, M)
 	for c, ch := range chains {
-		acovs[c] = autocov(ch)
 		m, v := meanVar(ch)
 		means[c] = m
 		W += v / float64(M)
@@ -151,10 +224,22 @@ func ess(chains [][]float64) float64 {
 	if vplus == 0 {
 		return float64(M * n)
 	}
+	// Autocovariances are computed directly lag by lag, as the truncation
+	// usually comes after a few lags; past directLags, all at once by FFT.
+	const directLags = 64
+	var acovs [][]float64
 	rho := func(t int) float64 {
 		var a float64
-		for c := range chains {
-			a += acovs[c][t]
+		for c, ch := range chains {
+			if acovs != nil {
+				a += acovs[c][t]
+				continue
+			}
+			var s float64
+			for i := t; i < n; i++ {
+				s += (ch[i] - means[c]) * (ch[i-t] - means[c])
+			}
+			a += s / float64(n)
 		}
 		a /= float64(M)
 		return 1 - (W-a)/vplus
@@ -162,6 +247,13 @@ func ess(chains [][]float64) float64 {
 	tau := -1.0
 	prev := math.Inf(1)
 	for k := 0; 2*k+1 < n; k++ {
+		if 2*k+1 >= directLags && acovs == nil {
+			fft := fourier.NewFFT(fftSize(n))
+			acovs = make([][]float64, M)
+			for c, ch := range chains {
+				acovs[c] = autocov(fft, ch)
+			}
+		}
 		p := rho(2*k) + rho(2*k+1)
 		if p < 0 {
 			break
@@ -175,16 +267,21 @@ func ess(chains [][]float64) float64 {
 	return S / tau
 }
 
-// autocov returns the biased autocovariances (divided by n) of x at every
-// lag, by FFT with zero padding.
-func autocov(x []float64) []float64 {
-	n := len(x)
-	m, _ := meanVar(x)
+// fftSize is the zero-padded FFT length for autocovariances of n draws.
+func fftSize(n int) int {
 	size := 1
 	for size < 2*n {
 		size <<= 1
 	}
-	fft := fourier.NewFFT(size)
+	return size
+}
+
+// autocov returns the biased autocovariances (divided by n) of x at every
+// lag, by FFT with zero padding (fft of length fftSize(len(x))).
+func autocov(fft *fourier.FFT, x []float64) []float64 {
+	n := len(x)
+	m, _ := meanVar(x)
+	size := fft.Len()
 	buf := make([]float64, size)
 	for i, v := range x {
 		buf[i] = v - m

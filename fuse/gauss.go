@@ -3,8 +3,6 @@ package fuse
 import (
 	"fmt"
 	"math"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // cond is the posterior of the linear parameters given the non-linear ones
@@ -20,13 +18,36 @@ import (
 // where |Λ₀|₊ is the product of the proper prior precisions (flat priors
 // add the same constant to every φ).
 type cond struct {
-	chol  mat.Cholesky
+	l     []float64 // Cholesky factor of Λ, row-major lower triangle
+	p     int
 	mean  []float64
 	logML float64
+
+	lam, b []float64 // buffers, reused between calls
+	xs     [][]entryRef
 }
 
-// lift returns the factor s(φ)·q(w) of a row.
-func (m *model) liftFactor(r *row, phi []float64) float64 {
+// solve returns Λ⁻¹a.
+func (c *cond) solve(a []float64) []float64 {
+	x := append([]float64(nil), a...)
+	forward(c.l, x, c.p)
+	backward(c.l, x, c.p)
+	return x
+}
+
+// quad returns aᵀΛ⁻¹a = ‖L⁻¹a‖².
+func (c *cond) quad(a []float64) float64 {
+	x := append([]float64(nil), a...)
+	forward(c.l, x, c.p)
+	var s float64
+	for _, v := range x {
+		s += v * v
+	}
+	return s
+}
+
+// liftFactor returns the factors s(φ)·q(w) and q(w) of a row.
+func (m *model) liftFactor(r *row, phi []float64) (float64, float64) {
 	s := 0.0
 	for _, sc := range r.scales {
 		s += sc.pow * phi[sc.idx]
@@ -36,7 +57,7 @@ func (m *model) liftFactor(r *row, phi []float64) float64 {
 		w := phi[r.wind]
 		q += r.a*w + r.c*w*w
 	}
-	return math.Exp(s) * q
+	return math.Exp(s) * q, q
 }
 
 // inflation returns how much an entry-owned prior is widened: κ when every
@@ -52,105 +73,147 @@ func (m *model) inflation(owners map[int]bool) float64 {
 	return k
 }
 
-// condition computes the conditional posterior at φ into c.
+// prior holds what the prior and the error covariances contribute to every
+// conditioning, which depends on the inflation of entries but not on φ.
+type prior struct {
+	prec                     []float64
+	mu0, logDet, logDetSigma float64
+	n                        int
+	phiNorm                  float64   // Σ −log(sd) − ½log 2π of the φ priors
+	phiSD                    []float64 // prior sd of each φ, inflated where owned
+}
+
+// priorTerms returns the model's prior terms, computing them on first use
+// (a model's inflation is fixed once it samples).
+func (m *model) priorTerms() *prior {
+	m.priorOnce.Do(func() {
+		pr := &prior{prec: make([]float64, len(m.lin))}
+		for i, lp := range m.lin {
+			prec := lp.prec
+			if lp.kind == kindNuisance && prec > 0 {
+				k := m.inflation(lp.owners)
+				prec /= k * k
+			}
+			pr.prec[i] = prec
+			pr.mu0 += prec * lp.mean * lp.mean
+			if prec > 0 {
+				pr.logDet += math.Log(prec)
+			}
+		}
+		for _, p := range m.phi {
+			sd := p.sd * m.inflation(p.owners)
+			pr.phiSD = append(pr.phiSD, sd)
+			pr.phiNorm -= math.Log(sd) + 0.5*math.Log(2*math.Pi)
+		}
+		for bi := range m.blocks {
+			bl := &m.blocks[bi]
+			k := m.inflate[bl.entry]
+			pr.logDetSigma += bl.logdet + 2*float64(len(bl.rows))*math.Log(k)
+			pr.n += len(bl.rows)
+		}
+		m.prior = pr
+	})
+	return m.prior
+}
+
+// condition computes the conditional posterior at φ into c, reusing c's
+// buffers.
 func (m *model) condition(phi []float64, c *cond) error {
 	p := len(m.lin)
-	lam := make([]float64, p*p)
-	b := make([]float64, p)
-	var yWy, mu0 float64
-	logDetPrior := 0.0
-	for i, lp := range m.lin {
-		prec := lp.prec
-		if lp.kind == kindNuisance && prec > 0 {
-			k := m.inflation(lp.owners)
-			prec /= k * k
-		}
-		lam[i*p+i] = prec
-		b[i] = prec * lp.mean
-		mu0 += prec * lp.mean * lp.mean
-		if prec > 0 {
-			logDetPrior += math.Log(prec)
-		}
+	if len(c.lam) != p*p {
+		c.lam, c.l = make([]float64, p*p), make([]float64, p*p)
+		c.b, c.mean = make([]float64, p), make([]float64, p)
+		c.p = p
 	}
-	var logDetSigma float64
-	n := 0
-	xs := make([][]entryRef, 0, 64)
-	for bi := range m.blocks {
+	lam, b := c.lam, c.b
+	clear(lam)
+	pr := m.priorTerms()
+	for i := range p {
+		lam[i*p+i] = pr.prec[i]
+		b[i] = pr.prec[i] * m.lin[i].mean
+	}
+	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
+	// Diagonal blocks through their grouped sufficient statistics.
+	for gi := range m.groups {
+		yWy += m.groups[gi].accumulate(m, phi, lam, b, p)
+	}
+	// Full blocks row by row.
+	for _, bi := range m.fullBlocks {
 		bl := &m.blocks[bi]
 		k := m.inflate[bl.entry]
 		w := 1 / (k * k)
-		logDetSigma += bl.logdet + 2*float64(len(bl.rows))*math.Log(k)
-		n += len(bl.rows)
-		xs = xs[:0]
-		for _, ri := range bl.rows {
-			xs = append(xs, m.design(&m.rows[ri], phi, nil))
+		for len(c.xs) < len(bl.rows) {
+			c.xs = append(c.xs, nil)
 		}
-		if bl.diag != nil {
-			for i, ri := range bl.rows {
-				wt := w * bl.diag[i]
-				y := m.rows[ri].y
-				yWy += wt * y * y
-				for _, a := range xs[i] {
-					b[a.col] += wt * a.v * y
-					for _, bb := range xs[i] {
-						lam[a.col*p+bb.col] += wt * a.v * bb.v
-					}
-				}
+		f, q := m.liftFactor(&m.rows[bl.rows[0]], phi)
+		for i, ri := range bl.rows {
+			r := &m.rows[ri]
+			if i > 0 && !bl.uniform {
+				f, q = m.liftFactor(r, phi)
 			}
-			continue
+			c.xs[i] = designAt(r, f, q, c.xs[i][:0])
 		}
 		for i, ri := range bl.rows {
 			for j, rj := range bl.rows {
 				wt := w * bl.prec.At(i, j)
 				yj := m.rows[rj].y
 				yWy += wt * m.rows[ri].y * yj
-				for _, a := range xs[i] {
+				for _, a := range c.xs[i] {
 					b[a.col] += wt * a.v * yj
-					for _, bb := range xs[j] {
+					for _, bb := range c.xs[j] {
 						lam[a.col*p+bb.col] += wt * a.v * bb.v
 					}
 				}
 			}
 		}
 	}
-	// Symmetrise (the sums above are symmetric up to rounding).
-	L := mat.NewSymDense(p, nil)
 	for i := range p {
-		for j := i; j < p; j++ {
-			L.SetSym(i, j, 0.5*(lam[i*p+j]+lam[j*p+i]))
+		for j := range i {
+			v := 0.5 * (lam[i*p+j] + lam[j*p+i])
+			lam[i*p+j], lam[j*p+i] = v, v
 		}
 	}
-	if !c.chol.Factorize(L) {
-		return m.unidentified(L)
+	if !cholesky(lam, c.l, p) {
+		return m.unidentified(lam)
 	}
-	bv := mat.NewVecDense(p, b)
-	var mv mat.VecDense
-	if err := c.chol.SolveVecTo(&mv, bv); err != nil {
-		return m.unidentified(L)
+	copy(c.mean, b)
+	forward(c.l, c.mean, p)
+	backward(c.l, c.mean, p)
+	var bm float64
+	for i := range p {
+		bm += b[i] * c.mean[i]
 	}
-	c.mean = mv.RawVector().Data
-	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*mat.Dot(bv, &mv) - 0.5*c.chol.LogDet() + 0.5*logDetPrior -
+	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*bm - 0.5*logDetChol(c.l, p) + 0.5*logDetPrior -
 		0.5*logDetSigma - 0.5*float64(n)*math.Log(2*math.Pi)
 	return nil
 }
 
 // design appends the non-zero entries of a row's design vector at φ.
 func (m *model) design(r *row, phi []float64, dst []entryRef) []entryRef {
-	f := m.liftFactor(r, phi)
+	f, q := m.liftFactor(r, phi)
+	return designAt(r, f, q, dst)
+}
+
+// designAt is design with the row's factors s(φ)·q(w) and q(w) given.
+func designAt(r *row, f, q float64, dst []entryRef) []entryRef {
 	for _, t := range r.lift {
 		dst = append(dst, entryRef{t.col, f * t.v})
 	}
 	for _, t := range r.gamma {
 		dst = append(dst, entryRef{t.col, f * t.v})
 	}
+	for _, t := range r.nuisPerQ {
+		dst = append(dst, entryRef{t.col, q * t.v})
+	}
 	return append(dst, r.nuis...)
 }
 
 // unidentified names a parameter the data cannot pin down (a flat prior and
 // no observation that sees it).
-func (m *model) unidentified(L *mat.SymDense) error {
+func (m *model) unidentified(lam []float64) error {
+	p := len(m.lin)
 	for i := range m.lin {
-		if L.At(i, i) == 0 {
+		if lam[i*p+i] == 0 {
 			return fmt.Errorf("fuse: %s is not identified by the evidence", m.linName(i))
 		}
 	}
@@ -158,26 +221,10 @@ func (m *model) unidentified(L *mat.SymDense) error {
 }
 
 // draw samples the linear parameters from the conditional posterior:
-// θ = m + U⁻¹z with Λ = UᵀU, so Cov θ = Λ⁻¹.
+// θ = m + L⁻ᵀz with Λ = L·Lᵀ, so Cov θ = L⁻ᵀL⁻¹ = Λ⁻¹. z is overwritten.
 func (c *cond) draw(z []float64, dst []float64) {
-	var u mat.TriDense
-	c.chol.UTo(&u)
-	zv := mat.NewVecDense(len(z), append([]float64(nil), z...))
-	var x mat.VecDense
-	if err := x.SolveVec(&u, zv); err != nil {
-		copy(dst, c.mean)
-		return
-	}
+	backward(c.l, z, c.p)
 	for i := range dst {
-		dst[i] = c.mean[i] + x.AtVec(i)
+		dst[i] = c.mean[i] + z[i]
 	}
-}
-
-// cov returns the conditional covariance Λ⁻¹.
-func (c *cond) cov() *mat.SymDense {
-	var s mat.SymDense
-	if err := c.chol.InverseTo(&s); err != nil {
-		return nil
-	}
-	return &s
 }

@@ -3,7 +3,9 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -92,6 +94,7 @@ type row struct {
 	wind     int // φ index of the wind, or −1
 	scales   []phiRef
 	nuis     []entryRef
+	nuisPerQ []entryRef // nuisances proportional to q: coefficient·q(w)/q0
 	entry    int
 	label    string
 }
@@ -103,6 +106,9 @@ type block struct {
 	prec   *mat.SymDense // Σ⁻¹ otherwise
 	logdet float64       // log|Σ|
 	entry  int
+	// uniform is true when every row shares its scales and airspeed, so
+	// their factors s(φ)·q(w) are computed once.
+	uniform bool
 }
 
 // sign is one sign observation in indexed form.
@@ -127,8 +133,19 @@ type model struct {
 	rows    []row
 	blocks  []block
 	signs   []sign
-	beta    map[[2]string]int // (config, axle) → column of β
-	gamma   map[[2]string]int
+	// groups summarise the rows of diagonal blocks; fullBlocks lists the
+	// other blocks, conditioned row by row.
+	groups     []group
+	fullBlocks []int
+
+	priorOnce sync.Once
+	prior     *prior
+	informed  map[string]bool // configurations some evidence speaks of
+	// start is where the Laplace fit begins, by φ name (zero elsewhere):
+	// the joint posterior's mode, for the fits that leave entries out.
+	start map[string]float64
+	beta  map[[2]string]int // (config, axle) → column of β
+	gamma map[[2]string]int
 	// inflate[e] > 1 multiplies entry e's error sd and its own nuisance and
 	// scale prior sds (the robust layer's "entry looks off" alternative).
 	inflate []float64
@@ -141,7 +158,7 @@ var vref = methods.KmhToMs(methods.RefSpeedKmh)
 // in several entries are one parameter; their priors must agree.
 func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 	set = set.withDefaults()
-	m := &model{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}}
+	m := &model{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}
 	for _, c := range set.Configs {
 		for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
 			m.beta[[2]string{c, ax}] = len(m.lin)
@@ -175,6 +192,9 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 			return nil, err
 		}
 		m.entries = append(m.entries, ev.Entry)
+		for _, q := range ev.Informs {
+			m.informed[q.Config] = true
+		}
 		m.kinds = append(m.kinds, ev.Kind)
 		m.inflate = append(m.inflate, 1)
 		for _, n := range ev.Nuisances {
@@ -254,10 +274,21 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 					}
 				}
 				for _, c := range o.Nuis {
+					if c.PerQ && r.wind >= 0 && r.q0 > 0 {
+						r.nuisPerQ = append(r.nuisPerQ, entryRef{nuisIdx[c.Name], c.C / r.q0})
+						continue
+					}
 					r.nuis = append(r.nuis, entryRef{nuisIdx[c.Name], c.C})
 				}
 				bl.rows = append(bl.rows, len(m.rows))
 				m.rows = append(m.rows, r)
+			}
+			bl.uniform = true
+			for _, ri := range bl.rows[1:] {
+				a, b := &m.rows[bl.rows[0]], &m.rows[ri]
+				if a.q0 != b.q0 || a.a != b.a || a.c != b.c || a.wind != b.wind || !slices.Equal(a.scales, b.scales) {
+					bl.uniform = false
+				}
 			}
 			if err := bl.setCov(b.Cov); err != nil {
 				return nil, fmt.Errorf("fuse: entry %q: %w", ev.Entry, err)
@@ -273,6 +304,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 			m.signs = append(m.signs, sg)
 		}
 	}
+	m.buildGroups()
 	return m, nil
 }
 

@@ -5,7 +5,6 @@ import (
 	"math/rand/v2"
 	"sort"
 
-	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods"
@@ -55,22 +54,42 @@ func (m *model) fit() (*Posterior, error) {
 // Diagnostics returns how the posterior was computed.
 func (P *Posterior) Diagnostics() Diagnostics { return P.p.diag }
 
-// weights turns terms on (configuration, axle) into column weights; a
-// "total" axle counts front and rear.
+// weights turns terms on (configuration, axle) into column weights at
+// V_ref; a "total" axle counts front and rear.
 func (P *Posterior) weights(ts []methods.Term) []entryRef {
+	return P.weightsAt(math.NaN(), ts)
+}
+
+// weightsAt is weights at a speed vKmh: with the linear speed model each β
+// brings its γ with weight (V − V_ref)/V_ref.
+func (P *Posterior) weightsAt(vKmh float64, ts []methods.Term) []entryRef {
+	m := P.p.m
 	var w []entryRef
 	for _, t := range ts {
-		for _, r := range P.p.m.quantity(methods.Quantity{Config: t.Config, Axle: t.Axle}) {
+		for _, r := range m.quantity(methods.Quantity{Config: t.Config, Axle: t.Axle}) {
 			w = append(w, entryRef{r.col, r.v * t.W})
+			if m.set.Linear && !math.IsNaN(vKmh) {
+				g := r.col + len(m.set.Configs)*2 // γ columns follow the β columns in the same order
+				w = append(w, entryRef{g, r.v * t.W * (vKmh - methods.RefSpeedKmh) / methods.RefSpeedKmh})
+			}
 		}
 	}
 	return w
 }
 
+// At returns the estimate of Σ W·β(V) at a speed in km/h (with the
+// constant speed model, the same as Linear), and P(value < 0).
+func (P *Posterior) At(vKmh float64, ts ...methods.Term) (Estimate, float64) {
+	return P.estimate(P.weightsAt(vKmh, ts))
+}
+
 // Linear returns the estimate of Σ W·β over the terms (axle "total" allowed)
 // and P(Σ W·β < 0).
 func (P *Posterior) Linear(ts ...methods.Term) (Estimate, float64) {
-	w := P.weights(ts)
+	return P.estimate(P.weights(ts))
+}
+
+func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 	if P.p.gaussian {
 		mean, sd := P.p.gaussMoments(w)
 		z := distuv.UnitNormal.Quantile(0.5 + P.level/2)
@@ -153,12 +172,11 @@ func (p *posterior) gaussMoments(w []entryRef) (float64, float64) {
 	for _, t := range w {
 		a[t.col] += t.v
 	}
-	av := mat.NewVecDense(n, a)
-	var x mat.VecDense
-	if err := p.cond.chol.SolveVecTo(&x, av); err != nil {
-		return math.NaN(), math.NaN()
+	var mean float64
+	for i, v := range a {
+		mean += v * p.cond.mean[i]
 	}
-	return mat.Dot(av, mat.NewVecDense(n, p.cond.mean)), math.Sqrt(math.Max(0, mat.Dot(av, &x)))
+	return mean, math.Sqrt(math.Max(0, p.cond.quad(a)))
 }
 
 func flatten(chains [][]float64) []float64 {

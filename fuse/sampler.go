@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/diff/fd"
@@ -33,10 +34,9 @@ import (
 // 2021) diagnose it as they would any MCMC. Campaigns with neither
 // non-linear parameters nor signs take the closed form instead.
 const (
-	nChains   = 4
-	batchSize = 500
-	tNu       = 5
-	tScale    = 1.3
+	nChains = 4
+	tNu     = 5
+	tScale  = 1.3
 )
 
 // Diagnostics of a posterior computation.
@@ -89,13 +89,13 @@ func (s *sign) value(theta []float64) float64 {
 // logPhiPrior returns log p(φ) up to a constant that does not depend on the
 // inflation of any entry (each φ_i ~ N(0, (k·sd)²)).
 func (m *model) logPhiPrior(phi []float64) float64 {
+	pr := m.priorTerms()
 	var lp float64
-	for i, p := range m.phi {
-		sd := p.sd * m.inflation(p.owners)
-		z := phi[i] / sd
-		lp += -0.5*z*z - math.Log(sd) - 0.5*math.Log(2*math.Pi)
+	for i := range m.phi {
+		z := phi[i] / pr.phiSD[i]
+		lp += -0.5 * z * z
 	}
-	return lp
+	return lp + pr.phiNorm
 }
 
 // laplaceObjective is −log p(φ | y) up to a constant, with each sign's
@@ -103,7 +103,13 @@ func (m *model) logPhiPrior(phi []float64) float64 {
 // E[ε + (1−2ε)Φ(aᵀθ/τ)] = ε + (1−2ε)Φ(aᵀm/√(τ² + aᵀΛ⁻¹a)).
 func (m *model) laplaceObjective(phi []float64) float64 {
 	var c cond
-	if err := m.condition(phi, &c); err != nil {
+	return m.objective(phi, &c)
+}
+
+// objective is laplaceObjective with a reusable conditioning buffer.
+func (m *model) objective(phi []float64, cp *cond) float64 {
+	c := cp
+	if err := m.condition(phi, c); err != nil {
 		return math.Inf(1)
 	}
 	v := c.logML + m.logPhiPrior(phi)
@@ -117,13 +123,11 @@ func (m *model) laplaceObjective(phi []float64) float64 {
 		for _, t := range s.gamma {
 			a[t.col] += t.v
 		}
-		av := mat.NewVecDense(p, a)
-		var x mat.VecDense
-		if err := c.chol.SolveVecTo(&x, av); err != nil {
-			return math.Inf(1)
+		var mean float64
+		for i, v := range a {
+			mean += v * c.mean[i]
 		}
-		mean := mat.Dot(av, mat.NewVecDense(p, c.mean))
-		vr := mat.Dot(av, &x)
+		vr := c.quad(a)
 		if m.inflate[s.entry] > 1 {
 			v += math.Log(0.5)
 			continue
@@ -149,8 +153,12 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		}
 		return nil, nil, -f, nil
 	}
-	f := m.laplaceObjective
+	var buf cond
+	f := func(phi []float64) float64 { return m.objective(phi, &buf) }
 	x0 := make([]float64, d)
+	for i, p := range m.phi {
+		x0[i] = m.start[p.name] // a warm start where one is known
+	}
 	if math.IsInf(f(x0), 1) {
 		var c cond
 		if err := m.condition(x0, &c); err != nil {
@@ -159,9 +167,9 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	}
 	prob := optimize.Problem{
 		Func: f,
-		Grad: func(g, x []float64) { fd.Gradient(g, f, x, &fd.Settings{Formula: fd.Central}) },
+		Grad: func(g, x []float64) { fd.Gradient(g, f, x, &fd.Settings{Formula: fd.Forward}) },
 	}
-	res, err := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-6, MajorIterations: 200}, &optimize.BFGS{})
+	res, err := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200}, &optimize.BFGS{})
 	mode = x0
 	if err == nil || res != nil && !math.IsInf(res.F, 0) {
 		mode = res.X
@@ -188,15 +196,18 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 
 // chainState is one independence Metropolis–Hastings chain.
 type chainState struct {
-	rng    *rand.Rand
-	lw     float64 // log weight of the current state
-	theta  []float64
-	phi    []float64
-	begun  bool
-	accept int
-	tries  int
-	draws  []float64
-	phis   []float64
+	rng  *rand.Rand
+	cond cond
+	// proposal buffers, swapped with theta and phi on acceptance
+	propTheta, propPhi, z []float64
+	lw                    float64 // log weight of the current state
+	theta                 []float64
+	phi                   []float64
+	begun                 bool
+	accept                int
+	tries                 int
+	draws                 []float64
+	phis                  []float64
 }
 
 // sample computes the posterior: closed form when it can, else the chains.
@@ -231,17 +242,24 @@ func (m *model) sample() (*posterior, error) {
 	}
 	chains := make([]*chainState, nChains)
 	for c := range chains {
-		chains[c] = &chainState{rng: rand.New(rand.NewPCG(m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d)}
+		chains[c] = &chainState{rng: rand.New(rand.NewPCG(m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
+			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d))}
 	}
-	propose := func(ch *chainState) (phi, theta []float64, lw float64) {
-		phi = make([]float64, d)
+	// propose draws φ from the Student-t proposal and θ from its conditional
+	// Gaussian into the chain's proposal buffers, and returns the log
+	// importance weight (−∞ where the conditioning fails).
+	propose := func(ch *chainState) float64 {
+		phi, theta, z := ch.propPhi, ch.propTheta, ch.z
 		var maha float64
 		if d > 0 {
-			z := make([]float64, d)
-			for i := range z {
+			for i := range d {
 				z[i] = ch.rng.NormFloat64()
 			}
-			u := distuv.ChiSquared{K: tNu, Src: ch.rng}.Rand()
+			var u float64 // χ² with tNu degrees of freedom
+			for range tNu {
+				g := ch.rng.NormFloat64()
+				u += g * g
+			}
 			f := math.Sqrt(tNu / u)
 			for i := range d {
 				var s float64
@@ -249,38 +267,36 @@ func (m *model) sample() (*posterior, error) {
 					s += lower.At(i, j) * z[j]
 				}
 				phi[i] = mode[i] + f*s
-			}
-			for _, zi := range z {
-				maha += zi * zi * f * f
+				maha += z[i] * z[i] * f * f
 			}
 		}
 		logq := -0.5 * (tNu + float64(d)) * math.Log1p(maha/tNu)
-		var c cond
-		if err := m.condition(phi, &c); err != nil {
-			return phi, nil, math.Inf(-1)
+		c := &ch.cond
+		if err := m.condition(phi, c); err != nil {
+			return math.Inf(-1)
 		}
-		theta = make([]float64, p)
-		z := make([]float64, p)
-		for i := range z {
+		for i := range p {
 			z[i] = ch.rng.NormFloat64()
 		}
-		c.draw(z, theta)
-		lw = c.logML + m.logPhiPrior(phi) - logq
+		c.draw(z[:p], theta)
+		lw := c.logML + m.logPhiPrior(phi) - logq
 		for si := range m.signs {
 			s := &m.signs[si]
 			lw += math.Log(math.Max(m.signProb(s, s.value(theta)), 1e-300))
 		}
-		return phi, theta, lw
+		return lw
 	}
 	step := func(ch *chainState, n int) {
+		ch.draws = slices.Grow(ch.draws, n*p)
+		ch.phis = slices.Grow(ch.phis, n*d)
 		for range n {
-			phi, theta, lw := propose(ch)
+			lw := propose(ch)
 			ch.tries++
-			if !ch.begun || (theta != nil && math.Log(ch.rng.Float64()) < lw-ch.lw) {
-				if theta != nil {
-					ch.phi, ch.theta, ch.lw, ch.begun = phi, theta, lw, true
-					ch.accept++
-				}
+			if !math.IsInf(lw, -1) && (!ch.begun || math.Log(ch.rng.Float64()) < lw-ch.lw) {
+				ch.phi, ch.propPhi = ch.propPhi, ch.phi
+				ch.theta, ch.propTheta = ch.propTheta, ch.theta
+				ch.lw, ch.begun = lw, true
+				ch.accept++
 			}
 			if !ch.begun {
 				continue
@@ -290,11 +306,14 @@ func (m *model) sample() (*posterior, error) {
 		}
 	}
 	tracked := m.trackedColumns()
+	// Independence MH with this proposal keeps about half its proposals, so
+	// a first batch of 2.4 draws per wanted effective draw usually suffices.
+	batch := int(math.Ceil(m.set.MinESS / nChains * 2.4))
 	for {
 		var wg sync.WaitGroup
 		for _, ch := range chains {
 			wg.Add(1)
-			go func() { defer wg.Done(); step(ch, batchSize) }()
+			go func() { defer wg.Done(); step(ch, batch) }()
 		}
 		wg.Wait()
 		n := len(chains[0].draws) / p
@@ -303,6 +322,10 @@ func (m *model) sample() (*posterior, error) {
 		}
 		if n == 0 {
 			return nil, fmt.Errorf("fuse: the sampler found no state with finite probability")
+		}
+		if float64(n*nChains) < m.set.MinESS && n < m.set.MaxDraws {
+			batch = 100
+			continue // ESS cannot exceed the draws yet
 		}
 		post.n = n
 		post.draws = post.draws[:0]
@@ -313,14 +336,16 @@ func (m *model) sample() (*posterior, error) {
 		}
 		rmax, emin := 1.0, math.Inf(1)
 		for _, q := range tracked {
-			x := post.series(q)
-			rmax = math.Max(rmax, Rhat(x))
-			emin = math.Min(emin, ESSBulk(x))
+			r, e := RhatESS(post.series(q))
+			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
 		}
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
 		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
 			break
 		}
+		// Draw about what the ESS so far says is still needed, with a margin.
+		need := float64(n) * (m.set.MinESS/math.Max(emin, 1) - 1) * 1.35
+		batch = int(math.Min(math.Max(need, 0.1*float64(n)), float64(m.set.MaxDraws-n)))
 	}
 	var acc, tries int
 	for _, ch := range chains {
@@ -334,10 +359,14 @@ func (m *model) sample() (*posterior, error) {
 }
 
 // trackedColumns returns the quantities whose convergence gates sampling:
-// every configuration's front, rear and total β.
+// the front, rear and total β of every configuration the evidence speaks
+// of (the others are the prior, drawn exactly).
 func (m *model) trackedColumns() [][]entryRef {
 	var out [][]entryRef
 	for _, c := range m.set.Configs {
+		if !m.informed[c] {
+			continue
+		}
 		f, r := m.beta[[2]string{c, "front"}], m.beta[[2]string{c, "rear"}]
 		out = append(out, []entryRef{{f, 1}}, []entryRef{{r, 1}}, []entryRef{{f, 1}, {r, 1}})
 	}
@@ -360,3 +389,6 @@ func (p *posterior) series(w []entryRef) [][]float64 {
 	}
 	return out
 }
+
+// newRand returns a seeded generator for stream k.
+func newRand(seed uint64, k uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, k)) }

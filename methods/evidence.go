@@ -8,6 +8,11 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
+// WindName is the nuisance name of the along-road wind of the campaign's one
+// session; every entry whose airspeed it changes declares it with the same
+// prior, so fusion sees one wind.
+const WindName = "wind"
+
 // Kind names a measurement method; the strings are those of the result
 // document's "kind" field.
 type Kind string
@@ -107,10 +112,14 @@ type ScaleRef struct {
 	Pow  float64
 }
 
-// Coef is the coefficient of a named additive nuisance.
+// Coef is the coefficient of a named additive nuisance. With PerQ set the
+// nuisance's effect is proportional to the dynamic pressure, like the lift
+// itself (a patch's Cp, the pitch of drag): the coefficient is then
+// C·q(w)/Q, so that wind scales it as it scales the lift.
 type Coef struct {
 	Name string
 	C    float64
+	PerQ bool
 }
 
 // Obs is one Gaussian observation.

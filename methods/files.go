@@ -1,7 +1,9 @@
 package methods
 
 import (
+	"crypto/sha256"
 	"encoding/csv"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -361,4 +363,29 @@ func (c *Campaign) addFile(name string) {
 		}
 	}
 	c.Files = append(c.Files, name)
+}
+
+// Hash returns the hex SHA-256 of the campaign file and every file it read,
+// in the order read, each preceded by its length so that no two different
+// sets of files hash alike.
+func (c *Campaign) Hash() (string, error) {
+	h := sha256.New()
+	for _, name := range c.Files {
+		f, err := os.Open(name)
+		if err != nil {
+			return "", err
+		}
+		st, err := f.Stat()
+		if err != nil {
+			f.Close()
+			return "", err
+		}
+		fmt.Fprintf(h, "%d\n", st.Size())
+		_, err = io.Copy(h, f)
+		f.Close()
+		if err != nil {
+			return "", err
+		}
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
 }

@@ -27,10 +27,6 @@ type Result struct {
 // practice, no source).
 const driftSDmmPerS = 1.0 / 600
 
-// WindName is the nuisance name of the along-road wind of the campaign's one
-// session, shared by every entry.
-const WindName = "wind"
-
 // typicalCLA is the size of axle lift (C_L·A, m²) the stiff-axle warning
 // asks a sensor to resolve (common practice, no source).
 const typicalCLA = 0.1
@@ -104,8 +100,8 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	}
 	wind := ""
 	if c.Air.WindSDMs > 0 {
-		wind = WindName
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs})
+		wind = methods.WindName
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: methods.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs})
 	}
 	laser := e.Sensor == methods.SensorLaser
 	growth := e.Axle + "-tyre-growth"

@@ -1,0 +1,105 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"liftfuse/fuse"
+	"liftfuse/methods"
+	"liftfuse/methods/adapters"
+	"liftfuse/methods/height"
+)
+
+// analysis is a campaign taken through the adapters and fusion.
+type analysis struct {
+	campaign *methods.Campaign
+	reduced  *adapters.Reduced
+	fused    *fuse.Fused
+}
+
+// settings returns the fusion settings of a campaign.
+func settings(c *methods.Campaign) fuse.Settings {
+	ids := make([]string, len(c.Configurations))
+	for i, cf := range c.Configurations {
+		ids[i] = cf.ID
+	}
+	return fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == methods.SpeedLinear,
+		Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}
+}
+
+// load reads a campaign; the adapters stream the logs' bodies, so loading
+// checks only their headers.
+func load(file string) (*methods.Campaign, error) {
+	return methods.Load(file, methods.Options{HeadersOnly: true})
+}
+
+// reduce loads a campaign and runs every adapter, with a progress bar on
+// stderr when it is a terminal and not silenced.
+func reduce(file string, quiet bool, stderr io.Writer) (*methods.Campaign, *adapters.Reduced, error) {
+	c, err := load(file)
+	if err != nil {
+		return nil, nil, err
+	}
+	opt := adapters.Options{}
+	if !quiet && isTerminal(stderr) {
+		opt.Height = height.Options{Progress: func(done, total int64) {
+			fmt.Fprintf(stderr, "\rreading logs %s %3.0f%%", bar(done, total), 100*float64(done)/float64(max(total, 1)))
+			if done >= total {
+				fmt.Fprint(stderr, "\r"+strings.Repeat(" ", 50)+"\r")
+			}
+		}}
+	}
+	r, err := adapters.Reduce(c, opt)
+	if err != nil {
+		return nil, nil, inputError{err}
+	}
+	return c, r, nil
+}
+
+// analyse loads, reduces and fuses a campaign.
+func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
+	c, r, err := reduce(file, quiet, stderr)
+	if err != nil {
+		return nil, err
+	}
+	f, err := fuse.Run(fuse.Input{
+		Evidence: r.Evidence, Settings: settings(c), Reference: c.Report.ReferenceConfig,
+		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
+	})
+	if err != nil {
+		return nil, err
+	}
+	if err := stamp(f.Result, c); err != nil {
+		return nil, err
+	}
+	return &analysis{campaign: c, reduced: r, fused: f}, nil
+}
+
+// stamp fills the result's campaign title, input hash and tool version.
+func stamp(res *fuse.Result, c *methods.Campaign) error {
+	sum, err := c.Hash()
+	if err != nil {
+		return err
+	}
+	res.ToolVersion = Version
+	res.Campaign = fuse.CampaignInfo{Title: c.Campaign.Title, SHA256: sum}
+	return nil
+}
+
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+func bar(done, total int64) string {
+	const width = 30
+	n := int(width * done / max(total, 1))
+	n = min(max(n, 0), width)
+	return "[" + strings.Repeat("#", n) + strings.Repeat(".", width-n) + "]"
+}

@@ -1,0 +1,57 @@
+package main
+
+import (
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"liftfuse/fuse"
+	"liftfuse/report"
+)
+
+type reduceOptions struct {
+	file  string
+	json  bool
+	quiet bool
+}
+
+func newReduceCmd() *cobra.Command {
+	var o reduceOptions
+	cmd := &cobra.Command{
+		Use:   "reduce FILE",
+		Short: "Run the method adapters: what each method says on its own",
+		Long: `reduce runs every method adapter on its raw data — steady windows of the
+ride-height logs, integrated pressure readings, vortex senses — and prints what
+each entry says on its own. --json prints a result document with only
+"methods" and "warnings" filled.`,
+		Example: "  liftfuse reduce examples/ducktail-fastback/campaign.yaml",
+		Args:    argsExactly(1, "one campaign file"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			o.file = args[0]
+			return runReduce(o, cmd.OutOrStdout(), cmd.ErrOrStderr())
+		},
+	}
+	cmd.Flags().BoolVar(&o.json, "json", false, "print JSON")
+	cmd.Flags().BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
+	return cmd
+}
+
+func runReduce(o reduceOptions, out, stderr io.Writer) error {
+	c, r, err := reduce(o.file, o.quiet, stderr)
+	if err != nil {
+		return err
+	}
+	res, err := fuse.Standalone(r.Evidence, settings(c))
+	if err != nil {
+		return err
+	}
+	res.Warnings = append(r.Warnings, res.Warnings...)
+	if err := stamp(res, c); err != nil {
+		return err
+	}
+	if o.json {
+		return report.WriteJSON(out, res)
+	}
+	report.ReduceText(out, r, res)
+	return nil
+}

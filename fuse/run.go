@@ -1,0 +1,361 @@
+package fuse
+
+import (
+	"fmt"
+	"math"
+	"sync"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"liftfuse/methods"
+)
+
+// Robust layer: each entry's errors may be inflated by κ with prior
+// probability offPrior (model.md, "Agreement").
+const (
+	kappa    = 5.0
+	offPrior = 0.05
+	// flagP and flagOff are the agreement flag's thresholds
+	// (result-format.md): p-value below 0.05, or P(off) above 0.5.
+	flagP   = 0.05
+	flagOff = 0.5
+)
+
+// Input is what a campaign-level fusion needs, all of it already reduced by
+// the adapters.
+type Input struct {
+	Evidence      []methods.Evidence
+	Settings      Settings
+	Reference     string    // reference configuration of the deltas
+	SpeedsKmh     []float64 // report speeds
+	Rho           float64   // air density for forces at the report speeds
+	FrontalAreaM2 float64   // 0: no SAE coefficients
+	Warnings      []string  // carried into the result
+}
+
+// Fused holds the posteriors behind a Result, for charts and planning.
+type Fused struct {
+	Posterior  *Posterior
+	Standalone map[string]*Posterior
+	Others     map[string]*Posterior
+	Result     *Result
+}
+
+// Run fuses every entry, computes each entry's standalone posterior and its
+// agreement with the others, and fills the result document (all but the
+// campaign's title, hash and tool version, which the caller knows).
+func Run(in Input) (*Fused, error) {
+	set := in.Settings.withDefaults()
+	full, err := newModel(in.Evidence, set)
+	if err != nil {
+		return nil, err
+	}
+	P, err := full.fit()
+	if err != nil {
+		return nil, err
+	}
+	res := &Result{Format: ResultFormat, Credible: set.Credible, Air: AirInfo{DensityKgM3: in.Rho, Method: "CIPM-2007"},
+		Warnings: append([]string(nil), in.Warnings...)}
+	out := &Fused{Posterior: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res}
+
+	informed := map[string]bool{}
+	for _, ev := range in.Evidence {
+		for _, q := range ev.Informs {
+			informed[q.Config] = true
+		}
+	}
+	for _, c := range set.Configs {
+		cr := ConfigResult{ID: c, PriorOnly: !informed[c]}
+		if cr.PriorOnly {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
+		}
+		cr.Front = axle(P, c, methods.AxleFront)
+		cr.Rear = axle(P, c, methods.AxleRear)
+		cr.Total = axle(P, c, methods.AxleTotal)
+		cr.FrontShare = P.Ratio([]methods.Term{{Config: c, Axle: methods.AxleFront, W: 1}}, []methods.Term{{Config: c, Axle: methods.AxleTotal, W: 1}})
+		for _, v := range in.SpeedsKmh {
+			q := methods.DynamicPressure(in.Rho, methods.KmhToMs(v))
+			at := func(ax string) Estimate { e, _ := P.At(v, methods.Term{Config: c, Axle: ax, W: q}); return e }
+			cr.AtSpeeds = append(cr.AtSpeeds, SpeedResult{SpeedKmh: v, FrontN: at(methods.AxleFront), RearN: at(methods.AxleRear), TotalN: at(methods.AxleTotal)})
+		}
+		if A := in.FrontalAreaM2; A > 0 {
+			cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
+		}
+		res.Configs = append(res.Configs, cr)
+	}
+	for _, c := range set.Configs {
+		if c == in.Reference {
+			continue
+		}
+		d := DeltaResult{Config: c, Versus: in.Reference}
+		for _, ax := range []string{methods.AxleFront, methods.AxleRear, methods.AxleTotal} {
+			e, pn := P.Delta(c, in.Reference, ax)
+			ar := AxleResult{CLA: e, PDownforce: pn}
+			switch ax {
+			case methods.AxleFront:
+				d.Front = ar
+			case methods.AxleRear:
+				d.Rear = ar
+			default:
+				d.Total = ar
+			}
+		}
+		res.Deltas = append(res.Deltas, d)
+	}
+
+	// Each entry alone, and every entry but it: independent fits, run two
+	// at a time (each is seeded on its own, so the order does not matter).
+	M := len(in.Evidence)
+	start := map[string]float64{}
+	for i, p := range full.phi {
+		if P.p.phiMode != nil {
+			start[p.name] = P.p.phiMode[i]
+		}
+	}
+	full.start = start
+	alone := make([]*Posterior, M)
+	others := make([]*Posterior, M)
+	pOffs := make([]float64, M)
+	errs := make([]error, 2*M)
+	jobs := make(chan int)
+	var wg sync.WaitGroup
+	for range 2 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for j := range jobs {
+				ei := j / 2
+				ev := in.Evidence[ei]
+				if j%2 == 0 {
+					var am *model
+					am, errs[j] = newModel([]methods.Evidence{ev}, set)
+					if errs[j] == nil {
+						am.start = start
+						alone[ei], errs[j] = am.fit()
+					}
+					if errs[j] != nil {
+						errs[j] = fmt.Errorf("entry %q alone: %w", ev.Entry, errs[j])
+					}
+					continue
+				}
+				if M == 1 {
+					continue
+				}
+				rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
+				om, err := newModel(rest, set)
+				if err == nil {
+					om.start = start
+					others[ei], err = om.fit()
+				}
+				if err != nil {
+					errs[j] = fmt.Errorf("every entry but %q: %w", ev.Entry, err)
+					continue
+				}
+				pOffs[ei] = full.pOff(ei, P.p.logZ)
+			}
+		}()
+	}
+	for j := range 2 * M {
+		jobs <- j
+	}
+	close(jobs)
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	for ei, ev := range in.Evidence {
+		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind)}
+		out.Standalone[ev.Entry] = alone[ei]
+		for _, q := range ev.Informs {
+			e, pn := alone[ei].Quantity(q)
+			mr.Standalone = append(mr.Standalone, StandaloneResult{Config: q.Config, Axle: q.Axle, CLA: e, PDownforce: pn})
+		}
+		if M > 1 {
+			O := others[ei]
+			out.Others[ev.Entry] = O
+			ag := agreement(full, ei, ev, alone[ei], O)
+			ag.POff = pOffs[ei]
+			ag.Flag = ag.PValue < flagP || ag.POff > flagOff
+			if ag.Flag {
+				msg := fmt.Sprintf("entry %q disagrees with the others (distance %.2f, p = %.3g, P(off) = %.2f)", ev.Entry, ag.Distance, ag.PValue, ag.POff)
+				if w := ag.Worst; w != nil {
+					msg += fmt.Sprintf(": most on %s %s, by %+.3f m² (%.1f sd)", w.Config, w.Axle, w.DiffM2, w.Sigmas)
+				}
+				res.Warnings = append(res.Warnings, msg)
+			}
+			mr.Agreement = ag
+		}
+		res.Methods = append(res.Methods, mr)
+	}
+	if len(in.Evidence) == 1 {
+		res.Warnings = append(res.Warnings, "a single evidence entry: nothing to check it against, so no agreement figures")
+	}
+	d := P.Diagnostics()
+	doc := &DiagnosticsDoc{Sampler: d.Sampler, Draws: d.Draws, Seed: d.Seed}
+	if !P.p.gaussian {
+		r, e := d.RhatMax, d.ESSMin
+		doc.RhatMax, doc.ESSMin = &r, &e
+		if r > 1.01 || e < 400 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("sampler diagnostics are poor (R̂ %.3f, ESS %.0f): treat the intervals with care", r, e))
+		}
+	}
+	res.Diagnostics = doc
+	return out, nil
+}
+
+func axle(P *Posterior, config, ax string) AxleResult {
+	e, pn := P.Quantity(methods.Quantity{Config: config, Axle: ax})
+	return AxleResult{CLA: e, PDownforce: pn}
+}
+
+// agreement compares entry ev's standalone posterior with the others' on
+// the quantities it informs: the Mahalanobis distance
+//
+//	d² = Δᵀ (C_alone + C_others)⁻¹ Δ,   p = P(χ²_k > d²)
+//
+// (the two posteriors are independent given the prior, which is wide). For
+// sign evidence it is the posterior predictive p-value of the observed
+// senses under the others' posterior, with T = −Σ log P(sense | θ).
+func agreement(full *model, ei int, ev methods.Evidence, alone, others *Posterior) *Agreement {
+	if len(ev.Blocks) == 0 && len(ev.Signs) > 0 {
+		return signAgreement(full, ei, others)
+	}
+	k := len(ev.Informs)
+	if k == 0 {
+		return &Agreement{PValue: 1, Note: "informs no quantity"}
+	}
+	series := func(P *Posterior) ([][]float64, []float64) {
+		xs := make([][]float64, k)
+		means := make([]float64, k)
+		for i, q := range ev.Informs {
+			xs[i] = flatten(P.seriesOf(P.weights([]methods.Term{{Config: q.Config, Axle: q.Axle, W: 1}})))
+			means[i], _ = meanVar(xs[i])
+		}
+		return xs, means
+	}
+	xa, ma := series(alone)
+	xo, mo := series(others)
+	C := mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			C.SetSym(i, j, covariance(xa[i], xa[j])+covariance(xo[i], xo[j]))
+		}
+	}
+	diff := make([]float64, k)
+	ag := &Agreement{}
+	worst := -1.0
+	for i := range k {
+		diff[i] = ma[i] - mo[i]
+		if s := math.Abs(diff[i]) / math.Sqrt(C.At(i, i)); s > worst {
+			worst = s
+			ag.Worst = &Disagreement{Config: ev.Informs[i].Config, Axle: ev.Informs[i].Axle, DiffM2: diff[i], Sigmas: diff[i] / math.Sqrt(C.At(i, i))}
+		}
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(C) {
+		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
+		return ag
+	}
+	dv := mat.NewVecDense(k, diff)
+	var x mat.VecDense
+	if err := ch.SolveVecTo(&x, dv); err != nil {
+		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
+		return ag
+	}
+	d2 := mat.Dot(dv, &x)
+	ag.Distance = math.Sqrt(d2)
+	ag.PValue = distuv.ChiSquared{K: float64(k)}.Survival(d2)
+	return ag
+}
+
+func covariance(a, b []float64) float64 {
+	ma, _ := meanVar(a)
+	mb, _ := meanVar(b)
+	var s float64
+	for i := range a {
+		s += (a[i] - ma) * (b[i] - mb)
+	}
+	return s / float64(len(a)-1)
+}
+
+// signAgreement is the posterior predictive check of an entry's signs
+// under the others' posterior (Gelman, Meng & Stern 1996): for each draw θ
+// a replicate set of senses is simulated, and p is the share of draws whose
+// replicate is at least as improbable as what was observed.
+func signAgreement(full *model, ei int, others *Posterior) *Agreement {
+	var signs []*sign
+	for i := range full.signs {
+		if full.signs[i].entry == ei {
+			signs = append(signs, &full.signs[i])
+		}
+	}
+	vals := make([][]float64, len(signs))
+	for i, s := range signs {
+		w := append(append([]entryRef(nil), s.lift...), s.gamma...)
+		vals[i] = flatten(others.seriesOf(w))
+	}
+	n := len(vals[0])
+	rng := newRand(full.set.Seed, 777)
+	extreme := 0
+	for d := range n {
+		var tObs, tRep float64
+		for i, s := range signs {
+			pUp := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(vals[i][d]/s.softness)
+			pObs := pUp
+			if !s.up {
+				pObs = 1 - pUp
+			}
+			tObs -= math.Log(math.Max(pObs, 1e-300))
+			pRep := pUp
+			if rng.Float64() >= pUp {
+				pRep = 1 - pUp
+			}
+			tRep -= math.Log(math.Max(pRep, 1e-300))
+		}
+		if tRep >= tObs {
+			extreme++
+		}
+	}
+	p := float64(extreme) / float64(n)
+	return &Agreement{PValue: p, Distance: math.Abs(distuv.UnitNormal.Quantile(math.Max(p, 1e-300) / 2)),
+		Note: "posterior predictive check of the observed senses under the other entries"}
+}
+
+// pOff is the posterior probability that entry e's errors are inflated by
+// κ, from Laplace estimates of the evidence with and without inflation:
+//
+//	P(off) = π·Z_off / (π·Z_off + (1 − π)·Z),  π = 0.05
+func (m *model) pOff(e int, logZ float64) float64 {
+	alt := &model{set: m.set, entries: m.entries, kinds: m.kinds, lin: m.lin, phi: m.phi, rows: m.rows, blocks: m.blocks,
+		signs: m.signs, beta: m.beta, gamma: m.gamma, groups: m.groups, fullBlocks: m.fullBlocks, informed: m.informed, start: m.start}
+	alt.inflate = append([]float64(nil), m.inflate...)
+	alt.inflate[e] = kappa
+	_, _, logZoff, err := alt.laplace()
+	if err != nil || math.IsNaN(logZoff) {
+		return math.NaN()
+	}
+	return 1 / (1 + (1-offPrior)/offPrior*math.Exp(logZ-logZoff))
+}
+
+// Standalone returns a result document with only each entry's standalone
+// estimates filled (what `reduce --json` prints).
+func Standalone(evs []methods.Evidence, set Settings) (*Result, error) {
+	set = set.withDefaults()
+	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{}}
+	for _, ev := range evs {
+		alone, err := Fit([]methods.Evidence{ev}, set)
+		if err != nil {
+			return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
+		}
+		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind)}
+		for _, q := range ev.Informs {
+			e, pn := alone.Quantity(q)
+			mr.Standalone = append(mr.Standalone, StandaloneResult{Config: q.Config, Axle: q.Axle, CLA: e, PDownforce: pn})
+		}
+		res.Methods = append(res.Methods, mr)
+	}
+	return res, nil
+}
