@@ -36,20 +36,9 @@ func Load(path string, opt Options) (*Campaign, error) {
 // Parse reads a campaign from src; name is used in messages and dir is the
 // folder relative to which the campaign's paths are resolved.
 func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
-	data, err := io.ReadAll(io.LimitReader(src, 64<<20))
+	root, err := readNode(src, name)
 	if err != nil {
-		return nil, Problems{{Where: Where{File: name}, Err: wrapf(ErrFile, "cannot read campaign: %v", err)}}
-	}
-	var doc yaml.Node
-	if err := yaml.NewDecoder(bytes.NewReader(data)).Decode(&doc); err != nil {
-		if err == io.EOF {
-			return nil, Problems{{Where: Where{File: name, Line: 1}, Err: wrapf(ErrSyntax, "empty campaign file")}}
-		}
-		return nil, Problems{syntaxProblem(name, err)}
-	}
-	root := &doc
-	if root.Kind == yaml.DocumentNode && len(root.Content) == 1 {
-		root = root.Content[0]
+		return nil, err
 	}
 	c := &Campaign{File: name, Dir: dir, Files: []string{name}}
 	d := &decoder{file: name}
@@ -77,6 +66,26 @@ func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
 	}
 	c.Warnings = v.warns
 	return c, nil
+}
+
+// readNode reads a YAML document into its root node.
+func readNode(src io.Reader, name string) (*yaml.Node, error) {
+	data, err := io.ReadAll(io.LimitReader(src, 64<<20))
+	if err != nil {
+		return nil, Problems{{Where: Where{File: name}, Err: wrapf(ErrFile, "cannot read: %v", err)}}
+	}
+	var doc yaml.Node
+	if err := yaml.NewDecoder(bytes.NewReader(data)).Decode(&doc); err != nil {
+		if err == io.EOF {
+			return nil, Problems{{Where: Where{File: name, Line: 1}, Err: wrapf(ErrSyntax, "empty file")}}
+		}
+		return nil, Problems{syntaxProblem(name, err)}
+	}
+	root := &doc
+	if root.Kind == yaml.DocumentNode && len(root.Content) == 1 {
+		root = root.Content[0]
+	}
+	return root, nil
 }
 
 // parserProblems are the messages of yaml.v3's parser (not its scanner).
@@ -128,3 +137,28 @@ func unwrapPath(err error) error {
 }
 
 func errorf(format string, args ...any) error { return fmt.Errorf(format, args...) }
+
+// Decode reads YAML from src into v strictly, with the campaign loader's
+// rules (unknown keys, wrong kinds, non-finite numbers and missing required
+// keys are Problems with file:line:column). v must be a pointer to a struct
+// built like Campaign's. It is for other documents of ours, such as the
+// simulation spec.
+func Decode(src io.Reader, name string, v any) error {
+	root, err := readNode(src, name)
+	if err != nil {
+		return err
+	}
+	d := &decoder{file: name}
+	d.decode(root, reflectValue(v), "")
+	if len(d.probs) > 0 {
+		sortProblems(d.probs)
+		return Problems(d.probs)
+	}
+	return nil
+}
+
+// Errorf returns a Problem at w with path, wrapping kind, for documents
+// checked outside this package.
+func Errorf(w Where, path string, kind error, format string, args ...any) *Problem {
+	return &Problem{Where: w, Path: path, Err: wrapf(kind, format, args...)}
+}

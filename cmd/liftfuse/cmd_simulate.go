@@ -1,0 +1,94 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/cobra"
+
+	"liftfuse/methods"
+	"liftfuse/methods/sim"
+)
+
+type simulateOptions struct {
+	spec  string
+	out   string
+	force bool
+}
+
+func newSimulateCmd() *cobra.Command {
+	var o simulateOptions
+	cmd := &cobra.Command{
+		Use:   "simulate SPEC -o DIR",
+		Short: "Write a synthetic campaign (logs included) from a stated truth",
+		Long: `simulate drives a simulated car through a test plan and writes what the
+sensors would have logged: DIR/campaign.yaml, its log and tap readings, and
+DIR/truth.json with the true C_L·A of every configuration. Use it to plan a test
+day before driving it (run plan on the result), or to see how a planted error
+shows up. The spec format is in examples/ducktail-fastback/spec.yaml.`,
+		Example: "  liftfuse simulate examples/ducktail-fastback/spec.yaml -o /tmp/trial && liftfuse plan /tmp/trial/campaign.yaml",
+		Args:    argsExactly(1, "one spec file"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			o.spec = args[0]
+			if o.out == "" {
+				return badInput("-o DIR is required")
+			}
+			return runSimulate(o, cmd.OutOrStdout())
+		},
+	}
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "folder to write the campaign into")
+	cmd.Flags().BoolVar(&o.force, "force", false, "write into a folder that already exists, replacing the campaign's files")
+	return cmd
+}
+
+// runSimulate writes into a temporary folder and moves the files into
+// place only once everything has been written and the campaign validates.
+func runSimulate(o simulateOptions, out io.Writer) error {
+	s, err := sim.Load(o.spec)
+	if err != nil {
+		return err
+	}
+	if _, err := os.Stat(o.out); err == nil && !o.force {
+		return badInput("%s already exists (use --force to write into it)", o.out)
+	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return err
+	}
+	parent := filepath.Dir(filepath.Clean(o.out))
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return err
+	}
+	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(o.out)+".tmp-*")
+	if err != nil {
+		return err
+	}
+	defer os.RemoveAll(tmp)
+	if _, err := sim.Generate(s, tmp); err != nil {
+		return fmt.Errorf("simulate: %w", err)
+	}
+	if _, err := methods.Load(filepath.Join(tmp, "campaign.yaml"), methods.Options{}); err != nil {
+		return fmt.Errorf("the simulated campaign does not validate (a bug, or a spec the campaign format cannot express): %w", err)
+	}
+	if err := os.MkdirAll(o.out, 0o755); err != nil {
+		return err
+	}
+	err = filepath.WalkDir(tmp, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		rel, _ := filepath.Rel(tmp, p)
+		dst := filepath.Join(o.out, rel)
+		if err := os.MkdirAll(filepath.Dir(dst), 0o755); err != nil {
+			return err
+		}
+		return os.Rename(p, dst)
+	})
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(out, "wrote a simulated campaign to %s (truth in %s)\n", filepath.Join(o.out, "campaign.yaml"), filepath.Join(o.out, "truth.json"))
+	return nil
+}

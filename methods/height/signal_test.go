@@ -1,0 +1,155 @@
+package height_test
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/stat"
+
+	"liftfuse/methods"
+	"liftfuse/methods/height"
+)
+
+// tight is the tolerance for values given to about seven significant digits
+// in their sources.
+const tight = 5e-7
+
+func TestEffectiveN(t *testing.T) {
+	// Bayley & Hammersley 1946; Wilks, Statistical Methods in the Atmospheric
+	// Sciences, 3rd ed., eq. 5.12 (from memory): n(1 − r)/(1 + r).
+	tests := []struct {
+		name string
+		n    int
+		r    float64
+		want float64
+	}{
+		{"moderate correlation", 1000, 0.5, 333.3333},
+		{"strong correlation", 1000, 0.9, 52.6316},
+		{"independent", 1000, 0, 1000},
+		{"negative correlation is clamped to n", 1000, -0.3, 1000},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := height.EffectiveN(tt.n, tt.r); math.Abs(got-tt.want) > 1e-4 {
+				t.Errorf("EffectiveN(%d, %g) = %.4f, want %.4f", tt.n, tt.r, got, tt.want)
+			}
+		})
+	}
+}
+
+func TestBatchMeansVar(t *testing.T) {
+	// Worked by hand: x = 1…8 in batches of 2 gives batch means 1.5, 3.5,
+	// 5.5, 7.5; their sample variance is 6.6667, and over 4 batches
+	// Var(x̄) = 6.6667/4 = 1.6667.
+	sums := []float64{1 + 2, 3 + 4, 5 + 6, 7 + 8}
+	got, ok := height.BatchMeansVar(sums, 2)
+	if !ok || math.Abs(got-1.666667) > 1e-6 {
+		t.Errorf("BatchMeansVar = %v (%v), want 1.6667", got, ok)
+	}
+	if _, ok := height.BatchMeansVar(sums[:1], 2); ok {
+		t.Error("one batch cannot estimate a variance")
+	}
+}
+
+func TestLowPass(t *testing.T) {
+	// Exact zero-order-hold discretisation of a first-order lag (Franklin,
+	// Powell & Workman, Digital Control of Dynamic Systems — from memory):
+	// α = 1 − e^(−Δt/τ); after t = τ a unit step has risen to 1 − e⁻¹.
+	const tau, dt = 0.1, 0.01
+	if got := height.Alpha(dt, tau); math.Abs(got-0.0951626) > tight {
+		t.Errorf("α = %.7f, want 0.0951626", got)
+	}
+	f := height.LowPass{Tau: tau}
+	f.Step(0, 0)
+	var y float64
+	for i := 1; i <= 10; i++ {
+		y = f.Step(float64(i)*dt, 1)
+	}
+	if math.Abs(y-0.6321206) > tight {
+		t.Errorf("step response at t = τ is %.7f, want 1 − e⁻¹ = 0.6321206", y)
+	}
+	// Cutoff 1/(2πτ) (common practice, no source).
+	if got := height.Cutoff(tau); math.Abs(got-1.59155) > 1e-5 {
+		t.Errorf("cutoff = %.5f Hz, want 1.59155", got)
+	}
+}
+
+func TestMovingAverage(t *testing.T) {
+	m := height.NewMovingAverage(3)
+	var got []float64
+	for _, x := range []float64{3, 6, 9, 12} {
+		got = append(got, m.Step(x))
+	}
+	// Worked by hand: 3, (3+6)/2, (3+6+9)/3, (6+9+12)/3.
+	want := []float64{3, 4.5, 6, 9}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Fatalf("moving average = %v, want %v", got, want)
+		}
+	}
+}
+
+func TestWheelRate(t *testing.T) {
+	// Milliken & Milliken, Race Car Vehicle Dynamics, ch. 16 (from memory):
+	// 50 N/mm through an installation ratio of 0.7 is 24.5 N/mm at the
+	// wheel; with a 209.65 N/mm tyre in series, 21.94 N/mm.
+	kw := height.WheelRate(50, 0.7)
+	if math.Abs(kw-24.5) > 1e-12 {
+		t.Errorf("wheel rate %v, want 24.5", kw)
+	}
+	if got := height.Series(kw, 209.65); math.Abs(got-21.94) > 0.005 {
+		t.Errorf("with the tyre in series %v, want 21.94", got)
+	}
+	// The axle heave stiffness a pot sees is both wheels: 2·k·MR².
+	s := height.SpringStiffness("front", methods.Axle{SpringNPerMm: 50, SpringSDPct: 5, MotionRatio: 0.7, MotionRatioSD: 0.014, TyreNPerMm: 209.65, TyreSDPct: 10}, false)
+	if math.Abs(s.K-49) > 1e-12 {
+		t.Errorf("pot stiffness %v N/mm, want 49", s.K)
+	}
+	// First-order relative sd: √(0.05² + (2·0.014/0.7)²) = √(0.0025 + 0.0016).
+	if math.Abs(s.RelSD()-math.Sqrt(0.0041)) > 1e-12 {
+		t.Errorf("relative sd %v, want %v", s.RelSD(), math.Sqrt(0.0041))
+	}
+	l := height.SpringStiffness("front", methods.Axle{SpringNPerMm: 50, MotionRatio: 0.7, TyreNPerMm: 209.65}, true)
+	if math.Abs(l.K-2*21.94) > 0.01 {
+		t.Errorf("laser stiffness %v N/mm, want 2 × 21.94", l.K)
+	}
+}
+
+func TestBallastAgainstGonum(t *testing.T) {
+	pts := []methods.BallastPoint{
+		{AddedKg: 0, XM: 2.3, Signal: 2.204},
+		{AddedKg: 40, XM: 2.3, Signal: 2.151},
+		{AddedKg: 80, XM: 2.3, Signal: 2.097},
+		{AddedKg: 120, XM: 2.1, Signal: 2.052},
+	}
+	const L = 2.58
+	cal := height.Calibration{Gain: 24}
+	s, err := height.BallastStiffness("rear-pot", methods.AxleRear, pts, L, cal)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var xs, ys []float64
+	for _, p := range pts {
+		xs = append(xs, p.AddedKg*methods.StandardGravity*p.XM/L)
+		ys = append(ys, 24*p.Signal)
+	}
+	_, slope := stat.LinearRegression(xs, ys, nil, false)
+	if math.Abs(s.K-(-1/slope)) > 1e-9*s.K {
+		t.Errorf("K = %v, gonum's regression gives %v", s.K, -1/slope)
+	}
+	if !s.GainCancels || s.SE <= 0 {
+		t.Errorf("a ballast stiffness is in the sensor's units (gain cancels) and has a standard error: %+v", s)
+	}
+	if _, err := height.BallastStiffness("x", methods.AxleRear, []methods.BallastPoint{{AddedKg: 0, XM: 2, Signal: 1}, {AddedKg: 50, XM: 2, Signal: 1.1}}, L, cal); err == nil {
+		t.Error("a body that rises under ballast was accepted")
+	}
+}
+
+func ExampleSpringStiffness() {
+	front := methods.Axle{SpringNPerMm: 32, SpringSDPct: 5, MotionRatio: 0.92, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 10}
+	pot := height.SpringStiffness("front", front, false)
+	laser := height.SpringStiffness("front", front, true)
+	fmt.Printf("pot sees %.1f N/mm ± %.1f %%, laser sees %.1f N/mm ± %.1f %%\n", pot.K, 100*pot.RelSD(), laser.K, 100*laser.RelSD())
+	// Output: pot sees 54.2 N/mm ± 6.6 %, laser sees 48.5 N/mm ± 6.0 %
+}
