@@ -135,10 +135,15 @@ func BatchMeansVar(sums []float64, b int) (float64, bool) {
 }
 
 // standardError returns the window mean's standard error: the larger of the
-// batch-means estimate and the AR(1) one, s/√n_eff.
+// batch-means estimate and the AR(1) one, s/√n_eff. The lag-one
+// correlation of a short series is biased low, E[r̂] ≈ r − (1 + 3r)/n
+// (Kendall 1954; Marriott & Pope 1954 — from memory), which would make the
+// window look more informative than it is; r̂ is corrected by that amount.
 func (w *windowStats) standardError() (se, neff float64) {
 	s2 := w.variance()
-	neff = EffectiveN(w.n, w.lag1())
+	r := w.lag1()
+	r = math.Min(r+(1+3*r)/float64(w.n), 0.99)
+	neff = EffectiveN(w.n, r)
 	v := s2 / neff
 	if bv, ok := w.batchVar(); ok && bv > v {
 		v = bv

@@ -2,6 +2,7 @@ package sim
 
 import (
 	"fmt"
+	"io"
 	"os"
 
 	"liftfuse/methods"
@@ -137,15 +138,20 @@ type Vortex struct {
 	Misread   float64       `yaml:"misread"`
 }
 
-// Load reads a spec strictly.
+// Load reads a spec file strictly.
 func Load(path string) (*Spec, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, methods.Problems{methods.Errorf(methods.Where{File: path}, "", methods.ErrFile, "cannot read spec: %v", err)}
 	}
 	defer f.Close()
+	return Parse(f, path)
+}
+
+// Parse reads a spec from src; name is used in messages.
+func Parse(src io.Reader, name string) (*Spec, error) {
 	var s Spec
-	if err := methods.Decode(f, path, &s); err != nil {
+	if err := methods.Decode(src, name, &s); err != nil {
 		return nil, err
 	}
 	if s.Format != 1 {
