@@ -61,14 +61,14 @@ func (m *model) liftFactor(r *row, phi []float64) (float64, float64) {
 }
 
 // inflation returns how much an entry-owned prior is widened: κ when every
-// owner of the parameter is inflated, else 1.
+// owner of the parameter has its systematic errors inflated, else 1.
 func (m *model) inflation(owners map[int]bool) float64 {
 	k := 1.0
 	for e := range owners {
-		if m.inflate[e] == 1 {
+		if m.inflateSys[e] == 1 {
 			return 1
 		}
-		k = m.inflate[e]
+		k = m.inflateSys[e]
 	}
 	return k
 }

@@ -146,9 +146,11 @@ type model struct {
 	start map[string]float64
 	beta  map[[2]string]int // (config, axle) → column of β
 	gamma map[[2]string]int
-	// inflate[e] > 1 multiplies entry e's error sd and its own nuisance and
-	// scale prior sds (the robust layer's "entry looks off" alternative).
-	inflate []float64
+	// The robust layer's "entry looks off" alternatives: inflate[e] > 1
+	// multiplies entry e's random error sd (and makes its signs
+	// uninformative); inflateSys[e] > 1 multiplies the prior sds of the
+	// nuisances and scale factors that e alone owns.
+	inflate, inflateSys []float64
 }
 
 // vref is V_ref of the linear speed model, m/s.
@@ -197,6 +199,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 		}
 		m.kinds = append(m.kinds, ev.Kind)
 		m.inflate = append(m.inflate, 1)
+		m.inflateSys = append(m.inflateSys, 1)
 		for _, n := range ev.Nuisances {
 			if winds[n.Name] {
 				if i, ok := phiIdx[n.Name]; ok {

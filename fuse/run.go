@@ -166,13 +166,40 @@ func Run(in Input) (*Fused, error) {
 			return nil, err
 		}
 	}
+	// An entry that looks off would drag the others' posterior along and
+	// make the good entries disagree with it: where some other entry looks
+	// off, compare with the others fused with that entry's errors inflated.
 	for ei, ev := range in.Evidence {
-		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind)}
-		out.Standalone[ev.Entry] = alone[ei]
-		for _, q := range ev.Informs {
-			e, pn := alone[ei].Quantity(q)
-			mr.Standalone = append(mr.Standalone, StandaloneResult{Config: q.Config, Axle: q.Axle, CLA: e, PDownforce: pn})
+		if M == 1 {
+			break
 		}
+		off := map[int]bool{}
+		k := 0
+		for j := range in.Evidence {
+			if j == ei {
+				continue
+			}
+			if pOffs[j] > flagOff {
+				off[k] = true
+			}
+			k++
+		}
+		if len(off) == 0 {
+			continue
+		}
+		rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
+		om, err := newModel(rest, set)
+		if err != nil {
+			return nil, err
+		}
+		om.start = start
+		if others[ei], err = om.variant(off, true, true).fit(); err != nil {
+			return nil, fmt.Errorf("every entry but %q, robustly: %w", ev.Entry, err)
+		}
+	}
+	for ei, ev := range in.Evidence {
+		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(alone[ei], ev)}
+		out.Standalone[ev.Entry] = alone[ei]
 		if M > 1 {
 			O := others[ei]
 			out.Others[ev.Entry] = O
@@ -325,19 +352,55 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 }
 
 // pOff is the posterior probability that entry e's errors are inflated by
-// κ, from Laplace estimates of the evidence with and without inflation:
+// κ. "Off" is either of two alternatives, equally likely: its random errors
+// are κ times larger, or the priors of its own systematic errors (stiffness,
+// gain, tyre growth, offsets, …) are κ times wider. From Laplace estimates
+// of the evidence of each,
 //
-//	P(off) = π·Z_off / (π·Z_off + (1 − π)·Z),  π = 0.05
+//	P(off) = π·Z_off / (π·Z_off + (1 − π)·Z),  Z_off = ½(Z_noise + Z_sys),  π = 0.05
 func (m *model) pOff(e int, logZ float64) float64 {
+	var logZs []float64
+	for _, sys := range []bool{false, true} {
+		alt := m.variant(map[int]bool{e: true}, !sys, sys)
+		_, _, lz, err := alt.laplace()
+		if err != nil || math.IsNaN(lz) {
+			continue
+		}
+		logZs = append(logZs, lz)
+	}
+	if len(logZs) == 0 {
+		return 0
+	}
+	// log Z_off = log ½ Σ Z_k, computed stably.
+	mx := math.Inf(-1)
+	for _, l := range logZs {
+		mx = math.Max(mx, l)
+	}
+	var s float64
+	for _, l := range logZs {
+		s += math.Exp(l - mx)
+	}
+	logZoff := mx + math.Log(s/2)
+	return 1 / (1 + (1-offPrior)/offPrior*math.Exp(logZ-logZoff))
+}
+
+// variant returns a copy of the model (sharing its data) with the entries
+// in off inflated by κ: their random errors when noise is set, their own
+// systematic priors when sys is set.
+func (m *model) variant(off map[int]bool, noise, sys bool) *model {
 	alt := &model{set: m.set, entries: m.entries, kinds: m.kinds, lin: m.lin, phi: m.phi, rows: m.rows, blocks: m.blocks,
 		signs: m.signs, beta: m.beta, gamma: m.gamma, groups: m.groups, fullBlocks: m.fullBlocks, informed: m.informed, start: m.start}
 	alt.inflate = append([]float64(nil), m.inflate...)
-	alt.inflate[e] = kappa
-	_, _, logZoff, err := alt.laplace()
-	if err != nil || math.IsNaN(logZoff) {
-		return math.NaN()
+	alt.inflateSys = append([]float64(nil), m.inflateSys...)
+	for e := range off {
+		if noise {
+			alt.inflate[e] = kappa
+		}
+		if sys {
+			alt.inflateSys[e] = kappa
+		}
 	}
-	return 1 / (1 + (1-offPrior)/offPrior*math.Exp(logZ-logZoff))
+	return alt
 }
 
 // Standalone returns a result document with only each entry's standalone
@@ -350,12 +413,18 @@ func Standalone(evs []methods.Evidence, set Settings) (*Result, error) {
 		if err != nil {
 			return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
 		}
-		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind)}
-		for _, q := range ev.Informs {
-			e, pn := alone.Quantity(q)
-			mr.Standalone = append(mr.Standalone, StandaloneResult{Config: q.Config, Axle: q.Axle, CLA: e, PDownforce: pn})
-		}
-		res.Methods = append(res.Methods, mr)
+		res.Methods = append(res.Methods, MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(alone, ev)})
 	}
 	return res, nil
+}
+
+// standalone lists what a posterior of one entry says of the quantities the
+// entry informs.
+func standalone(P *Posterior, ev methods.Evidence) []StandaloneResult {
+	var out []StandaloneResult
+	for _, q := range ev.Informs {
+		e, pn := P.Quantity(q)
+		out = append(out, StandaloneResult{Config: q.Config, Axle: q.Axle, CLA: e, PDownforce: pn})
+	}
+	return out
 }

@@ -208,7 +208,7 @@ func (g *gen) writeLog(name string) error {
 // tapCp returns each tap's Cp for a configuration: the base shape plus two
 // smooth modes on the upper surface, scaled so that taps and uncovered
 // patches together carry β_f − m and β_r + m (m the pitch of drag).
-func (g *gen) tapCp(p *Pressure, c Config) []float64 {
+func (g *gen) tapCp(p *Pressure, c Config, kmh float64) []float64 {
 	L := g.s.Vehicle.WheelbaseM
 	m := 0.0
 	if d := g.s.Vehicle.Drag; d != nil {
@@ -246,8 +246,8 @@ func (g *gen) tapCp(p *Pressure, c Config) []float64 {
 	// The pressure field carries s·β: a true integration scale other than 1
 	// plants an error that the method's scale factor must absorb.
 	k := g.s.Truth.PressureScale
-	tf := k*g.lift(c, methods.AxleFront, methods.RefSpeedKmh) - m - f0
-	tr := k*g.lift(c, methods.AxleRear, methods.RefSpeedKmh) + m - r0
+	tf := k*g.lift(c, methods.AxleFront, kmh) - m - f0
+	tr := k*g.lift(c, methods.AxleRear, kmh) + m - r0
 	det := fa*rb - fb*ra
 	a := (tf*rb - fb*tr) / det
 	b := (fa*tr - tf*ra) / det
@@ -269,8 +269,8 @@ func (g *gen) writeReadings(name string, p *Pressure) error {
 	}
 	b.WriteString("\n")
 	for _, c := range g.s.Configurations {
-		cp := g.tapCp(p, c)
 		for _, kmh := range p.SpeedsKmh {
+			cp := g.tapCp(p, c, kmh)
 			for _, dir := range []float64{1, -1} {
 				q := methods.DynamicPressure(g.rho, methods.KmhToMs(kmh)+dir*g.s.Air.WindMs)
 				ref := p.ReferenceSDPa * g.rng.NormFloat64()
