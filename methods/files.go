@@ -127,6 +127,7 @@ func (v *validator) scanLog(l *LogSpec, path string) {
 		v.errs = append(v.errs, logProblem(err, path))
 		return
 	}
+	defer r.Close()
 	r.Increasing = ix.Time
 	t0, t1, rows := math.Inf(1), math.Inf(-1), 0
 	unknown := map[string]bool{}

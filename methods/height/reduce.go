@@ -60,6 +60,7 @@ func Windows(src io.Reader, name string, e *methods.RideHeightEntry, li int, cal
 	if err != nil {
 		return nil, nil, err
 	}
+	defer r.Close()
 	r.Increasing = ix.Time
 	segs := append([]methods.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })

@@ -15,6 +15,7 @@ type LowPass struct {
 	y     float64
 	t     float64
 	begun bool
+	dt, a float64 // the last step and its α, reused while the rate holds
 }
 
 // Alpha returns the smoothing factor for a step dt with time constant tau.
@@ -30,7 +31,12 @@ func (f *LowPass) Step(t, x float64) float64 {
 		f.y, f.t, f.begun = x, t, true
 		return x
 	}
-	f.y += Alpha(t-f.t, f.Tau) * (x - f.y)
+	// Logged times carry rounding, so a step within 1e-9 of the last one
+	// reuses its α (the difference is far below any filter's concern).
+	if dt := t - f.t; math.Abs(dt-f.dt) > 1e-9*f.dt {
+		f.dt, f.a = dt, Alpha(dt, f.Tau)
+	}
+	f.y += f.a * (x - f.y)
 	f.t = t
 	return f.y
 }

@@ -128,3 +128,62 @@ func smallExp(b []byte) (int, bool) {
 	}
 	return e, true
 }
+
+// prefixFloat parses the plain decimal number at the start of b (sign,
+// digits, optional fraction; no exponent) and returns it with the bytes it
+// took. ok is false when the prefix is not such a number or carries more
+// than 15 significant digits; the caller then takes the general path. The
+// result is exact by the same argument as fastFloat's.
+func prefixFloat(b []byte) (x float64, n int, ok bool) {
+	i := 0
+	neg := false
+	if i < len(b) && (b[i] == '-' || b[i] == '+') {
+		neg = b[i] == '-'
+		i++
+	}
+	var mant uint64
+	digits, exp := 0, 0
+	start := i
+	for ; i < len(b); i++ {
+		c := b[i] - '0'
+		if c > 9 {
+			break
+		}
+		if mant == 0 && c == 0 {
+			continue
+		}
+		mant = mant*10 + uint64(c)
+		digits++
+	}
+	intDigits := i - start
+	frac := 0
+	if i < len(b) && b[i] == '.' {
+		i++
+		fs := i
+		for ; i < len(b); i++ {
+			c := b[i] - '0'
+			if c > 9 {
+				break
+			}
+			if mant == 0 && c == 0 {
+				exp--
+				continue
+			}
+			mant = mant*10 + uint64(c)
+			digits++
+			exp--
+		}
+		frac = i - fs
+	}
+	if intDigits+frac == 0 || digits > 15 || -exp > 22 {
+		return 0, i, false
+	}
+	x = float64(mant)
+	if exp < 0 {
+		x /= pow10[-exp]
+	}
+	if neg {
+		x = math.Copysign(x, -1)
+	}
+	return x, i, true
+}

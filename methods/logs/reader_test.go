@@ -4,6 +4,7 @@ import (
 	"errors"
 	"io"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -142,4 +143,57 @@ func FuzzReader(f *testing.F) {
 			t.Fatalf("error %v is not a positioned ParseError", err)
 		}
 	})
+}
+
+// readOne parses s as the single cell of a one-column log.
+func readOne(s string) (float64, error) {
+	r, err := logs.NewReader(strings.NewReader("x\n"+s+"\n"), "one.csv", []logs.Column{{Name: "x"}})
+	if err != nil {
+		return 0, err
+	}
+	defer r.Close()
+	if !r.Next() {
+		return 0, r.Err()
+	}
+	return r.Float(0), nil
+}
+
+// checkCell: a cell read through the log reader's fast path must give
+// strconv.ParseFloat's bits exactly, and fail where strconv fails or the
+// value is not finite.
+func checkCell(t *testing.T, s string) {
+	t.Helper()
+	if strings.ContainsAny(s, ",\n\r\"") || strings.TrimSpace(s) == "" {
+		return // not a single cell
+	}
+	want, werr := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	got, gerr := readOne(s)
+	if werr != nil || math.IsInf(want, 0) || math.IsNaN(want) {
+		if gerr == nil {
+			t.Fatalf("cell %q read as %v, strconv: %v", s, got, werr)
+		}
+		return
+	}
+	if gerr != nil || math.Float64bits(got) != math.Float64bits(want) {
+		t.Fatalf("cell %q read as %v (%v), strconv gives %v", s, got, gerr, want)
+	}
+}
+
+func TestCellsExact(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 5))
+	for _, s := range []string{"0", "-0", "0.1", "-12.345", "123456789012345", "1234567890123456", "0.00000000000000000001234",
+		"1.", ".5", "-.5", "+7", "1e3", " 4.25 ", "00012.5000", "9007199254740993", "3.141592653589793238"} {
+		checkCell(t, s)
+	}
+	for range 3000 {
+		s := strconv.FormatFloat((rng.Float64()-0.5)*math.Pow(10, float64(rng.IntN(12)-4)), 'f', rng.IntN(9), 64)
+		checkCell(t, s)
+	}
+}
+
+func FuzzCellExact(f *testing.F) {
+	for _, s := range []string{"1.5", "-0.001", "123456.789", "7", "1e-3"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) { checkCell(t, s) })
 }

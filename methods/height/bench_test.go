@@ -1,0 +1,87 @@
+package height_test
+
+import (
+	"bufio"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"liftfuse/methods"
+	"liftfuse/methods/height"
+)
+
+// bigLog writes (once per run) a 1 kHz, 30-minute log of 8 columns — the
+// size of a serious test day, about 100 MB — and returns its path. The
+// speed cycles through steady holds so that the reduction finds windows.
+func bigLog(tb testing.TB) string {
+	tb.Helper()
+	name := filepath.Join(os.TempDir(), "liftfuse-bench-1khz-30min.csv")
+	if st, err := os.Stat(name); err == nil && st.Size() > 80<<20 {
+		return name
+	}
+	f, err := os.Create(name + ".tmp")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	w := bufio.NewWriterSize(f, 1<<20)
+	rng := rand.New(rand.NewPCG(1, 2))
+	fmt.Fprintln(w, "t_s,v_kmh,dir,front_pot_v,rear_pot_v,rear_laser_mm,coolant_c,steer_deg")
+	for i := range 1_800_000 {
+		t := float64(i) / 1000
+		phase := math.Mod(t, 60)
+		v := 120.0
+		switch {
+		case phase < 10:
+			v = 35
+		case phase < 15:
+			v = 35 + 17*(phase-10)
+		case phase > 50:
+			v = 120 - 17*(phase-50)
+		}
+		v += 0.3 * rng.NormFloat64()
+		dir := 1
+		if int(t/60)%2 == 1 {
+			dir = -1
+		}
+		fmt.Fprintf(w, "%.3f,%.2f,%d,%.4f,%.4f,%.2f,%.1f,%.2f\n", t, v, dir, 2+0.01*rng.NormFloat64(), 1.6+0.01*rng.NormFloat64(),
+			118+0.4*rng.NormFloat64(), 88+rng.Float64(), rng.NormFloat64())
+	}
+	if err := w.Flush(); err != nil {
+		tb.Fatal(err)
+	}
+	f.Close()
+	if err := os.Rename(name+".tmp", name); err != nil {
+		tb.Fatal(err)
+	}
+	return name
+}
+
+// BenchmarkReduceLog: the whole reduction of one entry over the big log —
+// parsing, steady windows, filters, evidence. Reported as MB/s of log.
+func BenchmarkReduceLog(b *testing.B) {
+	name := bigLog(b)
+	st, _ := os.Stat(name)
+	c := &methods.Campaign{
+		Vehicle:        methods.Vehicle{WheelbaseM: 2.5, Axles: methods.Axles{Front: methods.Axle{SpringNPerMm: 30, SpringSDPct: 5, MotionRatio: 0.9, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 8}}},
+		Configurations: []methods.Configuration{{ID: "base"}},
+		Air:            methods.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400, WindSDMs: 1},
+	}
+	e := &methods.RideHeightEntry{ID: "pot", Axle: "front", Sensor: "pot",
+		Calibration: methods.Calibration{MmPerUnit: 24, SDPct: 1}, Stiffness: methods.Stiffness{From: "springs"},
+		Steady: methods.Steady{SpeedTolKmh: 1.5, MinDurationS: 4}, FilterTauS: 0.5,
+		Logs: []methods.LogSpec{{File: name, Time: "t_s", SpeedKmh: "v_kmh", Signal: "front_pot_v", Direction: "dir"}}}
+	b.SetBytes(st.Size())
+	b.ReportAllocs()
+	for b.Loop() {
+		r, err := height.Reduce(c, e, height.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(r.Windows) < 50 {
+			b.Fatalf("only %d windows", len(r.Windows))
+		}
+	}
+}
