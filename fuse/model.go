@@ -68,6 +68,7 @@ type phiParam struct {
 	label  string
 	sd     float64
 	wind   bool
+	perRun bool
 	unit   string
 	owners map[int]bool
 }
@@ -210,7 +211,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 					continue
 				}
 				phiIdx[n.Name] = len(m.phi)
-				m.phi = append(m.phi, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, unit: n.Unit, owners: map[int]bool{ei: true}})
+				m.phi = append(m.phi, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit, owners: map[int]bool{ei: true}})
 				continue
 			}
 			if i, ok := nuisIdx[n.Name]; ok {

@@ -157,6 +157,12 @@ type Nuisance struct {
 	Mean  float64
 	SD    float64
 	Flat  bool
+	// PerRun marks a nuisance that belongs to one set of runs (a log's
+	// static offset and drift, the day's wind): repeating the runs brings a
+	// fresh copy of it, where a shared error (springs, gain, tyre growth,
+	// reference port, method scale) stays the same and does not average
+	// down. Planning reads it.
+	PerRun bool
 }
 
 // ScaleGroup is a multiplicative factor s with a log-normal prior of median 1:

@@ -101,7 +101,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	wind := ""
 	if c.Air.WindSDMs > 0 {
 		wind = methods.WindName
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: methods.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs})
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: methods.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
 	}
 	laser := e.Sensor == methods.SensorLaser
 	growth := e.Axle + "-tyre-growth"
@@ -113,7 +113,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	informs := map[string]bool{}
 	for li := range e.Logs {
 		offset := fmt.Sprintf("%s/offset[%d]", e.ID, li)
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true})
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
 		drift := fmt.Sprintf("%s/drift[%d]", e.ID, li)
 		var tbar float64
 		var obs []methods.Obs
@@ -134,7 +134,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 		}
 		tbar /= float64(nw)
 		if e.Drift {
-			ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS})
+			ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS, PerRun: true})
 		}
 		for i, w := range res.Windows {
 			if w.Log != li {

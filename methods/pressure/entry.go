@@ -57,7 +57,7 @@ func Reduce(c *methods.Campaign, e *methods.PressureEntry, wind string) (*Result
 		scales = []methods.ScaleRef{{Name: e.ID + "/integration", Pow: 1}}
 	}
 	if wind != "" {
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: wind, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs})
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: wind, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
 	}
 	drag := c.Vehicle.Drag
 	if drag != nil {

@@ -1,0 +1,408 @@
+package fuse
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"liftfuse/methods"
+)
+
+// PlanFormat is the format string of the plan document.
+const PlanFormat = "liftfuse.plan/1"
+
+// Target is what a plan tries to pin down: an axle (front, rear or total)
+// of a configuration, or its difference to another configuration.
+type Target struct {
+	Config string   `json:"config"`
+	Axle   string   `json:"axle"`
+	Versus string   `json:"versus,omitempty"`
+	Now    Estimate `json:"now"`
+}
+
+// terms returns the target as terms on β.
+func (t Target) terms() []methods.Term {
+	ts := []methods.Term{{Config: t.Config, Axle: t.Axle, W: 1}}
+	if t.Versus != "" {
+		ts = append(ts, methods.Term{Config: t.Versus, Axle: t.Axle, W: -1})
+	}
+	return ts
+}
+
+func (t Target) String() string {
+	if t.Versus != "" {
+		return fmt.Sprintf("%s %s − %s %s", t.Config, t.Axle, t.Versus, t.Axle)
+	}
+	return t.Config + " " + t.Axle
+}
+
+// PlanOption is what repeating one evidence entry's runs once would buy.
+type PlanOption struct {
+	Entry      string  `json:"entry"`
+	Kind       string  `json:"kind"`
+	CostH      float64 `json:"cost_h"`
+	SDAfter    float64 `json:"sd_after"`
+	RemovedPct float64 `json:"variance_removed_pct"`
+	PerHour    float64 `json:"per_hour"`
+	Why        string  `json:"why"`
+}
+
+// Detectability is what a ride-height entry can resolve.
+type Detectability struct {
+	Entry          string  `json:"entry"`
+	Axle           string  `json:"axle"`
+	ResolvableN100 float64 `json:"resolvable_n_at_100kmh"`
+	SpeedForTarget float64 `json:"speed_kmh_for_target"`
+}
+
+// Discriminator names the repeat that would best tell whether a flagged
+// entry is off.
+type Discriminator struct {
+	Flagged string `json:"flagged"`
+	Repeat  string `json:"repeat"`
+	Why     string `json:"why"`
+}
+
+// Plan is the plan document, format liftfuse.plan/1.
+type Plan struct {
+	Format        string          `json:"format"`
+	Target        Target          `json:"target"`
+	Options       []PlanOption    `json:"options"`
+	Detectability []Detectability `json:"detectability"`
+	Discriminate  []Discriminator `json:"discriminate,omitempty"`
+}
+
+// PlanRepeats ranks every entry by the variance of the target it would
+// remove if its runs were repeated once, per hour of cost. cost maps an
+// entry id to hours (missing: 1 h).
+//
+// The expected posterior after a repeat adds the repeat's Fisher
+// information, at today's posterior mean, in the space of every parameter
+// (lift, nuisances, scale factors, winds):
+//
+//	C' = (C⁻¹ + I_rep)⁻¹,   I_rep = Σ_blocks Jᵀ Σ⁻¹ J  (+ signs' Bernoulli information)
+//
+// with J the Jacobian of the entry's observation means. A repeat shares the
+// entry's systematic errors (springs, gain, tyre growth, reference port,
+// method scale), whose columns stay those of today's parameters, so they do
+// not average down; what belongs to one set of runs (a log's offset and
+// drift, the day's wind) comes new with the repeat and is integrated out:
+// I_eff = I_xx − I_xn (I_nn + P_n)⁻¹ I_nx, P_n the prior precision of the new
+// copies. For a linear-Gaussian campaign this is exact (Chaloner &
+// Verdinelli, "Bayesian experimental design: a review", Statistical Science
+// 10 (1995) 273 — from memory, for the form of the expected information).
+func (f *Fused) PlanRepeats(t Target, cost func(entry string) float64) (*Plan, error) {
+	P := f.Posterior
+	now, _ := P.Linear(t.terms()...)
+	t.Now = now
+	pl := &Plan{Format: PlanFormat, Target: t, Options: []PlanOption{}, Detectability: []Detectability{}}
+	w := P.weights(t.terms())
+	m := P.p.m
+	for e, id := range m.entries {
+		after, err := P.repeatVar(e, w)
+		if err != nil {
+			return nil, fmt.Errorf("planning a repeat of %q: %w", id, err)
+		}
+		v0 := now.SD * now.SD
+		removed := 0.0
+		if v0 > 0 {
+			removed = math.Max(0, 100*(v0-after)/v0)
+		}
+		h := cost(id)
+		pl.Options = append(pl.Options, PlanOption{Entry: id, Kind: string(m.kinds[e]), CostH: h, SDAfter: math.Sqrt(math.Max(after, 0)),
+			RemovedPct: removed, PerHour: removed / h, Why: m.why(e, t, removed)})
+	}
+	sort.SliceStable(pl.Options, func(i, j int) bool { return pl.Options[i].PerHour > pl.Options[j].PerHour })
+	for _, mr := range f.Result.Methods {
+		if ag := mr.Agreement; ag != nil && ag.Flag && ag.Worst != nil {
+			if d := f.discriminate(mr.ID, *ag.Worst, cost); d != nil {
+				pl.Discriminate = append(pl.Discriminate, *d)
+			}
+		}
+	}
+	return pl, nil
+}
+
+// why says in plain words why a repeat helps much or little.
+func (m *model) why(e int, t Target, removed float64) string {
+	sees := false
+	for _, q := range m.informs(e) {
+		axle := t.Axle == methods.AxleTotal || q.Axle == t.Axle || q.Axle == methods.AxleTotal
+		if axle && (q.Config == t.Config || q.Config == t.Versus) {
+			sees = true
+		}
+	}
+	var shared []string
+	for _, p := range m.phi {
+		if p.owners[e] && !p.perRun {
+			shared = append(shared, p.label)
+		}
+	}
+	for _, p := range m.lin {
+		if p.kind == kindNuisance && p.owners[e] && !p.nuis.PerRun {
+			shared = append(shared, p.nuis.Label)
+		}
+	}
+	switch {
+	case !sees:
+		return "it does not see the target's axle and configurations"
+	case removed < 10 && len(shared) > 0:
+		return fmt.Sprintf("its error is mostly systematic and a repeat shares it (%s): calibrate instead of repeating", joinMax(shared, 3))
+	case removed < 10:
+		return "the other entries already pin the target; a repeat adds little"
+	case removed >= 30:
+		return "its error is mostly random scatter, which a repeat averages down"
+	}
+	return "a repeat averages down its random scatter; its shared systematic errors remain"
+}
+
+func joinMax(ss []string, n int) string {
+	if len(ss) > n {
+		ss = append(ss[:n:n], fmt.Sprintf("and %d more", len(ss)-n))
+	}
+	out := ""
+	for i, s := range ss {
+		if i > 0 {
+			out += ", "
+		}
+		out += s
+	}
+	return out
+}
+
+// informs lists the quantities an entry of the model speaks of.
+func (m *model) informs(e int) []methods.Quantity {
+	seen := map[methods.Quantity]bool{}
+	var out []methods.Quantity
+	add := func(refs []entryRef) {
+		for _, r := range refs {
+			p := m.lin[r.col]
+			if q := (methods.Quantity{Config: p.config, Axle: p.axle}); !seen[q] {
+				seen[q] = true
+				out = append(out, q)
+			}
+		}
+	}
+	for _, r := range m.rows {
+		if r.entry == e {
+			add(r.lift)
+		}
+	}
+	for _, s := range m.signs {
+		if s.entry == e {
+			add(s.lift)
+		}
+	}
+	return out
+}
+
+// repeatVar returns the expected posterior variance of wᵀθ after entry e's
+// runs are repeated once.
+func (P *Posterior) repeatVar(e int, w []entryRef) (float64, error) {
+	m := P.p.m
+	mean, C := P.joint()
+	D := m.dim()
+	p := len(m.lin)
+	// Parameters that come new with a repeat, and their index beyond D.
+	newIdx := map[int]int{}
+	var newPrec []float64
+	for i, lp := range m.lin {
+		if lp.kind == kindNuisance && lp.nuis.PerRun && lp.owners[e] {
+			newIdx[i] = D + len(newPrec)
+			newPrec = append(newPrec, lp.prec)
+		}
+	}
+	for j, ph := range m.phi {
+		if ph.perRun && ph.owners[e] {
+			newIdx[p+j] = D + len(newPrec)
+			newPrec = append(newPrec, 1/(ph.sd*ph.sd))
+		}
+	}
+	N := D + len(newPrec)
+	I := make([]float64, N*N)
+	theta, phi := mean[:p], mean[p:]
+	col := func(i int) int {
+		if k, ok := newIdx[i]; ok {
+			return k
+		}
+		return i
+	}
+	var buf []entryRef
+	for bi := range m.blocks {
+		bl := &m.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		// J: one row per observation, dense over N.
+		J := make([][]float64, len(bl.rows))
+		for k, ri := range bl.rows {
+			r := &m.rows[ri]
+			J[k] = make([]float64, N)
+			buf = m.design(r, phi, buf[:0])
+			for _, d := range buf {
+				J[k][col(d.col)] += d.v
+			}
+			for j := range m.phi {
+				h := 1e-5 * math.Max(1, math.Abs(phi[j]))
+				up := append([]float64(nil), phi...)
+				dn := append([]float64(nil), phi...)
+				up[j] += h
+				dn[j] -= h
+				J[k][col(p+j)] += (m.rowMean(r, theta, up, buf) - m.rowMean(r, theta, dn, buf)) / (2 * h)
+			}
+		}
+		for a := range bl.rows {
+			for b := range bl.rows {
+				var wt float64
+				if bl.diag != nil {
+					if a != b {
+						continue
+					}
+					wt = bl.diag[a]
+				} else {
+					wt = bl.prec.At(a, b)
+				}
+				for i, x := range J[a] {
+					if x == 0 {
+						continue
+					}
+					for j, y := range J[b] {
+						if y != 0 {
+							I[i*N+j] += wt * x * y
+						}
+					}
+				}
+			}
+		}
+	}
+	for si := range m.signs {
+		s := &m.signs[si]
+		if s.entry != e {
+			continue
+		}
+		a := make([]float64, N)
+		for _, t := range s.lift {
+			a[col(t.col)] += t.v
+		}
+		for _, t := range s.gamma {
+			a[col(t.col)] += t.v
+		}
+		x := s.value(theta)
+		pr := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(x/s.softness)
+		dp := (1 - 2*s.misread) * distuv.UnitNormal.Prob(x/s.softness) / s.softness
+		fi := dp * dp / math.Max(pr*(1-pr), 1e-12)
+		for i := range N {
+			for j := range N {
+				I[i*N+j] += fi * a[i] * a[j]
+			}
+		}
+	}
+	// Integrate out the repeat's own copies: I_eff = I_xx − I_xn (I_nn + P_n)⁻¹ I_nx.
+	R := len(newPrec)
+	Ieff := mat.NewSymDense(D, nil)
+	for i := range D {
+		for j := i; j < D; j++ {
+			Ieff.SetSym(i, j, I[i*N+j])
+		}
+	}
+	if R > 0 {
+		Inn := mat.NewSymDense(R, nil)
+		for i := range R {
+			for j := i; j < R; j++ {
+				Inn.SetSym(i, j, I[(D+i)*N+D+j])
+			}
+			Inn.SetSym(i, i, Inn.At(i, i)+newPrec[i])
+		}
+		var ch mat.Cholesky
+		if !ch.Factorize(Inn) {
+			return 0, fmt.Errorf("a repeat could not pin its own offsets (no low-speed windows?)")
+		}
+		Ixn := mat.NewDense(D, R, nil)
+		for i := range D {
+			for j := range R {
+				Ixn.Set(i, j, I[i*N+D+j])
+			}
+		}
+		var tmp mat.Dense
+		if err := ch.SolveTo(&tmp, Ixn.T()); err != nil {
+			return 0, err
+		}
+		var corr mat.Dense
+		corr.Mul(Ixn, &tmp)
+		for i := range D {
+			for j := i; j < D; j++ {
+				Ieff.SetSym(i, j, Ieff.At(i, j)-corr.At(i, j))
+			}
+		}
+	}
+	// C' = (C⁻¹ + I_eff)⁻¹ = C − C (I + I_eff C)⁻¹ I_eff C, computed as the
+	// solution of (I + I_eff C) X = I_eff C to avoid inverting C (it may
+	// hold flat-prior directions pinned only by data).
+	Cd := mat.NewDense(D, D, nil)
+	Cd.Copy(C)
+	var IC mat.Dense
+	IC.Mul(Ieff, Cd)
+	A := mat.NewDense(D, D, nil)
+	A.Copy(&IC)
+	for i := range D {
+		A.Set(i, i, A.At(i, i)+1)
+	}
+	var X mat.Dense
+	if err := X.Solve(A, &IC); err != nil {
+		return 0, err
+	}
+	wv := make([]float64, D)
+	for _, t := range w {
+		wv[t.col] += t.v
+	}
+	wvec := mat.NewVecDense(D, wv)
+	var cw, xw, cxw mat.VecDense
+	cw.MulVec(Cd, wvec)
+	xw.MulVec(&X, wvec)
+	cxw.MulVec(Cd, &xw)
+	return mat.Dot(wvec, &cw) - mat.Dot(wvec, &cxw), nil
+}
+
+// discriminate names the repeat that would most narrow the disagreement
+// of a flagged entry on its worst quantity: repeating the entry narrows its
+// own side, repeating another entry narrows the others' side.
+func (f *Fused) discriminate(id string, worst Disagreement, cost func(string) float64) *Discriminator {
+	alone, others := f.Standalone[id], f.Others[id]
+	if alone == nil || others == nil {
+		return nil
+	}
+	q := []methods.Term{{Config: worst.Config, Axle: worst.Axle, W: 1}}
+	ea, _ := alone.Linear(q...)
+	eo, _ := others.Linear(q...)
+	best, bestGain := "", 0.0
+	try := func(P *Posterior, entry string, other float64) {
+		e := P.p.m.entryIndex(entry)
+		if e < 0 {
+			return
+		}
+		v, err := P.repeatVar(e, P.weights(q))
+		if err != nil {
+			return
+		}
+		now := ea.SD*ea.SD + eo.SD*eo.SD
+		gain := (now - (v + other)) / now / cost(entry)
+		if gain > bestGain {
+			best, bestGain = entry, gain
+		}
+	}
+	try(alone, id, eo.SD*eo.SD)
+	for _, other := range others.p.m.entries {
+		try(others, other, ea.SD*ea.SD)
+	}
+	if best == "" {
+		return nil
+	}
+	why := fmt.Sprintf("repeating %s narrows the disagreement on %s %s most per hour (by %.0f %% of its variance per hour)", best, worst.Config, worst.Axle, 100*bestGain)
+	if best == id {
+		why += "; if the repeat agrees with the first runs and still not with the others, suspect a systematic error of " + id
+	}
+	return &Discriminator{Flagged: id, Repeat: best, Why: why}
+}
