@@ -1,6 +1,7 @@
 package fuse
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -199,4 +200,28 @@ func summarize(x []float64, level float64) (Estimate, float64) {
 	neg := sort.SearchFloat64s(s, 0)
 	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSorted(s, 0.5-level/2), Hi: quantileSorted(s, 0.5+level/2)},
 		float64(neg) / float64(len(s))
+}
+
+// Fitted returns, for each Gaussian observation of an entry in evidence
+// order, its expected value at the posterior mean of every parameter: the
+// fitted line of the entry's data, for charts.
+func (P *Posterior) Fitted(entry string) ([]float64, error) {
+	m := P.p.m
+	e := m.entryIndex(entry)
+	if e < 0 {
+		return nil, fmt.Errorf("no entry %q in this posterior", entry)
+	}
+	mean, _ := P.joint()
+	p := len(m.lin)
+	var out []float64
+	var buf []entryRef
+	for bi := range m.blocks {
+		if m.blocks[bi].entry != e {
+			continue
+		}
+		for _, ri := range m.blocks[bi].rows {
+			out = append(out, m.rowMean(&m.rows[ri], mean[:p], mean[p:], buf))
+		}
+	}
+	return out, nil
 }

@@ -1,4 +1,8 @@
 // Package report lays out what package fuse returns: the customer
 // development report (PDF), the result document (JSON) and terminal tables.
 // It computes no statistics of its own.
+//
+// The PDF is a neutral, print-friendly layout of our own: black text on
+// white, grey rules, charts in shades of grey with marker shapes telling the
+// configurations apart, so that it reads the same on a mono printer.
 package report

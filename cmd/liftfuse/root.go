@@ -63,7 +63,7 @@ arguments). Errors name file:line:column.`,
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return inputError{err} })
-	root.AddCommand(newValidateCmd(), newAirCmd(), newInitCmd(), newReduceCmd(), newFuseCmd(), newSimulateCmd(), newPlanCmd(), newCrosscheckCmd())
+	root.AddCommand(newValidateCmd(), newAirCmd(), newInitCmd(), newReduceCmd(), newFuseCmd(), newSimulateCmd(), newPlanCmd(), newCrosscheckCmd(), newReportCmd())
 	return root
 }
 
