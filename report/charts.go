@@ -214,10 +214,10 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 
 // bar is one interval of the agreement chart.
 type bar struct {
-	label    string
-	est      fuse.Estimate
-	fused    bool
-	flagged  bool
+	label   string
+	est     fuse.Estimate
+	fused   bool
+	flagged bool
 }
 
 // agreementChart: every entry's standalone interval beside the fused one,
