@@ -123,6 +123,7 @@ func TestLoadInvalid(t *testing.T) {
 		{"ballast with one distinct mass", []edit{{n: 48, old: "added_kg: 50", new: "added_kg: 0"}}, "", 47, "evidence.ride_height[1].stiffness.ballast", methods.ErrRange},
 		{"zero tap area", []edit{{n: 62, old: "area_m2: 0.5", new: "area_m2: 0"}}, "", 62, "evidence.pressure[0].taps[0].area_m2", methods.ErrRange},
 		{"tap without reading", []edit{{n: 67, old: ", f1: -80", new: ""}}, "", 67, "evidence.pressure[0].readings[0]", methods.ErrMissing},
+		{"non-finite tap reading", []edit{{n: 67, old: "r1: -300", new: "r1: .nan"}}, "", 67, "evidence.pressure[0].readings[0].pa.r1", methods.ErrRange},
 		{"reading of an unknown tap", []edit{{n: 68, old: "f1: -90", new: "f1: -90, x9: 4"}}, "", 68, "evidence.pressure[0].readings[1].pa.x9", methods.ErrReference},
 		{"vortex on a wagon", []edit{{n: 10, old: "fastback", new: "wagon"}}, "", 70, "evidence.vortex[0]", methods.ErrNotApply},
 		{"plan cost of an unknown entry", []edit{{n: 80, old: "fpot:", new: "fpott:"}}, "", 80, "plan.cost_h.fpott", methods.ErrReference},

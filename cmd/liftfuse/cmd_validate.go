@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/methods"
+	"liftfuse/methods/adapters"
 )
 
 type validateOptions struct {
@@ -19,9 +20,11 @@ func newValidateCmd() *cobra.Command {
 		Use:   "validate FILE",
 		Short: "Load and check a campaign; list every problem with file:line:column",
 		Long: `validate loads a campaign file strictly (unknown keys are errors), reads its
-logs and tables, and checks every rule of campaign format 1. It prints all
-errors at once, each as file:line:column: path: message, and exits 2 if there
-are any; warnings (things to look at) are printed but do not fail.`,
+logs and tables, checks every rule of campaign format 1, and runs the method
+adapters (steady windows, stiffness, tap integration) to catch what only the
+data shows. It prints all errors at once, each as file:line:column: path:
+message, and exits 2 if there are any; warnings (things to look at, such as a
+sensor that scatters ±3 mm) are printed but do not fail.`,
 		Example: "  liftfuse validate examples/ducktail-fastback/campaign.yaml",
 		Args:    argsExactly(1, "one campaign file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -36,9 +39,15 @@ func runValidate(o validateOptions, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	printWarnings(out, c)
+	r, err := adapters.Reduce(c, adapters.Options{})
+	if err != nil {
+		return inputError{err}
+	}
+	for _, w := range r.Warnings {
+		fmt.Fprintf(out, "warning: %s\n", w)
+	}
 	n := len(c.Evidence.RideHeight) + len(c.Evidence.Pressure) + len(c.Evidence.Vortex)
 	fmt.Fprintf(out, "%s: valid campaign %q: %d configurations, %d evidence entries, %d files read, %d warnings\n",
-		o.file, c.Campaign.Title, len(c.Configurations), n, len(c.Files), len(c.Warnings))
+		o.file, c.Campaign.Title, len(c.Configurations), n, len(c.Files), len(r.Warnings))
 	return nil
 }

@@ -82,13 +82,6 @@ func run(args []string, stdout, stderr io.Writer) int {
 	return exitCode(err)
 }
 
-// printWarnings prints a campaign's warnings to w.
-func printWarnings(w io.Writer, c *methods.Campaign) {
-	for _, p := range c.Warnings {
-		fmt.Fprintf(w, "warning: %v\n", p)
-	}
-}
-
 // argsExactly is cobra.ExactArgs with an input-error type.
 func argsExactly(n int, what string) cobra.PositionalArgs {
 	return func(_ *cobra.Command, args []string) error {
