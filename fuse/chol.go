@@ -58,11 +58,13 @@ func backward(l, x []float64, p int) {
 	}
 }
 
-// logDetChol returns log|Λ| = 2·Σ log L_ii.
+// logDetChol returns log|Λ| = 2·Σ log L_ii, taking one logarithm of the
+// product (kept in range by splitting off binary exponents as it grows).
 func logDetChol(l []float64, p int) float64 {
-	var s float64
+	m, e := 1.0, 0
 	for i := range p {
-		s += math.Log(l[i*p+i])
+		f, x := math.Frexp(m * l[i*p+i])
+		m, e = f, e+x
 	}
-	return 2 * s
+	return 2 * (math.Log(m) + float64(e)*math.Ln2)
 }

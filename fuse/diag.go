@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"math"
 	"slices"
+	"sync"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -27,27 +28,45 @@ func splitChains(chains [][]float64) [][]float64 {
 // rankNormalize replaces every draw by the normal score of its pooled
 // fractional rank, Φ⁻¹((r − 3/8)/(S + 1/4)), ties getting their average rank.
 func rankNormalize(chains [][]float64) [][]float64 {
-	vals, idx := pooledOrder(chains)
-	return reshape(normalScores(vals, idx), chains)
+	var sc scratch
+	vals, idx := sc.pooledOrder(chains)
+	return reshape(append([]float64(nil), sc.normalScores(vals, idx, &sc.z)...), chains)
+}
+
+// scratch holds the buffers of one diagnosis, reused through a pool: the
+// sampler diagnoses several quantities after every batch.
+type scratch struct {
+	vals, z, fz, folded []float64
+	keys, k2            []uint64
+	idx, i2, order      []int32
+}
+
+var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
+
+func grow[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n)
+	}
+	return s[:n]
 }
 
 // pooledOrder returns the pooled draws and their ascending order.
-func pooledOrder(chains [][]float64) ([]float64, []int32) {
-	var vals []float64
+func (sc *scratch) pooledOrder(chains [][]float64) ([]float64, []int32) {
+	sc.vals = sc.vals[:0]
 	for _, ch := range chains {
-		vals = append(vals, ch...)
+		sc.vals = append(sc.vals, ch...)
 	}
-	return vals, argsort(vals)
+	return sc.vals, sc.argsort(sc.vals)
 }
 
 // argsort returns the indices that sort vals ascending (vals hold no NaN):
 // an LSD radix sort on the order-preserving bit pattern of each float, in
 // 8-bit passes (a pass whose digit is the same everywhere is skipped),
 // which for the few thousand draws diagnosed here beats a comparison sort.
-func argsort(vals []float64) []int32 {
+func (sc *scratch) argsort(vals []float64) []int32 {
 	n := len(vals)
-	keys := make([]uint64, n)
-	idx := make([]int32, n)
+	keys, idx := grow(sc.keys, n), grow(sc.idx, n)
+	k2, i2 := grow(sc.k2, n), grow(sc.i2, n)
 	for i, v := range vals {
 		b := math.Float64bits(v)
 		if b>>63 == 1 {
@@ -57,8 +76,6 @@ func argsort(vals []float64) []int32 {
 		}
 		keys[i], idx[i] = b, int32(i)
 	}
-	k2 := make([]uint64, n)
-	i2 := make([]int32, n)
 	var count [256]int
 	for shift := uint(0); shift < 64; shift += 8 {
 		clear(count[:])
@@ -81,14 +98,15 @@ func argsort(vals []float64) []int32 {
 		keys, k2 = k2, keys
 		idx, i2 = i2, idx
 	}
+	sc.keys, sc.k2, sc.idx, sc.i2 = keys, k2, idx, i2
 	return idx
 }
 
 // normalScores gives each value the normal score of its average rank,
-// given the values' ascending order.
-func normalScores(vals []float64, idx []int32) []float64 {
+// given the values' ascending order, into *dst.
+func (sc *scratch) normalScores(vals []float64, idx []int32, dst *[]float64) []float64 {
 	S := float64(len(vals))
-	z := make([]float64, len(vals))
+	z := grow(*dst, len(vals))
 	for lo := 0; lo < len(idx); {
 		hi := lo
 		for hi+1 < len(idx) && vals[idx[hi+1]] == vals[idx[lo]] {
@@ -101,6 +119,7 @@ func normalScores(vals []float64, idx []int32) []float64 {
 		}
 		lo = hi + 1
 	}
+	*dst = z
 	return z
 }
 
@@ -165,9 +184,11 @@ func Rhat(chains [][]float64) float64 {
 // The draws are sorted once: the folded values |x − median| are ordered by
 // merging the two halves of that order, outward from the median.
 func RhatESS(chains [][]float64) (rhat, essBulk float64) {
+	sc := scratchPool.Get().(*scratch)
+	defer scratchPool.Put(sc)
 	split := splitChains(chains)
-	vals, idx := pooledOrder(split)
-	z := reshape(normalScores(vals, idx), split)
+	vals, idx := sc.pooledOrder(split)
+	z := reshape(sc.normalScores(vals, idx, &sc.z), split)
 	n := len(idx)
 	var med float64
 	if n%2 == 1 {
@@ -175,13 +196,14 @@ func RhatESS(chains [][]float64) (rhat, essBulk float64) {
 	} else {
 		med = 0.5 * (vals[idx[n/2-1]] + vals[idx[n/2]])
 	}
-	folded := make([]float64, n)
+	folded := grow(sc.folded, n)
 	for i, v := range vals {
 		folded[i] = math.Abs(v - med)
 	}
+	sc.folded = folded
 	// Below the median the order of |x − med| is the reverse of x's.
 	cut, _ := slices.BinarySearchFunc(idx, med, func(i int32, t float64) int { return cmp.Compare(vals[i], t) })
-	order := make([]int32, 0, n)
+	order := sc.order[:0]
 	i, j := cut-1, cut
 	for i >= 0 || j < n {
 		if j >= n || (i >= 0 && folded[idx[i]] <= folded[idx[j]]) {
@@ -192,7 +214,8 @@ func RhatESS(chains [][]float64) (rhat, essBulk float64) {
 			j++
 		}
 	}
-	fz := reshape(normalScores(folded, order), split)
+	sc.order = order
+	fz := reshape(sc.normalScores(folded, order, &sc.fz), split)
 	return math.Max(basicRhat(z), basicRhat(fz)), ess(z)
 }
 

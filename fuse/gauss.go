@@ -24,6 +24,7 @@ type cond struct {
 	logML float64
 
 	lam, b []float64 // buffers, reused between calls
+	a, x   []float64
 	xs     [][]entryRef
 }
 
@@ -155,7 +156,7 @@ func (m *model) condition(phi []float64, c *cond) error {
 		}
 		for i, ri := range bl.rows {
 			for j, rj := range bl.rows {
-				wt := w * bl.prec.At(i, j)
+				wt := w * bl.precD[i*len(bl.rows)+j]
 				yj := m.rows[rj].y
 				yWy += wt * m.rows[ri].y * yj
 				for _, a := range c.xs[i] {

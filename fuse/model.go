@@ -105,6 +105,7 @@ type block struct {
 	rows   []int
 	diag   []float64     // 1/σ² when the covariance is diagonal
 	prec   *mat.SymDense // Σ⁻¹ otherwise
+	precD  []float64     // the same, dense row-major
 	logdet float64       // log|Σ|
 	entry  int
 	// uniform is true when every row shares its scales and airspeed, so
@@ -339,7 +340,16 @@ func (b *block) setCov(cov *mat.SymDense) error {
 	}
 	b.logdet = ch.LogDet()
 	b.prec = mat.NewSymDense(n, nil)
-	return ch.InverseTo(b.prec)
+	if err := ch.InverseTo(b.prec); err != nil {
+		return err
+	}
+	b.precD = make([]float64, n*n)
+	for i := range n {
+		for j := range n {
+			b.precD[i*n+j] = b.prec.At(i, j)
+		}
+	}
+	return nil
 }
 
 // quantities returns the column weights of a quantity (front, rear or total

@@ -107,6 +107,10 @@ func Run(in Input) (*Fused, error) {
 	// Each entry alone, and every entry but it: independent fits, run two
 	// at a time (each is seeded on its own, so the order does not matter).
 	M := len(in.Evidence)
+	// The others' posteriors feed only the agreement distance (a mean and a
+	// covariance), never a reported interval: half the draws suffice.
+	setOthers := set
+	setOthers.MinESS = math.Max(400, set.MinESS/2)
 	start := map[string]float64{}
 	for i, p := range full.phi {
 		if P.p.phiMode != nil {
@@ -143,7 +147,7 @@ func Run(in Input) (*Fused, error) {
 					continue
 				}
 				rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
-				om, err := newModel(rest, set)
+				om, err := newModel(rest, setOthers)
 				if err == nil {
 					om.start = start
 					others[ei], err = om.fit()
@@ -188,7 +192,7 @@ func Run(in Input) (*Fused, error) {
 			continue
 		}
 		rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
-		om, err := newModel(rest, set)
+		om, err := newModel(rest, setOthers)
 		if err != nil {
 			return nil, err
 		}

@@ -114,9 +114,17 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 	}
 	v := c.logML + m.logPhiPrior(phi)
 	p := len(m.lin)
+	if len(c.a) != p {
+		c.a, c.x = make([]float64, p), make([]float64, p)
+	}
 	for si := range m.signs {
 		s := &m.signs[si]
-		a := make([]float64, p)
+		if m.inflate[s.entry] > 1 {
+			v += math.Log(0.5)
+			continue
+		}
+		a := c.a
+		clear(a)
 		for _, t := range s.lift {
 			a[t.col] += t.v
 		}
@@ -127,10 +135,12 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		for i, v := range a {
 			mean += v * c.mean[i]
 		}
-		vr := c.quad(a)
-		if m.inflate[s.entry] > 1 {
-			v += math.Log(0.5)
-			continue
+		// aᵀΛ⁻¹a = ‖L⁻¹a‖²
+		copy(c.x, a)
+		forward(c.l, c.x, p)
+		var vr float64
+		for _, x := range c.x {
+			vr += x * x
 		}
 		pr := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(mean/math.Sqrt(s.softness*s.softness+vr))
 		if !s.up {
