@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -64,15 +63,8 @@ const plainWing = "front_cla_m2: 0.12, rear_cla_m2: -0.06"
 // runSim simulates, reduces and fuses a spec; drop lists entries to leave out.
 func runSim(t *testing.T, text string, drop ...string) *fuse.Fused {
 	t.Helper()
-	s, err := sim.Parse(strings.NewReader(text), "spec.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
 	dir := t.TempDir()
-	if _, err := sim.Generate(s, dir); err != nil {
-		t.Fatal(err)
-	}
-	c, err := methods.Load(filepath.Join(dir, "campaign.yaml"), methods.Options{})
+	c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 	if err != nil {
 		t.Fatal(err)
 	}

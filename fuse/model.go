@@ -202,17 +202,26 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 		m.kinds = append(m.kinds, ev.Kind)
 		m.inflate = append(m.inflate, 1)
 		m.inflateSys = append(m.inflateSys, 1)
+		// addPhi declares a non-linear parameter, or adds an owner to one
+		// already declared with the same prior.
+		addPhi := func(p phiParam) error {
+			if i, ok := phiIdx[p.name]; ok {
+				if m.phi[i].sd != p.sd {
+					return fmt.Errorf("fuse: %q is declared with sd %g and %g", p.name, m.phi[i].sd, p.sd)
+				}
+				m.phi[i].owners[ei] = true
+				return nil
+			}
+			phiIdx[p.name] = len(m.phi)
+			p.owners = map[int]bool{ei: true}
+			m.phi = append(m.phi, p)
+			return nil
+		}
 		for _, n := range ev.Nuisances {
 			if winds[n.Name] {
-				if i, ok := phiIdx[n.Name]; ok {
-					if m.phi[i].sd != n.SD {
-						return nil, fmt.Errorf("fuse: wind %q is declared with sd %g and %g", n.Name, m.phi[i].sd, n.SD)
-					}
-					m.phi[i].owners[ei] = true
-					continue
+				if err := addPhi(phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit}); err != nil {
+					return nil, err
 				}
-				phiIdx[n.Name] = len(m.phi)
-				m.phi = append(m.phi, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit, owners: map[int]bool{ei: true}})
 				continue
 			}
 			if i, ok := nuisIdx[n.Name]; ok {
@@ -234,15 +243,9 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 			if s.SD == 0 {
 				continue
 			}
-			if i, ok := phiIdx[s.Name]; ok {
-				if m.phi[i].sd != s.SD {
-					return nil, fmt.Errorf("fuse: scale group %q is declared with sd %g and %g", s.Name, m.phi[i].sd, s.SD)
-				}
-				m.phi[i].owners[ei] = true
-				continue
+			if err := addPhi(phiParam{name: s.Name, label: s.Label, sd: s.SD}); err != nil {
+				return nil, err
 			}
-			phiIdx[s.Name] = len(m.phi)
-			m.phi = append(m.phi, phiParam{name: s.Name, label: s.Label, sd: s.SD, owners: map[int]bool{ei: true}})
 		}
 	}
 	terms := func(ts []methods.Term, v float64) (lift, gam []entryRef, err error) {

@@ -242,6 +242,19 @@ func (v *validator) openTable(p Place, path, key, file string) *csvTable {
 	return t
 }
 
+// hasColumns reports whether a table's header has every needed column,
+// naming each missing one.
+func (v *validator) hasColumns(t *csvTable, col map[string]int, path string, need ...string) bool {
+	ok := true
+	for _, n := range need {
+		if _, found := col[n]; !found {
+			v.errf(Where{File: t.name, Line: 1}, path, ErrColumn, "column %q is missing from the header", n)
+			ok = false
+		}
+	}
+	return ok
+}
+
 // loadTaps fills e.Taps from taps_file: columns id, x_m, surface, and
 // area_m2 with nz (panels) or width_m (strips, nz optional).
 func (v *validator) loadTaps(e *PressureEntry, path string) {
@@ -253,11 +266,8 @@ func (v *validator) loadTaps(e *PressureEntry, path string) {
 	for i, h := range t.header {
 		col[strings.TrimSpace(h)] = i
 	}
-	for _, need := range []string{"id", "x_m", "surface"} {
-		if _, ok := col[need]; !ok {
-			v.errf(Where{File: t.name, Line: 1}, path+".taps_file", ErrColumn, "column %q is missing from the header", need)
-			return
-		}
+	if !v.hasColumns(t, col, path+".taps_file", "id", "x_m", "surface") {
+		return
 	}
 	for r, rec := range t.rows {
 		tp := fmt.Sprintf("%s.taps[%d]", path, r)
@@ -312,11 +322,8 @@ func (v *validator) loadReadings(e *PressureEntry, path string) {
 	for i, h := range t.header {
 		col[strings.TrimSpace(h)] = i
 	}
-	for _, need := range []string{"config", "speed_kmh"} {
-		if _, ok := col[need]; !ok {
-			v.errf(Where{File: t.name, Line: 1}, path+".readings_file", ErrColumn, "column %q is missing from the header", need)
-			return
-		}
+	if !v.hasColumns(t, col, path+".readings_file", "config", "speed_kmh") {
+		return
 	}
 	for r, rec := range t.rows {
 		rp := fmt.Sprintf("%s.readings[%d]", path, r)

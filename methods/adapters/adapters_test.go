@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -77,15 +76,8 @@ func TestConformance(t *testing.T) {
 		text := fmt.Sprintf(spec, day+1, beta[0], beta[1], beta[2], beta[3], rng.NormFloat64(),
 			math.Exp(0.06*rng.NormFloat64()), math.Exp(0.06*rng.NormFloat64()), 0.5+0.5*rng.NormFloat64(),
 			math.Exp(0.2*rng.NormFloat64()), math.Exp(0.2*rng.NormFloat64()), -0.1+0.1*rng.NormFloat64())
-		s, err := sim.Parse(strings.NewReader(text), "spec.yaml")
-		if err != nil {
-			t.Fatal(err)
-		}
 		dir := t.TempDir()
-		if _, err := sim.Generate(s, dir); err != nil {
-			t.Fatal(err)
-		}
-		c, err := methods.Load(filepath.Join(dir, "campaign.yaml"), methods.Options{})
+		c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 		if err != nil {
 			t.Fatal(err)
 		}

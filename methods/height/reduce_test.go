@@ -70,14 +70,7 @@ func simulate(t testing.TB, seed int, tr truth) *methods.Campaign {
 	t.Helper()
 	dir := t.TempDir()
 	text := fmt.Sprintf(specText, seed, tr.beta[0], tr.beta[1], tr.beta[2], tr.beta[3], tr.wind, tr.fs, tr.rs, tr.grow, tr.gain, tr.growSD)
-	s, err := sim.Parse(strings.NewReader(text), "spec.yaml")
-	if err != nil {
-		t.Fatal(err)
-	}
-	if _, err := sim.Generate(s, dir); err != nil {
-		t.Fatal(err)
-	}
-	c, err := methods.Load(filepath.Join(dir, "campaign.yaml"), methods.Options{})
+	c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 	if err != nil {
 		t.Fatal(err)
 	}

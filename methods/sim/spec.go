@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
 	"liftfuse/methods"
 )
@@ -252,4 +253,19 @@ func (s *Spec) check() error {
 		return ps
 	}
 	return nil
+}
+
+// Build parses a spec, writes its campaign into dir and loads it: the
+// shortest way from a stated truth to a campaign, for tests and planning.
+func Build(spec io.Reader, name, dir string) (*methods.Campaign, *TruthDoc, error) {
+	s, err := Parse(spec, name)
+	if err != nil {
+		return nil, nil, err
+	}
+	truth, err := Generate(s, dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	c, err := methods.Load(filepath.Join(dir, "campaign.yaml"), methods.Options{})
+	return c, truth, err
 }
