@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"sort"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
@@ -386,14 +385,4 @@ func (m *model) linName(i int) string {
 		return fmt.Sprintf("speed slope %s %s", p.config, p.axle)
 	}
 	return p.nuis.Label
-}
-
-// sortedEntries returns entry indices ordered by id, for stable output.
-func (m *model) sortedEntries() []int {
-	idx := make([]int, len(m.entries))
-	for i := range idx {
-		idx[i] = i
-	}
-	sort.SliceStable(idx, func(a, b int) bool { return m.entries[idx[a]] < m.entries[idx[b]] })
-	return idx
 }

@@ -2,7 +2,6 @@ package methods
 
 import (
 	"bytes"
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -135,8 +134,6 @@ func unwrapPath(err error) error {
 	}
 	return err
 }
-
-func errorf(format string, args ...any) error { return fmt.Errorf(format, args...) }
 
 // Decode reads YAML from src into v strictly, with the campaign loader's
 // rules (unknown keys, wrong kinds, non-finite numbers and missing required
