@@ -83,7 +83,13 @@ var tradeChecks = []string{
 // T) is an expensive explanation, as it should be. Scale factors are read
 // on their log scale, where their prior is normal.
 func (f *Fused) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
-	P := f.Posterior
+	return f.Posterior.Crosscheck(cl, rho)
+}
+
+// Crosscheck is Fused.Crosscheck against any posterior: with an entry's
+// standalone posterior and the other entries' estimate as the claim, it asks
+// which of the entry's own errors would have to move to reach the others.
+func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	m := P.p.m
 	if _, ok := m.beta[[2]string{cl.Config, methods.AxleFront}]; !ok {
 		return nil, fmt.Errorf("unknown configuration %q", cl.Config)

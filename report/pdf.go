@@ -20,8 +20,9 @@ type Input struct {
 	Reduced  *adapters.Reduced
 	Fused    *fuse.Fused
 	Plan     *fuse.Plan
-	// Explain holds, for each flagged entry, the cross-check of its own
-	// estimate of its worst quantity against the fused campaign.
+	// Explain holds, for each flagged entry, the cross-check of the other
+	// entries' estimate of its worst quantity against its own posterior:
+	// which of its errors would have to move to agree.
 	Explain map[string]*fuse.Crosscheck
 	Version string
 	Paper   string // "A4" (default) or "Letter"
@@ -380,8 +381,8 @@ func (r *reporter) agreement() {
 			continue
 		}
 		pg.h2("What could explain "+m.ID, 30)
-		pg.para(fmt.Sprintf("%s alone says %+.3f m² where the fused campaign predicts %+.3f ± %.3f m² (z = %+.1f). The modelled errors that would have to move least to reconcile them, in their own prior standard deviations:",
-			m.ID, cc.Claim.Value, cc.Predictive.Mean, cc.Predictive.SD, cc.Z))
+		pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² (C_L·A) where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
+			cc.Claim.Config, cc.Claim.Axle, m.ID, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, m.ID))
 		var items []string
 		for i, e := range cc.Explanations {
 			if i == 4 {

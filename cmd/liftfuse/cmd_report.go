@@ -88,25 +88,25 @@ func runReport(o reportOptions, out, stderr io.Writer) error {
 	return nil
 }
 
-// explanations cross-checks each flagged entry's own estimate of the
-// quantity where it disagrees most against the fused campaign.
+// explanations asks, for each flagged entry, which of its own modelled
+// errors would have to move least for it to agree with the other entries on
+// the quantity where it disagrees most: the others' estimate is the claim,
+// the entry's standalone posterior the prediction.
 func explanations(a *analysis) (map[string]*fuse.Crosscheck, error) {
 	out := map[string]*fuse.Crosscheck{}
 	for _, m := range a.fused.Result.Methods {
 		ag := m.Agreement
-		if ag == nil || !ag.Flag || ag.Worst == nil {
+		alone, others := a.fused.Standalone[m.ID], a.fused.Others[m.ID]
+		if ag == nil || !ag.Flag || ag.Worst == nil || alone == nil || others == nil {
 			continue
 		}
-		for _, s := range m.Standalone {
-			if s.Config != ag.Worst.Config || s.Axle != ag.Worst.Axle {
-				continue
-			}
-			cc, err := a.fused.Crosscheck(fuse.Claim{Config: s.Config, Axle: s.Axle, SpeedKmh: methods.RefSpeedKmh, Value: s.CLA.Mean, SD: s.CLA.SD, Unit: "m2"}, a.campaign.Density())
-			if err != nil {
-				return nil, err
-			}
-			out[m.ID] = cc
+		w := ag.Worst
+		e, _ := others.Quantity(methods.Quantity{Config: w.Config, Axle: w.Axle})
+		cc, err := alone.Crosscheck(fuse.Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: methods.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, a.campaign.Density())
+		if err != nil {
+			return nil, err
 		}
+		out[m.ID] = cc
 	}
 	return out, nil
 }
