@@ -142,3 +142,38 @@ func BenchmarkReport(b *testing.B) {
 		}
 	}
 }
+
+// TestFlaggedEntryExplained: the demo with the laser's tyres really growing
+// 3.5 mm (prior 0.5 ± 0.5): the laser is flagged, and its own tyre growth is
+// the first thing that would reconcile it with the others — at about the
+// planted value.
+func TestFlaggedEntryExplained(t *testing.T) {
+	spec, err := os.ReadFile("../../examples/ducktail-fastback/spec.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	planted := strings.Replace(string(spec), "tyre_growth_mm: 0.6", "tyre_growth_mm: 3.5", 1)
+	dir := t.TempDir()
+	name := filepath.Join(dir, "spec.yaml")
+	os.WriteFile(name, []byte(planted), 0o644)
+	out := filepath.Join(dir, "day")
+	if code, _, stderr := liftfuse(t, "simulate", name, "-o", out); code != 0 {
+		t.Fatal(stderr)
+	}
+	a, err := analyse(filepath.Join(out, "campaign.yaml"), true, io.Discard)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ex, err := explanations(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cc, ok := ex["rear-laser"]
+	if !ok || len(ex) != 1 {
+		t.Fatalf("want the laser alone explained, got %v", ex)
+	}
+	first := cc.Explanations[0]
+	if !strings.Contains(first.Nuisance, "tyre growth") || first.ShiftSD < 2 || first.ShiftSD > 8 {
+		t.Errorf("first explanation %+v, want the rear tyre growth a few sd up", first)
+	}
+}
