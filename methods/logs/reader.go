@@ -54,7 +54,7 @@ type Column struct {
 }
 
 const (
-	chunkSize   = 1 << 20 // bytes of log per block
+	chunkSize   = 256 << 10 // bytes of log per block
 	maxLineSize = 1 << 20
 	inFlight    = 4 // blocks read ahead of the consumer
 )
@@ -313,7 +313,8 @@ func (r *Reader) start() {
 			buf := r.buffer(len(carry))
 			copy(buf, carry)
 			var readErr error
-			for len(buf) < chunkSize && readErr == nil {
+			target := len(carry) + chunkSize // read at least a block more than the carry
+			for len(buf) < target && readErr == nil {
 				n, err := r.src.Read(buf[len(buf):cap(buf)])
 				buf = buf[:len(buf)+n]
 				readErr = err

@@ -197,3 +197,30 @@ func FuzzCellExact(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, s string) { checkCell(t, s) })
 }
+
+// TestLongLines: a line longer than a block is read whole; one longer than
+// 1 MiB is an error, not a hang.
+func TestLongLines(t *testing.T) {
+	long := strings.Repeat("9", 600<<10)
+	r, err := logs.NewReader(strings.NewReader("t,v,cfg,note\n0,1,a,"+long+"\n1,2,b,x\n"), "l.csv", cols)
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for r.Next() {
+		n++
+	}
+	if r.Err() != nil || n != 2 {
+		t.Fatalf("read %d rows, err %v", n, r.Err())
+	}
+	huge := strings.Repeat("9", 1100<<10)
+	r, err = logs.NewReader(strings.NewReader("t,v,cfg,note\n0,1,a,"+huge+"\n"), "l.csv", cols)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for r.Next() {
+	}
+	if !errors.Is(r.Err(), logs.ErrLongLine) {
+		t.Errorf("err = %v, want a line too long", r.Err())
+	}
+}
