@@ -141,7 +141,7 @@ type finder struct {
 		dir              int
 		from, to         float64
 		sumV, minV, maxV float64
-		sumQ, sumV2      float64
+		sumV2            float64 // Σ V², (km/h)²
 		h                windowStats
 	}
 	open bool
@@ -156,25 +156,25 @@ func (f *finder) add(t, v, h float64, config string, dir int) {
 		return
 	}
 	if f.open {
+		// Every sample within ±tol of the mean with v added: with n samples
+		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
 		n := float64(c.h.n + 1)
-		mean := (c.sumV + v) / n
-		if math.Max(c.maxV, v)-mean > f.tol || mean-math.Min(c.minV, v) > f.tol {
+		s := c.sumV + v
+		hi, lo := max(c.maxV, v), min(c.minV, v)
+		if n*hi-s > n*f.tol || s-n*lo > n*f.tol {
 			f.close()
 		}
 	}
 	if !f.open {
 		f.open = true
 		c.config, c.dir, c.from = config, dir, t
-		c.sumV, c.minV, c.maxV, c.sumQ, c.sumV2 = 0, v, v, 0, 0
+		c.sumV, c.minV, c.maxV, c.sumV2 = 0, v, v, 0
 		c.h = windowStats{}
 	}
 	c.to = t
 	c.sumV += v
-	c.minV, c.maxV = math.Min(c.minV, v), math.Max(c.maxV, v)
-	ms := methods.KmhToMs(v)
-	c.sumQ += methods.DynamicPressure(f.rho, ms)
-	vr := v / methods.RefSpeedKmh
-	c.sumV2 += vr * vr
+	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
+	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
 	c.h.add(h)
 }
 
@@ -191,7 +191,9 @@ func (f *finder) close() {
 	se, neff := c.h.standardError()
 	f.windows = append(f.windows, Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
-		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n, SpeedSq: c.sumV2 / n, Q: c.sumQ / n,
+		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n,
+		SpeedSq:  c.sumV2 / n / (methods.RefSpeedKmh * methods.RefSpeedKmh),
+		Q:        methods.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.mean(), SE: se, Scatter: math.Sqrt(c.h.variance()),
 	})
 }
