@@ -1,6 +1,7 @@
 package fuse_test
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -288,4 +289,20 @@ func containsText(ss []string, sub string) bool {
 		}
 	}
 	return false
+}
+
+func ExampleFit() {
+	// Two sensors see the front C_L·A of one configuration directly:
+	// 0.12 ± 0.02 and 0.10 ± 0.01 (m²); the prior is N(0, 1).
+	ev := func(id string, y, sd float64) methods.Evidence {
+		b, _ := methods.Diagonal([]methods.Obs{{Y: y, Terms: []methods.Term{{Config: "c", Axle: "front", W: 1}}, Air: methods.Airspeed{Q: 1}}}, []float64{sd})
+		return methods.Evidence{Entry: id, Kind: methods.KindRideHeight, Blocks: []methods.Block{b}, Informs: []methods.Quantity{{Config: "c", Axle: "front"}}}
+	}
+	P, err := fuse.Fit([]methods.Evidence{ev("a", 0.12, 0.02), ev("b", 0.10, 0.01)}, fuse.Settings{Configs: []string{"c"}, Credible: 0.9})
+	if err != nil {
+		panic(err)
+	}
+	e, pDown := P.Quantity(methods.Quantity{Config: "c", Axle: "front"})
+	fmt.Printf("front C_L·A %.4f ± %.4f m², 90 %% interval [%.4f, %.4f], P(downforce) %.3f\n", e.Mean, e.SD, e.Lo, e.Hi, pDown)
+	// Output: front C_L·A 0.1040 ± 0.0089 m², 90 % interval [0.0893, 0.1187], P(downforce) 0.000
 }

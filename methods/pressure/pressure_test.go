@@ -264,3 +264,10 @@ func TestConjugatePosterior(t *testing.T) {
 		}
 	}
 }
+
+func ExampleTrapezoidWeights() {
+	// Centreline stations at x = 0, 0.4 and 1.4 m: each stands for half of
+	// the gaps beside it.
+	fmt.Printf("%.2f\n", pressure.TrapezoidWeights([]float64{0, 0.4, 1.4}))
+	// Output: [0.20 0.70 0.50]
+}

@@ -1,6 +1,7 @@
 package vortex_test
 
 import (
+	"fmt"
 	"testing"
 
 	"liftfuse/methods"
@@ -50,4 +51,11 @@ func TestReduce(t *testing.T) {
 	if _, err := vortex.Reduce(c, e); err == nil {
 		t.Error("a wagon without an explicit misread was accepted")
 	}
+}
+
+func ExampleShowsLift() {
+	// Seen from behind, a right-side vortex turning counter-clockwise means
+	// net lift; clockwise means downforce.
+	fmt.Println(vortex.ShowsLift(methods.SideRight, methods.SenseCCW), vortex.ShowsLift(methods.SideRight, methods.SenseCW))
+	// Output: true false
 }
