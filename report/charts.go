@@ -21,7 +21,7 @@ import (
 // mono printer.
 var (
 	shades = []color.Color{color.Gray{0}, color.Gray{120}, color.Gray{70}, color.Gray{160}}
-	shapes = []draw.GlyphDrawer{draw.CircleGlyph{}, draw.TriangleGlyph{}, draw.SquareGlyph{}, draw.CrossGlyph{}}
+	shapes = []draw.GlyphDrawer{draw.RingGlyph{}, draw.TriangleGlyph{}, draw.SquareGlyph{}, draw.CrossGlyph{}}
 )
 
 func styleOf(i int) (color.Color, draw.GlyphDrawer) {
@@ -160,7 +160,7 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 // filled returns the solid version of a marker where there is one.
 func filled(g draw.GlyphDrawer) draw.GlyphDrawer {
 	switch g.(type) {
-	case draw.CircleGlyph:
+	case draw.RingGlyph:
 		return draw.CircleGlyph{}
 	case draw.TriangleGlyph:
 		return draw.PyramidGlyph{}
