@@ -56,7 +56,7 @@ func Run(in Input) (*Fused, error) {
 		return nil, err
 	}
 	res := &Result{Format: ResultFormat, Credible: set.Credible, Air: AirInfo{DensityKgM3: in.Rho, Method: "CIPM-2007"},
-		Warnings: append([]string(nil), in.Warnings...)}
+		Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Methods: []MethodResult{}, Warnings: append([]string{}, in.Warnings...)}
 	out := &Fused{Posterior: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res}
 
 	informed := map[string]bool{}
