@@ -306,3 +306,41 @@ func ExampleFit() {
 	fmt.Printf("front C_L·A %.4f ± %.4f m², 90 %% interval [%.4f, %.4f], P(downforce) %.3f\n", e.Mean, e.SD, e.Lo, e.Hi, pDown)
 	// Output: front C_L·A 0.1040 ± 0.0089 m², 90 % interval [0.0893, 0.1187], P(downforce) 0.000
 }
+
+// TestUndirectedRuns: runs whose travel direction was not logged cannot
+// separate the wind from the lift, so their q carries an extra scatter of
+// about ρ·V·σ_w and the interval must widen (model.md, "Air and speed").
+func TestUndirectedRuns(t *testing.T) {
+	mk := func(dirs []float64) methods.Evidence {
+		var o []methods.Obs
+		var sd []float64
+		for i, v := range []float64{30, 35, 40, 30, 35, 40} {
+			q := 0.5 * 1.2 * v * v
+			o = append(o, methods.Obs{Y: 0.2 * q / 50, Terms: []methods.Term{{Config: "c", Axle: "front", W: 1.0 / 50}},
+				Air: methods.Airspeed{Q: q, V: v, Rho: 1.2, Dir: dirs[i], Wind: methods.WindName}, Label: "w"})
+			sd = append(sd, 0.05)
+		}
+		b, err := methods.Diagonal(o, sd)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return methods.Evidence{Entry: "pot", Kind: methods.KindRideHeight, Blocks: []methods.Block{b},
+			Nuisances: []methods.Nuisance{{Name: methods.WindName, Label: "wind", SD: 2, PerRun: true}},
+			Informs:   []methods.Quantity{{Config: "c", Axle: "front"}}}
+	}
+	set := fuse.Settings{Configs: []string{"c"}, Seed: 1, Credible: 0.9}
+	both, err := fuse.Fit([]methods.Evidence{mk([]float64{1, 1, 1, -1, -1, -1})}, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	none, err := fuse.Fit([]methods.Evidence{mk(make([]float64, 6))}, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	eb, _ := both.Quantity(methods.Quantity{Config: "c", Axle: "front"})
+	en, _ := none.Quantity(methods.Quantity{Config: "c", Axle: "front"})
+	t.Logf("both directions %.4f ± %.4f; direction unknown %.4f ± %.4f", eb.Mean, eb.SD, en.Mean, en.SD)
+	if !(en.SD > 1.5*eb.SD) || !(en.Lo <= 0.2 && 0.2 <= en.Hi) {
+		t.Errorf("unknown directions should widen the interval and still cover 0.2: %+v vs %+v", en, eb)
+	}
+}

@@ -91,7 +91,8 @@ type row struct {
 	lift     []entryRef // β columns with their weights w_k
 	gamma    []entryRef // γ columns with weights w_k·vfac
 	q0, a, c float64
-	wind     int // φ index of the wind, or −1
+	v        float64 // mean ground speed, m/s
+	wind     int     // φ index of the wind, or −1
 	scales   []phiRef
 	nuis     []entryRef
 	nuisPerQ []entryRef // nuisances proportional to q: coefficient·q(w)/q0
@@ -265,7 +266,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 		for _, b := range ev.Blocks {
 			bl := block{entry: ei}
 			for _, o := range b.Obs {
-				r := row{y: o.Y, entry: ei, label: o.Label, wind: -1, q0: o.Air.Q}
+				r := row{y: o.Y, entry: ei, label: o.Label, wind: -1, q0: o.Air.Q, v: o.Air.V}
 				var err error
 				if r.lift, r.gamma, err = terms(o.Terms, o.Air.V); err != nil {
 					return nil, err
@@ -312,7 +313,82 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 		}
 	}
 	m.buildGroups()
+	if err := m.undirected(); err != nil {
+		return nil, err
+	}
 	return m, nil
+}
+
+// undirected widens the error of observations whose travel direction was
+// not logged. Their airspeed is V ± w with the sign unknown, so the
+// expected q is that of V² + w² (which the model has) and q scatters by
+// about ρ·V·σ_w about it; the lift term scatters by that times the lift,
+// which is taken from a pilot fit with the wind at zero:
+//
+//	extra variance = (ρ·V·σ_w · Σ_k w_k β̂_k)²
+//
+// (a first-order plug-in: exact treatment would make the error depend on
+// the lift being estimated).
+func (m *model) undirected() error {
+	undirected := false
+	for i := range m.rows {
+		r := &m.rows[i]
+		undirected = undirected || (r.wind >= 0 && r.a == 0 && r.v > 0)
+	}
+	if !undirected {
+		return nil
+	}
+	var pilot cond
+	if err := m.condition(make([]float64, len(m.phi)), &pilot); err != nil {
+		return err
+	}
+	for bi := range m.blocks {
+		bl := &m.blocks[bi]
+		extra := make([]float64, len(bl.rows))
+		some := false
+		for i, ri := range bl.rows {
+			r := &m.rows[ri]
+			if r.wind < 0 || r.a != 0 || r.v == 0 {
+				continue
+			}
+			var lift float64
+			for _, t := range r.lift {
+				lift += t.v * pilot.mean[t.col]
+			}
+			rho := 2 * r.c // c = ½ρ
+			s := rho * r.v * m.phi[r.wind].sd * lift
+			extra[i], some = s*s, true
+		}
+		if !some {
+			continue
+		}
+		n := len(bl.rows)
+		cov := mat.NewSymDense(n, nil)
+		if bl.diag != nil {
+			for i := range n {
+				cov.SetSym(i, i, 1/bl.diag[i])
+			}
+		} else {
+			var ch mat.Cholesky
+			if !ch.Factorize(bl.prec) {
+				return fmt.Errorf("fuse: a block's covariance is not positive definite")
+			}
+			if err := ch.InverseTo(cov); err != nil {
+				return err
+			}
+		}
+		for i := range n {
+			cov.SetSym(i, i, cov.At(i, i)+extra[i]+1e-300)
+		}
+		*bl = block{rows: bl.rows, entry: bl.entry, uniform: bl.uniform}
+		if err := bl.setCov(cov); err != nil {
+			return err
+		}
+	}
+	m.groups, m.fullBlocks = nil, nil
+	m.priorOnce, m.prior = sync.Once{}, nil
+	m.buildGroups()
+	return nil
 }
 
 // setCov stores the inverse covariance and its log-determinant.
