@@ -179,28 +179,28 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		Func: f,
 		Grad: func(g, x []float64) { fd.Gradient(g, f, x, &fd.Settings{Formula: fd.Forward}) },
 	}
-	res, err := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200}, &optimize.BFGS{})
+	// A failed line search or the iteration limit still leaves a usable best
+	// point; the chains correct for an imperfect proposal.
+	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200}, &optimize.BFGS{})
 	mode = x0
-	if err == nil || res != nil && !math.IsInf(res.F, 0) {
-		mode = res.X
+	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
+		mode = res.X // also when the optimiser stopped early: its best point
 	}
 	H := mat.NewSymDense(d, nil)
 	fd.Hessian(H, f, mode, &fd.Settings{Formula: fd.Central})
 	var ch mat.Cholesky
 	cov = mat.NewSymDense(d, nil)
-	if ch.Factorize(H) {
-		if err := ch.InverseTo(cov); err != nil {
-			ch = mat.Cholesky{}
-		}
+	if ch.Factorize(H) && ch.InverseTo(cov) == nil {
+		logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
+		return mode, cov, logZ, nil
 	}
-	if ch.Cond() == 0 || cov.At(0, 0) <= 0 {
-		// Not positive definite: fall back on the prior spread.
-		for i, p := range m.phi {
-			cov.SetSym(i, i, p.sd*p.sd)
-		}
-		return mode, cov, -f(mode), nil
+	// The curvature is not positive definite (a flat direction): fall back
+	// on the prior spread, for the proposal and for the evidence alike.
+	logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi)
+	for i, p := range m.phi {
+		cov.SetSym(i, i, p.sd*p.sd)
+		logZ += math.Log(p.sd)
 	}
-	logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
 	return mode, cov, logZ, nil
 }
 
