@@ -115,17 +115,13 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 		offset := fmt.Sprintf("%s/offset[%d]", e.ID, li)
 		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
 		drift := fmt.Sprintf("%s/drift[%d]", e.ID, li)
-		var tbar float64
 		var obs []methods.Obs
 		var sd []float64
-		for _, w := range res.Windows {
-			if w.Log == li {
-				tbar += (w.From + w.To) / 2
-			}
-		}
+		var tbar float64 // mean window time of the log, the drift's origin
 		nw := 0
 		for _, w := range res.Windows {
 			if w.Log == li {
+				tbar += (w.From + w.To) / 2
 				nw++
 			}
 		}
