@@ -113,7 +113,6 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	informs := map[string]bool{}
 	for li := range e.Logs {
 		offset := fmt.Sprintf("%s/offset[%d]", e.ID, li)
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
 		drift := fmt.Sprintf("%s/drift[%d]", e.ID, li)
 		var obs []methods.Obs
 		var sd []float64
@@ -126,9 +125,10 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 			}
 		}
 		if nw == 0 {
-			continue
+			continue // a log with no steady window says nothing, not even its offset
 		}
 		tbar /= float64(nw)
+		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
 		if e.Drift {
 			ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS, PerRun: true})
 		}
