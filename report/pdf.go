@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"time"
 
@@ -188,7 +189,7 @@ func (r *reporter) cover() {
 		pg.table([]column{{"configuration", 1.1, "L"}, {"C_LF", 1.6, "R"}, {"C_LR", 1.6, "R"}, {"C_L", 1.6, "R"}}, rows)
 	}
 	if len(r.res.Deltas) > 0 {
-		v := c.Report.SpeedsKmh[len(c.Report.SpeedsKmh)-1]
+		v := slices.Max(c.Report.SpeedsKmh)
 		q := methods.DynamicPressure(c.Density(), methods.KmhToMs(v))
 		pg.h2(fmt.Sprintf("Change against %s at %g km/h, %s", c.Report.ReferenceConfig, v, unit), 25)
 		rows = nil
@@ -207,7 +208,7 @@ func (r *reporter) cover() {
 func (r *reporter) summaryText() string {
 	c := r.in.Campaign
 	unit := c.Report.ForceUnit
-	v := c.Report.SpeedsKmh[len(c.Report.SpeedsKmh)-1]
+	v := slices.Max(c.Report.SpeedsKmh) // the summary speaks of the top report speed
 	q := methods.DynamicPressure(c.Density(), methods.KmhToMs(v))
 	var b strings.Builder
 	for _, cr := range r.res.Configs {
