@@ -34,14 +34,20 @@ func Reduce(c *methods.Campaign, opt Options) (*Reduced, error) {
 	for _, w := range c.Warnings {
 		r.Warnings = append(r.Warnings, w.Error())
 	}
-	for i := range c.Evidence.RideHeight {
-		h, err := height.Reduce(c, &c.Evidence.RideHeight[i], opt.Height)
+	if n := len(c.Evidence.RideHeight); n > 0 {
+		es := make([]*methods.RideHeightEntry, n)
+		for i := range es {
+			es[i] = &c.Evidence.RideHeight[i]
+		}
+		hs, err := height.ReduceAll(c, es, opt.Height)
 		if err != nil {
 			return nil, err
 		}
-		r.Height = append(r.Height, h)
-		r.Evidence = append(r.Evidence, h.Evidence)
-		r.Warnings = append(r.Warnings, h.Warnings...)
+		for _, h := range hs {
+			r.Height = append(r.Height, h)
+			r.Evidence = append(r.Evidence, h.Evidence)
+			r.Warnings = append(r.Warnings, h.Warnings...)
+		}
 	}
 	wind := ""
 	if c.Air.WindSDMs > 0 {

@@ -59,29 +59,44 @@ func bigLog(tb testing.TB) string {
 	return name
 }
 
-// BenchmarkReduceLog: the whole reduction of one entry over the big log —
-// parsing, steady windows, filters, evidence. Reported as MB/s of log.
-func BenchmarkReduceLog(b *testing.B) {
-	name := bigLog(b)
-	st, _ := os.Stat(name)
+// benchCampaign is a campaign with n sensors logged in the big log.
+func benchCampaign(name string, n int) (*methods.Campaign, []*methods.RideHeightEntry) {
 	c := &methods.Campaign{
 		Vehicle:        methods.Vehicle{WheelbaseM: 2.5, Axles: methods.Axles{Front: methods.Axle{SpringNPerMm: 30, SpringSDPct: 5, MotionRatio: 0.9, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 8}}},
 		Configurations: []methods.Configuration{{ID: "base"}},
 		Air:            methods.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400, WindSDMs: 1},
 	}
-	e := &methods.RideHeightEntry{ID: "pot", Axle: "front", Sensor: "pot",
-		Calibration: methods.Calibration{MmPerUnit: 24, SDPct: 1}, Stiffness: methods.Stiffness{From: "springs"},
-		Steady: methods.Steady{SpeedTolKmh: 1.5, MinDurationS: 4}, FilterTauS: 0.5,
-		Logs: []methods.LogSpec{{File: name, Time: "t_s", SpeedKmh: "v_kmh", Signal: "front_pot_v", Direction: "dir"}}}
+	var es []*methods.RideHeightEntry
+	for _, signal := range []string{"front_pot_v", "rear_pot_v", "rear_laser_mm"}[:n] {
+		es = append(es, &methods.RideHeightEntry{ID: signal, Axle: "front", Sensor: "pot",
+			Calibration: methods.Calibration{MmPerUnit: 24, SDPct: 1}, Stiffness: methods.Stiffness{From: "springs"},
+			Steady: methods.Steady{SpeedTolKmh: 1.5, MinDurationS: 4}, FilterTauS: 0.5,
+			Logs: []methods.LogSpec{{File: name, Time: "t_s", SpeedKmh: "v_kmh", Signal: signal, Direction: "dir"}}})
+	}
+	return c, es
+}
+
+// BenchmarkReduceLog: the whole reduction of one entry over the big log —
+// parsing, steady windows, filters, evidence. Reported as MB/s of log.
+func BenchmarkReduceLog(b *testing.B) { benchReduce(b, 1) }
+
+// BenchmarkReduceLogThreeSensors: three sensors logged in one file share a
+// single read of it.
+func BenchmarkReduceLogThreeSensors(b *testing.B) { benchReduce(b, 3) }
+
+func benchReduce(b *testing.B, n int) {
+	name := bigLog(b)
+	st, _ := os.Stat(name)
+	c, es := benchCampaign(name, n)
 	b.SetBytes(st.Size())
 	b.ReportAllocs()
 	for b.Loop() {
-		r, err := height.Reduce(c, e, height.Options{})
+		rs, err := height.ReduceAll(c, es, height.Options{})
 		if err != nil {
 			b.Fatal(err)
 		}
-		if len(r.Windows) < 50 {
-			b.Fatalf("only %d windows", len(r.Windows))
+		if len(rs[0].Windows) < 50 {
+			b.Fatalf("only %d windows", len(rs[0].Windows))
 		}
 	}
 }

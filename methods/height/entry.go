@@ -33,6 +33,91 @@ const typicalCLA = 0.1
 
 // Reduce reads every log of a ride-height entry and returns its Result.
 func Reduce(c *methods.Campaign, e *methods.RideHeightEntry, opt Options) (*Result, error) {
+	rs, err := ReduceAll(c, []*methods.RideHeightEntry{e}, opt)
+	if err != nil {
+		return nil, err
+	}
+	return rs[0], nil
+}
+
+// ReduceAll reduces several ride-height entries, reading each log file once
+// for all the sensors logged in it (those that name the same time column).
+func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) ([]*Result, error) {
+	only := ""
+	if len(c.Configurations) == 1 {
+		only = c.Configurations[0].ID
+	}
+	rho := c.Density()
+	type group struct {
+		path   string
+		passes []*pass
+	}
+	var groups []*group
+	byKey := map[[2]string]*group{}
+	results := make([]*Result, len(es))
+	for i, e := range es {
+		res, err := prepare(c, e)
+		if err != nil {
+			return nil, err
+		}
+		res.Traces = make([][]TracePoint, len(e.Logs))
+		results[i] = res
+		for li := range e.Logs {
+			key := [2]string{c.Path(e.Logs[li].File), e.Logs[li].Time}
+			g, ok := byKey[key]
+			if !ok {
+				g = &group{path: key[0]}
+				byKey[key] = g
+				groups = append(groups, g)
+			}
+			g.passes = append(g.passes, newPass(e, li, res.Calibration, rho, only))
+		}
+	}
+	owner := map[*methods.RideHeightEntry]*Result{}
+	for i, e := range es {
+		owner[e] = results[i]
+	}
+	for _, g := range groups {
+		f, size, err := openLog(g.path)
+		if err != nil {
+			return nil, err
+		}
+		var src io.Reader = f
+		if opt.Progress != nil {
+			src = &progressReader{r: f, total: size, report: opt.Progress}
+		}
+		_, err = readLog(src, g.path, g.passes)
+		f.Close()
+		if err != nil {
+			return nil, err
+		}
+		for _, p := range g.passes {
+			res := owner[p.e]
+			res.Windows = append(res.Windows, p.f.windows...)
+			res.Traces[p.li] = p.trace
+		}
+	}
+	for i, e := range es {
+		res := results[i]
+		// Windows in log order, as the evidence lists its observations.
+		sort.SliceStable(res.Windows, func(a, b int) bool { return res.Windows[a].Log < res.Windows[b].Log })
+		if len(res.Windows) == 0 {
+			return nil, fmt.Errorf("%s: no steady windows found (speed within ±%g km/h for %g s): check the speed column and the steady settings",
+				e.ID, e.Steady.SpeedTolKmh, e.Steady.MinDurationS)
+		}
+		var err error
+		if res.Evidence, err = evidence(c, e, res); err != nil {
+			return nil, err
+		}
+		res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
+		res.Warnings = warnings(e, res, rho)
+		res.Evidence.Warnings = res.Warnings
+	}
+	return results, nil
+}
+
+// prepare sets up an entry's calibration and stiffness.
+func prepare(c *methods.Campaign, e *methods.RideHeightEntry) (*Result, error) {
 	cal, err := NewCalibration(e.Calibration)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", e.ID, err)
@@ -43,47 +128,13 @@ func Reduce(c *methods.Campaign, e *methods.RideHeightEntry, opt Options) (*Resu
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", e.ID, err)
 		}
-	} else {
-		ax := c.Vehicle.Axles.Front
-		if e.Axle == methods.AxleRear {
-			ax = c.Vehicle.Axles.Rear
-		}
-		res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == methods.SensorLaser)
+		return res, nil
 	}
-	only := ""
-	if len(c.Configurations) == 1 {
-		only = c.Configurations[0].ID
+	ax := c.Vehicle.Axles.Front
+	if e.Axle == methods.AxleRear {
+		ax = c.Vehicle.Axles.Rear
 	}
-	rho := c.Density()
-	for li := range e.Logs {
-		name := c.Path(e.Logs[li].File)
-		f, size, err := openLog(name)
-		if err != nil {
-			return nil, err
-		}
-		var src io.Reader = f
-		if opt.Progress != nil {
-			src = &progressReader{r: f, total: size, report: opt.Progress}
-		}
-		w, tr, err := Windows(src, name, e, li, cal, rho, only)
-		f.Close()
-		if err != nil {
-			return nil, err
-		}
-		res.Windows = append(res.Windows, w...)
-		res.Traces = append(res.Traces, tr)
-	}
-	if len(res.Windows) == 0 {
-		return nil, fmt.Errorf("%s: no steady windows found (speed within ±%g km/h for %g s): check the speed column and the steady settings",
-			e.ID, e.Steady.SpeedTolKmh, e.Steady.MinDurationS)
-	}
-	res.Evidence, err = evidence(c, e, res)
-	if err != nil {
-		return nil, err
-	}
-	res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
-	res.Warnings = warnings(e, res, rho)
-	res.Evidence.Warnings = res.Warnings
+	res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == methods.SensorLaser)
 	return res, nil
 }
 

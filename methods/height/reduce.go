@@ -54,80 +54,136 @@ type Options struct {
 // configuration of every sample when the log names none (no config column,
 // no segments: a one-configuration campaign).
 func Windows(src io.Reader, name string, e *methods.RideHeightEntry, li int, cal Calibration, rho float64, only string) ([]Window, []TracePoint, error) {
-	l := &e.Logs[li]
-	cols, ix := l.LogColumns()
-	r, err := logs.NewReader(src, name, cols)
+	ps, err := readLog(src, name, []*pass{newPass(e, li, cal, rho, only)})
 	if err != nil {
 		return nil, nil, err
 	}
-	defer r.Close()
-	r.Increasing = ix.Time
+	return ps[0].f.windows, ps[0].trace, nil
+}
+
+// pass is one entry's reduction of one log, fed a row at a time, so that
+// several sensors logged in one file share a single read of it.
+type pass struct {
+	e    *methods.RideHeightEntry
+	li   int
+	l    *methods.LogSpec
+	cal  Calibration
+	only string
+	cols []logs.Column
+	ix   methods.LogIndex // into cols
+	at   []int            // cols[k] → index in the shared reader
+
+	segs    []methods.Segment
+	seg     int
+	f       finder
+	lp      LowPass
+	ma      *MovingAverage
+	trace   []TracePoint
+	keep    float64 // next trace time
+	prevT   float64
+	firstDT float64
+	configs map[string]string // interned configuration ids
+}
+
+func newPass(e *methods.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
+	l := &e.Logs[li]
+	cols, ix := l.LogColumns()
 	segs := append([]methods.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
+	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, segs: segs,
+		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
+		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), configs: map[string]string{}}
+}
 
-	f := finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li}
-	lp := LowPass{Tau: e.FilterTauS}
-	var ma *MovingAverage
-	var trace []TracePoint
-	nextKeep := math.Inf(-1)
-	seg, prevT, firstDT := 0, math.NaN(), 0.0
-	configs := map[string]string{} // interned configuration ids
-	for r.Next() {
-		t := r.Float(ix.Time)
-		v := methods.MsToKmh(l.SpeedToMs(r.Float(ix.Speed)))
-		h := cal.MM(r.Float(ix.Signal))
-		if ma == nil && !math.IsNaN(prevT) {
-			firstDT = t - prevT
-			ma = NewMovingAverage(int(math.Round(e.FilterTauS / firstDT)))
-		}
-		gap := !math.IsNaN(prevT) && firstDT > 0 && t-prevT > math.Max(1, 10*firstDT)
-		prevT = t
-
-		// Which configuration and direction does this sample belong to?
-		config, dir := "", 0
-		switch {
-		case ix.Config >= 0:
-			b := r.Text(ix.Config)
-			id, ok := configs[string(b)]
+// readLog streams one log through every pass that reads it. The passes
+// must share the time column.
+func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
+	var cols []logs.Column
+	index := map[logs.Column]int{}
+	for _, p := range ps {
+		p.at = make([]int, len(p.cols))
+		for k, c := range p.cols {
+			i, ok := index[c]
 			if !ok {
-				id = string(b)
-				configs[id] = id
+				i = len(cols)
+				index[c] = i
+				cols = append(cols, c)
 			}
-			config = id
-		case len(segs) > 0:
-			for seg < len(segs) && t > segs[seg].ToS {
-				seg++
-			}
-			if seg < len(segs) && t >= segs[seg].FromS {
-				config, dir = segs[seg].Config, segs[seg].Direction
-			}
-		default:
-			config = only
+			p.at[k] = i
 		}
-		if ix.Direction >= 0 {
-			dir = int(r.Float(ix.Direction))
-		}
-		if gap {
-			f.close()
-		}
-		f.add(t, v, h, config, dir)
-
-		// Smoothed trace for plots; the estimates use the raw samples.
-		y := lp.Step(t, h)
-		avg := h
-		if ma != nil {
-			avg = ma.Step(h)
-		}
-		if t >= nextKeep && len(trace) < maxTrace {
-			trace = append(trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
-			nextKeep = t + traceStep
+	}
+	r, err := logs.NewReader(src, name, cols)
+	if err != nil {
+		return nil, err
+	}
+	defer r.Close()
+	r.Increasing = ps[0].at[ps[0].ix.Time]
+	for r.Next() {
+		for _, p := range ps {
+			p.row(r)
 		}
 	}
 	if err := r.Err(); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
-	f.close()
-	return f.windows, trace, nil
+	for _, p := range ps {
+		p.f.close()
+	}
+	return ps, nil
+}
+
+// row feeds the reader's current row to the pass.
+func (p *pass) row(r *logs.Reader) {
+	ix := p.ix
+	t := r.Float(p.at[ix.Time])
+	v := methods.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
+	h := p.cal.MM(r.Float(p.at[ix.Signal]))
+	if p.ma == nil && !math.IsNaN(p.prevT) {
+		p.firstDT = t - p.prevT
+		p.ma = NewMovingAverage(int(math.Round(p.e.FilterTauS / p.firstDT)))
+	}
+	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > math.Max(1, 10*p.firstDT)
+	p.prevT = t
+
+	// Which configuration and direction does this sample belong to?
+	config, dir := "", 0
+	switch {
+	case ix.Config >= 0:
+		b := r.Text(p.at[ix.Config])
+		id, ok := p.configs[string(b)]
+		if !ok {
+			id = string(b)
+			p.configs[id] = id
+		}
+		config = id
+	case len(p.segs) > 0:
+		for p.seg < len(p.segs) && t > p.segs[p.seg].ToS {
+			p.seg++
+		}
+		if p.seg < len(p.segs) && t >= p.segs[p.seg].FromS {
+			config, dir = p.segs[p.seg].Config, p.segs[p.seg].Direction
+		}
+	default:
+		config = p.only
+	}
+	if ix.Direction >= 0 {
+		dir = int(r.Float(p.at[ix.Direction]))
+	}
+	if gap {
+		p.f.close()
+	}
+	p.f.add(t, v, h, config, dir)
+
+	// Smoothed trace for plots; the estimates use the raw samples.
+	y := p.lp.Step(t, h)
+	avg := h
+	if p.ma != nil {
+		avg = p.ma.Step(h)
+	}
+	if t >= p.keep && len(p.trace) < maxTrace {
+		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
+		p.keep = t + traceStep
+	}
 }
 
 // finder splits a stream of samples into steady windows.
