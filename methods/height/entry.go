@@ -48,6 +48,10 @@ func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) 
 		only = c.Configurations[0].ID
 	}
 	rho := c.Density()
+	known := map[string]bool{}
+	for _, cf := range c.Configurations {
+		known[cf.ID] = true
+	}
 	type group struct {
 		path   string
 		passes []*pass
@@ -70,7 +74,9 @@ func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) 
 				byKey[key] = g
 				groups = append(groups, g)
 			}
-			g.passes = append(g.passes, newPass(e, li, res.Calibration, rho, only))
+			p := newPass(e, li, res.Calibration, rho, only)
+			p.known = known
+			g.passes = append(g.passes, p)
 		}
 	}
 	owner := map[*methods.RideHeightEntry]*Result{}

@@ -83,6 +83,8 @@ type pass struct {
 	prevT   float64
 	firstDT float64
 	configs map[string]string // interned configuration ids
+	known   map[string]bool   // the campaign's configuration ids
+	err     error
 }
 
 func newPass(e *methods.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
@@ -96,7 +98,8 @@ func newPass(e *methods.RideHeightEntry, li int, cal Calibration, rho float64, o
 }
 
 // readLog streams one log through every pass that reads it. The passes
-// must share the time column.
+// must share the time column. A configuration id or a direction in the log
+// that the campaign cannot take is an error at its place in the file.
 func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 	var cols []logs.Column
 	index := map[logs.Column]int{}
@@ -121,6 +124,9 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 	for r.Next() {
 		for _, p := range ps {
 			p.row(r)
+			if p.err != nil {
+				return nil, p.err
+			}
 		}
 	}
 	if err := r.Err(); err != nil {
@@ -153,6 +159,11 @@ func (p *pass) row(r *logs.Reader) {
 		id, ok := p.configs[string(b)]
 		if !ok {
 			id = string(b)
+			if p.known != nil && !p.known[id] {
+				p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Config]), Field: p.l.Config,
+					Err: fmt.Errorf("unknown configuration %q", id)}
+				return
+			}
 			p.configs[id] = id
 		}
 		config = id
@@ -167,7 +178,13 @@ func (p *pass) row(r *logs.Reader) {
 		config = p.only
 	}
 	if ix.Direction >= 0 {
-		dir = int(r.Float(p.at[ix.Direction]))
+		d := r.Float(p.at[ix.Direction])
+		if d != 1 && d != -1 {
+			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Direction]), Field: p.l.Direction,
+				Err: fmt.Errorf("direction must be 1 or -1, got %g", d)}
+			return
+		}
+		dir = int(d)
 	}
 	if gap {
 		p.f.close()

@@ -248,6 +248,9 @@ func (r *Reader) Text(k int) []byte {
 	return r.cur.data[s[0]:s[1]]
 }
 
+// File returns the name the reader gives its source in errors.
+func (r *Reader) File() string { return r.file }
+
 // Line returns the 1-based line number of the current row.
 func (r *Reader) Line() int { return int(r.cur.line[r.i]) }
 
