@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"strings"
+	"unicode/utf8"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -130,10 +131,7 @@ func (p *page) table(cols []column, rows [][]string) {
 			if i < len(r) {
 				text = r[i]
 			}
-			// Fit long cells by shortening, never by overflowing.
-			for p.pdf.GetStringWidth(text) > widths[i]-1.5 && len(text) > 4 {
-				text = strings.TrimRight(text[:len(text)-4], " ") + "…"
-			}
+			text = fit(text, widths[i]-1.5, p.pdf.GetStringWidth)
 			p.pdf.CellFormat(widths[i], rowHeight, text, "", 0, c.align, fill, 0, "")
 		}
 		p.pdf.Ln(rowHeight)
@@ -143,6 +141,16 @@ func (p *page) table(cols []column, rows [][]string) {
 	y := p.pdf.GetY()
 	p.pdf.Line(margin, y, margin+p.w, y)
 	p.pdf.Ln(3)
+}
+
+// fit shortens text, by whole characters and with an ellipsis, until it is
+// at most width wide by measure: long cells are cut, never overflow.
+func fit(text string, width float64, measure func(string) float64) string {
+	for measure(text) > width && utf8.RuneCountInString(text) > 4 {
+		r := []rune(strings.TrimSuffix(text, "…"))
+		text = strings.TrimRight(string(r[:len(r)-1]), " ") + "…"
+	}
+	return text
 }
 
 // chart draws a gonum plot of the given height (mm) across the text width.
