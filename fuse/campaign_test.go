@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
 	"strings"
 	"testing"
 
@@ -14,20 +15,11 @@ import (
 )
 
 // simSpec is a two-configuration day with pots on both axles, a rear laser,
-// taps and a tuft; %[1]d is the seed, %[2]g the true tyre growth, %[3]s the
+// taps (testdata/sim/test-car.yaml) and a tuft; %[1]d is the seed, %[2]g the true tyre growth, %[3]s the
 // speed model, %[4]s the true lift of "wing" and %[5]s the speeds.
 const simSpec = `liftfuse_simulate: 1
 seed: %[1]d
 campaign: {title: agreement, date: 2026-07-01}
-vehicle:
-  label: test car
-  body: fastback
-  wheelbase_m: 2.5
-  mass_kg: 1250
-  drag: {cda_m2: 0.62, centre_height_m: 0.5, sd_pct: 20}
-  axles:
-    front: {spring_n_per_mm: 30, spring_sd_pct: 5, motion_ratio: 0.9, motion_ratio_sd: 0.02, tyre_n_per_mm: 230, tyre_sd_pct: 8}
-    rear: {spring_n_per_mm: 34, spring_sd_pct: 5, motion_ratio: 0.85, motion_ratio_sd: 0.02, tyre_n_per_mm: 230, tyre_sd_pct: 8}
 configurations:
   - {id: base, front_cla_m2: 0.10, rear_cla_m2: 0.08}
   - {id: wing, %[4]s}
@@ -39,30 +31,21 @@ ride_height:
   - {id: fpot, axle: front, sensor: pot, noise_mm: 0.3}
   - {id: rpot, axle: rear, sensor: pot, noise_mm: 0.3}
   - {id: rlaser, axle: rear, sensor: laser, noise_mm: 0.4}
-pressure:
-  - id: taps
-    sensor_sd_pa: 3
-    reference_sd_pa: 5
-    model_sd_pct: 20
-    speeds_kmh: [100, 130]
-    taps:
-      - {id: u1, x_m: 0.1, surface: upper, area_m2: 1.2, nz: 0.9, cp: -0.4}
-      - {id: u2, x_m: 1.3, surface: upper, area_m2: 1.5, nz: 1.0, cp: -0.6}
-      - {id: u3, x_m: 2.4, surface: upper, area_m2: 1.0, nz: 0.8, cp: -0.2}
-      - {id: l1, x_m: 0.2, surface: lower, area_m2: 1.3, nz: -1, cp: -0.2}
-      - {id: l2, x_m: 1.4, surface: lower, area_m2: 1.5, nz: -1, cp: -0.1}
-      - {id: l3, x_m: 2.4, surface: lower, area_m2: 1.1, nz: -1, cp: -0.1}
-    uncovered:
-      - {surface: lower, x_m: 3.0, area_m2: 0.4, nz: -1, cp_mean: -0.1, cp_sd: 0.1, true_cp: -0.1}
 vortex:
   - {id: tuft, side: right, speeds_kmh: [%[5]s], misread: 0.05}
 `
 
 const plainWing = "front_cla_m2: 0.12, rear_cla_m2: -0.06"
 
-// runSim simulates, reduces and fuses a spec; drop lists entries to leave out.
+// runSim simulates, reduces and fuses a spec (completed with the shared
+// test car and its taps); drop lists entries to leave out.
 func runSim(t *testing.T, text string, drop ...string) *fuse.Fused {
 	t.Helper()
+	car, err := os.ReadFile("../testdata/sim/test-car.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text += string(car)
 	dir := t.TempDir()
 	c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 	if err != nil {

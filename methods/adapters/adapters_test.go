@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"os"
 	"strings"
 	"testing"
 
@@ -13,20 +14,12 @@ import (
 	"liftfuse/methods/sim"
 )
 
-// spec is a simulated day with every method; the true lift and the truth of
-// the uncertain quantities are filled in per seed.
+// spec is a simulated day with every method (the car and its taps are
+// testdata/sim/test-car.yaml); the true lift and the truth of the uncertain
+// quantities are filled in per seed.
 const spec = `liftfuse_simulate: 1
 seed: %d
 campaign: {title: conformance, date: 2026-06-01}
-vehicle:
-  label: test car
-  body: fastback
-  wheelbase_m: 2.5
-  mass_kg: 1250
-  drag: {cda_m2: 0.62, centre_height_m: 0.5, sd_pct: 20}
-  axles:
-    front: {spring_n_per_mm: 30, spring_sd_pct: 5, motion_ratio: 0.9, motion_ratio_sd: 0.02, tyre_n_per_mm: 230, tyre_sd_pct: 8}
-    rear: {spring_n_per_mm: 34, spring_sd_pct: 5, motion_ratio: 0.85, motion_ratio_sd: 0.02, tyre_n_per_mm: 230, tyre_sd_pct: 8}
 configurations:
   - {id: one, front_cla_m2: %g, rear_cla_m2: %g}
   - {id: two, front_cla_m2: %g, rear_cla_m2: %g}
@@ -36,21 +29,6 @@ runs: {speeds_kmh: [90, 140], repeats: 2, hold_s: 12, rate_hz: 10}
 ride_height:
   - {id: pot, axle: front, sensor: pot, noise_mm: 0.3}
   - {id: laser, axle: rear, sensor: laser, noise_mm: 0.4}
-pressure:
-  - id: taps
-    sensor_sd_pa: 3
-    reference_sd_pa: 5
-    model_sd_pct: 20
-    speeds_kmh: [100, 130]
-    taps:
-      - {id: u1, x_m: 0.1, surface: upper, area_m2: 1.2, nz: 0.9, cp: -0.4}
-      - {id: u2, x_m: 1.3, surface: upper, area_m2: 1.5, nz: 1.0, cp: -0.6}
-      - {id: u3, x_m: 2.4, surface: upper, area_m2: 1.0, nz: 0.8, cp: -0.2}
-      - {id: l1, x_m: 0.2, surface: lower, area_m2: 1.3, nz: -1, cp: -0.2}
-      - {id: l2, x_m: 1.4, surface: lower, area_m2: 1.5, nz: -1, cp: -0.1}
-      - {id: l3, x_m: 2.4, surface: lower, area_m2: 1.1, nz: -1, cp: -0.1}
-    uncovered:
-      - {surface: lower, x_m: 3.0, area_m2: 0.4, nz: -1, cp_mean: -0.1, cp_sd: 0.1, true_cp: %g}
 vortex:
   - {id: tuft, side: left, speeds_kmh: [60, 100, 140], misread: 0.05}
 `
@@ -65,6 +43,10 @@ func TestConformance(t *testing.T) {
 	if testing.Short() {
 		days = 3
 	}
+	car, err := os.ReadFile("../../testdata/sim/test-car.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
 	rng := rand.New(rand.NewPCG(11, 3))
 	hits := map[string]int{}
 	tries := map[string]int{}
@@ -75,7 +57,8 @@ func TestConformance(t *testing.T) {
 		}
 		text := fmt.Sprintf(spec, day+1, beta[0], beta[1], beta[2], beta[3], rng.NormFloat64(),
 			math.Exp(0.06*rng.NormFloat64()), math.Exp(0.06*rng.NormFloat64()), 0.5+0.5*rng.NormFloat64(),
-			math.Exp(0.2*rng.NormFloat64()), math.Exp(0.2*rng.NormFloat64()), -0.1+0.1*rng.NormFloat64())
+			math.Exp(0.2*rng.NormFloat64()), math.Exp(0.2*rng.NormFloat64()))
+		text += strings.Replace(string(car), "true_cp: -0.1}", fmt.Sprintf("true_cp: %g}", -0.1+0.1*rng.NormFloat64()), 1)
 		dir := t.TempDir()
 		c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 		if err != nil {
