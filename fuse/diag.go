@@ -25,14 +25,6 @@ func splitChains(chains [][]float64) [][]float64 {
 	return out
 }
 
-// rankNormalize replaces every draw by the normal score of its pooled
-// fractional rank, Φ⁻¹((r − 3/8)/(S + 1/4)), ties getting their average rank.
-func rankNormalize(chains [][]float64) [][]float64 {
-	var sc scratch
-	vals, idx := sc.pooledOrder(chains)
-	return reshape(append([]float64(nil), sc.normalScores(vals, idx, &sc.z)...), chains)
-}
-
 // scratch holds the buffers of one diagnosis, reused through a pool: the
 // sampler diagnoses several quantities after every batch.
 type scratch struct {
@@ -173,13 +165,6 @@ func meanVar(x []float64) (float64, float64) {
 	return m, s / float64(len(x)-1)
 }
 
-// Rhat returns the rank-normalised split R̂: the larger of the R̂ of the
-// rank-normalised split chains and of their folded (|x − median|) version.
-func Rhat(chains [][]float64) float64 {
-	r, _ := RhatESS(chains)
-	return r
-}
-
 // RhatESS returns the rank-normalised split R̂ and the bulk ESS together.
 // The draws are sorted once: the folded values |x − median| are ordered by
 // merging the two halves of that order, outward from the median.
@@ -219,13 +204,9 @@ func RhatESS(chains [][]float64) (rhat, essBulk float64) {
 	return math.Max(basicRhat(z), basicRhat(fz)), ess(z)
 }
 
-// ESSBulk returns the bulk effective sample size: the ESS of the
-// rank-normalised split chains, with autocorrelations combined across
-// chains and truncated by Geyer's initial monotone sequence.
-func ESSBulk(chains [][]float64) float64 {
-	return ess(rankNormalize(splitChains(chains)))
-}
-
+// ess is the effective sample size of (rank-normalised, split) chains,
+// with autocorrelations combined across chains and truncated by Geyer's
+// initial monotone sequence.
 func ess(chains [][]float64) float64 {
 	M := len(chains)
 	n := len(chains[0])

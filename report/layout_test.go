@@ -63,7 +63,8 @@ func TestTableBreaksAcrossPages(t *testing.T) {
 // (the text is valid UTF-8 whatever the characters), marked with an
 // ellipsis, and no wider than the column.
 func TestFit(t *testing.T) {
-	width := func(s string) float64 { return float64(utf8.RuneCountInString(s)) } // one unit a character
+	// One unit a character; the expected cuts are worked by hand.
+	width := func(s string) float64 { return float64(utf8.RuneCountInString(s)) }
 	tests := []struct {
 		name, in string
 		w        float64

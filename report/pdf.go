@@ -107,14 +107,9 @@ func (r *reporter) configs() []string {
 }
 
 // force formats an estimate in newtons in the display unit.
-func (r *reporter) force(e fuse.Estimate) string {
-	e = e.Scale(1 / r.unitN)
-	return fmt.Sprintf("%+.1f [%+.1f, %+.1f]", e.Mean, e.Lo, e.Hi)
-}
+func (r *reporter) force(e fuse.Estimate) string { return interval(e.Scale(1/r.unitN), 1) }
 
-func cla(e fuse.Estimate) string {
-	return fmt.Sprintf("%+.3f [%+.3f, %+.3f]", e.Mean, e.Lo, e.Hi)
-}
+func cla(e fuse.Estimate) string { return interval(e, 3) }
 
 func (r *reporter) level() string { return fmt.Sprintf("%.0f %%", 100*r.res.Credible) }
 

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/examples"
+	"liftfuse/report"
 )
 
 type initOptions struct {
@@ -34,32 +35,20 @@ refuses to write into a folder that already exists.`,
 	}
 }
 
-// runInit writes the demo into a temporary sibling folder and renames it to
-// DIR, so a failed run leaves nothing behind.
+// runInit writes the demo through a temporary folder, so a failed run
+// leaves nothing behind.
 func runInit(o initOptions, out io.Writer) error {
 	if _, err := os.Stat(o.dir); err == nil {
 		return badInput("%s already exists: init writes only a new folder", o.dir)
 	} else if !errors.Is(err, fs.ErrNotExist) {
 		return err
 	}
-	parent := filepath.Dir(filepath.Clean(o.dir))
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(o.dir)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("cannot create %s: %w", o.dir, err)
-	}
-	defer os.RemoveAll(tmp) // a no-op once renamed
 	demo, err := fs.Sub(examples.Demo(), examples.DemoName)
 	if err != nil {
 		return err
 	}
-	if err := os.CopyFS(tmp, demo); err != nil {
-		return fmt.Errorf("cannot write %s: %w", o.dir, err)
-	}
-	if err := os.Chmod(tmp, 0o755); err != nil {
+	if err := report.WriteFolder(o.dir, func(tmp string) error { return os.CopyFS(tmp, demo) }); err != nil {
 		return err
-	}
-	if err := os.Rename(tmp, o.dir); err != nil {
-		return fmt.Errorf("cannot create %s: %w", o.dir, err)
 	}
 	fmt.Fprintf(out, "wrote the demo campaign to %s; next: liftfuse validate %s\n", o.dir, filepath.Join(o.dir, "campaign.yaml"))
 	return nil

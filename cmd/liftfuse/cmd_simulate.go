@@ -12,6 +12,7 @@ import (
 
 	"liftfuse/methods"
 	"liftfuse/methods/sim"
+	"liftfuse/report"
 )
 
 type simulateOptions struct {
@@ -45,7 +46,7 @@ shows up. The spec format is in examples/ducktail-fastback/spec.yaml.`,
 	return cmd
 }
 
-// runSimulate writes into a temporary folder and moves the files into
+// runSimulate writes through a temporary folder and moves the files into
 // place only once everything has been written and the campaign validates.
 func runSimulate(o simulateOptions, out io.Writer) error {
 	s, err := sim.Load(o.spec)
@@ -57,34 +58,14 @@ func runSimulate(o simulateOptions, out io.Writer) error {
 	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
 		return err
 	}
-	parent := filepath.Dir(filepath.Clean(o.out))
-	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return err
-	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(o.out)+".tmp-*")
-	if err != nil {
-		return err
-	}
-	defer os.RemoveAll(tmp)
-	if _, err := sim.Generate(s, tmp); err != nil {
-		return fmt.Errorf("simulate: %w", err)
-	}
-	if _, err := methods.Load(filepath.Join(tmp, "campaign.yaml"), methods.Options{}); err != nil {
-		return fmt.Errorf("the simulated campaign does not validate (a bug, or a spec the campaign format cannot express): %w", err)
-	}
-	if err := os.MkdirAll(o.out, 0o755); err != nil {
-		return err
-	}
-	err = filepath.WalkDir(tmp, func(p string, d fs.DirEntry, err error) error {
-		if err != nil || d.IsDir() {
-			return err
+	err = report.WriteFolder(o.out, func(tmp string) error {
+		if _, err := sim.Generate(s, tmp); err != nil {
+			return fmt.Errorf("simulate: %w", err)
 		}
-		rel, _ := filepath.Rel(tmp, p)
-		dst := filepath.Join(o.out, rel)
-		if err := os.MkdirAll(filepath.Dir(dst), 0o755); err != nil {
-			return err
+		if _, err := methods.Load(filepath.Join(tmp, "campaign.yaml"), methods.Options{}); err != nil {
+			return fmt.Errorf("the simulated campaign does not validate (a bug, or a spec the campaign format cannot express): %w", err)
 		}
-		return os.Rename(p, dst)
+		return nil
 	})
 	if err != nil {
 		return err
