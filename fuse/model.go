@@ -125,8 +125,26 @@ type sign struct {
 	v        float64
 }
 
-// model is the joint model of a set of Evidence values.
+// model is the joint model of a set of Evidence values: the indexed data,
+// shared by every variant of the model, and what a variant may change.
 type model struct {
+	*data
+
+	// The robust layer's "entry looks off" alternatives: inflate[e] > 1
+	// multiplies entry e's random error sd (and makes its signs
+	// uninformative); inflateSys[e] > 1 multiplies the prior sds of the
+	// nuisances and scale factors that e alone owns.
+	inflate, inflateSys []float64
+	// start is where the Laplace fit begins, by φ name (zero elsewhere):
+	// the joint posterior's mode, for the fits that leave entries out.
+	start map[string]float64
+
+	priorOnce sync.Once
+	prior     *prior // prior terms under this variant's inflation
+}
+
+// data is the evidence in indexed form; it is not changed once built.
+type data struct {
 	set     Settings
 	entries []string
 	kinds   []methods.Kind
@@ -139,20 +157,9 @@ type model struct {
 	// other blocks, conditioned row by row.
 	groups     []group
 	fullBlocks []int
-
-	priorOnce sync.Once
-	prior     *prior
-	informed  map[string]bool // configurations some evidence speaks of
-	// start is where the Laplace fit begins, by φ name (zero elsewhere):
-	// the joint posterior's mode, for the fits that leave entries out.
-	start map[string]float64
-	beta  map[[2]string]int // (config, axle) → column of β
-	gamma map[[2]string]int
-	// The robust layer's "entry looks off" alternatives: inflate[e] > 1
-	// multiplies entry e's random error sd (and makes its signs
-	// uninformative); inflateSys[e] > 1 multiplies the prior sds of the
-	// nuisances and scale factors that e alone owns.
-	inflate, inflateSys []float64
+	informed   map[string]bool   // configurations some evidence speaks of
+	beta       map[[2]string]int // (config, axle) → column of β
+	gamma      map[[2]string]int
 }
 
 // vref is V_ref of the linear speed model, m/s.
@@ -162,7 +169,7 @@ var vref = methods.KmhToMs(methods.RefSpeedKmh)
 // in several entries are one parameter; their priors must agree.
 func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 	set = set.withDefaults()
-	m := &model{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}
+	m := &model{data: &data{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}}
 	for _, c := range set.Configs {
 		for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
 			m.beta[[2]string{c, ax}] = len(m.lin)

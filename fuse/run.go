@@ -392,8 +392,7 @@ func (m *model) pOff(e int, logZ float64) float64 {
 // in off inflated by κ: their random errors when noise is set, their own
 // systematic priors when sys is set.
 func (m *model) variant(off map[int]bool, noise, sys bool) *model {
-	alt := &model{set: m.set, entries: m.entries, kinds: m.kinds, lin: m.lin, phi: m.phi, rows: m.rows, blocks: m.blocks,
-		signs: m.signs, beta: m.beta, gamma: m.gamma, groups: m.groups, fullBlocks: m.fullBlocks, informed: m.informed, start: m.start}
+	alt := &model{data: m.data, start: m.start}
 	alt.inflate = append([]float64(nil), m.inflate...)
 	alt.inflateSys = append([]float64(nil), m.inflateSys...)
 	for e := range off {
