@@ -35,17 +35,25 @@ vortex:
   - {id: tuft, side: right, speeds_kmh: [%[5]s], misread: 0.05}
 `
 
+// testCar returns the shared test car and its taps.
+func testCar(t *testing.T) string {
+	t.Helper()
+	car, err := os.ReadFile("../testdata/sim/test-car.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(car)
+}
+
 const plainWing = "front_cla_m2: 0.12, rear_cla_m2: -0.06"
 
 // runSim simulates, reduces and fuses a spec (completed with the shared
 // test car and its taps); drop lists entries to leave out.
 func runSim(t *testing.T, text string, drop ...string) *fuse.Fused {
 	t.Helper()
-	car, err := os.ReadFile("../testdata/sim/test-car.yaml")
-	if err != nil {
-		t.Fatal(err)
+	if !strings.Contains(text, "\nvehicle:") {
+		text += testCar(t)
 	}
-	text += string(car)
 	dir := t.TempDir()
 	c, _, err := sim.Build(strings.NewReader(text), "spec.yaml", dir)
 	if err != nil {
@@ -178,7 +186,7 @@ func TestSimulateFuseCoverage(t *testing.T) {
 		lognormal := func(sd float64) float64 { return math.Exp(sd * rng.NormFloat64()) }
 		text = strings.Replace(text, "truth: {tyre_growth_mm:", fmt.Sprintf("truth: {front_spring_scale: %g, rear_spring_scale: %g, drag_scale: %g, pressure_scale: %g, tyre_growth_mm:",
 			lognormal(math.Hypot(0.05, 2*0.02/0.9)), lognormal(math.Hypot(0.05, 2*0.02/0.85)), lognormal(0.2), lognormal(0.2)), 1)
-		text = strings.Replace(text, "true_cp: -0.1}", fmt.Sprintf("true_cp: %g}", -0.1+0.1*rng.NormFloat64()), 1)
+		text += strings.Replace(testCar(t), "true_cp: -0.1}", fmt.Sprintf("true_cp: %g}", -0.1+0.1*rng.NormFloat64()), 1)
 		for _, id := range []string{"fpot", "rpot", "rlaser"} {
 			text = strings.Replace(text, "{id: "+id+",", fmt.Sprintf("{id: %s, gain_error_pct: %g,", id, rng.NormFloat64()), 1)
 		}
