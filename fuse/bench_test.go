@@ -5,17 +5,17 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/campaign"
 )
 
 // demoInput reduces the bundled demo campaign.
 func demoInput(tb testing.TB) fuse.Input {
 	tb.Helper()
-	c, err := methods.Load("../examples/ducktail-fastback/campaign.yaml", methods.Options{})
+	c, err := campaign.Load("../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
 	if err != nil {
 		tb.Fatal(err)
 	}
-	r, err := adapters.Reduce(c, adapters.Options{})
+	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -10,7 +10,8 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/sim"
 )
 
@@ -59,11 +60,11 @@ func runSim(t *testing.T, text string, drop ...string) *fuse.Fused {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := adapters.Reduce(c, adapters.Options{})
+	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	var evs []methods.Evidence
+	var evs []evidence.Evidence
 outer:
 	for _, ev := range r.Evidence {
 		for _, d := range drop {
@@ -74,7 +75,7 @@ outer:
 		evs = append(evs, ev)
 	}
 	f, err := fuse.Run(fuse.Input{Evidence: evs, Settings: fuse.Settings{Configs: []string{"base", "wing"}, Seed: 1, Credible: 0.9,
-		Linear: c.Prior.SpeedModel == methods.SpeedLinear}, Reference: "base", SpeedsKmh: []float64{100}, Rho: c.Density()})
+		Linear: c.Prior.SpeedModel == campaign.SpeedLinear}, Reference: "base", SpeedsKmh: []float64{100}, Rho: c.Density()})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -136,7 +137,7 @@ func TestLinearSpeedModel(t *testing.T) {
 	text := fmt.Sprintf(simSpec, 9, 0.5, "linear", "front_cla_m2: 0.05, rear_cla_m2: 0, rear_slope_m2: -0.2", "40, 60, 100, 150")
 	with := runSim(t, text)
 	P := with.Posterior
-	rear := methods.Term{Config: "wing", Axle: "rear", W: 1}
+	rear := evidence.Term{Config: "wing", Axle: "rear", W: 1}
 	at40, p40 := P.At(40, rear)
 	at150, p150 := P.At(150, rear)
 	if !(at40.Lo <= 0.12 && 0.12 <= at40.Hi && p40 < 0.05) || !(at150.Lo <= -0.10 && -0.10 <= at150.Hi && p150 > 0.95) {
@@ -148,7 +149,7 @@ func TestLinearSpeedModel(t *testing.T) {
 	// rear lift.
 	with = runSim(t, text, "rpot", "taps")
 	without := runSim(t, text, "rpot", "taps", "tuft")
-	tot := methods.Term{Config: "wing", Axle: "total", W: 1}
+	tot := evidence.Term{Config: "wing", Axle: "total", W: 1}
 	_, w100 := with.Posterior.At(100, tot)
 	_, o100 := without.Posterior.At(100, tot)
 	_, w150 := with.Posterior.At(150, tot)

@@ -8,7 +8,8 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/evidence"
 )
 
 // CrosscheckFormat is the format string of the cross-check document.
@@ -91,7 +92,7 @@ func (f *Fused) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 // which of the entry's own errors would have to move to reach the others.
 func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	m := P.p.m
-	if _, ok := m.beta[[2]string{cl.Config, methods.AxleFront}]; !ok {
+	if _, ok := m.beta[[2]string{cl.Config, evidence.AxleFront}]; !ok {
 		return nil, fmt.Errorf("unknown configuration %q", cl.Config)
 	}
 	var k float64 // T = k·β(V) in the claim's unit
@@ -99,13 +100,13 @@ func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	case "m2":
 		k = 1
 	default:
-		n, err := methods.NewtonsPer(cl.Unit)
+		n, err := air.NewtonsPer(cl.Unit)
 		if err != nil {
 			return nil, err
 		}
-		k = methods.DynamicPressure(rho, methods.KmhToMs(cl.SpeedKmh)) / n
+		k = air.DynamicPressure(rho, air.KmhToMs(cl.SpeedKmh)) / n
 	}
-	w := P.weightsAt(cl.SpeedKmh, []methods.Term{{Config: cl.Config, Axle: cl.Axle, W: k}})
+	w := P.weightsAt(cl.SpeedKmh, []evidence.Term{{Config: cl.Config, Axle: cl.Axle, W: k}})
 	p := len(m.lin)
 	D := m.dim()
 	var T []float64

@@ -8,7 +8,9 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // Settings are the campaign-level choices fusion needs.
@@ -27,10 +29,10 @@ type Settings struct {
 
 func (s Settings) withDefaults() Settings {
 	if s.PriorSD == 0 {
-		s.PriorSD = methods.DefaultCLASDM2
+		s.PriorSD = campaign.DefaultCLASDM2
 	}
 	if s.Credible == 0 {
-		s.Credible = methods.DefaultCredible
+		s.Credible = campaign.DefaultCredible
 	}
 	if s.MinESS == 0 {
 		s.MinESS = 2000
@@ -54,7 +56,7 @@ type linParam struct {
 	kind   int
 	config string
 	axle   string
-	nuis   methods.Nuisance
+	nuis   evidence.Nuisance
 	mean   float64
 	prec   float64 // prior precision; 0 for a flat prior
 	owners map[int]bool
@@ -147,7 +149,7 @@ type model struct {
 type data struct {
 	set     Settings
 	entries []string
-	kinds   []methods.Kind
+	kinds   []evidence.Kind
 	lin     []linParam
 	phi     []phiParam
 	rows    []row
@@ -163,22 +165,22 @@ type data struct {
 }
 
 // vref is V_ref of the linear speed model, m/s.
-var vref = methods.KmhToMs(methods.RefSpeedKmh)
+var vref = air.KmhToMs(evidence.RefSpeedKmh)
 
 // newModel indexes the evidence. Nuisances and scale groups of the same name
 // in several entries are one parameter; their priors must agree.
-func newModel(evs []methods.Evidence, set Settings) (*model, error) {
+func newModel(evs []evidence.Evidence, set Settings) (*model, error) {
 	set = set.withDefaults()
 	m := &model{data: &data{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}}
 	for _, c := range set.Configs {
-		for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear} {
 			m.beta[[2]string{c, ax}] = len(m.lin)
 			m.lin = append(m.lin, linParam{kind: kindBeta, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
 		}
 	}
 	if set.Linear {
 		for _, c := range set.Configs {
-			for _, ax := range []string{methods.AxleFront, methods.AxleRear} {
+			for _, ax := range []string{evidence.AxleFront, evidence.AxleRear} {
 				m.gamma[[2]string{c, ax}] = len(m.lin)
 				m.lin = append(m.lin, linParam{kind: kindGamma, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
 			}
@@ -255,7 +257,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 			}
 		}
 	}
-	terms := func(ts []methods.Term, v float64) (lift, gam []entryRef, err error) {
+	terms := func(ts []evidence.Term, v float64) (lift, gam []entryRef, err error) {
 		for _, t := range ts {
 			k := [2]string{t.Config, t.Axle}
 			i, ok := m.beta[k]
@@ -439,10 +441,10 @@ func (b *block) setCov(cov *mat.SymDense) error {
 
 // quantities returns the column weights of a quantity (front, rear or total
 // β of a configuration) at V_ref.
-func (m *model) quantity(q methods.Quantity) []entryRef {
+func (m *model) quantity(q evidence.Quantity) []entryRef {
 	switch q.Axle {
-	case methods.AxleTotal:
-		return []entryRef{{m.beta[[2]string{q.Config, methods.AxleFront}], 1}, {m.beta[[2]string{q.Config, methods.AxleRear}], 1}}
+	case evidence.AxleTotal:
+		return []entryRef{{m.beta[[2]string{q.Config, evidence.AxleFront}], 1}, {m.beta[[2]string{q.Config, evidence.AxleRear}], 1}}
 	default:
 		return []entryRef{{m.beta[[2]string{q.Config, q.Axle}], 1}}
 	}

@@ -8,7 +8,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"liftfuse/methods"
+	"liftfuse/methods/evidence"
 )
 
 // PlanFormat is the format string of the plan document.
@@ -24,10 +24,10 @@ type Target struct {
 }
 
 // terms returns the target as terms on β.
-func (t Target) terms() []methods.Term {
-	ts := []methods.Term{{Config: t.Config, Axle: t.Axle, W: 1}}
+func (t Target) terms() []evidence.Term {
+	ts := []evidence.Term{{Config: t.Config, Axle: t.Axle, W: 1}}
 	if t.Versus != "" {
-		ts = append(ts, methods.Term{Config: t.Versus, Axle: t.Axle, W: -1})
+		ts = append(ts, evidence.Term{Config: t.Versus, Axle: t.Axle, W: -1})
 	}
 	return ts
 }
@@ -130,7 +130,7 @@ func (f *Fused) PlanRepeats(t Target, cost func(entry string) float64) (*Plan, e
 func (m *model) why(e int, t Target, removed float64) string {
 	sees := false
 	for _, q := range m.informs(e) {
-		axle := t.Axle == methods.AxleTotal || q.Axle == t.Axle || q.Axle == methods.AxleTotal
+		axle := t.Axle == evidence.AxleTotal || q.Axle == t.Axle || q.Axle == evidence.AxleTotal
 		if axle && (q.Config == t.Config || q.Config == t.Versus) {
 			sees = true
 		}
@@ -174,13 +174,13 @@ func joinMax(ss []string, n int) string {
 }
 
 // informs lists the quantities an entry of the model speaks of.
-func (m *model) informs(e int) []methods.Quantity {
-	seen := map[methods.Quantity]bool{}
-	var out []methods.Quantity
+func (m *model) informs(e int) []evidence.Quantity {
+	seen := map[evidence.Quantity]bool{}
+	var out []evidence.Quantity
 	add := func(refs []entryRef) {
 		for _, r := range refs {
 			p := m.lin[r.col]
-			if q := (methods.Quantity{Config: p.config, Axle: p.axle}); !seen[q] {
+			if q := (evidence.Quantity{Config: p.config, Axle: p.axle}); !seen[q] {
 				seen[q] = true
 				out = append(out, q)
 			}
@@ -374,7 +374,7 @@ func (f *Fused) discriminate(id string, worst Disagreement, cost func(string) fl
 	if alone == nil || others == nil {
 		return nil
 	}
-	q := []methods.Term{{Config: worst.Config, Axle: worst.Axle, W: 1}}
+	q := []evidence.Term{{Config: worst.Config, Axle: worst.Axle, W: 1}}
 	ea, _ := alone.Linear(q...)
 	eo, _ := others.Linear(q...)
 	best, bestGain := "", 0.0

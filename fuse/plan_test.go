@@ -7,13 +7,14 @@ import (
 	"testing"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/evidence"
 )
 
 // heightLike is a linear-Gaussian ride-height-like entry: windows at
 // several dynamic pressures, a per-run flat offset, a shared tyre growth.
-func heightLike(t *testing.T, id, offset string, noise float64, shift float64) methods.Evidence {
-	var o []methods.Obs
+func heightLike(t *testing.T, id, offset string, noise float64, shift float64) evidence.Evidence {
+	var o []evidence.Obs
 	var sd []float64
 	for i, q := range []float64{0, 50, 300, 600, 900, 0, 300, 900} {
 		cfg := "a"
@@ -21,17 +22,17 @@ func heightLike(t *testing.T, id, offset string, noise float64, shift float64) m
 			cfg = "b"
 		}
 		v2 := q / 500
-		o = append(o, methods.Obs{Y: 10 + q*0.1/40 + 0.4*v2 + shift*float64(i%3-1), Terms: []methods.Term{{Config: cfg, Axle: "rear", W: 1.0 / 40}},
-			Air: methods.Airspeed{Q: q}, Nuis: []methods.Coef{{Name: offset, C: 1}, {Name: "growth", C: v2}}, Label: "w"})
+		o = append(o, evidence.Obs{Y: 10 + q*0.1/40 + 0.4*v2 + shift*float64(i%3-1), Terms: []evidence.Term{{Config: cfg, Axle: "rear", W: 1.0 / 40}},
+			Air: evidence.Airspeed{Q: q}, Nuis: []evidence.Coef{{Name: offset, C: 1}, {Name: "growth", C: v2}}, Label: "w"})
 		sd = append(sd, noise)
 	}
-	b, err := methods.Diagonal(o, sd)
+	b, err := evidence.Diagonal(o, sd)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return methods.Evidence{Entry: id, Kind: methods.KindRideHeight, Blocks: []methods.Block{b},
-		Nuisances: []methods.Nuisance{{Name: offset, Label: "offset", Flat: true, PerRun: true}, {Name: "growth", Label: "tyre growth", Mean: 0.5, SD: 0.5}},
-		Informs:   []methods.Quantity{{Config: "a", Axle: "rear"}, {Config: "b", Axle: "rear"}}}
+	return evidence.Evidence{Entry: id, Kind: evidence.KindRideHeight, Blocks: []evidence.Block{b},
+		Nuisances: []evidence.Nuisance{{Name: offset, Label: "offset", Flat: true, PerRun: true}, {Name: "growth", Label: "tyre growth", Mean: 0.5, SD: 0.5}},
+		Informs:   []evidence.Quantity{{Config: "a", Axle: "rear"}, {Config: "b", Axle: "rear"}}}
 }
 
 // TestRepeatMatchesDuplicate: for a linear-Gaussian campaign the predicted
@@ -40,9 +41,9 @@ func heightLike(t *testing.T, id, offset string, noise float64, shift float64) m
 // log) but the same tyre growth (the same tyres).
 func TestRepeatMatchesDuplicate(t *testing.T) {
 	a := heightLike(t, "laser", "laser/offset", 0.05, 0.02)
-	other := entry(t, "taps", []methods.Obs{obs("a", "rear", 0.11), obs("b", "rear", 0.02), obs("a", "front", 0.1)}, []float64{0.04, 0.04, 0.04})
+	other := entry(t, "taps", []evidence.Obs{obs("a", "rear", 0.11), obs("b", "rear", 0.02), obs("a", "front", 0.1)}, []float64{0.04, 0.04, 0.04})
 	set := fuse.Settings{Configs: []string{"a", "b"}, Seed: 1, Credible: 0.9}
-	f, err := fuse.Run(fuse.Input{Evidence: []methods.Evidence{a, other}, Settings: set, Reference: "a", Rho: 1.2})
+	f, err := fuse.Run(fuse.Input{Evidence: []evidence.Evidence{a, other}, Settings: set, Reference: "a", Rho: 1.2})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -52,13 +53,13 @@ func TestRepeatMatchesDuplicate(t *testing.T) {
 			t.Fatal(err)
 		}
 		dup := heightLike(t, "laser-again", "laser-again/offset", 0.05, 0.02)
-		P, err := fuse.Fit([]methods.Evidence{a, other, dup}, set)
+		P, err := fuse.Fit([]evidence.Evidence{a, other, dup}, set)
 		if err != nil {
 			t.Fatal(err)
 		}
-		terms := []methods.Term{{Config: tgt.Config, Axle: tgt.Axle, W: 1}}
+		terms := []evidence.Term{{Config: tgt.Config, Axle: tgt.Axle, W: 1}}
 		if tgt.Versus != "" {
-			terms = append(terms, methods.Term{Config: tgt.Versus, Axle: tgt.Axle, W: -1})
+			terms = append(terms, evidence.Term{Config: tgt.Versus, Axle: tgt.Axle, W: -1})
 		}
 		want, _ := P.Linear(terms...)
 		for _, o := range pl.Options {
@@ -74,10 +75,10 @@ func TestRepeatMatchesDuplicate(t *testing.T) {
 // almost nothing; repeating one whose error is all random, and which alone
 // informs the target, halves its variance (the prior, sd 1, is negligible).
 func TestSystematicVersusRandom(t *testing.T) {
-	sys := entry(t, "sys", []methods.Obs{obs("c", "front", 0.2, methods.Coef{Name: "bias", C: 1}), obs("c", "front", 0.2, methods.Coef{Name: "bias", C: 1})},
-		[]float64{0.001, 0.001}, methods.Nuisance{Name: "bias", Label: "sensor bias", SD: 0.1})
-	rnd := entry(t, "rnd", []methods.Obs{obs("c", "rear", 0.1), obs("c", "rear", 0.12)}, []float64{0.05, 0.05})
-	f, err := fuse.Run(fuse.Input{Evidence: []methods.Evidence{sys, rnd}, Settings: fuse.Settings{Configs: []string{"c"}, Seed: 1}, Reference: "c", Rho: 1.2})
+	sys := entry(t, "sys", []evidence.Obs{obs("c", "front", 0.2, evidence.Coef{Name: "bias", C: 1}), obs("c", "front", 0.2, evidence.Coef{Name: "bias", C: 1})},
+		[]float64{0.001, 0.001}, evidence.Nuisance{Name: "bias", Label: "sensor bias", SD: 0.1})
+	rnd := entry(t, "rnd", []evidence.Obs{obs("c", "rear", 0.1), obs("c", "rear", 0.12)}, []float64{0.05, 0.05})
+	f, err := fuse.Run(fuse.Input{Evidence: []evidence.Evidence{sys, rnd}, Settings: fuse.Settings{Configs: []string{"c"}, Seed: 1}, Reference: "c", Rho: 1.2})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -112,17 +113,17 @@ func TestCrosscheck(t *testing.T) {
 	text := fmt.Sprintf(simSpec, 21, 3.0, "constant", plainWing, "80, 120, 150")
 	f := runSim(t, text, "rpot", "taps", "tuft")
 	const rho = 1.225
-	cc, err := f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Unit: methods.UnitN}, rho)
+	cc, err := f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Unit: air.UnitN}, rho)
 	if err != nil {
 		t.Fatal(err)
 	}
 	at := cc.Predictive
-	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: at.Mean, Unit: methods.UnitN}, rho)
+	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: at.Mean, Unit: air.UnitN}, rho)
 	if err != nil || math.Abs(cc.Z) >= 0.1 {
 		t.Fatalf("a claim at the predictive mean has z = %v (%v)", cc.Z, err)
 	}
 	far := at.Mean - 15*at.SD
-	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: far, Unit: methods.UnitN}, rho)
+	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: far, Unit: air.UnitN}, rho)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +138,7 @@ func TestCrosscheck(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	e, _ := f.Posterior.Quantity(methods.Quantity{Config: "wing", Axle: "rear"})
+	e, _ := f.Posterior.Quantity(evidence.Quantity{Config: "wing", Axle: "rear"})
 	if math.Abs(cm.Predictive.Mean-e.Mean) > 1e-9 {
 		t.Errorf("m² predictive %v, posterior %v", cm.Predictive.Mean, e.Mean)
 	}

@@ -8,7 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"liftfuse/methods"
+	"liftfuse/methods/evidence"
 )
 
 // Estimate summarises a posterior: mean, standard deviation and the central
@@ -36,7 +36,7 @@ type Posterior struct {
 }
 
 // Fit computes the posterior of the evidence under the settings.
-func Fit(evs []methods.Evidence, set Settings) (*Posterior, error) {
+func Fit(evs []evidence.Evidence, set Settings) (*Posterior, error) {
 	m, err := newModel(evs, set)
 	if err != nil {
 		return nil, err
@@ -57,21 +57,21 @@ func (P *Posterior) Diagnostics() Diagnostics { return P.p.diag }
 
 // weights turns terms on (configuration, axle) into column weights at
 // V_ref; a "total" axle counts front and rear.
-func (P *Posterior) weights(ts []methods.Term) []entryRef {
+func (P *Posterior) weights(ts []evidence.Term) []entryRef {
 	return P.weightsAt(math.NaN(), ts)
 }
 
 // weightsAt is weights at a speed vKmh: with the linear speed model each β
 // brings its γ with weight (V − V_ref)/V_ref.
-func (P *Posterior) weightsAt(vKmh float64, ts []methods.Term) []entryRef {
+func (P *Posterior) weightsAt(vKmh float64, ts []evidence.Term) []entryRef {
 	m := P.p.m
 	var w []entryRef
 	for _, t := range ts {
-		for _, r := range m.quantity(methods.Quantity{Config: t.Config, Axle: t.Axle}) {
+		for _, r := range m.quantity(evidence.Quantity{Config: t.Config, Axle: t.Axle}) {
 			w = append(w, entryRef{r.col, r.v * t.W})
 			if m.set.Linear && !math.IsNaN(vKmh) {
 				g := r.col + len(m.set.Configs)*2 // γ columns follow the β columns in the same order
-				w = append(w, entryRef{g, r.v * t.W * (vKmh - methods.RefSpeedKmh) / methods.RefSpeedKmh})
+				w = append(w, entryRef{g, r.v * t.W * (vKmh - evidence.RefSpeedKmh) / evidence.RefSpeedKmh})
 			}
 		}
 	}
@@ -80,13 +80,13 @@ func (P *Posterior) weightsAt(vKmh float64, ts []methods.Term) []entryRef {
 
 // At returns the estimate of Σ W·β(V) at a speed in km/h (with the
 // constant speed model, the same as Linear), and P(value < 0).
-func (P *Posterior) At(vKmh float64, ts ...methods.Term) (Estimate, float64) {
+func (P *Posterior) At(vKmh float64, ts ...evidence.Term) (Estimate, float64) {
 	return P.estimate(P.weightsAt(vKmh, ts))
 }
 
 // Linear returns the estimate of Σ W·β over the terms (axle "total" allowed)
 // and P(Σ W·β < 0).
-func (P *Posterior) Linear(ts ...methods.Term) (Estimate, float64) {
+func (P *Posterior) Linear(ts ...evidence.Term) (Estimate, float64) {
 	return P.estimate(P.weights(ts))
 }
 
@@ -107,19 +107,19 @@ func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 
 // Quantity returns the estimate of an axle (front, rear or total) of a
 // configuration, and P(downforce).
-func (P *Posterior) Quantity(q methods.Quantity) (Estimate, float64) {
-	return P.Linear(methods.Term{Config: q.Config, Axle: q.Axle, W: 1})
+func (P *Posterior) Quantity(q evidence.Quantity) (Estimate, float64) {
+	return P.Linear(evidence.Term{Config: q.Config, Axle: q.Axle, W: 1})
 }
 
 // Delta returns the estimate of an axle of config minus the same axle of
 // versus, and P(difference < 0).
 func (P *Posterior) Delta(config, versus, axle string) (Estimate, float64) {
-	return P.Linear(methods.Term{Config: config, Axle: axle, W: 1}, methods.Term{Config: versus, Axle: axle, W: -1})
+	return P.Linear(evidence.Term{Config: config, Axle: axle, W: 1}, evidence.Term{Config: versus, Axle: axle, W: -1})
 }
 
 // Ratio returns the estimate of num/den (e.g. the front share β_f/β_t) from
 // joint draws. Draws with a zero denominator are left out.
-func (P *Posterior) Ratio(num, den []methods.Term) Estimate {
+func (P *Posterior) Ratio(num, den []evidence.Term) Estimate {
 	a := flatten(P.seriesOf(P.weights(num)))
 	b := flatten(P.seriesOf(P.weights(den)))
 	r := make([]float64, 0, len(a))
@@ -133,7 +133,7 @@ func (P *Posterior) Ratio(num, den []methods.Term) Estimate {
 }
 
 // Draws returns pooled draws of Σ W·β (for charts and checks).
-func (P *Posterior) Draws(ts ...methods.Term) []float64 {
+func (P *Posterior) Draws(ts ...evidence.Term) []float64 {
 	return flatten(P.seriesOf(P.weights(ts)))
 }
 

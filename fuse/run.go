@@ -8,7 +8,8 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/evidence"
 )
 
 // Robust layer: each entry's errors may be inflated by κ with prior
@@ -25,7 +26,7 @@ const (
 // Input is what a campaign-level fusion needs, all of it already reduced by
 // the adapters.
 type Input struct {
-	Evidence      []methods.Evidence
+	Evidence      []evidence.Evidence
 	Settings      Settings
 	Reference     string    // reference configuration of the deltas
 	SpeedsKmh     []float64 // report speeds
@@ -70,14 +71,14 @@ func Run(in Input) (*Fused, error) {
 		if cr.PriorOnly {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
 		}
-		cr.Front = axle(P, c, methods.AxleFront)
-		cr.Rear = axle(P, c, methods.AxleRear)
-		cr.Total = axle(P, c, methods.AxleTotal)
-		cr.FrontShare = P.Ratio([]methods.Term{{Config: c, Axle: methods.AxleFront, W: 1}}, []methods.Term{{Config: c, Axle: methods.AxleTotal, W: 1}})
+		cr.Front = axle(P, c, evidence.AxleFront)
+		cr.Rear = axle(P, c, evidence.AxleRear)
+		cr.Total = axle(P, c, evidence.AxleTotal)
+		cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
 		for _, v := range in.SpeedsKmh {
-			q := methods.DynamicPressure(in.Rho, methods.KmhToMs(v))
-			at := func(ax string) Estimate { e, _ := P.At(v, methods.Term{Config: c, Axle: ax, W: q}); return e }
-			cr.AtSpeeds = append(cr.AtSpeeds, SpeedResult{SpeedKmh: v, FrontN: at(methods.AxleFront), RearN: at(methods.AxleRear), TotalN: at(methods.AxleTotal)})
+			q := air.DynamicPressure(in.Rho, air.KmhToMs(v))
+			at := func(ax string) Estimate { e, _ := P.At(v, evidence.Term{Config: c, Axle: ax, W: q}); return e }
+			cr.AtSpeeds = append(cr.AtSpeeds, SpeedResult{SpeedKmh: v, FrontN: at(evidence.AxleFront), RearN: at(evidence.AxleRear), TotalN: at(evidence.AxleTotal)})
 		}
 		if A := in.FrontalAreaM2; A > 0 {
 			cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
@@ -89,13 +90,13 @@ func Run(in Input) (*Fused, error) {
 			continue
 		}
 		d := DeltaResult{Config: c, Versus: in.Reference}
-		for _, ax := range []string{methods.AxleFront, methods.AxleRear, methods.AxleTotal} {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
 			e, pn := P.Delta(c, in.Reference, ax)
 			ar := AxleResult{CLA: e, PDownforce: pn}
 			switch ax {
-			case methods.AxleFront:
+			case evidence.AxleFront:
 				d.Front = ar
-			case methods.AxleRear:
+			case evidence.AxleRear:
 				d.Rear = ar
 			default:
 				d.Total = ar
@@ -133,7 +134,7 @@ func Run(in Input) (*Fused, error) {
 				ev := in.Evidence[ei]
 				if j%2 == 0 {
 					var am *model
-					am, errs[j] = newModel([]methods.Evidence{ev}, set)
+					am, errs[j] = newModel([]evidence.Evidence{ev}, set)
 					if errs[j] == nil {
 						am.start = start
 						alone[ei], errs[j] = am.fit()
@@ -146,7 +147,7 @@ func Run(in Input) (*Fused, error) {
 				if M == 1 {
 					continue
 				}
-				rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
+				rest := append(append([]evidence.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
 				om, err := newModel(rest, setOthers)
 				if err == nil {
 					om.start = start
@@ -191,7 +192,7 @@ func Run(in Input) (*Fused, error) {
 		if len(off) == 0 {
 			continue
 		}
-		rest := append(append([]methods.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
+		rest := append(append([]evidence.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
 		om, err := newModel(rest, setOthers)
 		if err != nil {
 			return nil, err
@@ -238,7 +239,7 @@ func Run(in Input) (*Fused, error) {
 }
 
 func axle(P *Posterior, config, ax string) AxleResult {
-	e, pn := P.Quantity(methods.Quantity{Config: config, Axle: ax})
+	e, pn := P.Quantity(evidence.Quantity{Config: config, Axle: ax})
 	return AxleResult{CLA: e, PDownforce: pn}
 }
 
@@ -250,7 +251,7 @@ func axle(P *Posterior, config, ax string) AxleResult {
 // (the two posteriors are independent given the prior, which is wide). For
 // sign evidence it is the posterior predictive p-value of the observed
 // senses under the others' posterior, with T = −Σ log P(sense | θ).
-func agreement(full *model, ei int, ev methods.Evidence, alone, others *Posterior) *Agreement {
+func agreement(full *model, ei int, ev evidence.Evidence, alone, others *Posterior) *Agreement {
 	if len(ev.Blocks) == 0 && len(ev.Signs) > 0 {
 		return signAgreement(full, ei, others)
 	}
@@ -262,7 +263,7 @@ func agreement(full *model, ei int, ev methods.Evidence, alone, others *Posterio
 		xs := make([][]float64, k)
 		means := make([]float64, k)
 		for i, q := range ev.Informs {
-			xs[i] = flatten(P.seriesOf(P.weights([]methods.Term{{Config: q.Config, Axle: q.Axle, W: 1}})))
+			xs[i] = flatten(P.seriesOf(P.weights([]evidence.Term{{Config: q.Config, Axle: q.Axle, W: 1}})))
 			means[i], _ = meanVar(xs[i])
 		}
 		return xs, means
@@ -408,11 +409,11 @@ func (m *model) variant(off map[int]bool, noise, sys bool) *model {
 
 // Standalone returns a result document with only each entry's standalone
 // estimates filled (what `reduce --json` prints).
-func Standalone(evs []methods.Evidence, set Settings) (*Result, error) {
+func Standalone(evs []evidence.Evidence, set Settings) (*Result, error) {
 	set = set.withDefaults()
 	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{}}
 	for _, ev := range evs {
-		alone, err := Fit([]methods.Evidence{ev}, set)
+		alone, err := Fit([]evidence.Evidence{ev}, set)
 		if err != nil {
 			return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
 		}
@@ -423,7 +424,7 @@ func Standalone(evs []methods.Evidence, set Settings) (*Result, error) {
 
 // standalone lists what a posterior of one entry says of the quantities the
 // entry informs.
-func standalone(P *Posterior, ev methods.Evidence) []StandaloneResult {
+func standalone(P *Posterior, ev evidence.Evidence) []StandaloneResult {
 	var out []StandaloneResult
 	for _, q := range ev.Informs {
 		e, pn := P.Quantity(q)

@@ -5,10 +5,9 @@ import (
 	"image/color"
 	"math"
 
+	"codeberg.org/go-pdf/fpdf"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
-
-	"codeberg.org/go-pdf/fpdf"
 )
 
 // pdfCanvas is a gonum/plot vg.Canvas that draws straight into the PDF page

@@ -11,7 +11,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/methods/pressure"
 	"liftfuse/methods/vortex"
@@ -129,7 +130,7 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": pressure coefficient along the car", "x from the front axle, rearward (m)", "Cp")
 	p.Legend.Top = false
 	for ci, cfg := range configs {
-		for _, surface := range []string{methods.SurfaceUpper, methods.SurfaceLower} {
+		for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 			var pts plotter.XYs
 			for _, rd := range r.Readings {
 				if rd.Config != cfg {
@@ -147,7 +148,7 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 			col, shape := styleOf(ci)
 			s, _ := plotter.NewScatter(pts)
 			s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
-			if surface == methods.SurfaceUpper {
+			if surface == campaign.SurfaceUpper {
 				s.GlyphStyle.Shape = filled(shape)
 			}
 			p.Add(s)
@@ -199,7 +200,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.5), Shape: shape}
 		var curve plotter.XYs
 		for v := 10.0; v <= math.Max(maxV*1.2, 60); v += 5 {
-			_, pDown := P.At(v, methods.Term{Config: cfg, Axle: r.Entry.Informs, W: 1})
+			_, pDown := P.At(v, evidence.Term{Config: cfg, Axle: r.Entry.Informs, W: 1})
 			curve = append(curve, plotter.XY{X: v, Y: 1 - pDown})
 		}
 		l, _ := plotter.NewLine(curve)

@@ -6,7 +6,7 @@ import (
 	"text/tabwriter"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/air"
 )
 
 // PlanText writes a plan as a readable ranking.
@@ -23,7 +23,7 @@ func PlanText(w io.Writer, pl *fuse.Plan, unit string) error {
 		fmt.Fprintf(w, "\n%s looks off: %s\n", d.Flagged, d.Why)
 	}
 	if len(pl.Detectability) > 0 {
-		k, err := methods.NewtonsPer(unit)
+		k, err := air.NewtonsPer(unit)
 		if err != nil {
 			return err
 		}

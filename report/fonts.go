@@ -3,6 +3,7 @@ package report
 import (
 	"sync"
 
+	"codeberg.org/go-pdf/fpdf"
 	"golang.org/x/image/font/gofont/gobold"
 	"golang.org/x/image/font/gofont/goitalic"
 	"golang.org/x/image/font/gofont/gomono"
@@ -11,8 +12,6 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
-
-	"codeberg.org/go-pdf/fpdf"
 )
 
 // The report's type is Go's own (golang.org/x/image/font/gofont, BSD

@@ -5,11 +5,10 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"codeberg.org/go-pdf/fpdf"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-
-	"codeberg.org/go-pdf/fpdf"
 )
 
 // Page geometry and type sizes, mm and points.

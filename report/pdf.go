@@ -12,13 +12,15 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // Input is everything the report lays out.
 type Input struct {
-	Campaign *methods.Campaign
-	Reduced  *adapters.Reduced
+	Campaign *campaign.Campaign
+	Reduced  *methods.Reduced
 	Fused    *fuse.Fused
 	Plan     *fuse.Plan
 	// Explain holds, for each flagged entry, the cross-check of the other
@@ -72,7 +74,7 @@ func PDF(in Input) ([]byte, error) {
 		pdf.SetTextColor(0, 0, 0)
 	})
 	r := &reporter{in: in, pg: pg, res: in.Fused.Result}
-	if r.unitN, err = methods.NewtonsPer(c.Report.ForceUnit); err != nil {
+	if r.unitN, err = air.NewtonsPer(c.Report.ForceUnit); err != nil {
 		return nil, err
 	}
 	r.cover()
@@ -185,7 +187,7 @@ func (r *reporter) cover() {
 	}
 	if len(r.res.Deltas) > 0 {
 		v := slices.Max(c.Report.SpeedsKmh)
-		q := methods.DynamicPressure(c.Density(), methods.KmhToMs(v))
+		q := air.DynamicPressure(c.Density(), air.KmhToMs(v))
 		pg.h2(fmt.Sprintf("Change against %s at %g km/h, %s", c.Report.ReferenceConfig, v, unit), 25)
 		rows = nil
 		for _, d := range r.res.Deltas {
@@ -193,7 +195,7 @@ func (r *reporter) cover() {
 				pctText(d.Front.PDownforce) + " / " + pctText(d.Rear.PDownforce) + " / " + pctText(d.Total.PDownforce)})
 		}
 		pg.table([]column{{"configuration", 1.1, "L"}, {"front", 1.6, "R"}, {"rear", 1.6, "R"}, {"total", 1.6, "R"}, {"P(less lift) f / r / t", 1.6, "R"}}, rows)
-		if r.in.Campaign.Prior.SpeedModel == methods.SpeedLinear {
+		if r.in.Campaign.Prior.SpeedModel == campaign.SpeedLinear {
 			pg.note("With the linear speed model, the changes above are those of C_L·A at 100 km/h scaled to the speed; the forces at each speed in the tables before include the speed dependence.")
 		}
 	}
@@ -204,7 +206,7 @@ func (r *reporter) summaryText() string {
 	c := r.in.Campaign
 	unit := c.Report.ForceUnit
 	v := slices.Max(c.Report.SpeedsKmh) // the summary speaks of the top report speed
-	q := methods.DynamicPressure(c.Density(), methods.KmhToMs(v))
+	q := air.DynamicPressure(c.Density(), air.KmhToMs(v))
 	var b strings.Builder
 	for _, cr := range r.res.Configs {
 		if cr.ID != c.Report.ReferenceConfig {
@@ -270,14 +272,14 @@ func (r *reporter) methods() {
 	pg.para("Each entry below is reduced from its raw data and then fused on its own, with the same priors as the full campaign: its own verdict, before it is weighed against the others. Intervals are " + r.level() + " central credible intervals; C_L·A is per axle, lift positive (SAE J1594).")
 	for _, h := range red.Height {
 		e := h.Entry
-		pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{methods.SensorPot: "suspension potentiometer", methods.SensorLaser: "body-to-ground laser"}[e.Sensor]), 70)
+		pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 70)
 		cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
 		stiff := fmt.Sprintf("heave stiffness %.1f N/mm from the %s ± %.1f %%", h.Stiffness.K, h.Stiffness.Source, 100*h.Stiffness.RelSD())
 		txt := fmt.Sprintf("%d steady windows from %d log(s); %s; %s.", len(h.Windows), len(e.Logs), cal, stiff)
 		if e.FrictionMm > 0 {
 			txt += fmt.Sprintf(" Suspension friction band ±%.2g mm.", e.FrictionMm)
 		}
-		if e.Sensor == methods.SensorLaser {
+		if e.Sensor == campaign.SensorLaser {
 			txt += fmt.Sprintf(" Tyre growth prior %.2g ± %.2g mm at 100 km/h: a laser alone cannot tell growth from lift, so its absolute figures are loose and its differences between configurations sharp.", e.TyreGrowth.MmAt100kmh, e.TyreGrowth.SDMm)
 		}
 		txt += fmt.Sprintf(" It resolves about %.0f N (%.1f %s) of axle load at two standard deviations of one window.", h.Detect.ResolvableN, h.Detect.ResolvableN/r.unitN, r.in.Campaign.Report.ForceUnit)
@@ -308,7 +310,7 @@ func (r *reporter) methods() {
 		e := v.Entry
 		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 60)
 		pg.para(fmt.Sprintf("%d observations, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
-			len(v.Observations), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == methods.SideLeft], e.Misread))
+			len(v.Observations), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
 		pg.table(standaloneCols, r.standaloneRows(e.ID))
 		pg.chart(vortexChart(v, r.in.Fused.Posterior, cfgs), 55)
 	}
@@ -327,10 +329,10 @@ func (r *reporter) agreement() {
 	}
 	signOnly := map[string]bool{}
 	for _, m := range r.res.Methods {
-		signOnly[m.ID] = m.Kind == string(methods.KindVortex)
+		signOnly[m.ID] = m.Kind == string(evidence.KindVortex)
 	}
 	for _, cfg := range r.configs() {
-		for _, ax := range []string{methods.AxleFront, methods.AxleRear, methods.AxleTotal} {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
 			var entries []bar
 			for _, m := range r.res.Methods {
 				if signOnly[m.ID] {
@@ -345,7 +347,7 @@ func (r *reporter) agreement() {
 			if len(entries) == 0 {
 				continue
 			}
-			e, _ := r.in.Fused.Posterior.Quantity(methods.Quantity{Config: cfg, Axle: ax})
+			e, _ := r.in.Fused.Posterior.Quantity(evidence.Quantity{Config: cfg, Axle: ax})
 			bars = append(bars, bar{label: cfg + " " + ax + ": fused", est: e, fused: true})
 			bars = append(bars, entries...)
 		}

@@ -11,21 +11,22 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
 	"liftfuse/report"
 )
 
 // demoInput runs the bundled demo through the adapters and fusion.
-func demoInput(t testing.TB, mutate func(*methods.Campaign)) report.Input {
+func demoInput(t testing.TB, mutate func(*campaign.Campaign)) report.Input {
 	t.Helper()
-	c, err := methods.Load("../examples/ducktail-fastback/campaign.yaml", methods.Options{})
+	c, err := campaign.Load("../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if mutate != nil {
 		mutate(c)
 	}
-	r, err := adapters.Reduce(c, adapters.Options{})
+	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,7 +89,7 @@ func TestReportContent(t *testing.T) {
 		want = append(want, m.ID)
 	}
 	// The fused figures as the summary prints them, from the result document.
-	kgf := methods.StandardGravity
+	kgf := air.StandardGravity
 	for _, c := range in.Fused.Result.Configs {
 		for _, s := range c.AtSpeeds {
 			e := s.RearN.Scale(1 / kgf)
@@ -132,7 +133,7 @@ func TestReportDeterministicAndPaper(t *testing.T) {
 }
 
 func TestReportNonLatinTitle(t *testing.T) {
-	in := demoInput(t, func(c *methods.Campaign) {
+	in := demoInput(t, func(c *campaign.Campaign) {
 		c.Campaign.Title = "Ducktail — Прототип 2 · 試験 · ρ ≤ 1.2 kg/m³ ± 2 %"
 	})
 	pdf, err := report.PDF(in)

@@ -8,7 +8,7 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/air"
 )
 
 // interval formats an estimate as "mean [lo, hi]" with the given decimals.
@@ -26,7 +26,7 @@ func pct(p float64) string {
 // FuseText writes the fused result as readable tables: configurations ×
 // axles, forces at the report speeds, deltas, and the agreement table.
 func FuseText(w io.Writer, res *fuse.Result, unit string) error {
-	k, err := methods.NewtonsPer(unit)
+	k, err := air.NewtonsPer(unit)
 	if err != nil {
 		return err
 	}
@@ -107,7 +107,7 @@ func writeWarnings(w io.Writer, ws []string) {
 // ReduceText writes what each adapter made of its raw data: the steady
 // windows of each height entry, the integrated pressure readings, the vortex
 // senses, then each entry's standalone estimates.
-func ReduceText(w io.Writer, r *adapters.Reduced, res *fuse.Result) {
+func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
 	for _, h := range r.Height {
 		e := h.Entry
 		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f%%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)

@@ -8,41 +8,41 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/height"
 )
 
 // analysis is a campaign taken through the adapters and fusion.
 type analysis struct {
-	campaign *methods.Campaign
-	reduced  *adapters.Reduced
+	campaign *campaign.Campaign
+	reduced  *methods.Reduced
 	fused    *fuse.Fused
 }
 
 // settings returns the fusion settings of a campaign.
-func settings(c *methods.Campaign) fuse.Settings {
+func settings(c *campaign.Campaign) fuse.Settings {
 	ids := make([]string, len(c.Configurations))
 	for i, cf := range c.Configurations {
 		ids[i] = cf.ID
 	}
-	return fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == methods.SpeedLinear,
+	return fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 		Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}
 }
 
 // load reads a campaign; the adapters stream the logs' bodies, so loading
 // checks only their headers.
-func load(file string) (*methods.Campaign, error) {
-	return methods.Load(file, methods.Options{HeadersOnly: true})
+func load(file string) (*campaign.Campaign, error) {
+	return campaign.Load(file, campaign.Options{HeadersOnly: true})
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
 // stderr when it is a terminal and not silenced.
-func reduce(file string, quiet bool, stderr io.Writer) (*methods.Campaign, *adapters.Reduced, error) {
+func reduce(file string, quiet bool, stderr io.Writer) (*campaign.Campaign, *methods.Reduced, error) {
 	c, err := load(file)
 	if err != nil {
 		return nil, nil, err
 	}
-	opt := adapters.Options{}
+	opt := methods.Options{}
 	if !quiet && isTerminal(stderr) {
 		opt.Height = height.Options{Progress: func(done, total int64) {
 			fmt.Fprintf(stderr, "\rreading logs %s %3.0f%%", bar(done, total), 100*float64(done)/float64(max(total, 1)))
@@ -51,7 +51,7 @@ func reduce(file string, quiet bool, stderr io.Writer) (*methods.Campaign, *adap
 			}
 		}}
 	}
-	r, err := adapters.Reduce(c, opt)
+	r, err := methods.Reduce(c, opt)
 	if err != nil {
 		return nil, nil, inputError{err}
 	}
@@ -78,7 +78,7 @@ func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
 }
 
 // stamp fills the result's campaign title, input hash and tool version.
-func stamp(res *fuse.Result, c *methods.Campaign) error {
+func stamp(res *fuse.Result, c *campaign.Campaign) error {
 	sum, err := c.Hash()
 	if err != nil {
 		return err

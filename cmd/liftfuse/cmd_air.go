@@ -8,7 +8,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
 )
 
 type airOptions struct {
@@ -50,7 +51,7 @@ q = ½ρV² at that airspeed.`,
 	f.Float64Var(&o.temperatureC, "temperature-c", 0, "air temperature, °C")
 	f.Float64Var(&o.pressureHPa, "pressure-hpa", 0, "barometric pressure (station, not sea-level), hPa")
 	f.Float64Var(&o.humidityPct, "humidity-pct", 0, "relative humidity, %")
-	f.Float64Var(&o.co2ppm, "co2-ppm", methods.DefaultCO2ppm, "CO₂ mole fraction, ppm")
+	f.Float64Var(&o.co2ppm, "co2-ppm", campaign.DefaultCO2ppm, "CO₂ mole fraction, ppm")
 	f.Float64Var(&o.speedKmh, "speed-kmh", 0, "airspeed for the dynamic pressure, km/h")
 	f.BoolVar(&o.json, "json", false, "print JSON")
 	return cmd
@@ -69,10 +70,10 @@ func runAir(o airOptions, out io.Writer) error {
 	case !math.IsNaN(o.speedKmh) && !(o.speedKmh >= 0 && o.speedKmh < 1000):
 		return badInput("--speed-kmh must lie in [0, 1000), got %g", o.speedKmh)
 	}
-	rho := methods.AirDensity(o.temperatureC, o.pressureHPa*100, o.humidityPct/100, o.co2ppm*1e-6)
+	rho := air.Density(o.temperatureC, o.pressureHPa*100, o.humidityPct/100, o.co2ppm*1e-6)
 	res := airResult{DensityKgM3: rho, Method: "CIPM-2007"}
 	if !math.IsNaN(o.speedKmh) {
-		v, q := o.speedKmh, methods.DynamicPressure(rho, methods.KmhToMs(o.speedKmh))
+		v, q := o.speedKmh, air.DynamicPressure(rho, air.KmhToMs(o.speedKmh))
 		res.SpeedKmh, res.DynamicPressurePa = &v, &q
 	}
 	if o.json {

@@ -6,7 +6,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/evidence"
 	"liftfuse/report"
 )
 
@@ -46,7 +47,7 @@ the given speed; --unit m2 claims a C_L·A.`,
 	f.Float64Var(&o.claim.SpeedKmh, "speed-kmh", 0, "speed of the claim, km/h")
 	f.Float64Var(&o.claim.Value, "value", 0, "claimed value (lift positive)")
 	f.Float64Var(&o.claim.SD, "sd", 0, "the claim's own standard uncertainty")
-	f.StringVar(&o.claim.Unit, "unit", methods.UnitN, "unit: N, kgf, lbf, or m2 for a C_L·A")
+	f.StringVar(&o.claim.Unit, "unit", air.UnitN, "unit: N, kgf, lbf, or m2 for a C_L·A")
 	f.BoolVar(&o.json, "json", false, "print the cross-check document as JSON")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
@@ -55,13 +56,13 @@ the given speed; --unit m2 claims a C_L·A.`,
 func runCrosscheck(o crosscheckOptions, out, stderr io.Writer) error {
 	cl := o.claim
 	switch {
-	case cl.Axle != methods.AxleFront && cl.Axle != methods.AxleRear && cl.Axle != methods.AxleTotal:
+	case cl.Axle != evidence.AxleFront && cl.Axle != evidence.AxleRear && cl.Axle != evidence.AxleTotal:
 		return badInput("--axle must be front, rear or total, got %q", cl.Axle)
 	case !(cl.SpeedKmh > 0 && cl.SpeedKmh < 500):
 		return badInput("--speed-kmh must lie in (0, 500), got %g", cl.SpeedKmh)
 	case !(cl.SD >= 0):
 		return badInput("--sd must not be negative")
-	case cl.Unit != "m2" && cl.Unit != methods.UnitN && cl.Unit != methods.UnitKgf && cl.Unit != methods.UnitLbf:
+	case cl.Unit != "m2" && cl.Unit != air.UnitN && cl.Unit != air.UnitKgf && cl.Unit != air.UnitLbf:
 		return badInput("--unit must be N, kgf, lbf or m2, got %q", cl.Unit)
 	}
 	a, err := analyse(o.file, o.quiet, stderr)

@@ -6,7 +6,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/report"
 )
 
@@ -46,11 +47,11 @@ last configuration versus the reference.`,
 }
 
 // planTarget resolves the target from flags, the campaign and defaults.
-func planTarget(o planOptions, c *methods.Campaign) (fuse.Target, error) {
+func planTarget(o planOptions, c *campaign.Campaign) (fuse.Target, error) {
 	t := fuse.Target{Config: c.Plan.Target.Config, Axle: c.Plan.Target.Axle, Versus: c.Plan.Target.Versus}
 	if t.Config == "" {
 		last := c.Configurations[len(c.Configurations)-1].ID
-		t = fuse.Target{Config: last, Axle: methods.AxleRear}
+		t = fuse.Target{Config: last, Axle: evidence.AxleRear}
 		if last != c.Report.ReferenceConfig {
 			t.Versus = c.Report.ReferenceConfig
 		}
@@ -75,7 +76,7 @@ func planTarget(o planOptions, c *methods.Campaign) (fuse.Target, error) {
 		return t, badInput("unknown configuration %q for --versus", t.Versus)
 	case t.Versus == t.Config:
 		return t, badInput("a difference needs two different configurations")
-	case t.Axle != methods.AxleFront && t.Axle != methods.AxleRear && t.Axle != methods.AxleTotal:
+	case t.Axle != evidence.AxleFront && t.Axle != evidence.AxleRear && t.Axle != evidence.AxleTotal:
 		return t, badInput("--target-axle must be front, rear or total, got %q", t.Axle)
 	}
 	return t, nil

@@ -8,7 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/evidence"
 	"liftfuse/report"
 )
 
@@ -101,8 +101,8 @@ func explanations(a *analysis) (map[string]*fuse.Crosscheck, error) {
 			continue
 		}
 		w := ag.Worst
-		e, _ := others.Quantity(methods.Quantity{Config: w.Config, Axle: w.Axle})
-		cc, err := alone.Crosscheck(fuse.Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: methods.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, a.campaign.Density())
+		e, _ := others.Quantity(evidence.Quantity{Config: w.Config, Axle: w.Axle})
+		cc, err := alone.Crosscheck(fuse.Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, a.campaign.Density())
 		if err != nil {
 			return nil, err
 		}

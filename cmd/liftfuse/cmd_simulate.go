@@ -10,7 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/sim"
 	"liftfuse/report"
 )
@@ -62,7 +62,7 @@ func runSimulate(o simulateOptions, out io.Writer) error {
 		if _, err := sim.Generate(s, tmp); err != nil {
 			return fmt.Errorf("simulate: %w", err)
 		}
-		if _, err := methods.Load(filepath.Join(tmp, "campaign.yaml"), methods.Options{}); err != nil {
+		if _, err := campaign.Load(filepath.Join(tmp, "campaign.yaml"), campaign.Options{}); err != nil {
 			return fmt.Errorf("the simulated campaign does not validate (a bug, or a spec the campaign format cannot express): %w", err)
 		}
 		return nil

@@ -7,7 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/campaign"
 )
 
 type validateOptions struct {
@@ -35,11 +35,11 @@ sensor that scatters ±3 mm) are printed but do not fail.`,
 }
 
 func runValidate(o validateOptions, out io.Writer) error {
-	c, err := methods.Load(o.file, methods.Options{})
+	c, err := campaign.Load(o.file, campaign.Options{})
 	if err != nil {
 		return err
 	}
-	r, err := adapters.Reduce(c, adapters.Options{})
+	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
 		return inputError{err}
 	}

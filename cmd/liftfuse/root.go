@@ -8,7 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 )
 
 // Version is the tool's version, printed by --version and written into
@@ -34,7 +34,7 @@ func badInput(format string, args ...any) error {
 
 // exitCode maps an error to its documented exit code.
 func exitCode(err error) int {
-	var probs methods.Problems
+	var probs campaign.Problems
 	var in inputError
 	switch {
 	case err == nil:

@@ -9,7 +9,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/height"
 )
 
@@ -60,18 +60,18 @@ func bigLog(tb testing.TB) string {
 }
 
 // benchCampaign is a campaign with n sensors logged in the big log.
-func benchCampaign(name string, n int) (*methods.Campaign, []*methods.RideHeightEntry) {
-	c := &methods.Campaign{
-		Vehicle:        methods.Vehicle{WheelbaseM: 2.5, Axles: methods.Axles{Front: methods.Axle{SpringNPerMm: 30, SpringSDPct: 5, MotionRatio: 0.9, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 8}}},
-		Configurations: []methods.Configuration{{ID: "base"}},
-		Air:            methods.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400, WindSDMs: 1},
+func benchCampaign(name string, n int) (*campaign.Campaign, []*campaign.RideHeightEntry) {
+	c := &campaign.Campaign{
+		Vehicle:        campaign.Vehicle{WheelbaseM: 2.5, Axles: campaign.Axles{Front: campaign.Axle{SpringNPerMm: 30, SpringSDPct: 5, MotionRatio: 0.9, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 8}}},
+		Configurations: []campaign.Configuration{{ID: "base"}},
+		Air:            campaign.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400, WindSDMs: 1},
 	}
-	var es []*methods.RideHeightEntry
+	var es []*campaign.RideHeightEntry
 	for _, signal := range []string{"front_pot_v", "rear_pot_v", "rear_laser_mm"}[:n] {
-		es = append(es, &methods.RideHeightEntry{ID: signal, Axle: "front", Sensor: "pot",
-			Calibration: methods.Calibration{MmPerUnit: 24, SDPct: 1}, Stiffness: methods.Stiffness{From: "springs"},
-			Steady: methods.Steady{SpeedTolKmh: 1.5, MinDurationS: 4}, FilterTauS: 0.5,
-			Logs: []methods.LogSpec{{File: name, Time: "t_s", SpeedKmh: "v_kmh", Signal: signal, Direction: "dir"}}})
+		es = append(es, &campaign.RideHeightEntry{ID: signal, Axle: "front", Sensor: "pot",
+			Calibration: campaign.Calibration{MmPerUnit: 24, SDPct: 1}, Stiffness: campaign.Stiffness{From: "springs"},
+			Steady: campaign.Steady{SpeedTolKmh: 1.5, MinDurationS: 4}, FilterTauS: 0.5,
+			Logs: []campaign.LogSpec{{File: name, Time: "t_s", SpeedKmh: "v_kmh", Signal: signal, Direction: "dir"}}})
 	}
 	return c, es
 }

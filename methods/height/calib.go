@@ -6,7 +6,7 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 )
 
 // Calibration maps a sensor signal to mm of body height: mm = Offset + Gain·signal.
@@ -24,7 +24,7 @@ func (c Calibration) MM(signal float64) float64 { return c.Offset + c.Gain*signa
 // offset is then free and taken as 0), or the least-squares line through the
 // calibration points, whose slope's standard error adds (in quadrature) to
 // the stated sd_pct.
-func NewCalibration(c methods.Calibration) (Calibration, error) {
+func NewCalibration(c campaign.Calibration) (Calibration, error) {
 	rel := c.SDPct / 100
 	if len(c.Points) == 0 {
 		if c.MmPerUnit == 0 {

@@ -6,19 +6,21 @@ import (
 	"math"
 	"sort"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // Result is everything one ride-height entry yields: its windows and traces
 // for the report, its stiffness and calibration, the Evidence for fusion,
 // detectability figures and warnings.
 type Result struct {
-	Entry       *methods.RideHeightEntry
+	Entry       *campaign.RideHeightEntry
 	Calibration Calibration
 	Stiffness   Stiffness
 	Windows     []Window
 	Traces      [][]TracePoint // per log
-	Evidence    methods.Evidence
+	Evidence    evidence.Evidence
 	Detect      Detectability
 	Warnings    []string
 }
@@ -32,8 +34,8 @@ const driftSDmmPerS = 1.0 / 600
 const typicalCLA = 0.1
 
 // Reduce reads every log of a ride-height entry and returns its Result.
-func Reduce(c *methods.Campaign, e *methods.RideHeightEntry, opt Options) (*Result, error) {
-	rs, err := ReduceAll(c, []*methods.RideHeightEntry{e}, opt)
+func Reduce(c *campaign.Campaign, e *campaign.RideHeightEntry, opt Options) (*Result, error) {
+	rs, err := ReduceAll(c, []*campaign.RideHeightEntry{e}, opt)
 	if err != nil {
 		return nil, err
 	}
@@ -42,7 +44,7 @@ func Reduce(c *methods.Campaign, e *methods.RideHeightEntry, opt Options) (*Resu
 
 // ReduceAll reduces several ride-height entries, reading each log file once
 // for all the sensors logged in it (those that name the same time column).
-func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) ([]*Result, error) {
+func ReduceAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, opt Options) ([]*Result, error) {
 	only := ""
 	if len(c.Configurations) == 1 {
 		only = c.Configurations[0].ID
@@ -79,7 +81,7 @@ func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) 
 			g.passes = append(g.passes, p)
 		}
 	}
-	owner := map[*methods.RideHeightEntry]*Result{}
+	owner := map[*campaign.RideHeightEntry]*Result{}
 	for i, e := range es {
 		owner[e] = results[i]
 	}
@@ -112,7 +114,7 @@ func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) 
 				e.ID, e.Steady.SpeedTolKmh, e.Steady.MinDurationS)
 		}
 		var err error
-		if res.Evidence, err = evidence(c, e, res); err != nil {
+		if res.Evidence, err = buildEvidence(c, e, res); err != nil {
 			return nil, err
 		}
 		res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
@@ -123,13 +125,13 @@ func ReduceAll(c *methods.Campaign, es []*methods.RideHeightEntry, opt Options) 
 }
 
 // prepare sets up an entry's calibration and stiffness.
-func prepare(c *methods.Campaign, e *methods.RideHeightEntry) (*Result, error) {
+func prepare(c *campaign.Campaign, e *campaign.RideHeightEntry) (*Result, error) {
 	cal, err := NewCalibration(e.Calibration)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", e.ID, err)
 	}
 	res := &Result{Entry: e, Calibration: cal}
-	if e.Stiffness.From == methods.FromBallast {
+	if e.Stiffness.From == campaign.FromBallast {
 		res.Stiffness, err = BallastStiffness(e.ID, e.Axle, e.Stiffness.Ballast, c.Vehicle.WheelbaseM, cal)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", e.ID, err)
@@ -137,33 +139,33 @@ func prepare(c *methods.Campaign, e *methods.RideHeightEntry) (*Result, error) {
 		return res, nil
 	}
 	ax := c.Vehicle.Axles.Front
-	if e.Axle == methods.AxleRear {
+	if e.Axle == evidence.AxleRear {
 		ax = c.Vehicle.Axles.Rear
 	}
-	res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == methods.SensorLaser)
+	res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == campaign.SensorLaser)
 	return res, nil
 }
 
 // evidence turns the windows into Gaussian observations, one diagonal block
 // per log.
-func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (methods.Evidence, error) {
-	ev := methods.Evidence{Entry: e.ID, Kind: methods.KindRideHeight}
+func buildEvidence(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Result) (evidence.Evidence, error) {
+	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindRideHeight}
 	ev.Scales = append(ev.Scales, res.Stiffness.Groups...)
-	refs := append([]methods.ScaleRef(nil), res.Stiffness.Refs...)
+	refs := append([]evidence.ScaleRef(nil), res.Stiffness.Refs...)
 	if !res.Stiffness.GainCancels && res.Calibration.RelSD > 0 {
-		g := methods.ScaleGroup{Name: e.ID + "/gain", Label: e.ID + " calibration gain", SD: res.Calibration.RelSD}
+		g := evidence.ScaleGroup{Name: e.ID + "/gain", Label: e.ID + " calibration gain", SD: res.Calibration.RelSD}
 		ev.Scales = append(ev.Scales, g)
-		refs = append(refs, methods.ScaleRef{Name: g.Name, Pow: 1})
+		refs = append(refs, evidence.ScaleRef{Name: g.Name, Pow: 1})
 	}
 	wind := ""
 	if c.Air.WindSDMs > 0 {
-		wind = methods.WindName
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: methods.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
+		wind = evidence.WindName
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: evidence.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
 	}
-	laser := e.Sensor == methods.SensorLaser
+	laser := e.Sensor == campaign.SensorLaser
 	growth := e.Axle + "-tyre-growth"
 	if laser {
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: growth, Label: e.Axle + " tyre growth", Unit: "mm at 100 km/h",
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: growth, Label: e.Axle + " tyre growth", Unit: "mm at 100 km/h",
 			Mean: e.TyreGrowth.MmAt100kmh, SD: e.TyreGrowth.SDMm})
 	}
 	friction := e.FrictionMm * e.FrictionMm / 3
@@ -171,7 +173,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	for li := range e.Logs {
 		offset := fmt.Sprintf("%s/offset[%d]", e.ID, li)
 		drift := fmt.Sprintf("%s/drift[%d]", e.ID, li)
-		var obs []methods.Obs
+		var obs []evidence.Obs
 		var sd []float64
 		var tbar float64 // mean window time of the log, the drift's origin
 		nw := 0
@@ -185,27 +187,27 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 			continue // a log with no steady window says nothing, not even its offset
 		}
 		tbar /= float64(nw)
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: offset, Label: e.ID + " static offset", Unit: "mm", Flat: true, PerRun: true})
 		if e.Drift {
-			ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS, PerRun: true})
+			ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: drift, Label: e.ID + " drift", Unit: "mm/s", SD: driftSDmmPerS, PerRun: true})
 		}
 		for i, w := range res.Windows {
 			if w.Log != li {
 				continue
 			}
-			o := methods.Obs{
+			o := evidence.Obs{
 				Y:      w.HeightMM,
-				Terms:  []methods.Term{{Config: w.Config, Axle: e.Axle, W: 1 / res.Stiffness.K}},
-				Air:    methods.Airspeed{Q: w.Q, V: methods.KmhToMs(w.SpeedKmh), Rho: c.Density(), Dir: float64(w.Direction), Wind: wind},
+				Terms:  []evidence.Term{{Config: w.Config, Axle: e.Axle, W: 1 / res.Stiffness.K}},
+				Air:    evidence.Airspeed{Q: w.Q, V: air.KmhToMs(w.SpeedKmh), Rho: c.Density(), Dir: float64(w.Direction), Wind: wind},
 				Scales: refs,
-				Nuis:   []methods.Coef{{Name: offset, C: 1}},
+				Nuis:   []evidence.Coef{{Name: offset, C: 1}},
 				Label:  fmt.Sprintf("window %d, %s, %.0f km/h, %.0f–%.0f s", i+1, w.Config, w.SpeedKmh, w.From, w.To),
 			}
 			if laser {
-				o.Nuis = append(o.Nuis, methods.Coef{Name: growth, C: w.SpeedSq})
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: growth, C: w.SpeedSq})
 			}
 			if e.Drift {
-				o.Nuis = append(o.Nuis, methods.Coef{Name: drift, C: (w.From+w.To)/2 - tbar})
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: drift, C: (w.From+w.To)/2 - tbar})
 			}
 			obs = append(obs, o)
 			sd = append(sd, math.Sqrt(w.SE*w.SE+friction+1e-12))
@@ -213,7 +215,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 				informs[w.Config] = true
 			}
 		}
-		b, err := methods.Diagonal(obs, sd)
+		b, err := evidence.Diagonal(obs, sd)
 		if err != nil {
 			return ev, fmt.Errorf("%s: %w", e.ID, err)
 		}
@@ -221,7 +223,7 @@ func evidence(c *methods.Campaign, e *methods.RideHeightEntry, res *Result) (met
 	}
 	for _, cf := range c.Configurations {
 		if informs[cf.ID] {
-			ev.Informs = append(ev.Informs, methods.Quantity{Config: cf.ID, Axle: e.Axle})
+			ev.Informs = append(ev.Informs, evidence.Quantity{Config: cf.ID, Axle: e.Axle})
 		}
 	}
 	return ev, ev.Check()
@@ -258,16 +260,16 @@ func Detect(ws []Window, frictionMM, K, rho float64) Detectability {
 	sigma := math.Sqrt(se*se + frictionMM*frictionMM/3)
 	L := 2 * sigma * K
 	return Detectability{SigmaMM: sigma, ResolvableN: L, K: K, Rho: rho,
-		ResolvableCLA100: L / methods.DynamicPressure(rho, methods.KmhToMs(100))}
+		ResolvableCLA100: L / air.DynamicPressure(rho, air.KmhToMs(100))}
 }
 
 // SpeedFor returns the speed (km/h) at which an axle C_L·A of size |cla| m²
 // makes a resolvable load: ½ρV²|β| = L.
 func (d Detectability) SpeedFor(cla float64) float64 {
-	return methods.MsToKmh(math.Sqrt(2 * d.ResolvableN / (d.Rho * math.Abs(cla))))
+	return air.MsToKmh(math.Sqrt(2 * d.ResolvableN / (d.Rho * math.Abs(cla))))
 }
 
-func warnings(e *methods.RideHeightEntry, res *Result, rho float64) []string {
+func warnings(e *campaign.RideHeightEntry, res *Result, rho float64) []string {
 	var out []string
 	var scatter []float64
 	var maxV, maxQ float64
@@ -290,7 +292,7 @@ func warnings(e *methods.RideHeightEntry, res *Result, rho float64) []string {
 			out = append(out, fmt.Sprintf("%s: log %s has %d low-speed windows: the static offset is poorly pinned; add slow or standing stretches", e.ID, e.Logs[li].File, low))
 		}
 	}
-	if e.Sensor == methods.SensorLaser {
+	if e.Sensor == campaign.SensorLaser {
 		bands := map[int]map[string]bool{}
 		configs := map[string]bool{}
 		for _, w := range res.Windows {

@@ -7,7 +7,9 @@ import (
 	"os"
 	"sort"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/logs"
 )
 
@@ -53,7 +55,7 @@ type Options struct {
 // decimated trace. rho is the air density in kg/m³; only is the
 // configuration of every sample when the log names none (no config column,
 // no segments: a one-configuration campaign).
-func Windows(src io.Reader, name string, e *methods.RideHeightEntry, li int, cal Calibration, rho float64, only string) ([]Window, []TracePoint, error) {
+func Windows(src io.Reader, name string, e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) ([]Window, []TracePoint, error) {
 	ps, err := readLog(src, name, []*pass{newPass(e, li, cal, rho, only)})
 	if err != nil {
 		return nil, nil, err
@@ -64,16 +66,16 @@ func Windows(src io.Reader, name string, e *methods.RideHeightEntry, li int, cal
 // pass is one entry's reduction of one log, fed a row at a time, so that
 // several sensors logged in one file share a single read of it.
 type pass struct {
-	e    *methods.RideHeightEntry
+	e    *campaign.RideHeightEntry
 	li   int
-	l    *methods.LogSpec
+	l    *campaign.LogSpec
 	cal  Calibration
 	only string
 	cols []logs.Column
-	ix   methods.LogIndex // into cols
-	at   []int            // cols[k] → index in the shared reader
+	ix   campaign.LogIndex // into cols
+	at   []int             // cols[k] → index in the shared reader
 
-	segs    []methods.Segment
+	segs    []campaign.Segment
 	seg     int
 	f       finder
 	lp      LowPass
@@ -87,10 +89,10 @@ type pass struct {
 	err     error
 }
 
-func newPass(e *methods.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
+func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
 	l := &e.Logs[li]
 	cols, ix := l.LogColumns()
-	segs := append([]methods.Segment(nil), l.Segments...)
+	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
 	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
@@ -142,7 +144,7 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 func (p *pass) row(r *logs.Reader) {
 	ix := p.ix
 	t := r.Float(p.at[ix.Time])
-	v := methods.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
+	v := air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
 	h := p.cal.MM(r.Float(p.at[ix.Signal]))
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
@@ -265,8 +267,8 @@ func (f *finder) close() {
 	f.windows = append(f.windows, Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
 		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n,
-		SpeedSq:  c.sumV2 / n / (methods.RefSpeedKmh * methods.RefSpeedKmh),
-		Q:        methods.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
+		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
+		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.mean(), SE: se, Scatter: math.Sqrt(c.h.variance()),
 	})
 }

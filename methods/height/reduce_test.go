@@ -11,7 +11,8 @@ import (
 	"testing"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/methods/logs"
 	"liftfuse/methods/sim"
@@ -66,7 +67,7 @@ func drawTruth(rng *rand.Rand, growSD float64) truth {
 }
 
 // simulate writes the campaign of a truth and loads it.
-func simulate(t testing.TB, seed int, tr truth) *methods.Campaign {
+func simulate(t testing.TB, seed int, tr truth) *campaign.Campaign {
 	t.Helper()
 	dir := t.TempDir()
 	text := fmt.Sprintf(specText, seed, tr.beta[0], tr.beta[1], tr.beta[2], tr.beta[3], tr.wind, tr.fs, tr.rs, tr.grow, tr.gain, tr.growSD)
@@ -77,13 +78,13 @@ func simulate(t testing.TB, seed int, tr truth) *methods.Campaign {
 	return c
 }
 
-func standalone(t testing.TB, c *methods.Campaign, i int) (*height.Result, *fuse.Posterior) {
+func standalone(t testing.TB, c *campaign.Campaign, i int) (*height.Result, *fuse.Posterior) {
 	t.Helper()
 	r, err := height.Reduce(c, &c.Evidence.RideHeight[i], height.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	P, err := fuse.Fit([]methods.Evidence{r.Evidence}, fuse.Settings{Configs: []string{"base", "wing"}, Seed: 3, Credible: 0.9})
+	P, err := fuse.Fit([]evidence.Evidence{r.Evidence}, fuse.Settings{Configs: []string{"base", "wing"}, Seed: 3, Credible: 0.9})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -106,10 +107,10 @@ func TestStandaloneCoverage(t *testing.T) {
 	for day := range days {
 		tr := drawTruth(rng, 0.5)
 		c := simulate(t, day+1, tr)
-		for i, axle := range []string{methods.AxleFront, methods.AxleRear} {
+		for i, axle := range []string{evidence.AxleFront, evidence.AxleRear} {
 			_, P := standalone(t, c, i)
 			for k, cfg := range []string{"base", "wing"} {
-				e, _ := P.Quantity(methods.Quantity{Config: cfg, Axle: axle})
+				e, _ := P.Quantity(evidence.Quantity{Config: cfg, Axle: axle})
 				want := tr.beta[2*k+i]
 				n++
 				if e.Lo <= want && want <= e.Hi {
@@ -133,8 +134,8 @@ func TestLaserGrowthConfound(t *testing.T) {
 	tr := truth{beta: [4]float64{0.1, 0.1, 0.1, -0.05}, fs: 1, rs: 1, grow: 1.5, growSD: 2}
 	c := simulate(t, 11, tr)
 	_, P := standalone(t, c, 1)
-	abs, _ := P.Quantity(methods.Quantity{Config: "base", Axle: methods.AxleRear})
-	diff, _ := P.Delta("wing", "base", methods.AxleRear)
+	abs, _ := P.Quantity(evidence.Quantity{Config: "base", Axle: evidence.AxleRear})
+	diff, _ := P.Delta("wing", "base", evidence.AxleRear)
 	if !(diff.SD < 0.25*abs.SD) {
 		t.Errorf("difference sd %.4f should be far below the absolute sd %.4f", diff.SD, abs.SD)
 	}

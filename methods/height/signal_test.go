@@ -7,7 +7,9 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 )
 
@@ -102,7 +104,7 @@ func TestWheelRate(t *testing.T) {
 		t.Errorf("with the tyre in series %v, want 21.94", got)
 	}
 	// The axle heave stiffness a pot sees is both wheels: 2·k·MR².
-	s := height.SpringStiffness("front", methods.Axle{SpringNPerMm: 50, SpringSDPct: 5, MotionRatio: 0.7, MotionRatioSD: 0.014, TyreNPerMm: 209.65, TyreSDPct: 10}, false)
+	s := height.SpringStiffness("front", campaign.Axle{SpringNPerMm: 50, SpringSDPct: 5, MotionRatio: 0.7, MotionRatioSD: 0.014, TyreNPerMm: 209.65, TyreSDPct: 10}, false)
 	if math.Abs(s.K-49) > 1e-12 {
 		t.Errorf("pot stiffness %v N/mm, want 49", s.K)
 	}
@@ -110,14 +112,14 @@ func TestWheelRate(t *testing.T) {
 	if math.Abs(s.RelSD()-math.Sqrt(0.0041)) > 1e-12 {
 		t.Errorf("relative sd %v, want %v", s.RelSD(), math.Sqrt(0.0041))
 	}
-	l := height.SpringStiffness("front", methods.Axle{SpringNPerMm: 50, MotionRatio: 0.7, TyreNPerMm: 209.65}, true)
+	l := height.SpringStiffness("front", campaign.Axle{SpringNPerMm: 50, MotionRatio: 0.7, TyreNPerMm: 209.65}, true)
 	if math.Abs(l.K-2*21.94) > 0.01 {
 		t.Errorf("laser stiffness %v N/mm, want 2 × 21.94", l.K)
 	}
 }
 
 func TestBallastAgainstGonum(t *testing.T) {
-	pts := []methods.BallastPoint{
+	pts := []campaign.BallastPoint{
 		{AddedKg: 0, XM: 2.3, Signal: 2.204},
 		{AddedKg: 40, XM: 2.3, Signal: 2.151},
 		{AddedKg: 80, XM: 2.3, Signal: 2.097},
@@ -125,13 +127,13 @@ func TestBallastAgainstGonum(t *testing.T) {
 	}
 	const L = 2.58
 	cal := height.Calibration{Gain: 24}
-	s, err := height.BallastStiffness("rear-pot", methods.AxleRear, pts, L, cal)
+	s, err := height.BallastStiffness("rear-pot", evidence.AxleRear, pts, L, cal)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var xs, ys []float64
 	for _, p := range pts {
-		xs = append(xs, p.AddedKg*methods.StandardGravity*p.XM/L)
+		xs = append(xs, p.AddedKg*air.StandardGravity*p.XM/L)
 		ys = append(ys, 24*p.Signal)
 	}
 	_, slope := stat.LinearRegression(xs, ys, nil, false)
@@ -141,13 +143,13 @@ func TestBallastAgainstGonum(t *testing.T) {
 	if !s.GainCancels || s.SE <= 0 {
 		t.Errorf("a ballast stiffness is in the sensor's units (gain cancels) and has a standard error: %+v", s)
 	}
-	if _, err := height.BallastStiffness("x", methods.AxleRear, []methods.BallastPoint{{AddedKg: 0, XM: 2, Signal: 1}, {AddedKg: 50, XM: 2, Signal: 1.1}}, L, cal); err == nil {
+	if _, err := height.BallastStiffness("x", evidence.AxleRear, []campaign.BallastPoint{{AddedKg: 0, XM: 2, Signal: 1}, {AddedKg: 50, XM: 2, Signal: 1.1}}, L, cal); err == nil {
 		t.Error("a body that rises under ballast was accepted")
 	}
 }
 
 func ExampleSpringStiffness() {
-	front := methods.Axle{SpringNPerMm: 32, SpringSDPct: 5, MotionRatio: 0.92, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 10}
+	front := campaign.Axle{SpringNPerMm: 32, SpringSDPct: 5, MotionRatio: 0.92, MotionRatioSD: 0.02, TyreNPerMm: 230, TyreSDPct: 10}
 	pot := height.SpringStiffness("front", front, false)
 	laser := height.SpringStiffness("front", front, true)
 	fmt.Printf("pot sees %.1f N/mm ± %.1f %%, laser sees %.1f N/mm ± %.1f %%\n", pot.K, 100*pot.RelSD(), laser.K, 100*laser.RelSD())

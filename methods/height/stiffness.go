@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // WheelRate returns the wheel rate of a spring k (N/mm) acting through an
@@ -21,16 +23,16 @@ func Series(k1, k2 float64) float64 { return 1 / (1/k1 + 1/k2) }
 // ScaleRef names a log-normal scale group and the power to which it enters a
 // compliance (1/K): a pot's compliance is 1/(2·k·MR²), so the spring group
 // enters with power −1 and the motion-ratio group with −2.
-type ScaleRef = methods.ScaleRef
+type ScaleRef = evidence.ScaleRef
 
 // Stiffness is the heave stiffness K (N/mm, both wheels of the axle) seen at
 // a sensor, and how its uncertainty enters the lift term's scale factor.
 type Stiffness struct {
 	K      float64
-	Groups []methods.ScaleGroup // groups declared by this stiffness
-	Refs   []ScaleRef           // powers on the compliance 1/K
-	Source string               // "springs" or "ballast", for the report
-	SE     float64              // ballast: standard error of K, N/mm
+	Groups []evidence.ScaleGroup // groups declared by this stiffness
+	Refs   []ScaleRef            // powers on the compliance 1/K
+	Source string                // "springs" or "ballast", for the report
+	SE     float64               // ballast: standard error of K, N/mm
 	// GainCancels is true for a ballast stiffness: it is measured in the
 	// sensor's own calibration, so a gain error cancels from the lift term.
 	GainCancels bool
@@ -56,21 +58,21 @@ func (s Stiffness) RelSD() float64 {
 //
 // To first order in the log domain, with compliance C = C_w + C_t,
 // ∂ln C/∂ln k_w = −C_w/C and ∂ln C/∂ln k_t = −C_t/C.
-func SpringStiffness(axle string, a methods.Axle, laser bool) Stiffness {
-	groups := []methods.ScaleGroup{
+func SpringStiffness(axle string, a campaign.Axle, laser bool) Stiffness {
+	groups := []evidence.ScaleGroup{
 		{Name: axle + "-springs", Label: axle + " spring rate", SD: a.SpringSDPct / 100},
 		{Name: axle + "-motion-ratio", Label: axle + " motion ratio", SD: a.MotionRatioSD / a.MotionRatio},
 	}
 	kw := 2 * WheelRate(a.SpringNPerMm, a.MotionRatio)
 	if !laser {
-		return Stiffness{K: kw, Groups: groups, Source: methods.FromSprings,
+		return Stiffness{K: kw, Groups: groups, Source: campaign.FromSprings,
 			Refs: []ScaleRef{{Name: groups[0].Name, Pow: -1}, {Name: groups[1].Name, Pow: -2}}}
 	}
 	kt := 2 * a.TyreNPerMm
 	K := Series(kw, kt)
 	cw, ct := (1/kw)*K, (1/kt)*K // shares of the compliance
-	groups = append(groups, methods.ScaleGroup{Name: axle + "-tyres", Label: axle + " tyre rate", SD: a.TyreSDPct / 100})
-	return Stiffness{K: K, Groups: groups, Source: methods.FromSprings, Refs: []ScaleRef{
+	groups = append(groups, evidence.ScaleGroup{Name: axle + "-tyres", Label: axle + " tyre rate", SD: a.TyreSDPct / 100})
+	return Stiffness{K: K, Groups: groups, Source: campaign.FromSprings, Refs: []ScaleRef{
 		{Name: groups[0].Name, Pow: -cw}, {Name: groups[1].Name, Pow: -2 * cw}, {Name: groups[2].Name, Pow: -ct}}}
 }
 
@@ -78,15 +80,15 @@ func SpringStiffness(axle string, a methods.Axle, laser bool) Stiffness {
 // load each added mass puts on the axle, F = m·g·x/L for the rear and
 // m·g·(1 − x/L) for the front, and returns K = −1/slope with the slope's
 // standard error carried as a log-normal scale group of the entry.
-func BallastStiffness(entry, axle string, pts []methods.BallastPoint, wheelbase float64, cal Calibration) (Stiffness, error) {
+func BallastStiffness(entry, axle string, pts []campaign.BallastPoint, wheelbase float64, cal Calibration) (Stiffness, error) {
 	xs := make([]float64, len(pts))
 	ys := make([]float64, len(pts))
 	for i, p := range pts {
 		share := p.XM / wheelbase
-		if axle == methods.AxleFront {
+		if axle == evidence.AxleFront {
 			share = 1 - share
 		}
-		xs[i] = p.AddedKg * methods.StandardGravity * share
+		xs[i] = p.AddedKg * air.StandardGravity * share
 		ys[i] = cal.MM(p.Signal)
 	}
 	_, slope, se, err := LineFit(xs, ys)
@@ -97,7 +99,7 @@ func BallastStiffness(entry, axle string, pts []methods.BallastPoint, wheelbase 
 		return Stiffness{}, fmt.Errorf("ballast: the body does not sink under added mass (slope %.4g mm/N): check the sensor's sign, the calibration or x_m", slope)
 	}
 	K := -1 / slope
-	g := methods.ScaleGroup{Name: entry + "/ballast-stiffness", Label: entry + " ballast stiffness", SD: se / -slope}
-	return Stiffness{K: K, SE: K * g.SD, Groups: []methods.ScaleGroup{g}, Source: methods.FromBallast,
+	g := evidence.ScaleGroup{Name: entry + "/ballast-stiffness", Label: entry + " ballast stiffness", SD: se / -slope}
+	return Stiffness{K: K, SE: K * g.SD, Groups: []evidence.ScaleGroup{g}, Source: campaign.FromBallast,
 		Refs: []ScaleRef{{Name: g.Name, Pow: 1}}, GainCancels: true}, nil
 }

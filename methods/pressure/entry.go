@@ -6,7 +6,9 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // Reading is one integrated reading, for the report.
@@ -27,10 +29,10 @@ func (r Reading) ImpliedCLA() Forces {
 
 // Result is what one pressure entry yields.
 type Result struct {
-	Entry    *methods.PressureEntry
+	Entry    *campaign.PressureEntry
 	Panels   []Panel
 	Readings []Reading
-	Evidence methods.Evidence
+	Evidence evidence.Evidence
 	Warnings []string
 }
 
@@ -40,7 +42,7 @@ const DragPitchName = "drag-pitch"
 
 // Reduce integrates every reading of a pressure entry and builds its
 // evidence. wind names the campaign's wind nuisance ("" for none).
-func Reduce(c *methods.Campaign, e *methods.PressureEntry, wind string) (*Result, error) {
+func Reduce(c *campaign.Campaign, e *campaign.PressureEntry, wind string) (*Result, error) {
 	panels, err := Panels(e)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", e.ID, err)
@@ -48,33 +50,33 @@ func Reduce(c *methods.Campaign, e *methods.PressureEntry, wind string) (*Result
 	L := c.Vehicle.WheelbaseM
 	rho := c.Density()
 	res := &Result{Entry: e, Panels: panels}
-	ev := methods.Evidence{Entry: e.ID, Kind: methods.KindPressure}
+	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindPressure}
 	if e.ModelSDPct > 0 {
-		ev.Scales = append(ev.Scales, methods.ScaleGroup{Name: e.ID + "/integration", Label: e.ID + " integration scale", SD: e.ModelSDPct / 100})
+		ev.Scales = append(ev.Scales, evidence.ScaleGroup{Name: e.ID + "/integration", Label: e.ID + " integration scale", SD: e.ModelSDPct / 100})
 	}
-	var scales []methods.ScaleRef
+	var scales []evidence.ScaleRef
 	if e.ModelSDPct > 0 {
-		scales = []methods.ScaleRef{{Name: e.ID + "/integration", Pow: 1}}
+		scales = []evidence.ScaleRef{{Name: e.ID + "/integration", Pow: 1}}
 	}
 	if wind != "" {
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: wind, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: wind, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
 	}
 	drag := c.Vehicle.Drag
 	if drag != nil {
 		mm := drag.CdAM2 * drag.CentreHeightM / L
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: DragPitchName, Label: "pitch of drag C_D·A·h/L", Unit: "m²",
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: DragPitchName, Label: "pitch of drag C_D·A·h/L", Unit: "m²",
 			Mean: mm, SD: mm * drag.SDPct / 100})
 	} else {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%s: no vehicle.drag given: the pressure axle split leaves out the pitch of drag (the total is unaffected)", e.ID))
 	}
 	for j, u := range e.Uncovered {
-		ev.Nuisances = append(ev.Nuisances, methods.Nuisance{Name: fmt.Sprintf("%s/uncovered[%d]", e.ID, j),
+		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: fmt.Sprintf("%s/uncovered[%d]", e.ID, j),
 			Label: fmt.Sprintf("%s uncovered %s patch at x = %.2f m (Cp)", e.ID, u.Surface, u.XM), Mean: u.CpMean, SD: math.Max(u.CpSD, 1e-6)})
 	}
 	informs := map[string]bool{}
 	for ri, r := range e.Readings {
-		V := methods.KmhToMs(r.SpeedKmh)
-		q := methods.DynamicPressure(rho, V)
+		V := air.KmhToMs(r.SpeedKmh)
+		q := air.DynamicPressure(rho, V)
 		get := func(id string) float64 { v, _ := r.Pa.Get(id); return v }
 		rd := Reading{Config: r.Config, SpeedKmh: r.SpeedKmh, Direction: r.Direction, Q: q, Forces: Integrate(panels, get, L), Cp: map[string]float64{}}
 		for _, pn := range panels {
@@ -107,34 +109,34 @@ func Reduce(c *methods.Campaign, e *methods.PressureEntry, wind string) (*Result
 		cov.SetSym(1, 1, cov.At(1, 1)+r2*u[1]*u[1]+1e-9)
 		cov.SetSym(0, 1, cov.At(0, 1)+r2*u[0]*u[1])
 
-		air := methods.Airspeed{Q: q, V: V, Rho: rho, Dir: float64(r.Direction), Wind: wind}
-		var obs [2]methods.Obs
-		for k, axle := range []string{methods.AxleFront, methods.AxleRear} {
-			o := methods.Obs{
+		as := evidence.Airspeed{Q: q, V: V, Rho: rho, Dir: float64(r.Direction), Wind: wind}
+		var obs [2]evidence.Obs
+		for k, axle := range []string{evidence.AxleFront, evidence.AxleRear} {
+			o := evidence.Obs{
 				Y:      [2]float64{rd.Forces.Front, rd.Forces.Rear}[k],
-				Terms:  []methods.Term{{Config: r.Config, Axle: axle, W: 1}},
-				Air:    air,
+				Terms:  []evidence.Term{{Config: r.Config, Axle: axle, W: 1}},
+				Air:    as,
 				Scales: scales,
 				Label:  fmt.Sprintf("reading %d, %s, %g km/h, %s", ri+1, r.Config, r.SpeedKmh, axle),
 			}
 			if drag != nil {
 				sgn := -1.0
-				if axle == methods.AxleRear {
+				if axle == evidence.AxleRear {
 					sgn = 1
 				}
-				o.Nuis = append(o.Nuis, methods.Coef{Name: DragPitchName, C: sgn * q, PerQ: true})
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: DragPitchName, C: sgn * q, PerQ: true})
 			}
 			for j, up := range e.Uncovered {
 				share := 1 - up.XM/L
-				if axle == methods.AxleRear {
+				if axle == evidence.AxleRear {
 					share = up.XM / L
 				}
 				// taps = total − uncovered, and the uncovered force is −Cp·q·A·n.
-				o.Nuis = append(o.Nuis, methods.Coef{Name: fmt.Sprintf("%s/uncovered[%d]", e.ID, j), C: q * up.AreaM2 * up.Nz * share, PerQ: true})
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: fmt.Sprintf("%s/uncovered[%d]", e.ID, j), C: q * up.AreaM2 * up.Nz * share, PerQ: true})
 			}
 			obs[k] = o
 		}
-		b, err := methods.NewBlock(obs[:], cov)
+		b, err := evidence.NewBlock(obs[:], cov)
 		if err != nil {
 			return nil, fmt.Errorf("%s: reading %d: %w", e.ID, ri+1, err)
 		}
@@ -143,7 +145,7 @@ func Reduce(c *methods.Campaign, e *methods.PressureEntry, wind string) (*Result
 	}
 	for _, cf := range c.Configurations {
 		if informs[cf.ID] {
-			ev.Informs = append(ev.Informs, methods.Quantity{Config: cf.ID, Axle: methods.AxleFront}, methods.Quantity{Config: cf.ID, Axle: methods.AxleRear})
+			ev.Informs = append(ev.Informs, evidence.Quantity{Config: cf.ID, Axle: evidence.AxleFront}, evidence.Quantity{Config: cf.ID, Axle: evidence.AxleRear})
 		}
 	}
 	ev.Warnings = res.Warnings

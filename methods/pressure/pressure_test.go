@@ -8,7 +8,9 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"liftfuse/fuse"
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/pressure"
 )
 
@@ -30,26 +32,26 @@ func TestCylinderUpperHalf(t *testing.T) {
 	const R, n = 0.5, 2000
 	const tol = 1e-5 // both rules converge as 1/n²: about 1e-6 here
 	q := 1.0
-	var panels, strips []methods.Tap
+	var panels, strips []campaign.Tap
 	pa := map[string]float64{}
 	for k := range n {
 		th := math.Pi * (float64(k) + 0.5) / n // panel midpoints
 		id := fmt.Sprintf("p%d", k)
-		panels = append(panels, methods.Tap{ID: id, XM: R * (1 - math.Cos(th)), Surface: methods.SurfaceUpper, AreaM2: R * math.Pi / n, Nz: math.Sin(th)})
+		panels = append(panels, campaign.Tap{ID: id, XM: R * (1 - math.Cos(th)), Surface: campaign.SurfaceUpper, AreaM2: R * math.Pi / n, Nz: math.Sin(th)})
 		pa[id] = q * cylinderCp(th)
 	}
 	for k := 0; k <= n; k++ {
 		th := math.Pi * float64(k) / n // stations, ends included
 		id := fmt.Sprintf("s%d", k)
-		strips = append(strips, methods.Tap{ID: id, XM: R * (1 - math.Cos(th)), Surface: methods.SurfaceUpper, WidthM: 1})
+		strips = append(strips, campaign.Tap{ID: id, XM: R * (1 - math.Cos(th)), Surface: campaign.SurfaceUpper, WidthM: 1})
 		pa[id] = q * cylinderCp(th)
 	}
 	for _, tt := range []struct {
 		mode string
-		taps []methods.Tap
-	}{{methods.ModePanels, panels}, {methods.ModeStrips, strips}} {
+		taps []campaign.Tap
+	}{{campaign.ModePanels, panels}, {campaign.ModeStrips, strips}} {
 		t.Run(tt.mode, func(t *testing.T) {
-			ps, err := pressure.Panels(&methods.PressureEntry{Mode: tt.mode, Taps: tt.taps})
+			ps, err := pressure.Panels(&campaign.PressureEntry{Mode: tt.mode, Taps: tt.taps})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -69,7 +71,7 @@ func TestCylinderUpperHalf(t *testing.T) {
 // TestFlatPlate: a flat roof panel under uniform suction p carries −p·A
 // exactly, split to the axles by the lever rule.
 func TestFlatPlate(t *testing.T) {
-	ps := []pressure.Panel{{ID: "a", X: 0.9, Surface: methods.SurfaceUpper, A: 2, Nz: 1}}
+	ps := []pressure.Panel{{ID: "a", X: 0.9, Surface: campaign.SurfaceUpper, A: 2, Nz: 1}}
 	f := pressure.Integrate(ps, func(string) float64 { return -100 }, 2.5)
 	if f.Total != 200 {
 		t.Errorf("force %v N, want 200", f.Total)
@@ -82,13 +84,13 @@ func TestFlatPlate(t *testing.T) {
 
 // closedBody is a box covered top and bottom: every upper panel has a floor
 // panel of the same plan-view area at the same x, so Σ A·n = 0.
-func closedBody() []methods.Tap {
-	var taps []methods.Tap
+func closedBody() []campaign.Tap {
+	var taps []campaign.Tap
 	for i, x := range []float64{-0.5, 0.4, 1.2, 2.0, 2.9} {
 		a := 0.4 + 0.1*float64(i)
 		taps = append(taps,
-			methods.Tap{ID: fmt.Sprintf("u%d", i), XM: x, Surface: methods.SurfaceUpper, AreaM2: a / 0.8, Nz: 0.8},
-			methods.Tap{ID: fmt.Sprintf("l%d", i), XM: x, Surface: methods.SurfaceLower, AreaM2: a, Nz: -1})
+			campaign.Tap{ID: fmt.Sprintf("u%d", i), XM: x, Surface: campaign.SurfaceUpper, AreaM2: a / 0.8, Nz: 0.8},
+			campaign.Tap{ID: fmt.Sprintf("l%d", i), XM: x, Surface: campaign.SurfaceLower, AreaM2: a, Nz: -1})
 	}
 	return taps
 }
@@ -99,7 +101,7 @@ func closedBody() []methods.Tap {
 // covered on both sides.
 func TestReferenceOffsetCancels(t *testing.T) {
 	taps := closedBody()
-	ps, err := pressure.Panels(&methods.PressureEntry{Mode: methods.ModePanels, Taps: taps})
+	ps, err := pressure.Panels(&campaign.PressureEntry{Mode: campaign.ModePanels, Taps: taps})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -120,14 +122,14 @@ func TestStripsMatchTrapezoid(t *testing.T) {
 	xs := []float64{-0.3, 0.2, 0.9, 1.1, 2.0, 2.7}
 	ws := []float64{1.1, 1.3, 1.2, 1.25, 1.3, 1.0}
 	ps := []float64{-120, -300, -80, -260, -140, -60}
-	var taps []methods.Tap
+	var taps []campaign.Tap
 	pa := map[string]float64{}
 	for i := range xs {
 		id := fmt.Sprintf("c%d", i)
-		taps = append(taps, methods.Tap{ID: id, XM: xs[i], Surface: methods.SurfaceUpper, WidthM: ws[i]})
+		taps = append(taps, campaign.Tap{ID: id, XM: xs[i], Surface: campaign.SurfaceUpper, WidthM: ws[i]})
 		pa[id] = ps[i]
 	}
-	panels, err := pressure.Panels(&methods.PressureEntry{Mode: methods.ModeStrips, Taps: taps})
+	panels, err := pressure.Panels(&campaign.PressureEntry{Mode: campaign.ModeStrips, Taps: taps})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -143,15 +145,15 @@ func TestStripsMatchTrapezoid(t *testing.T) {
 		t.Errorf("strips give %v (rear %v), trapezoid %v (rear %v)", f.Total, f.Rear, want, wantMoment/2.5)
 	}
 	// The same data written as panels with the tributary areas by hand.
-	var asPanels []methods.Tap
+	var asPanels []campaign.Tap
 	for i := range xs {
 		lo, hi := xs[max(i-1, 0)], xs[min(i+1, len(xs)-1)]
 		if i == 0 {
 			lo = xs[0]
 		}
-		asPanels = append(asPanels, methods.Tap{ID: taps[i].ID, XM: xs[i], Surface: methods.SurfaceUpper, AreaM2: ws[i] * (hi - lo) / 2, Nz: 1})
+		asPanels = append(asPanels, campaign.Tap{ID: taps[i].ID, XM: xs[i], Surface: campaign.SurfaceUpper, AreaM2: ws[i] * (hi - lo) / 2, Nz: 1})
 	}
-	pp, _ := pressure.Panels(&methods.PressureEntry{Mode: methods.ModePanels, Taps: asPanels})
+	pp, _ := pressure.Panels(&campaign.PressureEntry{Mode: campaign.ModePanels, Taps: asPanels})
 	g := pressure.Integrate(pp, func(id string) float64 { return pa[id] }, 2.5)
 	if math.Abs(g.Total-f.Total) > 1e-9 || math.Abs(g.Rear-f.Rear) > 1e-9 {
 		t.Errorf("panels %v, strips %v", g, f)
@@ -166,35 +168,35 @@ func TestStripsMatchTrapezoid(t *testing.T) {
 func TestConjugatePosterior(t *testing.T) {
 	const L, sigP, sigRef, priorSD = 2.5, 3.0, 6.0, 1.0
 	taps := closedBody()
-	taps = append(taps, methods.Tap{ID: "extra", XM: 1.6, Surface: methods.SurfaceUpper, AreaM2: 0.7, Nz: 1})
-	e := methods.PressureEntry{ID: "taps", Mode: methods.ModePanels, SensorSDPa: sigP, ReferenceSDPa: sigRef, ModelSDPct: 0, Taps: taps}
+	taps = append(taps, campaign.Tap{ID: "extra", XM: 1.6, Surface: campaign.SurfaceUpper, AreaM2: 0.7, Nz: 1})
+	e := campaign.PressureEntry{ID: "taps", Mode: campaign.ModePanels, SensorSDPa: sigP, ReferenceSDPa: sigRef, ModelSDPct: 0, Taps: taps}
 	readings := []struct {
 		config string
 		kmh    float64
 	}{{"a", 100}, {"a", 130}, {"b", 100}, {"b", 120}}
 	for i, r := range readings {
-		var pa methods.Values
+		var pa campaign.Values
 		for j, tp := range taps {
-			pa = append(pa, methods.Value{Key: tp.ID, V: -200 + 30*math.Sin(float64(3*i+j))})
+			pa = append(pa, campaign.Value{Key: tp.ID, V: -200 + 30*math.Sin(float64(3*i+j))})
 		}
-		e.Readings = append(e.Readings, methods.Reading{Config: r.config, SpeedKmh: r.kmh, Direction: 1, Pa: pa})
+		e.Readings = append(e.Readings, campaign.Reading{Config: r.config, SpeedKmh: r.kmh, Direction: 1, Pa: pa})
 	}
-	c := &methods.Campaign{
-		Vehicle:        methods.Vehicle{WheelbaseM: L, Body: methods.BodyFastback},
-		Configurations: []methods.Configuration{{ID: "a"}, {ID: "b"}},
-		Air:            methods.Air{TemperatureC: 20, PressureHPa: 1013.25, HumidityPct: 50, CO2ppm: 400},
+	c := &campaign.Campaign{
+		Vehicle:        campaign.Vehicle{WheelbaseM: L, Body: campaign.BodyFastback},
+		Configurations: []campaign.Configuration{{ID: "a"}, {ID: "b"}},
+		Air:            campaign.Air{TemperatureC: 20, PressureHPa: 1013.25, HumidityPct: 50, CO2ppm: 400},
 	}
 	res, err := pressure.Reduce(c, &e, "")
 	if err != nil {
 		t.Fatal(err)
 	}
-	P, err := fuse.Fit([]methods.Evidence{res.Evidence}, fuse.Settings{Configs: []string{"a", "b"}, PriorSD: priorSD, Seed: 1, Credible: 0.9})
+	P, err := fuse.Fit([]evidence.Evidence{res.Evidence}, fuse.Settings{Configs: []string{"a", "b"}, PriorSD: priorSD, Seed: 1, Credible: 0.9})
 	if err != nil {
 		t.Fatal(err)
 	}
 
 	// The closed form, from scratch. Parameters: βf(a), βr(a), βf(b), βr(b).
-	rho := methods.AirDensity(20, 101325, 0.5, 0.0004)
+	rho := air.Density(20, 101325, 0.5, 0.0004)
 	prec := mat.NewSymDense(4, nil)
 	for i := range 4 {
 		prec.SetSym(i, i, 1/(priorSD*priorSD))
@@ -257,7 +259,7 @@ func TestConjugatePosterior(t *testing.T) {
 	var cov mat.SymDense
 	ch.InverseTo(&cov)
 	const rel = 1e-6
-	for i, q := range []methods.Quantity{{Config: "a", Axle: "front"}, {Config: "a", Axle: "rear"}, {Config: "b", Axle: "front"}, {Config: "b", Axle: "rear"}} {
+	for i, q := range []evidence.Quantity{{Config: "a", Axle: "front"}, {Config: "a", Axle: "rear"}, {Config: "b", Axle: "front"}, {Config: "b", Axle: "rear"}} {
 		got, _ := P.Quantity(q)
 		if math.Abs(got.Mean-mean.AtVec(i)) > rel*math.Abs(mean.AtVec(i)) || math.Abs(got.SD-math.Sqrt(cov.At(i, i))) > rel*math.Sqrt(cov.At(i, i)) {
 			t.Errorf("%v: %v ± %v, closed form %v ± %v", q, got.Mean, got.SD, mean.AtVec(i), math.Sqrt(cov.At(i, i)))

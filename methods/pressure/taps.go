@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"sort"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 )
 
 // Panel is a tap with the area it stands for: A (m²) and the vertical
@@ -27,15 +27,15 @@ type Panel struct {
 // area w_k·Δ_k with Nz = +1 on the upper surface and −1 on the lower (a
 // given nz replaces that sign, for a strip whose width is measured along a
 // sloping surface).
-func Panels(e *methods.PressureEntry) ([]Panel, error) {
+func Panels(e *campaign.PressureEntry) ([]Panel, error) {
 	out := make([]Panel, len(e.Taps))
-	if e.Mode == methods.ModePanels {
+	if e.Mode == campaign.ModePanels {
 		for i, t := range e.Taps {
 			out[i] = Panel{ID: t.ID, X: t.XM, Surface: t.Surface, A: t.AreaM2, Nz: t.Nz}
 		}
 		return out, nil
 	}
-	for _, surface := range []string{methods.SurfaceUpper, methods.SurfaceLower} {
+	for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 		var idx []int
 		for i, t := range e.Taps {
 			if t.Surface == surface {
@@ -57,7 +57,7 @@ func Panels(e *methods.PressureEntry) ([]Panel, error) {
 		for k, i := range idx {
 			t := e.Taps[i]
 			nz := 1.0
-			if surface == methods.SurfaceLower {
+			if surface == campaign.SurfaceLower {
 				nz = -1
 			}
 			if t.At.Has("nz") {

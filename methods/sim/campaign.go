@@ -5,7 +5,7 @@ import (
 	"strconv"
 	"strings"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 )
 
 // num formats a number for YAML.
@@ -38,7 +38,7 @@ func (g *gen) campaign() string {
 	if d := v.Drag; d != nil {
 		p("  drag: {cda_m2: %s, centre_height_m: %s, sd_pct: %s}\n", num(d.CdAM2), num(d.CentreHeightM), num(d.SDPct))
 	}
-	axle := func(a methods.Axle) string {
+	axle := func(a campaign.Axle) string {
 		return fmt.Sprintf("{spring_n_per_mm: %s, spring_sd_pct: %s, motion_ratio: %s, motion_ratio_sd: %s, tyre_n_per_mm: %s, tyre_sd_pct: %s}",
 			num(a.SpringNPerMm), num(a.SpringSDPct), num(a.MotionRatio), num(a.MotionRatioSD), num(a.TyreNPerMm), num(a.TyreSDPct))
 	}
@@ -64,7 +64,7 @@ func (g *gen) campaign() string {
 		for _, h := range s.RideHeight {
 			p("    - id: %s\n      axle: %s\n      sensor: %s\n", h.ID, h.Axle, h.Sensor)
 			p("      calibration: {mm_per_unit: %s}\n", num(h.MmPerUnit))
-			if h.Stiffness == methods.FromBallast {
+			if h.Stiffness == campaign.FromBallast {
 				p("      stiffness:\n        from: ballast\n        ballast:\n")
 				for _, bp := range g.ballast[h.ID] {
 					p("          - {added_kg: %s, x_m: %s, signal: %.5f}\n", num(bp[0]), num(h.BallastXM), bp[1])
@@ -75,7 +75,7 @@ func (g *gen) campaign() string {
 			if h.FrictionMm > 0 {
 				p("      friction_mm: %s\n", num(h.FrictionMm))
 			}
-			if h.Sensor == methods.SensorLaser {
+			if h.Sensor == campaign.SensorLaser {
 				p("      tyre_growth: {mm_at_100kmh: %s, sd_mm: %s}\n", num(h.TyreGrowth.MmAt100kmh), num(h.TyreGrowth.SDMm))
 			}
 			if h.DriftMmPerH != 0 {
@@ -111,7 +111,7 @@ func (g *gen) campaign() string {
 		p("  vortex:\n")
 		for _, o := range s.Vortex {
 			p("    - id: %s\n      side: %s\n      informs: %s\n", o.ID, o.Side, o.Informs)
-			if _, applies := methods.DefaultMisread(v.Body); !applies {
+			if _, applies := campaign.DefaultMisread(v.Body); !applies {
 				p("      misread: %s\n", num(o.Misread))
 			}
 			p("      observations:\n")

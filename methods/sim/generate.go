@@ -10,7 +10,9 @@ import (
 	"path/filepath"
 	"strings"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 )
 
@@ -34,7 +36,7 @@ const LogName = "logs/simulated.csv"
 // truth.json. It returns the truth.
 func Generate(s *Spec, dir string) (*TruthDoc, error) {
 	g := &gen{s: s, rng: rand.New(rand.NewPCG(uint64(s.Seed), 20261014)),
-		rho: methods.AirDensity(s.Air.TemperatureC, s.Air.PressureHPa*100, s.Air.HumidityPct/100, 0.0004)}
+		rho: air.Density(s.Air.TemperatureC, s.Air.PressureHPa*100, s.Air.HumidityPct/100, 0.0004)}
 	if err := os.MkdirAll(filepath.Join(dir, "logs"), 0o755); err != nil {
 		return nil, err
 	}
@@ -84,8 +86,8 @@ type sense struct {
 
 // lift returns the true C_L·A of a configuration's axle at a speed.
 func (g *gen) lift(c Config, axle string, kmh float64) float64 {
-	x := (kmh - methods.RefSpeedKmh) / methods.RefSpeedKmh
-	if axle == methods.AxleFront {
+	x := (kmh - evidence.RefSpeedKmh) / evidence.RefSpeedKmh
+	if axle == evidence.AxleFront {
 		return c.FrontCLAM2 + c.FrontSlope*x
 	}
 	return c.RearCLAM2 + c.RearSlope*x
@@ -94,11 +96,11 @@ func (g *gen) lift(c Config, axle string, kmh float64) float64 {
 // stiffness returns the true heave stiffness a sensor sees, N/mm.
 func (g *gen) stiffness(h Height) float64 {
 	ax, scale := g.s.Vehicle.Axles.Front, g.s.Truth.FrontSprings
-	if h.Axle == methods.AxleRear {
+	if h.Axle == evidence.AxleRear {
 		ax, scale = g.s.Vehicle.Axles.Rear, g.s.Truth.RearSprings
 	}
 	ax.SpringNPerMm *= scale
-	return height.SpringStiffness(h.Axle, ax, h.Sensor == methods.SensorLaser).K
+	return height.SpringStiffness(h.Axle, ax, h.Sensor == campaign.SensorLaser).K
 }
 
 // signal converts a true height (mm) to the sensor's signal through its
@@ -140,16 +142,16 @@ func (g *gen) writeLog(name string) error {
 		if v > 0 {
 			ground = math.Max(0, v+speedN.next(g.rng))
 		}
-		air := 0.0
+		vAir := 0.0
 		if ground > 0 {
-			air = methods.KmhToMs(ground) + dir*s.Air.WindMs
+			vAir = air.KmhToMs(ground) + dir*s.Air.WindMs
 		}
-		q := methods.DynamicPressure(g.rho, air)
+		q := air.DynamicPressure(g.rho, vAir)
 		row[0], row[1], row[2] = fmt.Sprintf("%.4f", t), fmt.Sprintf("%.3f", ground), fmt.Sprintf("%d", int(dir))
 		for i, h := range s.RideHeight {
 			mm := q*g.lift(c, h.Axle, ground)/g.stiffness(h) + stick[i] + noise[i].next(g.rng) + h.DriftMmPerH*t/3600
-			if h.Sensor == methods.SensorLaser {
-				vr := ground / methods.RefSpeedKmh
+			if h.Sensor == campaign.SensorLaser {
+				vr := ground / evidence.RefSpeedKmh
 				mm += 120 + s.Truth.TyreGrowthMm*vr*vr
 			}
 			row[3+i] = fmt.Sprintf("%.5f", h.signal(mm))
@@ -185,16 +187,16 @@ func (g *gen) writeLog(name string) error {
 	}
 	g.ballast = map[string][][2]float64{}
 	for _, h := range s.RideHeight {
-		if h.Stiffness != methods.FromBallast {
+		if h.Stiffness != campaign.FromBallast {
 			continue
 		}
 		K := g.stiffness(h)
 		for _, kg := range []float64{0, 40, 80} {
 			share := h.BallastXM / s.Vehicle.WheelbaseM
-			if h.Axle == methods.AxleFront {
+			if h.Axle == evidence.AxleFront {
 				share = 1 - share
 			}
-			mm := -kg*methods.StandardGravity*share/K + 0.03*g.rng.NormFloat64()
+			mm := -kg*air.StandardGravity*share/K + 0.03*g.rng.NormFloat64()
 			g.ballast[h.ID] = append(g.ballast[h.ID], [2]float64{kg, h.signal(mm)})
 		}
 	}
@@ -234,7 +236,7 @@ func (g *gen) tapCp(p *Pressure, c Config, kmh float64) []float64 {
 	}
 	upper := func(fn func(float64) float64) func(int) float64 {
 		return func(i int) float64 {
-			if p.Taps[i].Surface == methods.SurfaceUpper {
+			if p.Taps[i].Surface == campaign.SurfaceUpper {
 				return fn(p.Taps[i].XM)
 			}
 			return 0
@@ -246,15 +248,15 @@ func (g *gen) tapCp(p *Pressure, c Config, kmh float64) []float64 {
 	// The pressure field carries s·β: a true integration scale other than 1
 	// plants an error that the method's scale factor must absorb.
 	k := g.s.Truth.PressureScale
-	tf := k*g.lift(c, methods.AxleFront, kmh) - m - f0
-	tr := k*g.lift(c, methods.AxleRear, kmh) + m - r0
+	tf := k*g.lift(c, evidence.AxleFront, kmh) - m - f0
+	tr := k*g.lift(c, evidence.AxleRear, kmh) + m - r0
 	det := fa*rb - fb*ra
 	a := (tf*rb - fb*tr) / det
 	b := (fa*tr - tf*ra) / det
 	cp := make([]float64, len(p.Taps))
 	for i, t := range p.Taps {
 		cp[i] = t.Cp
-		if t.Surface == methods.SurfaceUpper {
+		if t.Surface == campaign.SurfaceUpper {
 			cp[i] += a*phiA(t.XM) + b*phiB(t.XM)
 		}
 	}
@@ -272,7 +274,7 @@ func (g *gen) writeReadings(name string, p *Pressure) error {
 		for _, kmh := range p.SpeedsKmh {
 			cp := g.tapCp(p, c, kmh)
 			for _, dir := range []float64{1, -1} {
-				q := methods.DynamicPressure(g.rho, methods.KmhToMs(kmh)+dir*g.s.Air.WindMs)
+				q := air.DynamicPressure(g.rho, air.KmhToMs(kmh)+dir*g.s.Air.WindMs)
 				ref := p.ReferenceSDPa * g.rng.NormFloat64()
 				fmt.Fprintf(&b, "%s,%g,%d", c.ID, kmh, int(dir))
 				for i := range p.Taps {
@@ -292,20 +294,20 @@ func (g *gen) vortex() {
 	for _, o := range g.s.Vortex {
 		for _, c := range g.s.Configurations {
 			for _, kmh := range o.SpeedsKmh {
-				x := g.lift(c, methods.AxleRear, kmh)
-				if o.Informs != methods.AxleRear {
-					x += g.lift(c, methods.AxleFront, kmh)
+				x := g.lift(c, evidence.AxleRear, kmh)
+				if o.Informs != evidence.AxleRear {
+					x += g.lift(c, evidence.AxleFront, kmh)
 				}
 				lift := x > 0
 				if g.rng.Float64() < o.Misread {
 					lift = !lift
 				}
-				sn := methods.SenseCCW // lift, right side, seen from behind
-				if o.Side == methods.SideLeft {
-					sn = methods.SenseCW
+				sn := campaign.SenseCCW // lift, right side, seen from behind
+				if o.Side == campaign.SideLeft {
+					sn = campaign.SenseCW
 				}
 				if !lift {
-					sn = map[string]string{methods.SenseCW: methods.SenseCCW, methods.SenseCCW: methods.SenseCW}[sn]
+					sn = map[string]string{campaign.SenseCW: campaign.SenseCCW, campaign.SenseCCW: campaign.SenseCW}[sn]
 				}
 				g.senses[o.ID] = append(g.senses[o.ID], sense{c.ID, sn, kmh})
 			}

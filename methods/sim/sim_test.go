@@ -10,7 +10,8 @@ import (
 	"strings"
 	"testing"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/sim"
 )
 
@@ -77,8 +78,8 @@ ride_height:
 			fast = h
 		}
 	}
-	rho := methods.AirDensity(15, 101325, 0, 0.0004)
-	q := methods.DynamicPressure(rho, methods.KmhToMs(150))
+	rho := air.Density(15, 101325, 0, 0.0004)
+	q := air.DynamicPressure(rho, air.KmhToMs(150))
 	// By hand: ½ρV² · 0.2 m² / (2 · 25 N/mm · 1²).
 	want := q * 0.2 / 50
 	if math.Abs((fast-still)-want) > 1e-4 {
@@ -88,13 +89,13 @@ ride_height:
 
 func TestSpecErrors(t *testing.T) {
 	_, err := sim.Parse(strings.NewReader("liftfuse_simulate: 1\ncampaign: {title: x, date: 2026-01-01}\ncolour: red\n"), "s.yaml")
-	var ps methods.Problems
+	var ps campaign.Problems
 	if !errors.As(err, &ps) {
 		t.Fatalf("want Problems, got %v", err)
 	}
 	found := false
 	for _, p := range ps {
-		if p.Line == 3 && errors.Is(p, methods.ErrUnknownKey) && strings.HasSuffix(p.File, "s.yaml") {
+		if p.Line == 3 && errors.Is(p, campaign.ErrUnknownKey) && strings.HasSuffix(p.File, "s.yaml") {
 			found = true
 		}
 	}

@@ -3,16 +3,18 @@ package vortex
 import (
 	"fmt"
 
-	"liftfuse/methods"
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 )
 
 // LiftSense returns the rotation sense, seen from behind looking forward,
 // that a vortex on the given side shows when the car makes net lift.
 func LiftSense(side string) string {
-	if side == methods.SideLeft {
-		return methods.SenseCW
+	if side == campaign.SideLeft {
+		return campaign.SenseCW
 	}
-	return methods.SenseCCW
+	return campaign.SenseCCW
 }
 
 // ShowsLift reports whether a vortex on side turning with sense (seen from
@@ -30,36 +32,36 @@ type Observation struct {
 
 // Result is what one vortex entry yields.
 type Result struct {
-	Entry        *methods.VortexEntry
+	Entry        *campaign.VortexEntry
 	Observations []Observation
-	Evidence     methods.Evidence
+	Evidence     evidence.Evidence
 }
 
 // Reduce maps each observation to a sign observation on β_total (or β_rear
 // with informs: rear) of its configuration.
-func Reduce(c *methods.Campaign, e *methods.VortexEntry) (*Result, error) {
-	if _, applies := methods.DefaultMisread(c.Vehicle.Body); !applies && !e.At.Has("misread") {
+func Reduce(c *campaign.Campaign, e *campaign.VortexEntry) (*Result, error) {
+	if _, applies := campaign.DefaultMisread(c.Vehicle.Body); !applies && !e.At.Has("misread") {
 		return nil, fmt.Errorf("%s: the vortex-sense method does not apply to a %s body; set misread to use it anyway", e.ID, c.Vehicle.Body)
 	}
 	res := &Result{Entry: e}
-	ev := methods.Evidence{Entry: e.ID, Kind: methods.KindVortex}
+	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindVortex}
 	rho := c.Density()
 	seen := map[string]bool{}
 	for i, o := range e.Observations {
 		lift := ShowsLift(e.Side, o.Sense)
 		res.Observations = append(res.Observations, Observation{Config: o.Config, SpeedKmh: o.SpeedKmh, Sense: o.Sense, RPM: o.RPM, Lift: lift})
-		terms := []methods.Term{{Config: o.Config, Axle: methods.AxleRear, W: 1}}
-		if e.Informs != methods.AxleRear {
-			terms = append(terms, methods.Term{Config: o.Config, Axle: methods.AxleFront, W: 1})
+		terms := []evidence.Term{{Config: o.Config, Axle: evidence.AxleRear, W: 1}}
+		if e.Informs != evidence.AxleRear {
+			terms = append(terms, evidence.Term{Config: o.Config, Axle: evidence.AxleFront, W: 1})
 		}
-		V := methods.KmhToMs(o.SpeedKmh)
+		V := air.KmhToMs(o.SpeedKmh)
 		word := "downforce"
 		if lift {
 			word = "lift"
 		}
-		ev.Signs = append(ev.Signs, methods.Sign{
+		ev.Signs = append(ev.Signs, evidence.Sign{
 			Terms:    terms,
-			Air:      methods.Airspeed{Q: methods.DynamicPressure(rho, V), V: V, Rho: rho},
+			Air:      evidence.Airspeed{Q: air.DynamicPressure(rho, V), V: V, Rho: rho},
 			Lift:     lift,
 			Misread:  e.Misread,
 			Softness: e.SoftnessM2,
@@ -67,7 +69,7 @@ func Reduce(c *methods.Campaign, e *methods.VortexEntry) (*Result, error) {
 		})
 		if !seen[o.Config] {
 			seen[o.Config] = true
-			ev.Informs = append(ev.Informs, methods.Quantity{Config: o.Config, Axle: e.Informs})
+			ev.Informs = append(ev.Informs, evidence.Quantity{Config: o.Config, Axle: e.Informs})
 		}
 	}
 	res.Evidence = ev

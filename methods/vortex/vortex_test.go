@@ -4,7 +4,8 @@ import (
 	"fmt"
 	"testing"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/vortex"
 )
 
@@ -18,10 +19,10 @@ func TestSenseConvention(t *testing.T) {
 		side, sense string
 		lift        bool
 	}{
-		{methods.SideRight, methods.SenseCCW, true},
-		{methods.SideLeft, methods.SenseCW, true},
-		{methods.SideRight, methods.SenseCW, false},
-		{methods.SideLeft, methods.SenseCCW, false},
+		{campaign.SideRight, campaign.SenseCCW, true},
+		{campaign.SideLeft, campaign.SenseCW, true},
+		{campaign.SideRight, campaign.SenseCW, false},
+		{campaign.SideLeft, campaign.SenseCCW, false},
 	}
 	for _, tt := range tests {
 		t.Run(tt.side+" "+tt.sense, func(t *testing.T) {
@@ -33,9 +34,9 @@ func TestSenseConvention(t *testing.T) {
 }
 
 func TestReduce(t *testing.T) {
-	c := &methods.Campaign{Vehicle: methods.Vehicle{Body: methods.BodyFastback}, Air: methods.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400}}
-	e := &methods.VortexEntry{ID: "tuft", Side: methods.SideLeft, Informs: methods.AxleRear, Misread: 0.05, SoftnessM2: 0.03,
-		Observations: []methods.VortexObs{{Config: "a", SpeedKmh: 60, Sense: methods.SenseCW}, {Config: "a", SpeedKmh: 120, Sense: methods.SenseCCW}}}
+	c := &campaign.Campaign{Vehicle: campaign.Vehicle{Body: campaign.BodyFastback}, Air: campaign.Air{TemperatureC: 20, PressureHPa: 1013, HumidityPct: 50, CO2ppm: 400}}
+	e := &campaign.VortexEntry{ID: "tuft", Side: campaign.SideLeft, Informs: evidence.AxleRear, Misread: 0.05, SoftnessM2: 0.03,
+		Observations: []campaign.VortexObs{{Config: "a", SpeedKmh: 60, Sense: campaign.SenseCW}, {Config: "a", SpeedKmh: 120, Sense: campaign.SenseCCW}}}
 	r, err := vortex.Reduce(c, e)
 	if err != nil {
 		t.Fatal(err)
@@ -44,10 +45,10 @@ func TestReduce(t *testing.T) {
 	if len(s) != 2 || !s[0].Lift || s[1].Lift {
 		t.Fatalf("left cw is lift and left ccw downforce: %+v", s)
 	}
-	if len(s[0].Terms) != 1 || s[0].Terms[0].Axle != methods.AxleRear {
+	if len(s[0].Terms) != 1 || s[0].Terms[0].Axle != evidence.AxleRear {
 		t.Errorf("informs: rear must see only the rear axle: %+v", s[0].Terms)
 	}
-	c.Vehicle.Body = methods.BodyWagon
+	c.Vehicle.Body = campaign.BodyWagon
 	if _, err := vortex.Reduce(c, e); err == nil {
 		t.Error("a wagon without an explicit misread was accepted")
 	}
@@ -56,6 +57,6 @@ func TestReduce(t *testing.T) {
 func ExampleShowsLift() {
 	// Seen from behind, a right-side vortex turning counter-clockwise means
 	// net lift; clockwise means downforce.
-	fmt.Println(vortex.ShowsLift(methods.SideRight, methods.SenseCCW), vortex.ShowsLift(methods.SideRight, methods.SenseCW))
+	fmt.Println(vortex.ShowsLift(campaign.SideRight, campaign.SenseCCW), vortex.ShowsLift(campaign.SideRight, campaign.SenseCW))
 	// Output: true false
 }

@@ -1,4 +1,4 @@
-package adapters_test
+package methods_test
 
 import (
 	"fmt"
@@ -10,7 +10,7 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/sim"
 )
 
@@ -43,7 +43,7 @@ func TestConformance(t *testing.T) {
 	if testing.Short() {
 		days = 3
 	}
-	car, err := os.ReadFile("../../testdata/sim/test-car.yaml")
+	car, err := os.ReadFile("../testdata/sim/test-car.yaml")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -64,11 +64,11 @@ func TestConformance(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		r, err := adapters.Reduce(c, adapters.Options{})
+		r, err := methods.Reduce(c, methods.Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
-		truth := map[methods.Quantity]float64{
+		truth := map[evidence.Quantity]float64{
 			{Config: "one", Axle: "front"}: beta[0], {Config: "one", Axle: "rear"}: beta[1],
 			{Config: "two", Axle: "front"}: beta[2], {Config: "two", Axle: "rear"}: beta[3],
 			{Config: "one", Axle: "total"}: beta[0] + beta[1], {Config: "two", Axle: "total"}: beta[2] + beta[3],
@@ -80,14 +80,14 @@ func TestConformance(t *testing.T) {
 			if len(ev.Informs) == 0 {
 				t.Fatalf("%s informs nothing", ev.Entry)
 			}
-			P, err := fuse.Fit([]methods.Evidence{ev}, fuse.Settings{Configs: []string{"one", "two"}, Seed: uint64(day + 1), Credible: 0.9})
+			P, err := fuse.Fit([]evidence.Evidence{ev}, fuse.Settings{Configs: []string{"one", "two"}, Seed: uint64(day + 1), Credible: 0.9})
 			if err != nil {
 				t.Fatalf("%s: %v", ev.Entry, err)
 			}
 			for _, q := range ev.Informs {
 				e, pDown := P.Quantity(q)
 				want := truth[q]
-				if ev.Kind == methods.KindVortex {
+				if ev.Kind == evidence.KindVortex {
 					if math.Abs(want) > 0.1 {
 						tries[ev.Entry]++
 						if (want < 0) == (pDown > 0.5) {

@@ -1,11 +1,12 @@
 // Package adapters runs every method adapter of a campaign: the one place
 // where the adapters are listed.
-package adapters
+package methods
 
 import (
 	"fmt"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/methods/pressure"
 	"liftfuse/methods/vortex"
@@ -18,7 +19,7 @@ type Reduced struct {
 	Vortex   []*vortex.Result
 	// Evidence of every entry in campaign order: ride height, pressure,
 	// vortex.
-	Evidence []methods.Evidence
+	Evidence []evidence.Evidence
 	// Warnings of the campaign (validation) and of the adapters.
 	Warnings []string
 }
@@ -29,13 +30,13 @@ type Options struct {
 }
 
 // Reduce runs the adapters on every evidence entry of the campaign.
-func Reduce(c *methods.Campaign, opt Options) (*Reduced, error) {
+func Reduce(c *campaign.Campaign, opt Options) (*Reduced, error) {
 	r := &Reduced{}
 	for _, w := range c.Warnings {
 		r.Warnings = append(r.Warnings, w.Error())
 	}
 	if n := len(c.Evidence.RideHeight); n > 0 {
-		es := make([]*methods.RideHeightEntry, n)
+		es := make([]*campaign.RideHeightEntry, n)
 		for i := range es {
 			es[i] = &c.Evidence.RideHeight[i]
 		}
@@ -51,7 +52,7 @@ func Reduce(c *methods.Campaign, opt Options) (*Reduced, error) {
 	}
 	wind := ""
 	if c.Air.WindSDMs > 0 {
-		wind = methods.WindName
+		wind = evidence.WindName
 	}
 	for i := range c.Evidence.Pressure {
 		p, err := pressure.Reduce(c, &c.Evidence.Pressure[i], wind)

@@ -1,4 +1,9 @@
-package methods
+package campaign
+
+import (
+	"liftfuse/methods/air"
+	"liftfuse/methods/evidence"
+)
 
 // Campaign is one test campaign, format 1 (campaign-format.md). Field names
 // follow the YAML keys; units are in the key names. Every struct's At records
@@ -124,9 +129,9 @@ type Entries struct {
 
 // Axle and sensor names.
 const (
-	AxleFront = "front"
-	AxleRear  = "rear"
-	AxleTotal = "total"
+	AxleFront = evidence.AxleFront
+	AxleRear  = evidence.AxleRear
+	AxleTotal = evidence.AxleTotal
 
 	SensorPot   = "pot"
 	SensorLaser = "laser"
@@ -300,11 +305,11 @@ type VortexObs struct {
 	RPM      float64 `yaml:"rpm"`
 }
 
-// Force units for display.
+// Force units of report.force_unit.
 const (
-	UnitN   = "N"
-	UnitKgf = "kgf"
-	UnitLbf = "lbf"
+	UnitN   = air.UnitN
+	UnitKgf = air.UnitKgf
+	UnitLbf = air.UnitLbf
 )
 
 // ReportSettings sets what the report shows.
@@ -331,4 +336,10 @@ type Target struct {
 	Config string `yaml:"config"`
 	Axle   string `yaml:"axle"`
 	Versus string `yaml:"versus"`
+}
+
+// Density returns the campaign air's density in kg/m³ (CO₂ 400 ppm unless
+// given; defaults must have been applied).
+func (a Air) Density() float64 {
+	return air.Density(a.TemperatureC, a.PressureHPa*100, a.HumidityPct/100, a.CO2ppm*1e-6)
 }

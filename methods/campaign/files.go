@@ -1,4 +1,4 @@
-package methods
+package campaign
 
 import (
 	"crypto/sha256"
@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 
+	"liftfuse/methods/air"
 	"liftfuse/methods/logs"
 )
 
@@ -51,7 +52,7 @@ func (l *LogSpec) SpeedToMs(x float64) float64 {
 	if l.SpeedMs != "" {
 		return x
 	}
-	return KmhToMs(x)
+	return air.KmhToMs(x)
 }
 
 // logKeys names the spec key of each asked-for column, for messages.

@@ -1,4 +1,4 @@
-package methods
+package campaign
 
 // Defaults of format 1, applied in one place (applyDefaults) after decoding.
 // A key that is present keeps its value, even when it is zero.

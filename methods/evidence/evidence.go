@@ -1,4 +1,7 @@
-package methods
+// Package evidence is the seam between the method adapters and fusion: the
+// Evidence each adapter fills and package fuse reads. It imports nothing else
+// of liftfuse.
+package evidence
 
 import (
 	"errors"
@@ -12,6 +15,17 @@ import (
 // session; every entry whose airspeed it changes declares it with the same
 // prior, so fusion sees one wind.
 const WindName = "wind"
+
+// Axles of the lift parameters; AxleTotal is front plus rear.
+const (
+	AxleFront = "front"
+	AxleRear  = "rear"
+	AxleTotal = "total"
+)
+
+// RefSpeedKmh is V_ref of the linear speed model,
+// β(V) = β + γ·(V − V_ref)/V_ref, and of tyre growth.
+const RefSpeedKmh = 100.0
 
 // Kind names a measurement method; the strings are those of the result
 // document's "kind" field.

@@ -1,4 +1,4 @@
-package methods
+package air
 
 import "math"
 
@@ -13,7 +13,7 @@ const (
 	celsiusZero = 273.15      // K
 )
 
-// AirDensity returns the density of moist air in kg/m³ by CIPM-2007 from the
+// Density returns the density of moist air in kg/m³ by CIPM-2007 from the
 // temperature t (°C), pressure p (Pa), relative humidity h (0…1) and CO₂
 // mole fraction xCO2 (0.0004 for 400 ppm):
 //
@@ -28,7 +28,7 @@ const (
 // with T = t + 273.15 K (Picard et al., Metrologia 45 (2008) 149, eqs. 1–4 and
 // appendix A). The formula is stated for 15–27 °C and 60–110 kPa; outside that
 // it extrapolates smoothly, well within the needs of on-road testing.
-func AirDensity(t, p, h, xCO2 float64) float64 {
+func Density(t, p, h, xCO2 float64) float64 {
 	T := t + celsiusZero
 	const (
 		A = 1.2378847e-5  // K⁻²
@@ -58,12 +58,6 @@ func AirDensity(t, p, h, xCO2 float64) float64 {
 	Z := 1 - p/T*(a0+a1*t+a2*t*t+(b0+b1*t)*xv+(c0+c1*t)*xv*xv) + p*p/(T*T)*(d+e*xv*xv)
 	Ma := molarDryAir + 12.011e-3*(xCO2-0.0004)
 	return p * Ma / (Z * gasConstant * T) * (1 - xv*(1-molarWater/Ma))
-}
-
-// Density returns the campaign air's density in kg/m³ (CO₂ 400 ppm unless
-// given; defaults must have been applied).
-func (a Air) Density() float64 {
-	return AirDensity(a.TemperatureC, a.PressureHPa*100, a.HumidityPct/100, a.CO2ppm*1e-6)
 }
 
 // DynamicPressure returns q = ½·ρ·V² in Pa for a density in kg/m³ and an

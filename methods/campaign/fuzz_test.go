@@ -1,17 +1,17 @@
-package methods_test
+package campaign_test
 
 import (
 	"bytes"
 	"os"
 	"testing"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 )
 
 // FuzzParse: no campaign text may panic the loader; a failure is always
 // Problems with positions.
 func FuzzParse(f *testing.F) {
-	seed, err := os.ReadFile("../testdata/mini/campaign.yaml")
+	seed, err := os.ReadFile("../../testdata/mini/campaign.yaml")
 	if err != nil {
 		f.Fatal(err)
 	}
@@ -22,14 +22,14 @@ func FuzzParse(f *testing.F) {
 	f.Add([]byte("a: &x [*x]\n"))
 	f.Add([]byte("vehicle: {axles: {front: {spring_n_per_mm: .nan}}}\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		c, err := methods.Parse(bytes.NewReader(data), "fuzz.yaml", "../testdata/mini", methods.Options{})
+		c, err := campaign.Parse(bytes.NewReader(data), "fuzz.yaml", "../../testdata/mini", campaign.Options{})
 		if err == nil {
 			if c == nil {
 				t.Fatal("nil campaign without error")
 			}
 			return
 		}
-		probs, ok := err.(methods.Problems)
+		probs, ok := err.(campaign.Problems)
 		if !ok || len(probs) == 0 {
 			t.Fatalf("error is %T, want non-empty Problems: %v", err, err)
 		}

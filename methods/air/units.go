@@ -1,6 +1,13 @@
-package methods
+package air
 
 import "fmt"
+
+// Force units for display.
+const (
+	UnitN   = "N"
+	UnitKgf = "kgf"
+	UnitLbf = "lbf"
+)
 
 // Unit conversions. Exact by definition unless noted.
 const (
@@ -10,8 +17,6 @@ const (
 	PoundMass = 0.45359237
 	// MileM is the international mile in metres (exact, 1959).
 	MileM = 1609.344
-	// RefSpeedKmh is V_ref of the linear speed model and of tyre growth.
-	RefSpeedKmh = 100.0
 )
 
 // KmhToMs converts km/h to m/s.
