@@ -23,7 +23,7 @@ func demoInput(tb testing.TB) fuse.Input {
 	for _, cf := range c.Configurations {
 		ids = append(ids, cf.ID)
 	}
-	return fuse.Input{Evidence: r.Evidence, Settings: fuse.Settings{Configs: ids, Seed: 1, Credible: 0.9},
+	return fuse.Input{Evidence: r.Evidence(), Settings: fuse.Settings{Configs: ids, Seed: 1, Credible: 0.9},
 		Reference: "baseline", SpeedsKmh: []float64{100, 150}, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2}
 }
 

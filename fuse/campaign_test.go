@@ -66,7 +66,7 @@ func runSim(t *testing.T, text string, drop ...string) *fuse.Fused {
 	}
 	var evs []evidence.Evidence
 outer:
-	for _, ev := range r.Evidence {
+	for _, ev := range r.Evidence() {
 		for _, d := range drop {
 			if ev.Entry == d {
 				continue outer

@@ -1,5 +1,7 @@
-// Package adapters runs every method adapter of a campaign: the one place
-// where the adapters are listed.
+// Package methods is the registry of measurement methods: the one contract
+// every adapter implements and the one list of adapters. Each adapter lives
+// in its own package below this one (methods/height, methods/pressure,
+// methods/vortex) and reads the campaign document of methods/campaign.
 package methods
 
 import (
@@ -8,20 +10,17 @@ import (
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
-	"liftfuse/methods/pressure"
-	"liftfuse/methods/vortex"
 )
 
-// Reduced is every adapter's result for one campaign.
-type Reduced struct {
-	Height   []*height.Result
-	Pressure []*pressure.Result
-	Vortex   []*vortex.Result
-	// Evidence of every entry in campaign order: ride height, pressure,
-	// vortex.
-	Evidence []evidence.Evidence
-	// Warnings of the campaign (validation) and of the adapters.
+// Entry is what one evidence entry of a campaign reduces to.
+type Entry struct {
+	ID       string
+	Kind     evidence.Kind
+	Evidence evidence.Evidence
 	Warnings []string
+	// Detail is the adapter's own result (*height.Result, *pressure.Result,
+	// *vortex.Result): windows, traces, forces, for the report.
+	Detail any
 }
 
 // Options tune a reduction.
@@ -29,49 +28,69 @@ type Options struct {
 	Height height.Options
 }
 
-// Reduce runs the adapters on every evidence entry of the campaign.
+// Adapter is the contract every method implements: reduce the campaign's
+// entries of its kind, in campaign order.
+type Adapter struct {
+	Kind   evidence.Kind
+	Reduce func(c *campaign.Campaign, opt Options) ([]Entry, error)
+}
+
+// Adapters lists every method, in the order their entries are reported.
+// Adding a method is one line here (and its wrapper in kinds.go).
+func Adapters() []Adapter {
+	return []Adapter{
+		{evidence.KindRideHeight, reduceHeight},
+		{evidence.KindPressure, reducePressure},
+		{evidence.KindVortex, reduceVortex},
+	}
+}
+
+// Reduced is every adapter's result for one campaign.
+type Reduced struct {
+	// Entries in the order of Adapters, each kind in campaign order.
+	Entries []Entry
+	// Warnings of the campaign (validation) and of the adapters.
+	Warnings []string
+}
+
+// Evidence returns every entry's evidence, in the order of Entries.
+func (r *Reduced) Evidence() []evidence.Evidence {
+	out := make([]evidence.Evidence, len(r.Entries))
+	for i, e := range r.Entries {
+		out[i] = e.Evidence
+	}
+	return out
+}
+
+// Details returns the adapter results of one type, in order: for example
+// Details[*height.Result](r).
+func Details[T any](r *Reduced) []T {
+	var out []T
+	for _, e := range r.Entries {
+		if d, ok := e.Detail.(T); ok {
+			out = append(out, d)
+		}
+	}
+	return out
+}
+
+// Reduce runs every adapter on the campaign.
 func Reduce(c *campaign.Campaign, opt Options) (*Reduced, error) {
 	r := &Reduced{}
 	for _, w := range c.Warnings {
 		r.Warnings = append(r.Warnings, w.Error())
 	}
-	if n := len(c.Evidence.RideHeight); n > 0 {
-		es := make([]*campaign.RideHeightEntry, n)
-		for i := range es {
-			es[i] = &c.Evidence.RideHeight[i]
-		}
-		hs, err := height.ReduceAll(c, es, opt.Height)
+	for _, a := range Adapters() {
+		es, err := a.Reduce(c, opt)
 		if err != nil {
 			return nil, err
 		}
-		for _, h := range hs {
-			r.Height = append(r.Height, h)
-			r.Evidence = append(r.Evidence, h.Evidence)
-			r.Warnings = append(r.Warnings, h.Warnings...)
+		for _, e := range es {
+			r.Entries = append(r.Entries, e)
+			r.Warnings = append(r.Warnings, e.Warnings...)
 		}
 	}
-	wind := ""
-	if c.Air.WindSDMs > 0 {
-		wind = evidence.WindName
-	}
-	for i := range c.Evidence.Pressure {
-		p, err := pressure.Reduce(c, &c.Evidence.Pressure[i], wind)
-		if err != nil {
-			return nil, err
-		}
-		r.Pressure = append(r.Pressure, p)
-		r.Evidence = append(r.Evidence, p.Evidence)
-		r.Warnings = append(r.Warnings, p.Warnings...)
-	}
-	for i := range c.Evidence.Vortex {
-		v, err := vortex.Reduce(c, &c.Evidence.Vortex[i])
-		if err != nil {
-			return nil, err
-		}
-		r.Vortex = append(r.Vortex, v)
-		r.Evidence = append(r.Evidence, v.Evidence)
-	}
-	if len(r.Evidence) == 0 {
+	if len(r.Entries) == 0 {
 		return nil, fmt.Errorf("the campaign has no evidence entries")
 	}
 	return r, nil

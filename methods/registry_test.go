@@ -73,7 +73,7 @@ func TestConformance(t *testing.T) {
 			{Config: "two", Axle: "front"}: beta[2], {Config: "two", Axle: "rear"}: beta[3],
 			{Config: "one", Axle: "total"}: beta[0] + beta[1], {Config: "two", Axle: "total"}: beta[2] + beta[3],
 		}
-		for _, ev := range r.Evidence {
+		for _, ev := range r.Evidence() {
 			if err := ev.Check(); err != nil {
 				t.Fatalf("%s: %v", ev.Entry, err)
 			}

@@ -15,6 +15,9 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
+	"liftfuse/methods/pressure"
+	"liftfuse/methods/vortex"
 )
 
 // Input is everything the report lays out.
@@ -270,7 +273,7 @@ func (r *reporter) methods() {
 	cfgs := r.configs()
 	pg.h1("What each method says")
 	pg.para("Each entry below is reduced from its raw data and then fused on its own, with the same priors as the full campaign: its own verdict, before it is weighed against the others. Intervals are " + r.level() + " central credible intervals; C_L·A is per axle, lift positive (SAE J1594).")
-	for _, h := range red.Height {
+	for _, h := range methods.Details[*height.Result](red) {
 		e := h.Entry
 		pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 70)
 		cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
@@ -289,7 +292,7 @@ func (r *reporter) methods() {
 		pg.chart(heightChart(h, fitted, cfgs), 62)
 		pg.chart(traceChart(h), 48)
 	}
-	for _, p := range red.Pressure {
+	for _, p := range methods.Details[*pressure.Result](red) {
 		e := p.Entry
 		pg.h2(fmt.Sprintf("%s — pressure taps (%s, %d taps)", e.ID, e.Mode, len(p.Panels)), 70)
 		pg.para(fmt.Sprintf("Sensor noise %.3g Pa per tap, reference port ±%.3g Pa, integration scale ±%.0f %% for what a finite set of taps misses; %d uncovered patch(es) carry a prior on their Cp. Pressure integration sees the vertical pressure force only: the pitch of drag is added as a modelled nuisance, and the figures are approximate.",
@@ -306,7 +309,7 @@ func (r *reporter) methods() {
 		pg.table(standaloneCols, r.standaloneRows(e.ID))
 		pg.chart(cpChart(p, cfgs), 62)
 	}
-	for _, v := range red.Vortex {
+	for _, v := range methods.Details[*vortex.Result](red) {
 		e := v.Entry
 		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 60)
 		pg.para(fmt.Sprintf("%d observations, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",

@@ -34,7 +34,7 @@ func demoInput(t testing.TB, mutate func(*campaign.Campaign)) report.Input {
 	for _, cf := range c.Configurations {
 		ids = append(ids, cf.ID)
 	}
-	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence, Settings: fuse.Settings{Configs: ids, Seed: uint64(c.Report.Seed), Credible: c.Report.Credible},
+	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence(), Settings: fuse.Settings{Configs: ids, Seed: uint64(c.Report.Seed), Credible: c.Report.Credible},
 		Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings})
 	if err != nil {
 		t.Fatal(err)

@@ -9,6 +9,9 @@ import (
 	"liftfuse/fuse"
 	"liftfuse/methods"
 	"liftfuse/methods/air"
+	"liftfuse/methods/height"
+	"liftfuse/methods/pressure"
+	"liftfuse/methods/vortex"
 )
 
 // interval formats an estimate as "mean [lo, hi]" with the given decimals.
@@ -108,7 +111,7 @@ func writeWarnings(w io.Writer, ws []string) {
 // windows of each height entry, the integrated pressure readings, the vortex
 // senses, then each entry's standalone estimates.
 func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
-	for _, h := range r.Height {
+	for _, h := range methods.Details[*height.Result](r) {
 		e := h.Entry
 		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f%%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
@@ -120,7 +123,7 @@ func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
 		d := h.Detect
 		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.0f N at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, d.ResolvableN, d.ResolvableCLA100)
 	}
-	for _, p := range r.Pressure {
+	for _, p := range methods.Details[*pressure.Result](r) {
 		fmt.Fprintf(w, "%s: %d taps, %s\n", p.Entry.ID, len(p.Panels), p.Entry.Mode)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		fmt.Fprintln(tw, "  config\tspeed km/h\tdir\tq Pa\tfront N\trear N\ttotal N\tβ_f m²\tβ_r m²\tβ_t m² (taps only)")
@@ -132,7 +135,7 @@ func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
 		tw.Flush()
 		fmt.Fprintln(w)
 	}
-	for _, v := range r.Vortex {
+	for _, v := range methods.Details[*vortex.Result](r) {
 		fmt.Fprintf(w, "%s: %s vortex, informs %s, misread %.2f\n", v.Entry.ID, v.Entry.Side, v.Entry.Informs, v.Entry.Misread)
 		for _, o := range v.Observations {
 			says := "downforce"

@@ -65,7 +65,7 @@ func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
 		return nil, err
 	}
 	f, err := fuse.Run(fuse.Input{
-		Evidence: r.Evidence, Settings: settings(c), Reference: c.Report.ReferenceConfig,
+		Evidence: r.Evidence(), Settings: settings(c), Reference: c.Report.ReferenceConfig,
 		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
 	})
 	if err != nil {

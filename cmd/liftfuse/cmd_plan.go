@@ -6,8 +6,10 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
+	"liftfuse/methods"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
 	"liftfuse/report"
 )
 
@@ -107,7 +109,7 @@ func makePlan(a *analysis, o planOptions) (*fuse.Plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	for _, h := range a.reduced.Height {
+	for _, h := range methods.Details[*height.Result](a.reduced) {
 		pl.Detectability = append(pl.Detectability, fuse.Detectability{Entry: h.Entry.ID, Axle: h.Entry.Axle,
 			ResolvableN100: h.Detect.ResolvableN, SpeedForTarget: h.Detect.SpeedFor(pl.Target.Now.Mean)})
 	}

@@ -41,7 +41,7 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	res, err := fuse.Standalone(r.Evidence, settings(c))
+	res, err := fuse.Standalone(r.Evidence(), settings(c))
 	if err != nil {
 		return err
 	}

@@ -343,3 +343,12 @@ type Target struct {
 func (a Air) Density() float64 {
 	return air.Density(a.TemperatureC, a.PressureHPa*100, a.HumidityPct/100, a.CO2ppm*1e-6)
 }
+
+// WindNuisance is the name under which every entry declares the along-road
+// wind of the session, or "" when air.wind_sd_ms is 0 (no wind modelled).
+func (c *Campaign) WindNuisance() string {
+	if c.Air.WindSDMs > 0 {
+		return evidence.WindName
+	}
+	return ""
+}

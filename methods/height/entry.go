@@ -157,9 +157,8 @@ func buildEvidence(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Resul
 		ev.Scales = append(ev.Scales, g)
 		refs = append(refs, evidence.ScaleRef{Name: g.Name, Pow: 1})
 	}
-	wind := ""
-	if c.Air.WindSDMs > 0 {
-		wind = evidence.WindName
+	wind := c.WindNuisance()
+	if wind != "" {
 		ev.Nuisances = append(ev.Nuisances, evidence.Nuisance{Name: evidence.WindName, Label: "along-road wind", Unit: "m/s", SD: c.Air.WindSDMs, PerRun: true})
 	}
 	laser := e.Sensor == campaign.SensorLaser
