@@ -1,7 +1,6 @@
 package report
 
 import (
-	"fmt"
 	"strings"
 	"unicode/utf8"
 
@@ -163,15 +162,4 @@ func (p *page) chart(pl *plot.Plot, height float64) {
 	p.pdf.SetDashPattern(nil, 0)
 	p.pdf.SetLineWidth(0.2)
 	p.pdf.SetY(y + height + 2)
-}
-
-// pct formats a probability as a percentage for tables.
-func pctText(p float64) string {
-	switch {
-	case p < 0.005:
-		return "<1 %"
-	case p > 0.995:
-		return ">99 %"
-	}
-	return fmt.Sprintf("%.0f %%", 100*p)
 }

@@ -35,7 +35,7 @@ a temporary file and renamed, so a failed run leaves nothing behind.`,
 			if o.out == "" {
 				return badInput("-o OUT.pdf is required")
 			}
-			if !slices.Contains(report.Papers, o.paper) {
+			if !slices.Contains(report.Papers(), o.paper) {
 				return badInput("--paper must be A4 or Letter, got %q", o.paper)
 			}
 			return runReport(o, cmd.OutOrStdout(), cmd.ErrOrStderr())

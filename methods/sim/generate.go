@@ -185,6 +185,21 @@ func (g *gen) writeLog(name string) error {
 		}
 		g.segments = append(g.segments, segment{c.ID, math.Floor(start), math.Floor(t - 1)})
 	}
+	g.ballastReadings()
+	if err := w.Flush(); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
+
+// ballastReadings draws, for each entry calibrated by ballast, its signal
+// with 0, 40 and 80 kg added at the entry's ballast position: the static
+// deflection −m·g·share/K (share of the load on the sensor's axle, by
+// moments about the other axle) plus 0.03 mm of reading noise. It draws
+// from the generator after the log, so the log's samples do not depend on it.
+func (g *gen) ballastReadings() {
+	s := g.s
 	g.ballast = map[string][][2]float64{}
 	for _, h := range s.RideHeight {
 		if h.Stiffness != campaign.FromBallast {
@@ -200,11 +215,6 @@ func (g *gen) writeLog(name string) error {
 			g.ballast[h.ID] = append(g.ballast[h.ID], [2]float64{kg, h.signal(mm)})
 		}
 	}
-	if err := w.Flush(); err != nil {
-		f.Close()
-		return err
-	}
-	return f.Close()
 }
 
 // tapCp returns each tap's Cp for a configuration: the base shape plus two

@@ -1,0 +1,154 @@
+package report
+
+import (
+	"fmt"
+	"image/color"
+	"math"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"liftfuse/fuse"
+	"liftfuse/methods/evidence"
+)
+
+// agreement writes "Agreement between methods": the chart of every entry
+// beside the fused result, the table of distances, and for each flagged
+// entry what could explain it.
+func (r *reporter) agreement() {
+	pg := r.pg
+	pg.h1("Agreement between methods")
+	pg.para("Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5.")
+	if bars := r.agreementBars(); len(bars) > 0 {
+		pg.chart(agreementChart(bars), math.Min(30+4.2*float64(len(bars)), 200))
+		pg.note("Thick black: fused result of every entry. Grey: each entry alone (dashed when flagged). Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table.")
+	}
+	r.agreementTable()
+	for _, m := range r.res.Methods {
+		if cc, ok := r.in.Explain[m.ID]; ok {
+			r.explain(m.ID, cc)
+		}
+	}
+}
+
+// bar is one interval of the agreement chart.
+type bar struct {
+	label   string
+	est     fuse.Estimate
+	fused   bool
+	flagged bool
+}
+
+// agreementBars lists, per configuration and axle, the fused interval
+// followed by each entry's own; sign-only entries are left out.
+func (r *reporter) agreementBars() []bar {
+	var bars []bar
+	flagged := map[string]bool{}
+	signOnly := map[string]bool{}
+	for _, m := range r.res.Methods {
+		flagged[m.ID] = m.Agreement != nil && m.Agreement.Flag
+		mr, _ := reportOf(m.Kind)
+		signOnly[m.ID] = mr.signOnly
+	}
+	for _, cfg := range r.configs() {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+			var entries []bar
+			for _, m := range r.res.Methods {
+				if signOnly[m.ID] {
+					continue
+				}
+				for _, s := range m.Standalone {
+					if s.Config == cfg && s.Axle == ax {
+						entries = append(entries, bar{label: cfg + " " + ax + ": " + m.ID, est: s.CLA, flagged: flagged[m.ID]})
+					}
+				}
+			}
+			if len(entries) == 0 {
+				continue
+			}
+			e, _ := r.in.Fused.Posterior.Quantity(evidence.Quantity{Config: cfg, Axle: ax})
+			bars = append(bars, bar{label: cfg + " " + ax + ": fused", est: e, fused: true})
+			bars = append(bars, entries...)
+		}
+	}
+	return bars
+}
+
+// agreementTable writes each entry's distance from the others, its p-value
+// and P(off), and its largest difference.
+func (r *reporter) agreementTable() {
+	var rows [][]string
+	for _, m := range r.res.Methods {
+		if a := m.Agreement; a != nil {
+			flag := ""
+			if a.Flag {
+				flag = "DISAGREES"
+			}
+			worst := ""
+			if w := a.Worst; w != nil {
+				worst = fmt.Sprintf("%s %s %+.3f (%+.1f sd)", w.Config, w.Axle, w.DiffM2, w.Sigmas)
+			}
+			rows = append(rows, []string{m.ID, m.Kind, fmt.Sprintf("%.2f", a.Distance), fmt.Sprintf("%.3g", a.PValue), fmt.Sprintf("%.2f", a.POff), worst, flag})
+		} else {
+			rows = append(rows, []string{m.ID, m.Kind, "–", "–", "–", "no other entry", ""})
+		}
+	}
+	r.pg.table([]column{{"entry", 1.1, "L"}, {"kind", 1, "L"}, {"distance", 0.8, "R"}, {"p-value", 0.8, "R"}, {"P(off)", 0.7, "R"}, {"largest difference (m²)", 2, "L"}, {"", 0.9, "L"}}, rows)
+}
+
+// explain writes what could reconcile a flagged entry with the others: the
+// errors of its own model that would have to move least.
+func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
+	pg := r.pg
+	pg.h2("What could explain "+id, 30)
+	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² (C_L·A) where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
+		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, id))
+	var items []string
+	for i, e := range cc.Explanations {
+		if i == 4 {
+			break
+		}
+		mark := ""
+		if e.Plausible {
+			mark = " (plausible)"
+		}
+		items = append(items, fmt.Sprintf("%+.1f sd%s: %s", e.ShiftSD, mark, e.Note))
+	}
+	pg.bullets(items)
+	if len(cc.Checks) > 0 {
+		pg.para("None of these is plausible; look also at: " + strings.Join(cc.Checks, "; ") + ".")
+	}
+}
+
+// agreementChart: every entry's standalone interval beside the fused one,
+// per configuration and axle, as horizontal bars.
+func agreementChart(rows []bar) *plot.Plot {
+	p := newPlot("what each method says, and the fused result", "C_L·A (m²), central interval", "")
+	names := make([]string, len(rows))
+	for i, r := range rows {
+		names[len(rows)-1-i] = r.label
+		y := float64(len(rows) - 1 - i)
+		col := color.Color(color.Gray{110})
+		width := vg.Points(1.5)
+		if r.fused {
+			col, width = color.Gray{0}, vg.Points(3)
+		}
+		seg, _ := plotter.NewLine(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}})
+		seg.LineStyle = draw.LineStyle{Color: col, Width: width}
+		if r.flagged {
+			seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
+		}
+		dot, _ := plotter.NewScatter(plotter.XYs{{X: r.est.Mean, Y: y}})
+		dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: draw.CircleGlyph{}}
+		p.Add(seg, dot)
+	}
+	zero, _ := plotter.NewLine(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}})
+	zero.LineStyle = draw.LineStyle{Color: color.Gray{150}, Width: vg.Points(0.6), Dashes: []vg.Length{vg.Points(1), vg.Points(2)}}
+	p.Add(zero)
+	p.NominalY(names...)
+	p.Y.Tick.Label.Font.Size = 6.5
+	return p
+}

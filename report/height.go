@@ -1,0 +1,153 @@
+package report
+
+import (
+	"fmt"
+	"image/color"
+	"io"
+	"sort"
+	"text/tabwriter"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
+)
+
+// heightReport: ride height, from suspension potentiometers or a
+// body-to-ground laser.
+func heightReport() methodReport {
+	return methodReport{
+		kind:     evidence.KindRideHeight,
+		sections: (*reporter).heightSections,
+		reduced:  heightReduced,
+		limits: []string{
+			"Ride height (potentiometers): needs the heave stiffness at the wheel; a spring rate or installation ratio known only roughly scales every figure, and suspension friction hides small deflections. Low-speed runs pin the static height.",
+			"Ride height (laser): also sees tyre growth with speed, which grows like aerodynamic load; absolute lift is loose, differences between configurations at matched speeds are sharp.",
+		},
+	}
+}
+
+// heightSections writes one sub-section per ride-height entry.
+func (r *reporter) heightSections() {
+	for _, h := range methods.Details[*height.Result](r.in.Reduced) {
+		r.heightSection(h)
+	}
+}
+
+// heightSection: calibration, stiffness and resolution of one entry, what
+// it says alone, its windows against q with the fit, and a trace excerpt.
+func (r *reporter) heightSection(h *height.Result) {
+	pg := r.pg
+	e := h.Entry
+	pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 70)
+	cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
+	stiff := fmt.Sprintf("heave stiffness %.1f N/mm from the %s ± %.1f %%", h.Stiffness.K, h.Stiffness.Source, 100*h.Stiffness.RelSD())
+	txt := fmt.Sprintf("%d steady windows from %d log(s); %s; %s.", len(h.Windows), len(e.Logs), cal, stiff)
+	if e.FrictionMm > 0 {
+		txt += fmt.Sprintf(" Suspension friction band ±%.2g mm.", e.FrictionMm)
+	}
+	if e.Sensor == campaign.SensorLaser {
+		txt += fmt.Sprintf(" Tyre growth prior %.2g ± %.2g mm at 100 km/h: a laser alone cannot tell growth from lift, so its absolute figures are loose and its differences between configurations sharp.", e.TyreGrowth.MmAt100kmh, e.TyreGrowth.SDMm)
+	}
+	txt += fmt.Sprintf(" It resolves about %.0f N (%.1f %s) of axle load at two standard deviations of one window.", h.Detect.ResolvableN, h.Detect.ResolvableN/r.unitN, r.in.Campaign.Report.ForceUnit)
+	pg.para(txt)
+	r.standaloneTable(e.ID)
+	fitted, _ := r.in.Fused.Standalone[e.ID].Fitted(e.ID)
+	pg.chart(heightChart(h, fitted, r.configs()), 62)
+	pg.chart(traceChart(h), 48)
+}
+
+// heightChart: each steady window's mean height against q with ±1 SE bars,
+// and the entry's fitted values (posterior mean) joined per configuration.
+func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plot {
+	p := newPlot(r.Entry.ID+": ride height against dynamic pressure", "dynamic pressure q (Pa)", "height (mm)")
+	for ci, cfg := range configs {
+		var pts plotter.XYs
+		var errs plotter.YErrors
+		var line plotter.XYs
+		for i, w := range r.Windows {
+			if w.Config != cfg {
+				continue
+			}
+			pts = append(pts, plotter.XY{X: w.Q, Y: w.HeightMM})
+			errs = append(errs, struct{ Low, High float64 }{w.SE, w.SE})
+			if i < len(fitted) {
+				line = append(line, plotter.XY{X: w.Q, Y: fitted[i]})
+			}
+		}
+		if len(pts) == 0 {
+			continue
+		}
+		col, shape := styleOf(ci)
+		s, _ := plotter.NewScatter(pts)
+		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: shape}
+		eb := &plotter.YErrorBars{XYs: pts, YErrors: errs, LineStyle: draw.LineStyle{Color: col, Width: vg.Points(0.5)}, CapWidth: vg.Points(3)}
+		sort.Slice(line, func(a, b int) bool { return line[a].X < line[b].X })
+		l, _ := plotter.NewLine(line)
+		l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(3), vg.Points(2)}}
+		p.Add(eb, s, l)
+		p.Legend.Add(cfg+" (windows ± SE; dashed: fit)", s)
+	}
+	return p
+}
+
+// traceChart: an excerpt of the raw trace with its low-pass and moving
+// average, around the entry's fastest window.
+func traceChart(r *height.Result) *plot.Plot {
+	p := newPlot(r.Entry.ID+": smoothed trace, excerpt", "time (s)", "height (mm)")
+	if len(r.Traces) == 0 || len(r.Windows) == 0 {
+		return p
+	}
+	best := r.Windows[0]
+	for _, w := range r.Windows {
+		if w.SpeedKmh > best.SpeedKmh {
+			best = w
+		}
+	}
+	from, to := best.From-20, best.To+20
+	var raw, lp, ma plotter.XYs
+	for _, t := range r.Traces[best.Log] {
+		if t.T < from || t.T > to {
+			continue
+		}
+		raw = append(raw, plotter.XY{X: t.T, Y: t.Raw})
+		lp = append(lp, plotter.XY{X: t.T, Y: t.LowPass})
+		ma = append(ma, plotter.XY{X: t.T, Y: t.MovingAverage})
+	}
+	if len(raw) < 2 {
+		return p
+	}
+	lr, _ := plotter.NewLine(raw)
+	lr.LineStyle = draw.LineStyle{Color: color.Gray{190}, Width: vg.Points(0.5)}
+	ll, _ := plotter.NewLine(lp)
+	ll.LineStyle = draw.LineStyle{Color: color.Gray{0}, Width: vg.Points(1)}
+	lm, _ := plotter.NewLine(ma)
+	lm.LineStyle = draw.LineStyle{Color: color.Gray{90}, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}
+	p.Add(lr, ll, lm)
+	p.Legend.Add("raw samples", lr)
+	p.Legend.Add("first-order low-pass", ll)
+	p.Legend.Add("moving average", lm)
+	return p
+}
+
+// heightReduced writes each ride-height entry's steady windows and its
+// detectability.
+func heightReduced(w io.Writer, r *methods.Reduced) {
+	for _, h := range methods.Details[*height.Result](r) {
+		e := h.Entry
+		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f%%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
+		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		fmt.Fprintln(tw, "  config\tdir\tspeed km/h\tq Pa\theight mm\tSE mm\tn_eff\ttime s")
+		for _, win := range h.Windows {
+			fmt.Fprintf(tw, "  %s\t%+d\t%.1f\t%.0f\t%.3f\t%.3f\t%.0f\t%.0f–%.0f\n", win.Config, win.Direction, win.SpeedKmh, win.Q, win.HeightMM, win.SE, win.NEff, win.From, win.To)
+		}
+		tw.Flush()
+		d := h.Detect
+		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.0f N at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, d.ResolvableN, d.ResolvableCLA100)
+	}
+}
