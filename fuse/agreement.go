@@ -114,8 +114,7 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 	}
 	vals := make([][]float64, len(signs))
 	for i, s := range signs {
-		w := append(append([]entryRef(nil), s.lift...), s.gamma...)
-		vals[i] = flatten(others.seriesOf(w))
+		vals[i] = flatten(others.seriesOf(s.refs()))
 	}
 	n := len(vals[0])
 	rng := newRand(full.set.Seed, 777)
@@ -123,7 +122,7 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 	for d := range n {
 		var tObs, tRep float64
 		for i, s := range signs {
-			pUp := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(vals[i][d]/s.softness)
+			pUp := s.pUp(vals[i][d])
 			pObs := pUp
 			if !s.up {
 				pObs = 1 - pUp
@@ -143,4 +142,3 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 	return &Agreement{PValue: p, Distance: math.Abs(distuv.UnitNormal.Quantile(math.Max(p, 1e-300) / 2)),
 		Note: "posterior predictive check of the observed senses under the other entries"}
 }
-

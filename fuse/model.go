@@ -113,18 +113,6 @@ type block struct {
 	uniform bool
 }
 
-// sign is one sign observation in indexed form.
-type sign struct {
-	lift     []entryRef
-	gamma    []entryRef
-	up       bool
-	misread  float64
-	softness float64
-	entry    int
-	label    string
-	v        float64
-}
-
 // model is the joint model of a set of Evidence values: the indexed data,
 // shared by every variant of the model, and what a variant may change.
 type model struct {
@@ -316,6 +304,7 @@ func newModel(evs []methods.Evidence, set Settings) (*model, error) {
 			if sg.lift, sg.gamma, err = terms(s.Terms, s.Air.V); err != nil {
 				return nil, err
 			}
+			sg.all = append(append([]entryRef(nil), sg.lift...), sg.gamma...)
 			m.signs = append(m.signs, sg)
 		}
 	}

@@ -11,7 +11,6 @@ import (
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
-	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // The sampler. The linear parameters (lift, speed slopes, additive
@@ -62,30 +61,6 @@ type posterior struct {
 	diag     Diagnostics
 }
 
-// signProb returns the probability of what a sign observation saw, given
-// the value x = Σ w β of its quantity.
-func (m *model) signProb(s *sign, x float64) float64 {
-	if m.inflate[s.entry] > 1 {
-		return 0.5 // the robust alternative: the observer saw nothing
-	}
-	p := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(x/s.softness)
-	if !s.up {
-		p = 1 - p
-	}
-	return p
-}
-
-func (s *sign) value(theta []float64) float64 {
-	var x float64
-	for _, t := range s.lift {
-		x += t.v * theta[t.col]
-	}
-	for _, t := range s.gamma {
-		x += t.v * theta[t.col]
-	}
-	return x
-}
-
 // logPhiPrior returns log p(φ) up to a constant that does not depend on the
 // inflation of any entry (each φ_i ~ N(0, (k·sd)²)).
 func (m *model) logPhiPrior(phi []float64) float64 {
@@ -125,10 +100,7 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		}
 		a := c.a
 		clear(a)
-		for _, t := range s.lift {
-			a[t.col] += t.v
-		}
-		for _, t := range s.gamma {
+		for _, t := range s.refs() {
 			a[t.col] += t.v
 		}
 		var mean float64
@@ -142,7 +114,7 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		for _, x := range c.x {
 			vr += x * x
 		}
-		pr := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(mean/math.Sqrt(s.softness*s.softness+vr))
+		pr := s.probit(mean / math.Sqrt(s.softness*s.softness+vr))
 		if !s.up {
 			pr = 1 - pr
 		}
