@@ -67,6 +67,10 @@ func (m *model) indexLift() {
 	}
 }
 
+// gammaOf returns the column of the speed slope γ of the β in column col:
+// the γ columns follow the β columns in the same order (see indexLift).
+func (m *model) gammaOf(col int) int { return col + 2*len(m.set.Configs) }
+
 // windNames returns the nuisances some observation uses as its wind.
 func windNames(evs []methods.Evidence) map[string]bool {
 	winds := map[string]bool{}

@@ -67,14 +67,8 @@ func Run(in Input) (*Fused, error) {
 // coefficients C_L = C_L·A / A. A configuration no evidence speaks of is
 // marked prior-only, with a warning.
 func configResults(res *Result, P *Posterior, in Input, set Settings) {
-	informed := map[string]bool{}
-	for _, ev := range in.Evidence {
-		for _, q := range ev.Informs {
-			informed[q.Config] = true
-		}
-	}
 	for _, c := range set.Configs {
-		cr := ConfigResult{ID: c, PriorOnly: !informed[c]}
+		cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
 		if cr.PriorOnly {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
 		}
