@@ -8,7 +8,6 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"liftfuse/methods/air"
 	"liftfuse/methods/evidence"
 )
 
@@ -24,6 +23,9 @@ type Claim struct {
 	Value    float64 `json:"value"`
 	SD       float64 `json:"sd"`
 	Unit     string  `json:"unit"`
+	// NewtonsPerUnit is how many newtons one of Unit is, for a claimed
+	// force (the caller converts the unit name); unused for "m2".
+	NewtonsPerUnit float64 `json:"-"`
 }
 
 // Predictive is the campaign's posterior predictive of the claimed quantity.
@@ -95,22 +97,44 @@ func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	if _, ok := m.beta[[2]string{cl.Config, evidence.AxleFront}]; !ok {
 		return nil, fmt.Errorf("unknown configuration %q", cl.Config)
 	}
-	var k float64 // T = k·β(V) in the claim's unit
-	switch cl.Unit {
-	case "m2":
-		k = 1
-	default:
-		n, err := air.NewtonsPer(cl.Unit)
-		if err != nil {
-			return nil, err
-		}
-		k = air.DynamicPressure(rho, air.KmhToMs(cl.SpeedKmh)) / n
+	k, err := claimFactor(cl, rho)
+	if err != nil {
+		return nil, err
 	}
-	w := P.weightsAt(cl.SpeedKmh, []evidence.Term{{Config: cl.Config, Axle: cl.Axle, W: k}})
+	T, vals := P.claimDraws(P.weightsAt(cl.SpeedKmh, []evidence.Term{{Config: cl.Config, Axle: cl.Axle, W: k}}))
+	tm, tv := meanVar(T)
+	out := &Crosscheck{Format: CrosscheckFormat, Claim: cl, Predictive: Predictive{Mean: tm, SD: math.Sqrt(tv), Unit: cl.Unit}}
+	out.Z = (cl.Value - tm) / math.Sqrt(tv+cl.SD*cl.SD)
+	out.PValue = 2 * distuv.UnitNormal.CDF(-math.Abs(out.Z))
+	out.Explanations = m.explanations(cl.Value, T, vals)
+	plausible := false
+	for _, e := range out.Explanations {
+		plausible = plausible || e.Plausible
+	}
+	if !plausible && math.Abs(out.Z) > 2 {
+		out.Checks = tradeChecks
+	}
+	return out, nil
+}
+
+// claimFactor returns k with the claimed quantity T = k·β(V) in the
+// claim's unit: 1 for m² (C_L·A), else q(V)/(newtons per unit), q = ½ρV².
+func claimFactor(cl Claim, rho float64) (float64, error) {
+	if cl.Unit == "m2" {
+		return 1, nil
+	}
+	if !(cl.NewtonsPerUnit > 0) {
+		return 0, fmt.Errorf("claim in %q: newtons per unit not given", cl.Unit)
+	}
+	return dynamicPressure(rho, cl.SpeedKmh) / cl.NewtonsPerUnit, nil
+}
+
+// claimDraws returns the pooled draws of T = wᵀθ and, column by column, of
+// every parameter (θ then φ).
+func (P *Posterior) claimDraws(w []entryRef) (T []float64, vals [][]float64) {
+	m := P.p.m
 	p := len(m.lin)
-	D := m.dim()
-	var T []float64
-	vals := make([][]float64, D)
+	vals = make([][]float64, m.dim())
 	P.jointDraws(func(theta, phi []float64) {
 		var t float64
 		for _, r := range w {
@@ -124,53 +148,57 @@ func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 			vals[p+j] = append(vals[p+j], phi[j])
 		}
 	})
-	tm, tv := meanVar(T)
-	out := &Crosscheck{Format: CrosscheckFormat, Claim: cl, Predictive: Predictive{Mean: tm, SD: math.Sqrt(tv), Unit: cl.Unit}}
-	out.Z = (cl.Value - tm) / math.Sqrt(tv+cl.SD*cl.SD)
-	out.PValue = 2 * distuv.UnitNormal.CDF(-math.Abs(out.Z))
+	return T, vals
+}
 
-	explain := func(i int, label, unit string, owners map[int]bool, priorMean, priorSD float64, logScale bool) {
-		if len(vals[i]) < 2 || priorSD <= 0 {
-			return
+// explanations asks every modelled error with a proper prior how far it
+// would have to move to explain the claimed value (see Crosscheck), the
+// cheapest explanation first.
+func (m *model) explanations(claim float64, T []float64, vals [][]float64) []Explanation {
+	out := []Explanation{}
+	add := func(i int, label, unit string, owners map[int]bool, priorMean, priorSD float64, logScale bool) {
+		if ex, ok := explain(claim, T, vals[i], label, unit, priorMean, priorSD, logScale); ok {
+			ex.Entry = m.ownerNames(owners)
+			out = append(out, ex)
 		}
-		_, vv := meanVar(vals[i])
-		c := covariance(T, vals[i])
-		if vv <= 0 || math.Abs(c) < 1e-12*math.Sqrt(vv*tv) {
-			return
-		}
-		shift := (cl.Value - tm) * priorSD / c
-		target := priorMean + shift*priorSD
-		ex := Explanation{Nuisance: label, Entry: m.ownerNames(owners), ShiftSD: shift, Plausible: math.Abs(shift) <= 2}
-		if logScale {
-			ex.Note = fmt.Sprintf("the %s factor would have to be ×%.3g instead of ×1 (prior ±%.1f %%)", label, math.Exp(target), 100*priorSD)
-		} else {
-			ex.Note = strings.Replace(fmt.Sprintf("the %s would have to be %.3g %s instead of %.3g ± %.3g", label, target, unit, priorMean, priorSD), "  ", " ", 1)
-		}
-		out.Explanations = append(out.Explanations, ex)
 	}
 	for i, lp := range m.lin {
 		if lp.kind != kindNuisance || lp.prec == 0 {
 			continue
 		}
-		explain(i, lp.nuis.Label, lp.nuis.Unit, lp.owners, lp.nuis.Mean, lp.nuis.SD, false)
+		add(i, lp.nuis.Label, lp.nuis.Unit, lp.owners, lp.nuis.Mean, lp.nuis.SD, false)
 	}
+	p := len(m.lin)
 	for j, ph := range m.phi {
-		explain(p+j, ph.label, ph.unit, ph.owners, 0, ph.sd, !ph.wind)
+		add(p+j, ph.label, ph.unit, ph.owners, 0, ph.sd, !ph.wind)
 	}
-	sort.SliceStable(out.Explanations, func(a, b int) bool {
-		return math.Abs(out.Explanations[a].ShiftSD) < math.Abs(out.Explanations[b].ShiftSD)
-	})
-	plausible := false
-	for _, e := range out.Explanations {
-		plausible = plausible || e.Plausible
+	sort.SliceStable(out, func(a, b int) bool { return math.Abs(out[a].ShiftSD) < math.Abs(out[b].ShiftSD) })
+	return out
+}
+
+// explain is one error's explanation of the claim from the draws of T and
+// of the error ν: shift = (claim − E[T|y])·σ / Cov(T, ν | y), plausible
+// within 2 prior sds. ok is false when ν has no prior spread or does not
+// move T.
+func explain(claim float64, T, nu []float64, label, unit string, priorMean, priorSD float64, logScale bool) (Explanation, bool) {
+	if len(nu) < 2 || priorSD <= 0 {
+		return Explanation{}, false
 	}
-	if !plausible && math.Abs(out.Z) > 2 {
-		out.Checks = tradeChecks
+	tm, tv := meanVar(T)
+	_, vv := meanVar(nu)
+	c := covariance(T, nu)
+	if vv <= 0 || math.Abs(c) < 1e-12*math.Sqrt(vv*tv) {
+		return Explanation{}, false
 	}
-	if out.Explanations == nil {
-		out.Explanations = []Explanation{}
+	shift := (claim - tm) * priorSD / c
+	target := priorMean + shift*priorSD
+	ex := Explanation{Nuisance: label, ShiftSD: shift, Plausible: math.Abs(shift) <= 2}
+	if logScale {
+		ex.Note = fmt.Sprintf("the %s factor would have to be ×%.3g instead of ×1 (prior ±%.1f %%)", label, math.Exp(target), 100*priorSD)
+	} else {
+		ex.Note = strings.Replace(fmt.Sprintf("the %s would have to be %.3g %s instead of %.3g ± %.3g", label, target, unit, priorMean, priorSD), "  ", " ", 1)
 	}
-	return out, nil
+	return ex, true
 }
 
 // ownerNames lists the entries that share a parameter.

@@ -3,13 +3,10 @@ package fuse
 import (
 	"fmt"
 	"math"
-	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
-	"liftfuse/methods/air"
-	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 )
 
@@ -27,12 +24,26 @@ type Settings struct {
 	MaxDraws int
 }
 
+// Fallbacks when a caller leaves Settings zero; the campaign's defaults
+// (methods/campaign) are the same values.
+const (
+	defaultPriorSD  = 1.0 // m²
+	defaultCredible = 0.9
+)
+
+// dynamicPressure returns q = ½·ρ·V² in Pa for a density in kg/m³ and a
+// speed in km/h.
+func dynamicPressure(rho, kmh float64) float64 {
+	v := kmh / 3.6
+	return 0.5 * rho * v * v
+}
+
 func (s Settings) withDefaults() Settings {
 	if s.PriorSD == 0 {
-		s.PriorSD = campaign.DefaultCLASDM2
+		s.PriorSD = defaultPriorSD
 	}
 	if s.Credible == 0 {
-		s.Credible = campaign.DefaultCredible
+		s.Credible = defaultCredible
 	}
 	if s.MinESS == 0 {
 		s.MinESS = 2000
@@ -115,18 +126,6 @@ type block struct {
 	uniform bool
 }
 
-// sign is one sign observation in indexed form.
-type sign struct {
-	lift     []entryRef
-	gamma    []entryRef
-	up       bool
-	misread  float64
-	softness float64
-	entry    int
-	label    string
-	v        float64
-}
-
 // model is the joint model of a set of Evidence values: the indexed data,
 // shared by every variant of the model, and what a variant may change.
 type model struct {
@@ -162,170 +161,6 @@ type data struct {
 	informed   map[string]bool   // configurations some evidence speaks of
 	beta       map[[2]string]int // (config, axle) → column of β
 	gamma      map[[2]string]int
-}
-
-// vref is V_ref of the linear speed model, m/s.
-var vref = air.KmhToMs(evidence.RefSpeedKmh)
-
-// newModel indexes the evidence. Nuisances and scale groups of the same name
-// in several entries are one parameter; their priors must agree.
-func newModel(evs []evidence.Evidence, set Settings) (*model, error) {
-	set = set.withDefaults()
-	m := &model{data: &data{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}}
-	for _, c := range set.Configs {
-		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear} {
-			m.beta[[2]string{c, ax}] = len(m.lin)
-			m.lin = append(m.lin, linParam{kind: kindBeta, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
-		}
-	}
-	if set.Linear {
-		for _, c := range set.Configs {
-			for _, ax := range []string{evidence.AxleFront, evidence.AxleRear} {
-				m.gamma[[2]string{c, ax}] = len(m.lin)
-				m.lin = append(m.lin, linParam{kind: kindGamma, config: c, axle: ax, prec: 1 / (set.PriorSD * set.PriorSD)})
-			}
-		}
-	}
-	nuisIdx := map[string]int{}
-	phiIdx := map[string]int{}
-	// Winds are the nuisances that some observation uses as its airspeed's
-	// wind: they enter non-linearly.
-	winds := map[string]bool{}
-	for _, ev := range evs {
-		for _, b := range ev.Blocks {
-			for _, o := range b.Obs {
-				if o.Air.Wind != "" {
-					winds[o.Air.Wind] = true
-				}
-			}
-		}
-	}
-	for ei, ev := range evs {
-		if err := ev.Check(); err != nil {
-			return nil, err
-		}
-		m.entries = append(m.entries, ev.Entry)
-		for _, q := range ev.Informs {
-			m.informed[q.Config] = true
-		}
-		m.kinds = append(m.kinds, ev.Kind)
-		m.inflate = append(m.inflate, 1)
-		m.inflateSys = append(m.inflateSys, 1)
-		// addPhi declares a non-linear parameter, or adds an owner to one
-		// already declared with the same prior.
-		addPhi := func(p phiParam) error {
-			if i, ok := phiIdx[p.name]; ok {
-				if m.phi[i].sd != p.sd {
-					return fmt.Errorf("fuse: %q is declared with sd %g and %g", p.name, m.phi[i].sd, p.sd)
-				}
-				m.phi[i].owners[ei] = true
-				return nil
-			}
-			phiIdx[p.name] = len(m.phi)
-			p.owners = map[int]bool{ei: true}
-			m.phi = append(m.phi, p)
-			return nil
-		}
-		for _, n := range ev.Nuisances {
-			if winds[n.Name] {
-				if err := addPhi(phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit}); err != nil {
-					return nil, err
-				}
-				continue
-			}
-			if i, ok := nuisIdx[n.Name]; ok {
-				p := &m.lin[i]
-				if p.nuis.Mean != n.Mean || p.nuis.SD != n.SD || p.nuis.Flat != n.Flat {
-					return nil, fmt.Errorf("fuse: nuisance %q is declared twice with different priors (%g ± %g and %g ± %g)", n.Name, p.nuis.Mean, p.nuis.SD, n.Mean, n.SD)
-				}
-				p.owners[ei] = true
-				continue
-			}
-			prec := 0.0
-			if !n.Flat {
-				prec = 1 / (n.SD * n.SD)
-			}
-			nuisIdx[n.Name] = len(m.lin)
-			m.lin = append(m.lin, linParam{kind: kindNuisance, nuis: n, mean: n.Mean, prec: prec, owners: map[int]bool{ei: true}})
-		}
-		for _, s := range ev.Scales {
-			if s.SD == 0 {
-				continue
-			}
-			if err := addPhi(phiParam{name: s.Name, label: s.Label, sd: s.SD}); err != nil {
-				return nil, err
-			}
-		}
-	}
-	terms := func(ts []evidence.Term, v float64) (lift, gam []entryRef, err error) {
-		for _, t := range ts {
-			k := [2]string{t.Config, t.Axle}
-			i, ok := m.beta[k]
-			if !ok {
-				return nil, nil, fmt.Errorf("fuse: evidence names configuration %q, which the campaign does not list", t.Config)
-			}
-			lift = append(lift, entryRef{i, t.W})
-			if set.Linear {
-				gam = append(gam, entryRef{m.gamma[k], t.W * (v - vref) / vref})
-			}
-		}
-		return lift, gam, nil
-	}
-	for ei, ev := range evs {
-		for _, b := range ev.Blocks {
-			bl := block{entry: ei}
-			for _, o := range b.Obs {
-				r := row{y: o.Y, entry: ei, label: o.Label, wind: -1, q0: o.Air.Q, v: o.Air.V}
-				var err error
-				if r.lift, r.gamma, err = terms(o.Terms, o.Air.V); err != nil {
-					return nil, err
-				}
-				if o.Air.Wind != "" {
-					r.wind = phiIdx[o.Air.Wind]
-					r.a = o.Air.Rho * o.Air.Dir * o.Air.V
-					r.c = 0.5 * o.Air.Rho
-				}
-				for _, s := range o.Scales {
-					if i, ok := phiIdx[s.Name]; ok {
-						r.scales = append(r.scales, phiRef{i, s.Pow})
-					}
-				}
-				for _, c := range o.Nuis {
-					if c.PerQ && r.wind >= 0 && r.q0 > 0 {
-						r.nuisPerQ = append(r.nuisPerQ, entryRef{nuisIdx[c.Name], c.C / r.q0})
-						continue
-					}
-					r.nuis = append(r.nuis, entryRef{nuisIdx[c.Name], c.C})
-				}
-				bl.rows = append(bl.rows, len(m.rows))
-				m.rows = append(m.rows, r)
-			}
-			bl.uniform = true
-			for _, ri := range bl.rows[1:] {
-				a, b := &m.rows[bl.rows[0]], &m.rows[ri]
-				if a.q0 != b.q0 || a.a != b.a || a.c != b.c || a.wind != b.wind || !slices.Equal(a.scales, b.scales) {
-					bl.uniform = false
-				}
-			}
-			if err := bl.setCov(b.Cov); err != nil {
-				return nil, fmt.Errorf("fuse: entry %q: %w", ev.Entry, err)
-			}
-			m.blocks = append(m.blocks, bl)
-		}
-		for _, s := range ev.Signs {
-			sg := sign{up: s.Lift, misread: s.Misread, softness: s.Softness, entry: ei, label: s.Label, v: s.Air.V}
-			var err error
-			if sg.lift, sg.gamma, err = terms(s.Terms, s.Air.V); err != nil {
-				return nil, err
-			}
-			m.signs = append(m.signs, sg)
-		}
-	}
-	m.buildGroups()
-	if err := m.undirected(); err != nil {
-		return nil, err
-	}
-	return m, nil
 }
 
 // undirected widens the error of observations whose travel direction was

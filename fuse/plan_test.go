@@ -113,17 +113,17 @@ func TestCrosscheck(t *testing.T) {
 	text := fmt.Sprintf(simSpec, 21, 3.0, "constant", plainWing, "80, 120, 150")
 	f := runSim(t, text, "rpot", "taps", "tuft")
 	const rho = 1.225
-	cc, err := f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Unit: air.UnitN}, rho)
+	cc, err := f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Unit: air.UnitN, NewtonsPerUnit: 1}, rho)
 	if err != nil {
 		t.Fatal(err)
 	}
 	at := cc.Predictive
-	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: at.Mean, Unit: air.UnitN}, rho)
+	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: at.Mean, Unit: air.UnitN, NewtonsPerUnit: 1}, rho)
 	if err != nil || math.Abs(cc.Z) >= 0.1 {
 		t.Fatalf("a claim at the predictive mean has z = %v (%v)", cc.Z, err)
 	}
 	far := at.Mean - 15*at.SD
-	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: far, Unit: air.UnitN}, rho)
+	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: far, Unit: air.UnitN, NewtonsPerUnit: 1}, rho)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -70,8 +70,7 @@ func (P *Posterior) weightsAt(vKmh float64, ts []evidence.Term) []entryRef {
 		for _, r := range m.quantity(evidence.Quantity{Config: t.Config, Axle: t.Axle}) {
 			w = append(w, entryRef{r.col, r.v * t.W})
 			if m.set.Linear && !math.IsNaN(vKmh) {
-				g := r.col + len(m.set.Configs)*2 // γ columns follow the β columns in the same order
-				w = append(w, entryRef{g, r.v * t.W * (vKmh - evidence.RefSpeedKmh) / evidence.RefSpeedKmh})
+				w = append(w, entryRef{m.gammaOf(r.col), r.v * t.W * (vKmh - evidence.RefSpeedKmh) / evidence.RefSpeedKmh})
 			}
 		}
 	}
@@ -114,7 +113,7 @@ func (P *Posterior) Quantity(q evidence.Quantity) (Estimate, float64) {
 // Delta returns the estimate of an axle of config minus the same axle of
 // versus, and P(difference < 0).
 func (P *Posterior) Delta(config, versus, axle string) (Estimate, float64) {
-	return P.Linear(evidence.Term{Config: config, Axle: axle, W: 1}, evidence.Term{Config: versus, Axle: axle, W: -1})
+	return P.Linear(Target{Config: config, Axle: axle, Versus: versus}.terms()...)
 }
 
 // Ratio returns the estimate of num/den (e.g. the front share β_f/β_t) from

@@ -2,25 +2,8 @@ package fuse
 
 import (
 	"fmt"
-	"math"
-	"sync"
 
-	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
-
-	"liftfuse/methods/air"
 	"liftfuse/methods/evidence"
-)
-
-// Robust layer: each entry's errors may be inflated by κ with prior
-// probability offPrior (model.md, "Agreement").
-const (
-	kappa    = 5.0
-	offPrior = 0.05
-	// flagP and flagOff are the agreement flag's thresholds
-	// (result-format.md): p-value below 0.05, or P(off) above 0.5.
-	flagP   = 0.05
-	flagOff = 0.5
 )
 
 // Input is what a campaign-level fusion needs, all of it already reduced by
@@ -45,7 +28,11 @@ type Fused struct {
 
 // Run fuses every entry, computes each entry's standalone posterior and its
 // agreement with the others, and fills the result document (all but the
-// campaign's title, hash and tool version, which the caller knows).
+// campaign's title, hash and tool version, which the caller knows). The
+// steps, in order: the joint fit; the configurations' results; the deltas
+// to the reference; the leave-one-out fits; the robust refit of the others
+// where some entry looks off; the entries' results and agreement; the
+// sampler's diagnostics. Warnings are appended in that order.
 func Run(in Input) (*Fused, error) {
 	set := in.Settings.withDefaults()
 	full, err := newModel(in.Evidence, set)
@@ -60,14 +47,28 @@ func Run(in Input) (*Fused, error) {
 		Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Methods: []MethodResult{}, Warnings: append([]string{}, in.Warnings...)}
 	out := &Fused{Posterior: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res}
 
-	informed := map[string]bool{}
-	for _, ev := range in.Evidence {
-		for _, q := range ev.Informs {
-			informed[q.Config] = true
-		}
+	configResults(res, P, in, set)
+	deltaResults(res, P, in.Reference, set.Configs)
+	lo, err := leaveOneOut(full, P, in.Evidence)
+	if err != nil {
+		return nil, err
 	}
+	if err := lo.robustOthers(in.Evidence); err != nil {
+		return nil, err
+	}
+	methodResults(res, out, full, in.Evidence, lo)
+	res.Diagnostics = diagnostics(res, P)
+	return out, nil
+}
+
+// configResults appends each configuration's fused result: the front, rear
+// and total C_L·A, the front share β_f/β_t, the axle forces q(V)·β(V) at
+// the report speeds (q = ½ρV²) and, given a frontal area A, the SAE J1594
+// coefficients C_L = C_L·A / A. A configuration no evidence speaks of is
+// marked prior-only, with a warning.
+func configResults(res *Result, P *Posterior, in Input, set Settings) {
 	for _, c := range set.Configs {
-		cr := ConfigResult{ID: c, PriorOnly: !informed[c]}
+		cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
 		if cr.PriorOnly {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
 		}
@@ -76,7 +77,7 @@ func Run(in Input) (*Fused, error) {
 		cr.Total = axle(P, c, evidence.AxleTotal)
 		cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
 		for _, v := range in.SpeedsKmh {
-			q := air.DynamicPressure(in.Rho, air.KmhToMs(v))
+			q := dynamicPressure(in.Rho, v)
 			at := func(ax string) Estimate { e, _ := P.At(v, evidence.Term{Config: c, Axle: ax, W: q}); return e }
 			cr.AtSpeeds = append(cr.AtSpeeds, SpeedResult{SpeedKmh: v, FrontN: at(evidence.AxleFront), RearN: at(evidence.AxleRear), TotalN: at(evidence.AxleTotal)})
 		}
@@ -85,13 +86,18 @@ func Run(in Input) (*Fused, error) {
 		}
 		res.Configs = append(res.Configs, cr)
 	}
-	for _, c := range set.Configs {
-		if c == in.Reference {
+}
+
+// deltaResults appends every configuration's difference to the reference,
+// β_c − β_ref on each axle, with P(difference < 0).
+func deltaResults(res *Result, P *Posterior, reference string, configs []string) {
+	for _, c := range configs {
+		if c == reference {
 			continue
 		}
-		d := DeltaResult{Config: c, Versus: in.Reference}
+		d := DeltaResult{Config: c, Versus: reference}
 		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
-			e, pn := P.Delta(c, in.Reference, ax)
+			e, pn := P.Delta(c, reference, ax)
 			ar := AxleResult{CLA: e, PDownforce: pn}
 			switch ax {
 			case evidence.AxleFront:
@@ -104,127 +110,38 @@ func Run(in Input) (*Fused, error) {
 		}
 		res.Deltas = append(res.Deltas, d)
 	}
+}
 
-	// Each entry alone, and every entry but it: independent fits, run two
-	// at a time (each is seeded on its own, so the order does not matter).
-	M := len(in.Evidence)
-	// The others' posteriors feed only the agreement distance (a mean and a
-	// covariance), never a reported interval: half the draws suffice.
-	setOthers := set
-	setOthers.MinESS = math.Max(400, set.MinESS/2)
-	start := map[string]float64{}
-	for i, p := range full.phi {
-		if P.p.phiMode != nil {
-			start[p.name] = P.p.phiMode[i]
-		}
-	}
-	full.start = start
-	alone := make([]*Posterior, M)
-	others := make([]*Posterior, M)
-	pOffs := make([]float64, M)
-	errs := make([]error, 2*M)
-	jobs := make(chan int)
-	var wg sync.WaitGroup
-	for range 2 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for j := range jobs {
-				ei := j / 2
-				ev := in.Evidence[ei]
-				if j%2 == 0 {
-					var am *model
-					am, errs[j] = newModel([]evidence.Evidence{ev}, set)
-					if errs[j] == nil {
-						am.start = start
-						alone[ei], errs[j] = am.fit()
-					}
-					if errs[j] != nil {
-						errs[j] = fmt.Errorf("entry %q alone: %w", ev.Entry, errs[j])
-					}
-					continue
-				}
-				if M == 1 {
-					continue
-				}
-				rest := append(append([]evidence.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
-				om, err := newModel(rest, setOthers)
-				if err == nil {
-					om.start = start
-					others[ei], err = om.fit()
-				}
-				if err != nil {
-					errs[j] = fmt.Errorf("every entry but %q: %w", ev.Entry, err)
-					continue
-				}
-				pOffs[ei] = full.pOff(ei, P.p.logZ)
-			}
-		}()
-	}
-	for j := range 2 * M {
-		jobs <- j
-	}
-	close(jobs)
-	wg.Wait()
-	for _, err := range errs {
-		if err != nil {
-			return nil, err
-		}
-	}
-	// An entry that looks off would drag the others' posterior along and
-	// make the good entries disagree with it: where some other entry looks
-	// off, compare with the others fused with that entry's errors inflated.
-	for ei, ev := range in.Evidence {
-		if M == 1 {
-			break
-		}
-		off := map[int]bool{}
-		k := 0
-		for j := range in.Evidence {
-			if j == ei {
-				continue
-			}
-			if pOffs[j] > flagOff {
-				off[k] = true
-			}
-			k++
-		}
-		if len(off) == 0 {
-			continue
-		}
-		rest := append(append([]evidence.Evidence(nil), in.Evidence[:ei]...), in.Evidence[ei+1:]...)
-		om, err := newModel(rest, setOthers)
-		if err != nil {
-			return nil, err
-		}
-		om.start = start
-		if others[ei], err = om.variant(off, true, true).fit(); err != nil {
-			return nil, fmt.Errorf("every entry but %q, robustly: %w", ev.Entry, err)
-		}
-	}
-	for ei, ev := range in.Evidence {
-		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(alone[ei], ev)}
-		out.Standalone[ev.Entry] = alone[ei]
-		if M > 1 {
-			O := others[ei]
+// methodResults appends each entry's standalone estimates and, with more
+// than one entry, its agreement with the others (flagged, with a warning,
+// when p < flagP or P(off) > flagOff); it records the leave-one-out
+// posteriors in out.
+func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence, lo *looFits) {
+	for ei, ev := range evs {
+		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(lo.alone[ei], ev)}
+		out.Standalone[ev.Entry] = lo.alone[ei]
+		if len(evs) > 1 {
+			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag := agreement(full, ei, ev, alone[ei], O)
-			ag.POff = pOffs[ei]
-			ag.Flag = ag.PValue < flagP || ag.POff > flagOff
+			ag := agreement(full, ei, ev, lo.alone[ei], O)
+			ag.POff = lo.pOff[ei]
+			ag.Flag = ag.flagged()
 			if ag.Flag {
-				msg := fmt.Sprintf("entry %q disagrees with the others (distance %.2f, p = %.3g, P(off) = %.2f)", ev.Entry, ag.Distance, ag.PValue, ag.POff)
-				if w := ag.Worst; w != nil {
-					msg += fmt.Sprintf(": most on %s %s, by %+.3f m² (%.1f sd)", w.Config, w.Axle, w.DiffM2, w.Sigmas)
-				}
-				res.Warnings = append(res.Warnings, msg)
+				res.Warnings = append(res.Warnings, ag.warning(ev.Entry))
 			}
 			mr.Agreement = ag
 		}
 		res.Methods = append(res.Methods, mr)
 	}
-	if len(in.Evidence) == 1 {
+	if len(evs) == 1 {
 		res.Warnings = append(res.Warnings, "a single evidence entry: nothing to check it against, so no agreement figures")
 	}
+}
+
+// diagnostics returns how the fused posterior was computed, warning when a
+// sampled posterior's R̂ exceeds 1.01 or its bulk ESS is below 400 (Vehtari
+// et al. 2021's thresholds).
+func diagnostics(res *Result, P *Posterior) *DiagnosticsDoc {
 	d := P.Diagnostics()
 	doc := &DiagnosticsDoc{Sampler: d.Sampler, Draws: d.Draws, Seed: d.Seed}
 	if !P.p.gaussian {
@@ -234,177 +151,12 @@ func Run(in Input) (*Fused, error) {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("sampler diagnostics are poor (R̂ %.3f, ESS %.0f): treat the intervals with care", r, e))
 		}
 	}
-	res.Diagnostics = doc
-	return out, nil
+	return doc
 }
 
 func axle(P *Posterior, config, ax string) AxleResult {
 	e, pn := P.Quantity(evidence.Quantity{Config: config, Axle: ax})
 	return AxleResult{CLA: e, PDownforce: pn}
-}
-
-// agreement compares entry ev's standalone posterior with the others' on
-// the quantities it informs: the Mahalanobis distance
-//
-//	d² = Δᵀ (C_alone + C_others)⁻¹ Δ,   p = P(χ²_k > d²)
-//
-// (the two posteriors are independent given the prior, which is wide). For
-// sign evidence it is the posterior predictive p-value of the observed
-// senses under the others' posterior, with T = −Σ log P(sense | θ).
-func agreement(full *model, ei int, ev evidence.Evidence, alone, others *Posterior) *Agreement {
-	if len(ev.Blocks) == 0 && len(ev.Signs) > 0 {
-		return signAgreement(full, ei, others)
-	}
-	k := len(ev.Informs)
-	if k == 0 {
-		return &Agreement{PValue: 1, Note: "informs no quantity"}
-	}
-	series := func(P *Posterior) ([][]float64, []float64) {
-		xs := make([][]float64, k)
-		means := make([]float64, k)
-		for i, q := range ev.Informs {
-			xs[i] = flatten(P.seriesOf(P.weights([]evidence.Term{{Config: q.Config, Axle: q.Axle, W: 1}})))
-			means[i], _ = meanVar(xs[i])
-		}
-		return xs, means
-	}
-	xa, ma := series(alone)
-	xo, mo := series(others)
-	C := mat.NewSymDense(k, nil)
-	for i := range k {
-		for j := i; j < k; j++ {
-			C.SetSym(i, j, covariance(xa[i], xa[j])+covariance(xo[i], xo[j]))
-		}
-	}
-	diff := make([]float64, k)
-	ag := &Agreement{}
-	worst := -1.0
-	for i := range k {
-		diff[i] = ma[i] - mo[i]
-		if s := math.Abs(diff[i]) / math.Sqrt(C.At(i, i)); s > worst {
-			worst = s
-			ag.Worst = &Disagreement{Config: ev.Informs[i].Config, Axle: ev.Informs[i].Axle, DiffM2: diff[i], Sigmas: diff[i] / math.Sqrt(C.At(i, i))}
-		}
-	}
-	var ch mat.Cholesky
-	if !ch.Factorize(C) {
-		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
-		return ag
-	}
-	dv := mat.NewVecDense(k, diff)
-	var x mat.VecDense
-	if err := ch.SolveVecTo(&x, dv); err != nil {
-		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
-		return ag
-	}
-	d2 := mat.Dot(dv, &x)
-	ag.Distance = math.Sqrt(d2)
-	ag.PValue = distuv.ChiSquared{K: float64(k)}.Survival(d2)
-	return ag
-}
-
-func covariance(a, b []float64) float64 {
-	ma, _ := meanVar(a)
-	mb, _ := meanVar(b)
-	var s float64
-	for i := range a {
-		s += (a[i] - ma) * (b[i] - mb)
-	}
-	return s / float64(len(a)-1)
-}
-
-// signAgreement is the posterior predictive check of an entry's signs
-// under the others' posterior (Gelman, Meng & Stern 1996): for each draw θ
-// a replicate set of senses is simulated, and p is the share of draws whose
-// replicate is at least as improbable as what was observed.
-func signAgreement(full *model, ei int, others *Posterior) *Agreement {
-	var signs []*sign
-	for i := range full.signs {
-		if full.signs[i].entry == ei {
-			signs = append(signs, &full.signs[i])
-		}
-	}
-	vals := make([][]float64, len(signs))
-	for i, s := range signs {
-		w := append(append([]entryRef(nil), s.lift...), s.gamma...)
-		vals[i] = flatten(others.seriesOf(w))
-	}
-	n := len(vals[0])
-	rng := newRand(full.set.Seed, 777)
-	extreme := 0
-	for d := range n {
-		var tObs, tRep float64
-		for i, s := range signs {
-			pUp := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(vals[i][d]/s.softness)
-			pObs := pUp
-			if !s.up {
-				pObs = 1 - pUp
-			}
-			tObs -= math.Log(math.Max(pObs, 1e-300))
-			pRep := pUp
-			if rng.Float64() >= pUp {
-				pRep = 1 - pUp
-			}
-			tRep -= math.Log(math.Max(pRep, 1e-300))
-		}
-		if tRep >= tObs {
-			extreme++
-		}
-	}
-	p := float64(extreme) / float64(n)
-	return &Agreement{PValue: p, Distance: math.Abs(distuv.UnitNormal.Quantile(math.Max(p, 1e-300) / 2)),
-		Note: "posterior predictive check of the observed senses under the other entries"}
-}
-
-// pOff is the posterior probability that entry e's errors are inflated by
-// κ. "Off" is either of two alternatives, equally likely: its random errors
-// are κ times larger, or the priors of its own systematic errors (stiffness,
-// gain, tyre growth, offsets, …) are κ times wider. From Laplace estimates
-// of the evidence of each,
-//
-//	P(off) = π·Z_off / (π·Z_off + (1 − π)·Z),  Z_off = ½(Z_noise + Z_sys),  π = 0.05
-func (m *model) pOff(e int, logZ float64) float64 {
-	var logZs []float64
-	for _, sys := range []bool{false, true} {
-		alt := m.variant(map[int]bool{e: true}, !sys, sys)
-		_, _, lz, err := alt.laplace()
-		if err != nil || math.IsNaN(lz) {
-			continue
-		}
-		logZs = append(logZs, lz)
-	}
-	if len(logZs) == 0 {
-		return 0
-	}
-	// log Z_off = log ½ Σ Z_k, computed stably.
-	mx := math.Inf(-1)
-	for _, l := range logZs {
-		mx = math.Max(mx, l)
-	}
-	var s float64
-	for _, l := range logZs {
-		s += math.Exp(l - mx)
-	}
-	logZoff := mx + math.Log(s/2)
-	return 1 / (1 + (1-offPrior)/offPrior*math.Exp(logZ-logZoff))
-}
-
-// variant returns a copy of the model (sharing its data) with the entries
-// in off inflated by κ: their random errors when noise is set, their own
-// systematic priors when sys is set.
-func (m *model) variant(off map[int]bool, noise, sys bool) *model {
-	alt := &model{data: m.data, start: m.start}
-	alt.inflate = append([]float64(nil), m.inflate...)
-	alt.inflateSys = append([]float64(nil), m.inflateSys...)
-	for e := range off {
-		if noise {
-			alt.inflate[e] = kappa
-		}
-		if sys {
-			alt.inflateSys[e] = kappa
-		}
-	}
-	return alt
 }
 
 // Standalone returns a result document with only each entry's standalone

@@ -1,17 +1,15 @@
 package fuse
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
-	"sync"
 
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
-	"gonum.org/v1/gonum/stat/distuv"
+
+	"liftfuse/methods/evidence"
 )
 
 // The sampler. The linear parameters (lift, speed slopes, additive
@@ -62,30 +60,6 @@ type posterior struct {
 	diag     Diagnostics
 }
 
-// signProb returns the probability of what a sign observation saw, given
-// the value x = Σ w β of its quantity.
-func (m *model) signProb(s *sign, x float64) float64 {
-	if m.inflate[s.entry] > 1 {
-		return 0.5 // the robust alternative: the observer saw nothing
-	}
-	p := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(x/s.softness)
-	if !s.up {
-		p = 1 - p
-	}
-	return p
-}
-
-func (s *sign) value(theta []float64) float64 {
-	var x float64
-	for _, t := range s.lift {
-		x += t.v * theta[t.col]
-	}
-	for _, t := range s.gamma {
-		x += t.v * theta[t.col]
-	}
-	return x
-}
-
 // logPhiPrior returns log p(φ) up to a constant that does not depend on the
 // inflation of any entry (each φ_i ~ N(0, (k·sd)²)).
 func (m *model) logPhiPrior(phi []float64) float64 {
@@ -125,10 +99,7 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		}
 		a := c.a
 		clear(a)
-		for _, t := range s.lift {
-			a[t.col] += t.v
-		}
-		for _, t := range s.gamma {
+		for _, t := range s.refs() {
 			a[t.col] += t.v
 		}
 		var mean float64
@@ -142,7 +113,7 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		for _, x := range c.x {
 			vr += x * x
 		}
-		pr := s.misread + (1-2*s.misread)*distuv.UnitNormal.CDF(mean/math.Sqrt(s.softness*s.softness+vr))
+		pr := s.probit(mean / math.Sqrt(s.softness*s.softness+vr))
 		if !s.up {
 			pr = 1 - pr
 		}
@@ -204,158 +175,28 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	return mode, cov, logZ, nil
 }
 
-// chainState is one independence Metropolis–Hastings chain.
-type chainState struct {
-	rng  *rand.Rand
-	cond cond
-	// proposal buffers, swapped with theta and phi on acceptance
-	propTheta, propPhi, z []float64
-	lw                    float64 // log weight of the current state
-	theta                 []float64
-	phi                   []float64
-	begun                 bool
-	accept                int
-	tries                 int
-	draws                 []float64
-	phis                  []float64
-}
-
 // sample computes the posterior: closed form when it can, else the chains.
+// The chains' steps: a Laplace fit of p(φ | y), the Student-t proposal
+// around it, batches of draws until the diagnostics pass, and the
+// acceptance summary.
 func (m *model) sample() (*posterior, error) {
+	if len(m.phi) == 0 && len(m.signs) == 0 {
+		return m.closedForm()
+	}
 	post := &posterior{m: m}
 	post.diag.Seed = m.set.Seed
-	if len(m.phi) == 0 && len(m.signs) == 0 {
-		if err := m.condition(nil, &post.cond); err != nil {
-			return nil, err
-		}
-		post.gaussian = true
-		post.logZ = post.cond.logML
-		post.diag.Sampler = "closed form (conjugate Gaussian)"
-		post.diag.RhatMax, post.diag.ESSMin = 1, math.Inf(1)
-		return post, nil
-	}
 	mode, cov, logZ, err := m.laplace()
 	if err != nil {
 		return nil, err
 	}
 	post.phiMode, post.logZ = mode, logZ
-	d, p := len(m.phi), len(m.lin)
-	var chol mat.Cholesky
-	var lower mat.TriDense
-	if d > 0 {
-		sc := mat.NewSymDense(d, nil)
-		sc.ScaleSym(tScale*tScale, cov)
-		if !chol.Factorize(sc) {
-			return nil, errors.New("fuse: proposal covariance is not positive definite")
-		}
-		chol.LTo(&lower)
+	prop, err := m.newProposal(mode, cov)
+	if err != nil {
+		return nil, err
 	}
-	chains := make([]*chainState, nChains)
-	for c := range chains {
-		chains[c] = &chainState{rng: rand.New(rand.NewPCG(m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
-			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d))}
-	}
-	// propose draws φ from the Student-t proposal and θ from its conditional
-	// Gaussian into the chain's proposal buffers, and returns the log
-	// importance weight (−∞ where the conditioning fails).
-	propose := func(ch *chainState) float64 {
-		phi, theta, z := ch.propPhi, ch.propTheta, ch.z
-		var maha float64
-		if d > 0 {
-			for i := range d {
-				z[i] = ch.rng.NormFloat64()
-			}
-			var u float64 // χ² with tNu degrees of freedom
-			for range tNu {
-				g := ch.rng.NormFloat64()
-				u += g * g
-			}
-			f := math.Sqrt(tNu / u)
-			for i := range d {
-				var s float64
-				for j := 0; j <= i; j++ {
-					s += lower.At(i, j) * z[j]
-				}
-				phi[i] = mode[i] + f*s
-				maha += z[i] * z[i] * f * f
-			}
-		}
-		logq := -0.5 * (tNu + float64(d)) * math.Log1p(maha/tNu)
-		c := &ch.cond
-		if err := m.condition(phi, c); err != nil {
-			return math.Inf(-1)
-		}
-		for i := range p {
-			z[i] = ch.rng.NormFloat64()
-		}
-		c.draw(z[:p], theta)
-		lw := c.logML + m.logPhiPrior(phi) - logq
-		for si := range m.signs {
-			s := &m.signs[si]
-			lw += math.Log(math.Max(m.signProb(s, s.value(theta)), 1e-300))
-		}
-		return lw
-	}
-	step := func(ch *chainState, n int) {
-		ch.draws = slices.Grow(ch.draws, n*p)
-		ch.phis = slices.Grow(ch.phis, n*d)
-		for range n {
-			lw := propose(ch)
-			ch.tries++
-			if !math.IsInf(lw, -1) && (!ch.begun || math.Log(ch.rng.Float64()) < lw-ch.lw) {
-				ch.phi, ch.propPhi = ch.propPhi, ch.phi
-				ch.theta, ch.propTheta = ch.propTheta, ch.theta
-				ch.lw, ch.begun = lw, true
-				ch.accept++
-			}
-			if !ch.begun {
-				continue
-			}
-			ch.draws = append(ch.draws, ch.theta...)
-			ch.phis = append(ch.phis, ch.phi...)
-		}
-	}
-	tracked := m.trackedColumns()
-	// Independence MH with this proposal keeps about half its proposals, so
-	// a first batch of 2.4 draws per wanted effective draw usually suffices.
-	batch := int(math.Ceil(m.set.MinESS / nChains * 2.4))
-	for {
-		var wg sync.WaitGroup
-		for _, ch := range chains {
-			wg.Add(1)
-			go func() { defer wg.Done(); step(ch, batch) }()
-		}
-		wg.Wait()
-		n := len(chains[0].draws) / p
-		for _, ch := range chains {
-			n = min(n, len(ch.draws)/p)
-		}
-		if n == 0 {
-			return nil, fmt.Errorf("fuse: the sampler found no state with finite probability")
-		}
-		if float64(n*nChains) < m.set.MinESS && n < m.set.MaxDraws {
-			batch = 100
-			continue // ESS cannot exceed the draws yet
-		}
-		post.n = n
-		post.draws = post.draws[:0]
-		post.phiDraws = post.phiDraws[:0]
-		for _, ch := range chains {
-			post.draws = append(post.draws, ch.draws[:n*p])
-			post.phiDraws = append(post.phiDraws, ch.phis[:n*d])
-		}
-		rmax, emin := 1.0, math.Inf(1)
-		for _, q := range tracked {
-			r, e := RhatESS(post.series(q))
-			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
-		}
-		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
-		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
-			break
-		}
-		// Draw about what the ESS so far says is still needed, with a margin.
-		need := float64(n) * (m.set.MinESS/math.Max(emin, 1) - 1) * 1.35
-		batch = int(math.Min(math.Max(need, 0.1*float64(n)), float64(m.set.MaxDraws-n)))
+	chains := prop.newChains()
+	if err := post.drawUntilConverged(prop, chains); err != nil {
+		return nil, err
 	}
 	var acc, tries int
 	for _, ch := range chains {
@@ -364,8 +205,71 @@ func (m *model) sample() (*posterior, error) {
 	}
 	post.diag.Accept = float64(acc) / float64(tries)
 	post.diag.Draws = post.n * nChains
-	post.diag.Sampler = fmt.Sprintf("independence Metropolis–Hastings, %d chains, Student-t proposal from a Laplace fit over %d non-linear parameters, linear parameters drawn exactly", nChains, d)
+	post.diag.Sampler = fmt.Sprintf("independence Metropolis–Hastings, %d chains, Student-t proposal from a Laplace fit over %d non-linear parameters, linear parameters drawn exactly", nChains, prop.d)
 	return post, nil
+}
+
+// closedForm is the posterior of a model with neither non-linear
+// parameters nor signs: the conjugate Gaussian (see cond), exact.
+func (m *model) closedForm() (*posterior, error) {
+	post := &posterior{m: m}
+	post.diag.Seed = m.set.Seed
+	if err := m.condition(nil, &post.cond); err != nil {
+		return nil, err
+	}
+	post.gaussian = true
+	post.logZ = post.cond.logML
+	post.diag.Sampler = "closed form (conjugate Gaussian)"
+	post.diag.RhatMax, post.diag.ESSMin = 1, math.Inf(1)
+	return post, nil
+}
+
+// drawUntilConverged runs the chains in batches until the bulk ESS of every
+// tracked quantity reaches MinESS with R̂ ≤ 1.01, or MaxDraws per chain.
+// Independence MH with this proposal keeps about half its proposals, so a
+// first batch of 2.4 draws per wanted effective draw usually suffices;
+// later batches draw what the ESS so far says is still needed, with a
+// margin of 35 %:
+//
+//	batch = n·(MinESS/ESS − 1)·1.35,  at least n/10
+func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) error {
+	m := post.m
+	tracked := m.trackedColumns()
+	batch := int(math.Ceil(m.set.MinESS / nChains * 2.4))
+	for {
+		n := prop.runBatch(chains, batch)
+		if n == 0 {
+			return fmt.Errorf("fuse: the sampler found no state with finite probability")
+		}
+		if float64(n*nChains) < m.set.MinESS && n < m.set.MaxDraws {
+			batch = 100
+			continue // ESS cannot exceed the draws yet
+		}
+		post.collect(chains, n, prop.p, prop.d)
+		rmax, emin := 1.0, math.Inf(1)
+		for _, q := range tracked {
+			r, e := RhatESS(post.series(q))
+			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
+		}
+		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
+		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
+			return nil
+		}
+		need := float64(n) * (m.set.MinESS/math.Max(emin, 1) - 1) * 1.35
+		batch = int(math.Min(math.Max(need, 0.1*float64(n)), float64(m.set.MaxDraws-n)))
+	}
+}
+
+// collect keeps the first n draws of every chain (p linear and d
+// non-linear parameters per draw).
+func (post *posterior) collect(chains []*chainState, n, p, d int) {
+	post.n = n
+	post.draws = post.draws[:0]
+	post.phiDraws = post.phiDraws[:0]
+	for _, ch := range chains {
+		post.draws = append(post.draws, ch.draws[:n*p])
+		post.phiDraws = append(post.phiDraws, ch.phis[:n*d])
+	}
 }
 
 // trackedColumns returns the quantities whose convergence gates sampling:
@@ -377,8 +281,9 @@ func (m *model) trackedColumns() [][]entryRef {
 		if !m.informed[c] {
 			continue
 		}
-		f, r := m.beta[[2]string{c, "front"}], m.beta[[2]string{c, "rear"}]
-		out = append(out, []entryRef{{f, 1}}, []entryRef{{r, 1}}, []entryRef{{f, 1}, {r, 1}})
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+			out = append(out, m.quantity(evidence.Quantity{Config: c, Axle: ax}))
+		}
 	}
 	return out
 }

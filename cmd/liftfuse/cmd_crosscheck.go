@@ -62,8 +62,13 @@ func runCrosscheck(o crosscheckOptions, out, stderr io.Writer) error {
 		return badInput("--speed-kmh must lie in (0, 500), got %g", cl.SpeedKmh)
 	case !(cl.SD >= 0):
 		return badInput("--sd must not be negative")
-	case cl.Unit != "m2" && cl.Unit != air.UnitN && cl.Unit != air.UnitKgf && cl.Unit != air.UnitLbf:
-		return badInput("--unit must be N, kgf, lbf or m2, got %q", cl.Unit)
+	}
+	if cl.Unit != "m2" {
+		n, err := air.NewtonsPer(cl.Unit)
+		if err != nil {
+			return badInput("--unit must be N, kgf, lbf or m2, got %q", cl.Unit)
+		}
+		cl.NewtonsPerUnit = n
 	}
 	a, err := analyse(o.file, o.quiet, stderr)
 	if err != nil {

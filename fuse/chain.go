@@ -1,0 +1,151 @@
+package fuse
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"sync"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// proposal is the independence sampler's proposal around a Laplace fit of
+// p(φ | y) with mode μ and covariance S: φ from a multivariate Student-t,
+//
+//	φ = μ + √(ν/u)·L z,   z ~ N(0, I_d),  u ~ χ²_ν,  L Lᵀ = s²·S  (ν = tNu, s = tScale),
+//
+// then θ from its exact conditional Gaussian p(θ | φ, y).
+type proposal struct {
+	m     *model
+	mode  []float64
+	lower mat.TriDense // L
+	d, p  int
+}
+
+// newProposal builds the proposal around a Laplace fit.
+func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error) {
+	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin)}
+	if pr.d > 0 {
+		sc := mat.NewSymDense(pr.d, nil)
+		sc.ScaleSym(tScale*tScale, cov)
+		var chol mat.Cholesky
+		if !chol.Factorize(sc) {
+			return nil, errors.New("fuse: proposal covariance is not positive definite")
+		}
+		chol.LTo(&pr.lower)
+	}
+	return pr, nil
+}
+
+// chainState is one independence Metropolis–Hastings chain.
+type chainState struct {
+	rng  *rand.Rand
+	cond cond
+	// proposal buffers, swapped with theta and phi on acceptance
+	propTheta, propPhi, z []float64
+	lw                    float64 // log weight of the current state
+	theta                 []float64
+	phi                   []float64
+	begun                 bool
+	accept                int
+	tries                 int
+	draws                 []float64
+	phis                  []float64
+}
+
+// newChains returns nChains chains, chain c seeded with stream c+1.
+func (pr *proposal) newChains() []*chainState {
+	p, d := pr.p, pr.d
+	chains := make([]*chainState, nChains)
+	for c := range chains {
+		chains[c] = &chainState{rng: rand.New(rand.NewPCG(pr.m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
+			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d))}
+	}
+	return chains
+}
+
+// propose draws φ from the Student-t proposal and θ from its conditional
+// Gaussian into the chain's proposal buffers, and returns the log
+// importance weight (−∞ where the conditioning fails)
+//
+//	log w = log p(y | φ) + log p(φ) − log q(φ) + Σ_signs log P(sign | θ),
+//	log q(φ) = −½(ν + d)·log(1 + ‖z‖²/u)  (+ const).
+func (pr *proposal) propose(ch *chainState) float64 {
+	m, d, p := pr.m, pr.d, pr.p
+	phi, theta, z := ch.propPhi, ch.propTheta, ch.z
+	var maha float64
+	if d > 0 {
+		for i := range d {
+			z[i] = ch.rng.NormFloat64()
+		}
+		var u float64 // χ² with tNu degrees of freedom
+		for range tNu {
+			g := ch.rng.NormFloat64()
+			u += g * g
+		}
+		f := math.Sqrt(tNu / u)
+		for i := range d {
+			var s float64
+			for j := 0; j <= i; j++ {
+				s += pr.lower.At(i, j) * z[j]
+			}
+			phi[i] = pr.mode[i] + f*s
+			maha += z[i] * z[i] * f * f
+		}
+	}
+	logq := -0.5 * (tNu + float64(d)) * math.Log1p(maha/tNu)
+	c := &ch.cond
+	if err := m.condition(phi, c); err != nil {
+		return math.Inf(-1)
+	}
+	for i := range p {
+		z[i] = ch.rng.NormFloat64()
+	}
+	c.draw(z[:p], theta)
+	lw := c.logML + m.logPhiPrior(phi) - logq
+	for si := range m.signs {
+		s := &m.signs[si]
+		lw += math.Log(math.Max(m.signProb(s, s.value(theta)), 1e-300))
+	}
+	return lw
+}
+
+// step advances a chain by n proposals, accepting with probability
+// min(1, w'/w) (the first finite proposal always), and records its state
+// from the first acceptance on.
+func (pr *proposal) step(ch *chainState, n int) {
+	ch.draws = slices.Grow(ch.draws, n*pr.p)
+	ch.phis = slices.Grow(ch.phis, n*pr.d)
+	for range n {
+		lw := pr.propose(ch)
+		ch.tries++
+		if !math.IsInf(lw, -1) && (!ch.begun || math.Log(ch.rng.Float64()) < lw-ch.lw) {
+			ch.phi, ch.propPhi = ch.propPhi, ch.phi
+			ch.theta, ch.propTheta = ch.propTheta, ch.theta
+			ch.lw, ch.begun = lw, true
+			ch.accept++
+		}
+		if !ch.begun {
+			continue
+		}
+		ch.draws = append(ch.draws, ch.theta...)
+		ch.phis = append(ch.phis, ch.phi...)
+	}
+}
+
+// runBatch advances every chain by batch proposals, one goroutine per
+// chain, and returns the draws the shortest chain holds.
+func (pr *proposal) runBatch(chains []*chainState, batch int) int {
+	var wg sync.WaitGroup
+	for _, ch := range chains {
+		wg.Add(1)
+		go func() { defer wg.Done(); pr.step(ch, batch) }()
+	}
+	wg.Wait()
+	n := len(chains[0].draws) / pr.p
+	for _, ch := range chains {
+		n = min(n, len(ch.draws)/pr.p)
+	}
+	return n
+}
