@@ -61,6 +61,10 @@ type Vehicle struct {
 	FrontalAreaM2 float64 `yaml:"frontal_area_m2"`
 	Drag          *Drag   `yaml:"drag"`
 	Axles         Axles   `yaml:"axles" lf:"required"`
+	// CGHeightM and CGHeightSDM are the prior of the centre-of-gravity
+	// height, the lever of longitudinal load transfer (model v2).
+	CGHeightM   float64 `yaml:"cg_height_m"`
+	CGHeightSDM float64 `yaml:"cg_height_sd_m"`
 }
 
 // Drag enables the pitch-from-drag correction of pressure axle splits.
@@ -104,6 +108,10 @@ type Air struct {
 	HumidityPct  float64 `yaml:"humidity_pct" lf:"required"`
 	CO2ppm       float64 `yaml:"co2_ppm"`
 	WindSDMs     float64 `yaml:"wind_sd_ms"`
+	// ProbeSDPct is the position error of an airspeed probe, in percent of
+	// q; GustSDMs the prior scale of the run-to-run wind scatter (model v2).
+	ProbeSDPct float64 `yaml:"probe_sd_pct"`
+	GustSDMs   float64 `yaml:"gust_sd_ms"`
 }
 
 // Speed models of format 1.
@@ -151,6 +159,13 @@ type RideHeightEntry struct {
 	Steady      Steady      `yaml:"steady"`
 	FilterTauS  float64     `yaml:"filter_tau_s"`
 	Logs        []LogSpec   `yaml:"logs" lf:"required"`
+	// XM is a laser's spot position behind the front axle, m; after
+	// defaults it is set (0 for a front laser, the wheelbase for a rear
+	// one) and At.Has("x_m") tells whether the file gave it.
+	XM float64 `yaml:"x_m"`
+	// MaxSpeedKmh drops windows above this speed (bump stops, end stops);
+	// 0: no limit.
+	MaxSpeedKmh float64 `yaml:"max_speed_kmh"`
 }
 
 // Calibration maps a sensor signal to mm of body height: a linear gain or a
@@ -197,17 +212,65 @@ type Steady struct {
 	MinDurationS float64 `yaml:"min_duration_s"`
 }
 
-// LogSpec names a log file and its columns.
+// LogSpec names a log file and its columns. Ride-height logs name a
+// signal; pressure logs name their taps' columns.
 type LogSpec struct {
-	At        Place     `yaml:"-"`
-	File      string    `yaml:"file" lf:"required"`
-	Time      string    `yaml:"time" lf:"required"`
-	SpeedKmh  string    `yaml:"speed_kmh"`
-	SpeedMs   string    `yaml:"speed_ms"`
-	Signal    string    `yaml:"signal" lf:"required"`
-	Direction string    `yaml:"direction"`
-	Config    string    `yaml:"config"`
-	Segments  []Segment `yaml:"segments"`
+	At          Place      `yaml:"-"`
+	File        string     `yaml:"file" lf:"required"`
+	Format      *LogFormat `yaml:"format"`
+	Time        string     `yaml:"time" lf:"required"`
+	SpeedKmh    string     `yaml:"speed_kmh"`
+	SpeedMs     string     `yaml:"speed_ms"`
+	AirspeedKmh string     `yaml:"airspeed_kmh"`
+	AirspeedMs  string     `yaml:"airspeed_ms"`
+	QPa         string     `yaml:"q_pa"`
+	SpeedFile   *SpeedFile `yaml:"speed_file"`
+	Signal      string     `yaml:"signal"`
+	Taps        Names      `yaml:"taps"`
+	Direction   string     `yaml:"direction"`
+	Config      string     `yaml:"config"`
+	Segments    []Segment  `yaml:"segments"`
+}
+
+// Airspeed reports whether the log carries a measured airspeed (a probe's
+// speed or differential pressure) rather than ground speed alone.
+func (l *LogSpec) Airspeed() bool {
+	return l.AirspeedKmh != "" || l.AirspeedMs != "" || l.QPa != ""
+}
+
+// Time formats and empty-cell policies of a log (LogFormat).
+const (
+	TimeSeconds = "seconds"
+	TimeClock   = "clock"
+	TimeISO     = "iso"
+
+	EmptyError = "error"
+	EmptyHold  = "hold"
+	EmptySkip  = "skip"
+)
+
+// LogFormat says how a logger wrote its file; a key that is absent is
+// detected from the file.
+type LogFormat struct {
+	At         Place  `yaml:"-"`
+	Delimiter  string `yaml:"delimiter"`
+	Decimal    string `yaml:"decimal"`
+	HeaderLine int    `yaml:"header_line"`
+	SkipLines  int    `yaml:"skip_lines"`
+	Time       string `yaml:"time"`
+	Empty      string `yaml:"empty"`
+}
+
+// SpeedFile is speed logged by another device, joined to the log by time
+// (linear interpolation) after adding OffsetS to its time.
+type SpeedFile struct {
+	At       Place      `yaml:"-"`
+	File     string     `yaml:"file" lf:"required"`
+	Format   *LogFormat `yaml:"format"`
+	Time     string     `yaml:"time" lf:"required"`
+	SpeedKmh string     `yaml:"speed_kmh"`
+	SpeedMs  string     `yaml:"speed_ms"`
+	OffsetS  float64    `yaml:"offset_s"`
 }
 
 // Segment assigns a time span of a log to a configuration.
@@ -237,6 +300,10 @@ type PressureEntry struct {
 	ReferenceSDPa float64   `yaml:"reference_sd_pa" lf:"required"`
 	ModelSDPct    float64   `yaml:"model_sd_pct"`
 	Taps          []Tap     `yaml:"taps"`
+	// Logs hold the taps logged in time, instead of readings (model v2).
+	Logs []LogSpec `yaml:"logs"`
+	// Steady sets how steady windows are found in those logs.
+	Steady Steady `yaml:"steady"`
 	TapsFile      string    `yaml:"taps_file"`
 	Uncovered     []Patch   `yaml:"uncovered"`
 	Readings      []Reading `yaml:"readings"`

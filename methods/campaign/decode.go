@@ -302,6 +302,42 @@ func (vs *Values) decodeNode(d *decoder, n *yaml.Node, path string) {
 	}
 }
 
+// Names is an ordered name → text mapping such as a pressure log's
+// `taps: {u1: p_u1, l1: p_l1}` (tap id → column).
+type Names []Name
+
+// Name is one entry of Names.
+type Name struct {
+	Key, V string
+	At     Where
+}
+
+func (ns *Names) decodeNode(d *decoder, n *yaml.Node, path string) {
+	if n.Kind != yaml.MappingNode {
+		d.fail(n, path, wrapf(ErrType, "want a mapping of names to column names, got %s", describe(n)))
+		return
+	}
+	seen := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, val := n.Content[i], n.Content[i+1]
+		for val.Kind == yaml.AliasNode {
+			val = val.Alias
+		}
+		p := join(path, k.Value)
+		switch {
+		case k.Kind != yaml.ScalarNode:
+			d.fail(k, path, wrapf(ErrType, "a key must be a plain word, got %s", describe(k)))
+		case seen[k.Value]:
+			d.fail(k, p, wrapf(ErrDuplicate, "key %q given twice", k.Value))
+		case val.Kind != yaml.ScalarNode || val.ShortTag() == "!!null":
+			d.fail(val, p, wrapf(ErrType, "want a column name, got %s", describe(val)))
+		default:
+			seen[k.Value] = true
+			*ns = append(*ns, Name{Key: k.Value, V: val.Value, At: d.where(val)})
+		}
+	}
+}
+
 // Pair is a two-number list such as a calibration point [signal, mm].
 type Pair struct {
 	A, B float64

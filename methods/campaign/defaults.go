@@ -20,10 +20,15 @@ const (
 	DefaultCostH          = 1.0
 	MisreadFastback       = 0.05
 	MisreadNotchbackRaked = 0.15
+	// Model v2 (campaign-format.md, "Additions to format 1").
+	DefaultCGHeightM   = 0.50 // road car, from memory
+	DefaultCGHeightSDM = 0.10
+	DefaultProbeSDPct  = 3   // probe position error, from memory
+	DefaultGustSDMs    = 1.5 // run-to-run wind scatter scale
 )
 
-// DefaultSpeedsKmh are the report speeds when none are given.
-var DefaultSpeedsKmh = []float64{100, 150}
+// DefaultSpeedsKmh returns the report speeds used when none are given.
+func DefaultSpeedsKmh() []float64 { return []float64{100, 150} }
 
 // DefaultMisread returns the vortex misread probability for a body style and
 // whether the vortex method applies to that body at all (fastbacks, and
@@ -51,6 +56,13 @@ func applyDefaults(c *Campaign) {
 	if c.Prior.SpeedModel == "" {
 		c.Prior.SpeedModel = SpeedConstant
 	}
+	vehicleDefaults(&c.Vehicle)
+	if !c.Air.At.Has("probe_sd_pct") {
+		c.Air.ProbeSDPct = DefaultProbeSDPct
+	}
+	if !c.Air.At.Has("gust_sd_ms") {
+		c.Air.GustSDMs = DefaultGustSDMs
+	}
 	if d := c.Vehicle.Drag; d != nil && !d.At.Has("sd_pct") {
 		d.SDPct = DefaultDragSDPct
 	}
@@ -65,20 +77,20 @@ func applyDefaults(c *Campaign) {
 		if !e.TyreGrowth.At.Has("sd_mm") {
 			e.TyreGrowth.SDMm = DefaultGrowthSDMm
 		}
-		if !e.Steady.At.Has("speed_tol_kmh") {
-			e.Steady.SpeedTolKmh = DefaultSpeedTolKmh
-		}
-		if !e.Steady.At.Has("min_duration_s") {
-			e.Steady.MinDurationS = DefaultMinDurationS
-		}
+		steadyDefaults(&e.Steady)
 		if !e.At.Has("filter_tau_s") {
 			e.FilterTauS = DefaultFilterTauS
 		}
+		if !e.At.Has("x_m") && e.Axle == AxleRear {
+			e.XM = c.Vehicle.WheelbaseM
+		}
 	}
 	for i := range c.Evidence.Pressure {
-		if e := &c.Evidence.Pressure[i]; !e.At.Has("model_sd_pct") {
+		e := &c.Evidence.Pressure[i]
+		if !e.At.Has("model_sd_pct") {
 			e.ModelSDPct = DefaultModelSDPct
 		}
+		steadyDefaults(&e.Steady)
 	}
 	for i := range c.Evidence.Vortex {
 		e := &c.Evidence.Vortex[i]
@@ -94,7 +106,7 @@ func applyDefaults(c *Campaign) {
 	}
 	r := &c.Report
 	if !r.At.Has("speeds_kmh") {
-		r.SpeedsKmh = append([]float64(nil), DefaultSpeedsKmh...)
+		r.SpeedsKmh = DefaultSpeedsKmh()
 	}
 	if !r.At.Has("credible") {
 		r.Credible = DefaultCredible
@@ -121,3 +133,21 @@ func (c *Campaign) CostH(entry string) float64 {
 
 // Density returns the campaign's air density in kg/m³.
 func (c *Campaign) Density() float64 { return c.Air.Density() }
+
+func vehicleDefaults(v *Vehicle) {
+	if !v.At.Has("cg_height_m") {
+		v.CGHeightM = DefaultCGHeightM
+	}
+	if !v.At.Has("cg_height_sd_m") {
+		v.CGHeightSDM = DefaultCGHeightSDM
+	}
+}
+
+func steadyDefaults(s *Steady) {
+	if !s.At.Has("speed_tol_kmh") {
+		s.SpeedTolKmh = DefaultSpeedTolKmh
+	}
+	if !s.At.Has("min_duration_s") {
+		s.MinDurationS = DefaultMinDurationS
+	}
+}

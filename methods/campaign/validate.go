@@ -46,6 +46,13 @@ func (v *validator) nonNegative(p Place, path, key string, x float64) {
 	}
 }
 
+// within requires lo ≤ x ≤ hi, a physical range stated in the message.
+func (v *validator) within(p Place, path, key string, x, lo, hi float64, unit string) {
+	if !(x >= lo && x <= hi) {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s must lie in [%g, %g]%s, got %g", key, lo, hi, unit, x)
+	}
+}
+
 // percent requires x in [0, 100).
 func (v *validator) percent(p Place, path, key string, x float64) {
 	if !(x >= 0 && x < 100) {
@@ -142,6 +149,8 @@ func (v *validator) vehicle() {
 		v.positive(d.At, path+".drag", "centre_height_m", d.CentreHeightM)
 		v.percent(d.At, path+".drag", "sd_pct", d.SDPct)
 	}
+	v.within(veh.At, path, "cg_height_m", veh.CGHeightM, 0.05, 3, " m")
+	v.within(veh.At, path, "cg_height_sd_m", veh.CGHeightSDM, 0, 1, " m")
 	for _, ax := range []struct {
 		name string
 		a    *Axle
@@ -171,6 +180,8 @@ func (v *validator) air() {
 		v.errf(a.At.Of("co2_ppm"), "air.co2_ppm", ErrRange, "co2_ppm must lie in [0, 10000], got %g", a.CO2ppm)
 	}
 	v.nonNegative(a.At, "air", "wind_sd_ms", a.WindSDMs)
+	v.percent(a.At, "air", "probe_sd_pct", a.ProbeSDPct)
+	v.within(a.At, "air", "gust_sd_ms", a.GustSDMs, 0, 15, " m/s")
 }
 
 func (v *validator) evidence() {
@@ -258,6 +269,7 @@ func (v *validator) rideHeight(e *RideHeightEntry, path string) {
 		}
 	}
 	v.nonNegative(e.At, path, "friction_mm", e.FrictionMm)
+	v.placeAndLimit(e, path)
 	if e.Sensor == SensorLaser {
 		if !e.At.Has("tyre_growth") {
 			v.warnf(e.At.Where, path, "laser %q has no tyre_growth prior: using %g ± %g mm at 100 km/h", e.ID, DefaultGrowthMm, DefaultGrowthSDMm)
@@ -273,7 +285,29 @@ func (v *validator) rideHeight(e *RideHeightEntry, path string) {
 		v.errf(e.At.Of("logs"), path+".logs", ErrMissing, "at least one log is needed")
 	}
 	for j := range e.Logs {
-		v.logSpec(&e.Logs[j], fmt.Sprintf("%s.logs[%d]", path, j))
+		lp := fmt.Sprintf("%s.logs[%d]", path, j)
+		l := &e.Logs[j]
+		if l.Signal == "" {
+			v.errf(l.At.Where, lp+".signal", ErrMissing, "a ride-height log needs signal (the sensor's column)")
+		}
+		if l.At.Has("taps") {
+			v.errf(l.At.Of("taps"), lp+".taps", ErrNotApply, "taps are for pressure logs")
+		}
+		v.logSpec(l, lp)
+	}
+}
+
+// placeAndLimit checks a laser's position and an entry's speed limit.
+func (v *validator) placeAndLimit(e *RideHeightEntry, path string) {
+	if e.At.Has("x_m") {
+		if e.Sensor != SensorLaser {
+			v.errf(e.At.Of("x_m"), path+".x_m", ErrNotApply, "x_m is for a laser; a potentiometer measures at its axle")
+		} else if L := v.c.Vehicle.WheelbaseM; L > 0 {
+			v.within(e.At, path, "x_m", e.XM, -2, L+2, " m (from the front axle, rearward)")
+		}
+	}
+	if e.At.Has("max_speed_kmh") {
+		v.within(e.At, path, "max_speed_kmh", e.MaxSpeedKmh, 10, 500, " km/h")
 	}
 }
 
@@ -287,8 +321,19 @@ func distinct(n int, at func(int) float64) int {
 }
 
 func (v *validator) logSpec(l *LogSpec, path string) {
-	if l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
-		v.errf(l.At.Where, path, ErrMissing, "give exactly one of speed_kmh and speed_ms (the speed column)")
+	if n := count(l.At.Has("speed_kmh"), l.At.Has("speed_ms"), l.SpeedFile != nil); n != 1 {
+		v.errf(l.At.Where, path, ErrMissing, "give exactly one of speed_kmh, speed_ms (the speed column) and speed_file")
+	}
+	if count(l.At.Has("airspeed_kmh"), l.At.Has("airspeed_ms"), l.At.Has("q_pa")) > 1 {
+		v.errf(l.At.Where, path, ErrRange, "give at most one of airspeed_kmh, airspeed_ms and q_pa")
+	}
+	v.logFormat(l.Format, path+".format")
+	if sf := l.SpeedFile; sf != nil {
+		if count(sf.At.Has("speed_kmh"), sf.At.Has("speed_ms")) != 1 {
+			v.errf(sf.At.Where, path+".speed_file", ErrMissing, "give exactly one of speed_kmh and speed_ms")
+		}
+		v.within(sf.At, path+".speed_file", "offset_s", sf.OffsetS, -86400, 86400, " s")
+		v.logFormat(sf.Format, path+".speed_file.format")
 	}
 	hasCol, hasSeg := l.At.Has("config"), len(l.Segments) > 0
 	switch {
@@ -334,12 +379,13 @@ func (v *validator) pressure(e *PressureEntry, path string) {
 	case hasFile:
 		v.loadTaps(e, path)
 	}
-	switch hasR, hasFile := e.At.Has("readings"), e.At.Has("readings_file"); {
-	case hasR == hasFile:
-		v.errf(e.At.Where, path, ErrMissing, "give exactly one of readings and readings_file")
+	switch hasFile := e.At.Has("readings_file"); {
+	case count(e.At.Has("readings"), hasFile, e.At.Has("logs")) != 1:
+		v.errf(e.At.Where, path, ErrMissing, "give exactly one of readings, readings_file and logs")
 	case hasFile:
 		v.loadReadings(e, path)
 	}
+	v.pressureLogs(e, path)
 
 	taps := map[string]bool{}
 	var upper, lower float64
@@ -487,4 +533,77 @@ func (v *validator) plan() {
 			v.errf(t.At.Of("versus"), "plan.target.versus", ErrRange, "a difference needs two different configurations")
 		}
 	}
+}
+
+// count returns how many of the conditions hold.
+func count(bs ...bool) int {
+	n := 0
+	for _, b := range bs {
+		if b {
+			n++
+		}
+	}
+	return n
+}
+
+// logFormat checks the keys a person gave for how a logger wrote a file.
+func (v *validator) logFormat(f *LogFormat, path string) {
+	if f == nil {
+		return
+	}
+	if f.At.Has("delimiter") {
+		v.oneOf(f.At, path, "delimiter", f.Delimiter, ",", ";", "\t")
+	}
+	if f.At.Has("decimal") && v.oneOf(f.At, path, "decimal", f.Decimal, ".", ",") &&
+		f.Decimal == "," && f.Delimiter == "," {
+		v.errf(f.At.Of("decimal"), path+".decimal", ErrRange, "a decimal comma needs delimiter \";\" or a tab")
+	}
+	if f.At.Has("header_line") {
+		v.within(f.At, path, "header_line", float64(f.HeaderLine), 1, 1000, "")
+	}
+	v.within(f.At, path, "skip_lines", float64(f.SkipLines), 0, 100, "")
+	if f.At.Has("time") {
+		v.oneOf(f.At, path, "time", f.Time, TimeSeconds, TimeClock, TimeISO)
+	}
+	if f.At.Has("empty") {
+		v.oneOf(f.At, path, "empty", f.Empty, EmptyError, EmptyHold, EmptySkip)
+	}
+}
+
+// pressureLogs checks taps logged in time: every tap has a column, every
+// column names a tap, and the log's keys as for any log.
+func (v *validator) pressureLogs(e *PressureEntry, path string) {
+	for j := range e.Logs {
+		l := &e.Logs[j]
+		lp := fmt.Sprintf("%s.logs[%d]", path, j)
+		if l.At.Has("signal") {
+			v.errf(l.At.Of("signal"), lp+".signal", ErrNotApply, "a pressure log names its taps' columns under taps, not signal")
+		}
+		named := map[string]bool{}
+		for _, n := range l.Taps {
+			named[n.Key] = true
+			if !e.hasTap(n.Key) {
+				v.errf(n.At, lp+".taps."+n.Key, ErrReference, "tap %q is not among the entry's taps", n.Key)
+			}
+		}
+		for _, t := range e.Taps {
+			if !named[t.ID] {
+				v.errf(l.At.Of("taps"), lp+".taps", ErrMissing, "tap %q has no column in this log", t.ID)
+			}
+		}
+		v.logSpec(l, lp)
+	}
+	if len(e.Logs) > 0 {
+		v.positive(e.Steady.At, path+".steady", "speed_tol_kmh", e.Steady.SpeedTolKmh)
+		v.positive(e.Steady.At, path+".steady", "min_duration_s", e.Steady.MinDurationS)
+	}
+}
+
+func (e *PressureEntry) hasTap(id string) bool {
+	for _, t := range e.Taps {
+		if t.ID == id {
+			return true
+		}
+	}
+	return false
 }
