@@ -137,22 +137,22 @@ func (v *validator) scanLog(l *LogSpec, path string) {
 		t := r.Float(ix.Time)
 		t0, t1 = math.Min(t0, t), math.Max(t1, t)
 		if ix.Direction >= 0 {
-			if d := r.Float(ix.Direction); d != 1 && d != -1 {
+			if err := RowDirection(r.Float(ix.Direction)); err != nil {
 				v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
-					Err: wrapf(ErrRange, "column %q: direction must be 1 or -1, got %g", l.Direction, d)})
+					Err: fmt.Errorf("column %q: %w", l.Direction, err)})
 				return
 			}
 		}
 		if ix.Config >= 0 {
-			id := r.Text(ix.Config)
-			if !v.configs[string(id)] {
-				if !unknown[string(id)] && len(unknown) < 5 {
+			id := string(r.Text(ix.Config))
+			if err := v.c.RowConfig(id); err != nil {
+				if !unknown[id] && len(unknown) < 5 {
 					v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Config)}, Path: path + ".config",
-						Err: wrapf(ErrReference, "column %q: unknown configuration %q (known: %s)", l.Config, id, v.configList())})
+						Err: fmt.Errorf("column %q: %w", l.Config, err)})
 				}
-				unknown[string(id)] = true
+				unknown[id] = true
 			} else {
-				v.informed[string(id)] = true
+				v.informed[id] = true
 			}
 		}
 	}
@@ -397,4 +397,22 @@ func (c *Campaign) Hash() (string, error) {
 		}
 	}
 	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// RowDirection checks one logged direction cell: +1 or −1. The validator
+// and the adapters that read a direction column both call it, so a fault
+// reads the same whoever finds it.
+func RowDirection(d float64) error {
+	if d != 1 && d != -1 {
+		return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
+	}
+	return nil
+}
+
+// RowConfig checks one logged configuration id cell.
+func (c *Campaign) RowConfig(id string) error {
+	if !c.HasConfig(id) {
+		return wrapf(ErrReference, "unknown configuration %q (known: %s)", id, WordList(c.ConfigIDs()))
+	}
+	return nil
 }

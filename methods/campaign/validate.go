@@ -80,13 +80,7 @@ func (v *validator) config(p Place, path, key, id string) {
 	v.informed[id] = true
 }
 
-func (v *validator) configList() string {
-	ids := make([]string, len(v.c.Configurations))
-	for i, cf := range v.c.Configurations {
-		ids[i] = cf.ID
-	}
-	return fmt.Sprint(ids)
-}
+func (v *validator) configList() string { return WordList(v.c.ConfigIDs()) }
 
 func (v *validator) direction(p Place, path, key string, d int) {
 	if d != -1 && d != 0 && d != 1 {
