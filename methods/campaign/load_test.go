@@ -1,10 +1,12 @@
 package campaign_test
 
 import (
+	"bytes"
 	"errors"
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
 
 	"liftfuse/methods/campaign"
@@ -75,8 +77,8 @@ func TestLoadInvalid(t *testing.T) {
 		{"missing log file", []edit{set(log0+".file", "logs/nope.csv")}, nil, nil, log0 + ".file", log0 + ".file", campaign.ErrFile},
 		{"missing log column", []edit{set(log0+".signal", "fpx")}, nil, nil, log0 + ".signal", log0 + ".signal", campaign.ErrColumn},
 		{"two speed columns", []edit{add(log0, "speed_ms", "vms")}, nil, nil, log0, log0, campaign.ErrMissing},
-		{"overlapping segments", []edit{set(log0+".segments[1].from_s", "3")}, nil, nil, log0 + ".segments[1].from_s", log0 + ".segments[1]", campaign.ErrOverlap},
-		{"segment outside the log", []edit{set(log0+".segments[1].to_s", "20")}, nil, nil, log0 + ".segments[1]", log0 + ".segments[1]", campaign.ErrRange},
+		{"overlapping segments", []edit{set(log0+".segments[1].from_s", "20")}, nil, nil, log0 + ".segments[1].from_s", log0 + ".segments[1]", campaign.ErrOverlap},
+		{"segment outside the log", []edit{set(log0+".segments[1].to_s", "90")}, nil, nil, log0 + ".segments[1]", log0 + ".segments[1]", campaign.ErrRange},
 		{"points with one distinct signal", []edit{set(rh1+".calibration.points", "[[1, 0], [1, 10]]")}, nil, nil, rh1 + ".calibration.points", rh1 + ".calibration.points", campaign.ErrRange},
 		{"ballast with one distinct mass", []edit{set(rh1+".stiffness.ballast[1].added_kg", "0")}, nil, nil, rh1 + ".stiffness.ballast", rh1 + ".stiffness.ballast", campaign.ErrRange},
 		{"zero tap area", []edit{set(pr0+".taps[0].area_m2", "0")}, nil, nil, pr0 + ".taps[0].area_m2", pr0 + ".taps[0].area_m2", campaign.ErrRange},
@@ -89,11 +91,21 @@ func TestLoadInvalid(t *testing.T) {
 		{"laser off the car", []edit{add(rh1, "x_m", "9")}, nil, nil, rh1 + ".x_m", rh1 + ".x_m", campaign.ErrRange},
 		{"decimal comma with comma delimiter", []edit{add(log0, "format", "{delimiter: \",\", decimal: \",\"}")}, nil, nil, log0 + ".format.decimal", log0 + ".format.decimal", campaign.ErrRange},
 		{"pressure log with a tap not read", []edit{remove(pr0 + ".readings"), add(pr0, "logs", "[{file: logs/run.csv, time: t, speed_kmh: v, taps: {r1: fp}}]")}, nil, nil, pr0 + ".logs[0].taps", pr0 + ".logs[0].taps", campaign.ErrMissing},
-		{"non-numeric log cell", nil, nil, &textChange{"\n2.0,100.0", "\n2.0,1OO"}, "", log0, campaign.ErrColumn},
-		{"missing log cell", nil, nil, &textChange{",1.040,", ",,"}, "", log0, campaign.ErrColumn},
+		{"overflowing mass", []edit{set("vehicle.mass_kg", "1e308")}, nil, nil, "vehicle.mass_kg", "vehicle.mass_kg", campaign.ErrRange},
+		{"overflowing wheelbase", []edit{set("vehicle.wheelbase_m", "1e308")}, nil, nil, "vehicle.wheelbase_m", "vehicle.wheelbase_m", campaign.ErrRange},
+		{"overflowing motion ratio", []edit{set("vehicle.axles.rear.motion_ratio", "1e308")}, nil, nil, "vehicle.axles.rear.motion_ratio", "vehicle.axles.rear.motion_ratio", campaign.ErrRange},
+		{"overflowing prior sd", []edit{add("", "prior", "{cla_sd_m2: 1e308}")}, nil, nil, "prior.cla_sd_m2", "prior.cla_sd_m2", campaign.ErrRange},
+		{"overflowing gain", []edit{set(rh0+".calibration.mm_per_unit", "1e308")}, nil, nil, rh0 + ".calibration.mm_per_unit", rh0 + ".calibration.mm_per_unit", campaign.ErrRange},
+		{"overflowing filter time", []edit{add(rh0, "filter_tau_s", "1e308")}, nil, nil, rh0 + ".filter_tau_s", rh0 + ".filter_tau_s", campaign.ErrRange},
+		{"overflowing cost", []edit{set("plan.cost_h.tuft", "1e308")}, nil, nil, "plan.cost_h.tuft", "plan.cost_h.tuft", campaign.ErrRange},
+		{"empty log file name", []edit{set(log0+".file", `""`)}, nil, nil, log0 + ".file", log0 + ".file", campaign.ErrFile},
+		{"too many report speeds", []edit{set("report.speeds_kmh", "["+strings.Repeat("100, ", 60)+"100]")}, nil, nil, "report.speeds_kmh", "report.speeds_kmh", campaign.ErrRange},
+		{"title too long", []edit{set("campaign.title", strings.Repeat("x", 3000))}, nil, nil, "campaign.title", "campaign.title", campaign.ErrRange},
+		{"non-numeric log cell", nil, nil, &textChange{"\n12.0,100.0", "\n12.0,1OO"}, "", log0, campaign.ErrColumn},
+		{"missing log cell", nil, nil, &textChange{"\n13.0,100.0,27.778,1,", "\n13.0,100.0,27.778,1,,"}, "", log0, campaign.ErrColumn},
 		{"time not increasing", nil, nil, &textChange{"\n3.0,", "\n1.5,"}, "", log0, campaign.ErrColumn},
-		{"direction not ±1", nil, nil, &textChange{",1,1.020", ",0,1.020"}, "", log0 + ".direction", campaign.ErrRange},
-		{"unknown configuration in log", nil, nil, &textChange{"0.550,wing", "0.550,wig"}, "", rh1 + ".logs[0].config", campaign.ErrReference},
+		{"direction not ±1", nil, nil, &textChange{"\n14.0,100.0,27.778,1,", "\n14.0,100.0,27.778,0,"}, "", log0 + ".direction", campaign.ErrRange},
+		{"unknown configuration in log", nil, nil, &textChange{"0.4861,wing\n41.0", "0.4861,wig\n41.0"}, "", rh1 + ".logs[0].config", campaign.ErrReference},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -193,5 +205,53 @@ func TestLoadTables(t *testing.T) {
 	}
 	if got, _ := c.Evidence.Pressure[0].Readings[1].Pa.Get("f1"); got != -90 || c.Evidence.Pressure[0].Taps[1].Nz != -1 {
 		t.Errorf("tables not loaded: %+v", c.Evidence.Pressure[0])
+	}
+}
+
+func TestLoadRefusesTrailingDocument(t *testing.T) {
+	path := fixture(t)
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Count(string(data), "\n")
+	if err := os.WriteFile(path, append(data, "---\ncolour: red\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) || len(probs) != 1 || probs[0].Line != lines+1 || !errors.Is(probs[0], campaign.ErrSyntax) {
+		t.Fatalf("want one syntax problem at line %d (the second document's ---), got %v", lines+1, err)
+	}
+}
+
+func TestLoadRefusesOversizedCampaign(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "big.yaml")
+	big := append([]byte("liftfuse: 1\n# "), bytes.Repeat([]byte("x"), campaign.MaxDocumentBytes)...)
+	if err := os.WriteFile(path, big, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err := campaign.Load(path, campaign.Options{})
+	if !errors.Is(err, campaign.ErrRange) || !strings.Contains(err.Error(), "larger than 64 MiB") {
+		t.Fatalf("want a size error, got %v", err)
+	}
+}
+
+// TestLoadRefusesFIFO: reading a named pipe would block forever; it must be
+// refused by name, whether it is the campaign or a log.
+func TestLoadRefusesFIFO(t *testing.T) {
+	path := fixture(t)
+	fifo := filepath.Join(filepath.Dir(path), "pipe.csv")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Skipf("no FIFOs here: %v", err)
+	}
+	apply(t, path, set("evidence.ride_height[0].logs[0].file", "pipe.csv"))
+	_, err := campaign.Load(path, campaign.Options{})
+	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
+		t.Fatalf("log: want a not-a-regular-file error, got %v", err)
+	}
+	_, err = campaign.Load(fifo, campaign.Options{})
+	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
+		t.Fatalf("campaign: want a not-a-regular-file error, got %v", err)
 	}
 }
