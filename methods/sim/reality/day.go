@@ -61,6 +61,12 @@ type Car struct {
 	TyreGrowthMm float64 // true radial growth at 100 km/h
 	GrowthSDMm   float64 // stated prior sd of the growth
 
+	// RoadMm is the sd of the wheels' motion from road roughness at
+	// 100 km/h (growing with speed, zero at rest). It dithers the friction
+	// band: at speed the body wanders inside it, at rest it sticks where
+	// the last load change left it. Default 0: none.
+	RoadMm float64
+
 	Front, Rear Axle
 }
 

@@ -15,7 +15,7 @@ func Default() *Day {
 			Label: "Small coupe, test car 3", Body: "fastback",
 			WheelbaseM: 2.45, MassKg: 1180, FrontStaticKg: 650, FrontalAreaM2: 1.85,
 			CdAM2: 0.62, DragHeightM: 0.50, DragSDPct: 20,
-			CGHeightM: 0.48, CGHeightSDM: 0.10,
+			CGHeightM: 0.48, CGHeightSDM: 0.10, RoadMm: 0.3,
 			TyreGrowthMm: 0.5, GrowthSDMm: 0.5,
 			Front: Axle{SpringNPerMm: 28, MotionRatio: 0.93, TyreNPerMm: 220,
 				SpringSDPct: 5, MotionRatioSD: 0.02, TyreSDPct: 10, StaticHeightMm: 118, StictionMm: 0.15},

@@ -38,6 +38,9 @@ func simulate(d *Day, tr *trace, rho float64, seed int64) *state {
 	L := car.WheelbaseM
 	wf, wr := newWheel(car.Front), newWheel(car.Rear)
 	pf, pr := &play{f: car.Front.StictionMm}, &play{f: car.Rear.StictionMm}
+	phi := math.Exp(-1 / (d.Log.RateHz * 0.05)) // road inputs: 50 ms correlation
+	rf := newAR1(stream(seed, "road/front"), car.RoadMm, phi)
+	rr := newAR1(stream(seed, "road/rear"), car.RoadMm, phi)
 	for k := range n {
 		dir := float64(tr.dir[k])
 		st.vAir[k] = tr.v[k] + dir*(d.Air.WindMs+st.gusts[tr.pass[k]]+within.next())
@@ -47,8 +50,10 @@ func simulate(d *Day, tr *trace, rho float64, seed int64) *state {
 		st.upF[k] = st.q[k]*bf + dm
 		st.upR[k] = st.q[k]*br - dm
 		// Each wheel carries half its axle's load change; lift unloads it.
-		st.suspF[k] = pf.step(-wf.compression(-st.upF[k] / 2))
-		st.suspR[k] = pr.step(-wr.compression(-st.upR[k] / 2))
+		// Road inputs scale with speed and shake the friction band.
+		road := tr.v[k] / refSpeed
+		st.suspF[k] = pf.step(-wf.compression(-st.upF[k]/2) + road*rf.next())
+		st.suspR[k] = pr.step(-wr.compression(-st.upR[k]/2) + road*rr.next())
 		st.bodyF[k] = st.suspF[k] + st.upF[k]/(2*wf.tyre)
 		st.bodyR[k] = st.suspR[k] + st.upR[k]/(2*wr.tyre)
 		g := tr.v[k] / refSpeed

@@ -74,12 +74,13 @@ func (d *Day) Write(dir string, seed int64) (*Truth, error) {
 }
 
 // loggedSpeed returns the ground speed the logger saw, km/h: the true
-// speed with the sensor's scale error and noise.
+// speed with the sensor's scale error and noise, never negative (a GPS
+// speed is a magnitude).
 func loggedSpeed(d *Day, tr *trace, seed int64) []float64 {
 	r := stream(seed, "speed")
 	out := make([]float64, len(tr.v))
 	for k, v := range tr.v {
-		out[k] = v*3.6*(1+d.Log.SpeedScalePct/100) + d.Log.SpeedNoiseKmh*r.NormFloat64()
+		out[k] = max(0, v*3.6*(1+d.Log.SpeedScalePct/100)+d.Log.SpeedNoiseKmh*r.NormFloat64())
 	}
 	return out
 }
