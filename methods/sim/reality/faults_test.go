@@ -78,11 +78,32 @@ func TestFaults(t *testing.T) {
 	cdir, _ := write(t, clean, 5)
 	clog, _ := table(t, filepath.Join(cdir, reality.LogFile))
 	ctaps, _ := table(t, filepath.Join(cdir, "body-taps-readings.csv"))
-	cases := []struct {
-		name  string
-		fault reality.Faults
-		check func(t *testing.T, dir string, tr *reality.Truth)
-	}{
+	cases := faultCases(clog, ctaps)
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			d := reality.Default()
+			d.ExactKnowledge = true
+			d.Faults = tc.fault
+			dir, tr := write(t, d, 5)
+			if len(tr.Faults) != 1 {
+				t.Errorf("truth lists faults %q, want one", tr.Faults)
+			}
+			tc.check(t, dir, tr)
+		})
+	}
+}
+
+// faultCase is a fault and a check of the files it leaves.
+type faultCase struct {
+	name  string
+	fault reality.Faults
+	check func(t *testing.T, dir string, tr *reality.Truth)
+}
+
+// faultCases are the cases of TestFaults; clog and ctaps are the clean
+// day's log and readings.
+func faultCases(clog, ctaps map[string][]float64) []faultCase {
+	return []faultCase{
 		{"unit slip", reality.Faults{UnitSlip: true}, func(t *testing.T, dir string, _ *reality.Truth) {
 			log, _ := table(t, filepath.Join(dir, reality.LogFile))
 			for i, v := range log["v_kmh"] {
@@ -147,36 +168,26 @@ func TestFaults(t *testing.T) {
 			}
 		}},
 		{"bump stop", reality.Faults{BumpStop: &reality.BumpStop{Axle: "rear", GapMm: 0.5, RateNPerMm: 400}},
-			func(t *testing.T, dir string, _ *reality.Truth) {
-				log, _ := table(t, filepath.Join(dir, reality.LogFile))
-				// In the spoiler configuration the rear pushes down: at 160
-				// km/h the clean rear pot drops by q·0.06/(2·k_w) ≈ 1.7 mm;
-				// the stop holds it near its 0.5 mm gap. The spoiler runs are
-				// the log's second half; the pot reads 1.5 V at static.
-				drop := func(sig []float64) float64 {
-					lo := math.Inf(1)
-					for i, v := range sig {
-						if i > len(sig)/2 && log["v_kmh"][i] > 150 {
-							lo = math.Min(lo, v)
-						}
-					}
-					return (1.5 - lo) * 23.5
-				}
-				if c, b := drop(clog["rear-pot"]), drop(log["rear-pot"]); !(b < c-0.5) {
-					t.Errorf("rear drop with the stop %.2f mm, clean %.2f mm: the stop should hold it", b, c)
-				}
-			}},
+			func(t *testing.T, dir string, _ *reality.Truth) { checkBumpStop(t, dir, clog) }},
 	}
-	for _, tc := range cases {
-		t.Run(tc.name, func(t *testing.T) {
-			d := reality.Default()
-			d.ExactKnowledge = true
-			d.Faults = tc.fault
-			dir, tr := write(t, d, 5)
-			if len(tr.Faults) != 1 {
-				t.Errorf("truth lists faults %q, want one", tr.Faults)
+}
+
+// checkBumpStop: in the spoiler configuration the rear pushes down: at 160
+// km/h the clean rear pot drops by q·0.06/(2·k_w) ≈ 1.7 mm; the stop holds
+// it near its 0.5 mm gap. The spoiler runs are the log's second half; the
+// pot reads 1.5 V at static.
+func checkBumpStop(t *testing.T, dir string, clog map[string][]float64) {
+	log, _ := table(t, filepath.Join(dir, reality.LogFile))
+	drop := func(sig []float64) float64 {
+		lo := math.Inf(1)
+		for i, v := range sig {
+			if i > len(sig)/2 && log["v_kmh"][i] > 150 {
+				lo = math.Min(lo, v)
 			}
-			tc.check(t, dir, tr)
-		})
+		}
+		return (1.5 - lo) * 23.5
+	}
+	if c, b := drop(clog["rear-pot"]), drop(log["rear-pot"]); !(b < c-0.5) {
+		t.Errorf("rear drop with the stop %.2f mm, clean %.2f mm: the stop should hold it", b, c)
 	}
 }
