@@ -50,6 +50,31 @@
 // the panels' vertical force and its moment give exactly the pressure part
 // of the truth, so the integral the taps should reproduce is known exactly.
 //
-// The campaign written uses format 1 (campaign-format.md), optionally with
-// the model-v2 keys; see Keys.
+// # Sensors
+//
+// A pot reads its axle's suspension extension at the wheel; a laser reads
+// body-to-ground height at its spot x: the static height there plus
+// δ(x) = δ_f·(1 − x/L) + δ_r·x/L (δ_a the body's rise at axle a, tyres
+// included) plus tyre growth. Either signal is (mm + AR(1) noise)/gain +
+// offset. Ballast points are the same laws at rest with a mass added at x.
+// Road inputs, growing with speed, dither the friction band (Car.RoadMm).
+//
+// # Files
+//
+// Day.Write(dir, seed) writes campaign.yaml (format 1; with KeysV2 also
+// the model-v2 keys: laser x_m, max_speed_kmh, vehicle.cg_height_m,
+// air.gust_sd_ms, air.probe_sd_pct, airspeed_kmh), logs/day.csv (t_s,
+// v_kmh, dir, optional cfg and airspeed_kmh, one column per sensor named
+// by its id), <entry>-readings.csv per tap entry (one reading per steady
+// hold at the entry's speeds: the hold's mean of each tap plus noise and a
+// reference-port offset) and truth.json (Truth).
+//
+// # Faults
+//
+// Faults plants what the campaign does not say: a bump stop met at speed,
+// a laser away from its axle, speed creeping through the holds, gusts, the
+// speed logged in m/s under a km/h header, a blocked tap, sign-inverted
+// taps and a calibration gain stated off. Everything is seeded: the same
+// day and seed write the same bytes, and each purpose draws from its own
+// stream, so switching a fault on leaves every other draw as it was.
 package reality

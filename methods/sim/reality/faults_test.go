@@ -191,3 +191,24 @@ func checkBumpStop(t *testing.T, dir string, clog map[string][]float64) {
 		t.Errorf("rear drop with the stop %.2f mm, clean %.2f mm: the stop should hold it", b, c)
 	}
 }
+
+// TestProbe: with still air and exact speeds, a probe whose factor is
+// k = 0.21 reads V/√(1 + k) = V/1.1 (q_true = q_meas·(1 + k), model.md,
+// "Measured airspeed").
+func TestProbe(t *testing.T) {
+	d := reality.Default()
+	d.Air.WindMs, d.Air.GustSDMs = 0, 0
+	d.Log.SpeedNoiseKmh = 0
+	d.Log.Probe = &reality.Probe{FactorK: 0.21}
+	dir, tr := write(t, d, 2)
+	log, _ := table(t, filepath.Join(dir, reality.LogFile))
+	for i, v := range log["v_kmh"] {
+		near := math.Abs(log["airspeed_kmh"][i]-v/1.1) <= 1e-3
+		if !near {
+			t.Fatalf("row %d: airspeed %g, want %g/1.1", i, log["airspeed_kmh"][i], v)
+		}
+	}
+	if tr.Nuisances.ProbeFactorK != 0.21 {
+		t.Errorf("truth probe factor %g, want 0.21", tr.Nuisances.ProbeFactorK)
+	}
+}
