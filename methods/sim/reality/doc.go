@@ -1,6 +1,6 @@
 // Package reality simulates a test day from physics alone, for tests of the
 // whole chain. It shares no code with the adapters or the fusion: it imports
-// only the standard library, gonum and go.yaml.in/yaml/v3, and computes its
+// only the standard library and go.yaml.in/yaml/v3, and computes its
 // own air density, dynamic pressure, wheel rates, tyre series rates, load
 // transfer and pressure integrals. A test that compares the tool with this
 // package therefore compares two independent derivations of the same physics.
