@@ -136,3 +136,24 @@ func TestTapField(t *testing.T) {
 		})
 	}
 }
+
+// TestDrawLift: drawn lifts have the stated spread (sample sd of 400
+// draws within 15 % of sd: the sd's standard error is sd/√(2n) ≈ 3.5 %,
+// so this is over 4 standard errors — common practice (no source)), are
+// seeded, and set slopes only for the linear model.
+func TestDrawLift(t *testing.T) {
+	d := Default()
+	d.Configs = make([]Config, 100)
+	d.DrawLift(9, 0.2, true)
+	var ss float64
+	for _, c := range d.Configs {
+		ss += c.Front*c.Front + c.Rear*c.Rear + c.FrontSlope*c.FrontSlope + c.RearSlope*c.RearSlope
+	}
+	near(t, "sd", math.Sqrt(ss/400), 0.2, 0.03)
+	e := Default()
+	e.Configs = make([]Config, 100)
+	e.DrawLift(9, 0.2, false)
+	if e.Configs[7].Front != d.Configs[7].Front || e.Configs[7].FrontSlope != 0 {
+		t.Error("draws differ for one seed, or a constant model got slopes")
+	}
+}
