@@ -98,7 +98,7 @@ func document(d *Day, s stated, tr *trace, ballast map[string][]float64, seed in
 		out.Evidence.RideHeight = append(out.Evidence.RideHeight, heightEntry(d, sn, s, tr, ballast[sn.ID]))
 	}
 	for _, e := range d.Taps {
-		out.Evidence.Pressure = append(out.Evidence.Pressure, pressureEntry(e))
+		out.Evidence.Pressure = append(out.Evidence.Pressure, pressureEntry(d, tr, e))
 	}
 	return out
 }
@@ -142,19 +142,28 @@ func logEntry(d *Day, tr *trace, column string) docLog {
 	if !d.Log.NoDirection {
 		l.Direction = "dir"
 	}
-	switch {
-	case d.Log.ConfigColumn:
+	if d.Log.ConfigColumn {
 		l.Config = "cfg"
-	case d.Log.NoDirection:
-		for _, p := range tr.passes {
-			l.Segments = append(l.Segments, segment(d, tr, p, p.Dir))
-		}
-	default:
-		for _, b := range tr.blocks {
-			l.Segments = append(l.Segments, segment(d, tr, b, 0))
-		}
+	} else {
+		l.Segments = segments(d, tr)
 	}
 	return l
+}
+
+// segments are the configurations' time spans: one per configuration, or
+// one per pass carrying its direction when no direction is logged.
+func segments(d *Day, tr *trace) []docSeg {
+	var out []docSeg
+	if d.Log.NoDirection {
+		for _, p := range tr.passes {
+			out = append(out, segment(d, tr, p, p.Dir))
+		}
+		return out
+	}
+	for _, b := range tr.blocks {
+		out = append(out, segment(d, tr, b, 0))
+	}
+	return out
 }
 
 func segment(d *Day, tr *trace, s span, dir int) docSeg {
@@ -163,10 +172,26 @@ func segment(d *Day, tr *trace, s span, dir int) docSeg {
 
 func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
 
+// tapLogFile is the file of a tap entry logged in time.
+func tapLogFile(id string) string { return "logs/" + id + ".csv" }
+
+// logsTaps reports whether a tap entry is written as a time series.
+func (d *Day) logsTaps(e TapEntry) bool { return e.Logged && d.Keys == KeysV2 }
+
 // pressureEntry is the campaign's entry of one tap entry.
-func pressureEntry(e TapEntry) docPressure {
+func pressureEntry(d *Day, tr *trace, e TapEntry) docPressure {
 	p := docPressure{ID: e.ID, Mode: "panels", SensorSDPa: e.SensorSDPa, ReferenceSDPa: e.ReferenceSDPa,
 		ModelSDPct: e.ModelSDPct, ReadingsFile: e.ID + "-readings.csv"}
+	if d.logsTaps(e) {
+		l := docTapLog{File: tapLogFile(e.ID), Time: "t_s", SpeedKmh: "v_kmh", Segments: segments(d, tr), Taps: map[string]string{}}
+		if !d.Log.NoDirection {
+			l.Direction = "dir"
+		}
+		for _, t := range e.Panels {
+			l.Taps[t.ID] = t.ID
+		}
+		p.ReadingsFile, p.Logs = "", []docTapLog{l}
+	}
 	for _, t := range e.Panels {
 		p.Taps = append(p.Taps, docTap{ID: t.ID, XM: t.XM, Surface: t.Surface, AreaM2: t.AreaM2, Nz: t.Nz})
 	}

@@ -184,6 +184,11 @@ type TapEntry struct {
 	ReferenceSDPa float64 // true and stated reference-port offset sd
 	ModelSDPct    float64 // stated
 	SpeedsKmh     []float64
+	// Logged writes the taps as time series in logs/<id>.csv (v2 key
+	// pressure.logs) instead of readings; with KeysV1 readings are
+	// written all the same. SampleSDPa is the per-sample noise there.
+	Logged     bool
+	SampleSDPa float64
 }
 
 // Panel is a flat piece of body surface with a tap at its centre.

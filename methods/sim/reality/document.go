@@ -129,14 +129,25 @@ type docSeg struct {
 }
 
 type docPressure struct {
-	ID            string     `yaml:"id"`
-	Mode          string     `yaml:"mode"`
-	SensorSDPa    float64    `yaml:"sensor_sd_pa"`
-	ReferenceSDPa float64    `yaml:"reference_sd_pa"`
-	ModelSDPct    float64    `yaml:"model_sd_pct,omitempty"`
-	Taps          []docTap   `yaml:"taps"`
-	Uncovered     []docPatch `yaml:"uncovered,omitempty"`
-	ReadingsFile  string     `yaml:"readings_file"`
+	ID            string      `yaml:"id"`
+	Mode          string      `yaml:"mode"`
+	SensorSDPa    float64     `yaml:"sensor_sd_pa"`
+	ReferenceSDPa float64     `yaml:"reference_sd_pa"`
+	ModelSDPct    float64     `yaml:"model_sd_pct,omitempty"`
+	Taps          []docTap    `yaml:"taps"`
+	Uncovered     []docPatch  `yaml:"uncovered,omitempty"`
+	ReadingsFile  string      `yaml:"readings_file,omitempty"`
+	Logs          []docTapLog `yaml:"logs,omitempty"`
+}
+
+// docTapLog is a tap entry's log (model v2).
+type docTapLog struct {
+	File      string            `yaml:"file"`
+	Time      string            `yaml:"time"`
+	SpeedKmh  string            `yaml:"speed_kmh"`
+	Direction string            `yaml:"direction,omitempty"`
+	Segments  []docSeg          `yaml:"segments,omitempty"`
+	Taps      map[string]string `yaml:"taps,flow"`
 }
 
 type docTap struct {

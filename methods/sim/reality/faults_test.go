@@ -212,3 +212,35 @@ func TestProbe(t *testing.T) {
 		t.Errorf("truth probe factor %g, want 0.21", tr.Nuisances.ProbeFactorK)
 	}
 }
+
+// TestLoggedTaps: with v2 keys a logged tap entry is a time series named
+// in the campaign; with v1 keys it falls back to readings.
+func TestLoggedTaps(t *testing.T) {
+	cases := []struct {
+		name string
+		keys reality.Keys
+		file string
+	}{
+		{"v2 time series", reality.KeysV2, "logs/body-taps.csv"},
+		{"v1 readings", reality.KeysV1, "body-taps-readings.csv"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			d := reality.Default()
+			d.Keys = tc.keys
+			d.Taps[0].Logged = true
+			dir, _ := write(t, d, 4)
+			b, err := os.ReadFile(filepath.Join(dir, reality.CampaignFile))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(string(b), tc.file) {
+				t.Errorf("campaign does not name %s", tc.file)
+			}
+			cols, _ := table(t, filepath.Join(dir, filepath.FromSlash(tc.file)))
+			if len(cols["u4"]) == 0 {
+				t.Errorf("%s has no column u4", tc.file)
+			}
+		})
+	}
+}

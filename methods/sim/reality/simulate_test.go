@@ -77,3 +77,36 @@ func TestTrace(t *testing.T) {
 		}
 	}
 }
+
+// TestTapSeries: with no noise and no reference offset, the logged taps
+// integrate at every sample to q·(β_f − m), q·(β_r + m) less the
+// untapped patches — the truth's pressure part (hand-worked split by
+// moments about the front axle).
+func TestTapSeries(t *testing.T) {
+	d := quiet()
+	e := &d.Taps[0]
+	e.SampleSDPa, e.ReferenceSDPa = 1e-300, 0
+	rho := Density(d.Air.TemperatureC, d.Air.PressureHPa, d.Air.HumidityPct)
+	tr := buildTrace(d)
+	st := simulate(d, tr, rho, 1)
+	cols, err := e.series(d, tr, st, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	L := d.Car.WheelbaseM
+	m := DragPitch(d.Car.CdAM2, d.Car.DragHeightM, L)
+	for _, k := range []int{tr.holds[0].From, tr.holds[5].To - 1, tr.holds[len(tr.holds)-1].From + 3} {
+		var front, rear float64
+		for i, p := range e.Panels {
+			f, r := split(-cols[i][k]*p.AreaM2*p.Nz, p.XM, L)
+			front, rear = front+f, rear+r
+		}
+		for _, u := range e.Uncovered {
+			f, r := split(st.q[k]*panelForce(u.CpTrue, u.AreaM2, u.Nz), u.XM, L)
+			front, rear = front+f, rear+r
+		}
+		c := d.Configs[tr.cfg[k]]
+		near(t, "front", front, st.q[k]*(c.Front-m), 1e-9)
+		near(t, "rear", rear, st.q[k]*(c.Rear+m), 1e-9)
+	}
+}

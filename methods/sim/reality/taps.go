@@ -82,8 +82,9 @@ type reading struct {
 	Pa       []float64
 }
 
-// readings returns the entry's readings, one per hold at its speeds.
-func (e TapEntry) readings(d *Day, tr *trace, st *state, vlog []float64, seed int64) ([]reading, error) {
+// fields returns each configuration's Cp field: at β, and per unit of
+// (V − V_ref)/V_ref.
+func (e TapEntry) fields(d *Day) ([][2][]float64, error) {
 	L := d.Car.WheelbaseM
 	m := DragPitch(d.Car.CdAM2, d.Car.DragHeightM, L)
 	fields := make([][2][]float64, len(d.Configs))
@@ -93,6 +94,15 @@ func (e TapEntry) readings(d *Day, tr *trace, st *state, vlog []float64, seed in
 			return nil, err
 		}
 		fields[i] = [2][]float64{cp0, cp1}
+	}
+	return fields, nil
+}
+
+// readings returns the entry's readings, one per hold at its speeds.
+func (e TapEntry) readings(d *Day, tr *trace, st *state, vlog []float64, seed int64) ([]reading, error) {
+	fields, err := e.fields(d)
+	if err != nil {
+		return nil, err
 	}
 	r := stream(seed, "taps/"+e.ID)
 	var out []reading
@@ -120,10 +130,9 @@ func (e TapEntry) read(d *Day, h hold, f [2][]float64, st *state, vlog []float64
 	}
 	rd.SpeedKmh = math.Round(rd.SpeedKmh*10) / 10
 	offset := e.ReferenceSDPa * r.NormFloat64()
-	b := d.Faults.BlockedTap
 	for i, p := range e.Panels {
 		noise := e.SensorSDPa * r.NormFloat64()
-		if b != nil && b.Entry == e.ID && b.Tap == p.ID && (b.Config == "" || b.Config == cfg) {
+		if d.blocked(e.ID, p.ID, cfg) {
 			rd.Pa[i] = noise // the tube holds the reference pressure
 		} else {
 			rd.Pa[i] += offset + noise
@@ -133,6 +142,47 @@ func (e TapEntry) read(d *Day, h hold, f [2][]float64, st *state, vlog []float64
 		}
 	}
 	return rd
+}
+
+// blocked reports whether a tap of an entry is blocked in a configuration.
+func (d *Day) blocked(entry, tap, cfg string) bool {
+	b := d.Faults.BlockedTap
+	return b != nil && b.Entry == entry && b.Tap == tap && (b.Config == "" || b.Config == cfg)
+}
+
+// series returns each tap's logged pressure at every sample, Pa relative
+// to the reference port: q·Cp plus a reference offset wandering as an
+// AR(1) of sd ReferenceSDPa and 30 s time constant, plus per-sample noise
+// of sd SampleSDPa; a blocked tap logs noise only; inverted taps the
+// negative.
+func (e TapEntry) series(d *Day, tr *trace, st *state, seed int64) ([][]float64, error) {
+	fields, err := e.fields(d)
+	if err != nil {
+		return nil, err
+	}
+	r := stream(seed, "taps-logged/"+e.ID)
+	ref := newAR1(stream(seed, "taps-reference/"+e.ID), e.ReferenceSDPa, math.Exp(-1/(30*d.Log.RateHz)))
+	sign := 1.0
+	if d.Faults.InvertedTaps == e.ID {
+		sign = -1
+	}
+	out := make([][]float64, len(e.Panels))
+	for i := range out {
+		out[i] = make([]float64, len(tr.t))
+	}
+	for k := range tr.t {
+		f, cfg := fields[tr.cfg[k]], d.Configs[tr.cfg[k]].ID
+		s := (st.vAir[k] - refSpeed) / refSpeed
+		off := ref.next()
+		for i, p := range e.Panels {
+			v := e.SampleSDPa * r.NormFloat64()
+			if !d.blocked(e.ID, p.ID, cfg) {
+				v += st.q[k]*(f[0][i]+s*f[1][i]) + off
+			}
+			out[i][k] = sign * v
+		}
+	}
+	return out, nil
 }
 
 func containsSpeed(list []float64, v float64) bool {

@@ -21,6 +21,9 @@ func (d *Day) defaults() {
 	set(&d.Runs.ChangeS, 120)
 	set(&d.Runs.HoldS, 16)
 	set(&d.Air.WithinTauS, 3)
+	for i := range d.Taps {
+		set(&d.Taps[i].SampleSDPa, 10)
+	}
 	if d.Runs.Repeats == 0 {
 		d.Runs.Repeats = 1
 	}

@@ -47,6 +47,14 @@ func (d *Day) Write(dir string, seed int64) (*Truth, error) {
 	}
 	files := map[string][]byte{LogFile: logCSV(a, tr, st, vlog, cols, seed)}
 	for _, e := range a.Taps {
+		if a.logsTaps(e) {
+			cols, err := e.series(a, tr, st, seed)
+			if err != nil {
+				return nil, err
+			}
+			files[tapLogFile(e.ID)] = tapLogCSV(a, e, tr, vlog, cols)
+			continue
+		}
 		rs, err := e.readings(a, tr, st, vlog, seed)
 		if err != nil {
 			return nil, err
@@ -150,6 +158,31 @@ func readingsCSV(e TapEntry, rs []reading) []byte {
 		fmt.Fprintf(&b, "%s,%s,%d", r.Config, strconv.FormatFloat(r.SpeedKmh, 'f', -1, 64), r.Dir)
 		for _, v := range r.Pa {
 			b.WriteString("," + strconv.FormatFloat(v, 'f', 2, 64))
+		}
+		b.WriteByte('\n')
+	}
+	return b.Bytes()
+}
+
+// tapLogCSV writes a tap entry's time series: time, speed, direction and
+// one column per tap, Pa relative to the reference port.
+func tapLogCSV(d *Day, e TapEntry, tr *trace, vlog []float64, cols [][]float64) []byte {
+	var b bytes.Buffer
+	b.WriteString("t_s,v_kmh")
+	if !d.Log.NoDirection {
+		b.WriteString(",dir")
+	}
+	for _, p := range e.Panels {
+		b.WriteString("," + p.ID)
+	}
+	b.WriteByte('\n')
+	for k, t := range tr.t {
+		b.WriteString(strconv.FormatFloat(t, 'f', 3, 64) + "," + strconv.FormatFloat(vlog[k], 'f', 3, 64))
+		if !d.Log.NoDirection {
+			b.WriteString("," + strconv.Itoa(tr.dir[k]))
+		}
+		for i := range cols {
+			b.WriteString("," + strconv.FormatFloat(cols[i][k], 'f', 2, 64))
 		}
 		b.WriteByte('\n')
 	}
