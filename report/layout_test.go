@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-	"unicode/utf8"
 
 	"codeberg.org/go-pdf/fpdf"
 )
@@ -59,27 +58,3 @@ func TestTableBreaksAcrossPages(t *testing.T) {
 	}
 }
 
-// TestFit: a cell too long for its column is cut at a character boundary
-// (the text is valid UTF-8 whatever the characters), marked with an
-// ellipsis, and no wider than the column.
-func TestFit(t *testing.T) {
-	// One unit a character; the expected cuts are worked by hand.
-	width := func(s string) float64 { return float64(utf8.RuneCountInString(s)) }
-	tests := []struct {
-		name, in string
-		w        float64
-		want     string
-	}{
-		{"fits", "C_L·A", 10, "C_L·A"},
-		{"cut at a multi-byte character", "ρρρρρρρρρρ", 6, "ρρρρρ…"},
-		{"trailing space dropped", "ab cd ef gh", 7, "ab cd…"},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			got := fit(tt.in, tt.w, width)
-			if got != tt.want || !utf8.ValidString(got) || width(got) > tt.w {
-				t.Errorf("fit(%q, %g) = %q, want %q", tt.in, tt.w, got, tt.want)
-			}
-		})
-	}
-}

@@ -53,6 +53,8 @@ func PDF(in Input) ([]byte, error) {
 		return nil, err
 	}
 	r.cover()
+	r.overview()
+	r.details()
 	r.methods()
 	r.agreement()
 	r.plan()

@@ -80,8 +80,8 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 			col, shape := styleOf(ci)
 			s, _ := plotter.NewScatter(pts)
 			s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
-			if surface == campaign.SurfaceUpper {
-				s.GlyphStyle.Shape = filled(shape)
+			if surface == campaign.SurfaceLower {
+				s.GlyphStyle.Shape = hollow(shape)
 			}
 			p.Add(s)
 			p.Legend.Add(cfg+", "+surface+" surface", s)

