@@ -116,7 +116,6 @@ func rgb(col color.Color) (int, int, int) {
 	return int(n.R), int(n.G), int(n.B)
 }
 
-
 // trace emits a path; arcs become short line segments.
 func (c *pdfCanvas) trace(p vg.Path) bool {
 	drawn := false

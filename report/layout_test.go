@@ -57,4 +57,3 @@ func TestTableBreaksAcrossPages(t *testing.T) {
 		}
 	}
 }
-

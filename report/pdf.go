@@ -59,6 +59,7 @@ func PDF(in Input) ([]byte, error) {
 	r.agreement()
 	r.plan()
 	r.notes()
+	r.runLog()
 	r.provenance()
 	if err := pg.pdf.Error(); err != nil {
 		return nil, fmt.Errorf("rendering the report: %w", err)
