@@ -105,7 +105,7 @@ func (r *reporter) agreementTable() {
 func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 	pg := r.pg
 	pg.h2("What could explain "+id, 30)
-	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² (" + symCLA + ") where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
+	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
 		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, id))
 	var items []string
 	for i, e := range cc.Explanations {
