@@ -63,7 +63,7 @@ func TestTableBreaksAcrossPages(t *testing.T) {
 func TestSpans(t *testing.T) {
 	tests := []struct {
 		name, in string
-		want []span
+		want     []span
 	}{
 		{"lift coefficient times area", symCLA, []span{{"C", false}, {"L", true}, {"·A", false}}},
 		{"front coefficient", "C_{LF} = 0.06", []span{{"C", false}, {"LF", true}, {" = 0.06", false}}},
