@@ -27,10 +27,12 @@ type page struct {
 func (p *page) font(style string, size float64) { p.pdf.SetFont(sans, style, size) }
 
 // h1 starts a major section: on a new page unless the page is still
-// less than half full, so that no page is left nearly empty.
+// less than 40 % full, so that no page is left nearly empty and the
+// section's first block (a chart or a table, up to 60 % of a page) fits
+// under its heading.
 func (p *page) h1(title string) {
 	_, h := p.pdf.GetPageSize()
-	if p.pdf.PageNo() == 0 || p.pdf.GetY() > margin+0.5*(h-2*margin) {
+	if p.pdf.PageNo() == 0 || p.pdf.GetY() > margin+0.4*(h-2*margin) {
 		p.pdf.AddPage()
 	} else {
 		p.pdf.Ln(6)
