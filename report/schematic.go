@@ -167,8 +167,8 @@ func (r *reporter) drawTaps(v sideView, pts [][2]float64) {
 }
 
 // drawHeights draws each ride-height entry at its axle: a spring for a
-// potentiometer, a dashed beam to the ground for a laser (the campaign
-// gives no laser position along the car, so it is drawn over its axle).
+// potentiometer at its axle, a dashed beam to the ground for a laser at its
+// x_m (after defaults, over its axle when the campaign gives none).
 func (r *reporter) drawHeights(v sideView, L float64) {
 	pdf := r.pg.pdf
 	n := map[string]int{}
@@ -180,6 +180,9 @@ func (r *reporter) drawHeights(v sideView, L float64) {
 		k := n[e.Axle]
 		n[e.Axle]++
 		x := ax + 0.16*float64(k) - 0.08
+		if e.Sensor == campaign.SensorLaser && e.At.Has("x_m") {
+			x = e.XM
+		}
 		r.pg.font("", 6)
 		switch e.Sensor {
 		case campaign.SensorLaser:
