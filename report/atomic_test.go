@@ -52,8 +52,10 @@ func TestWriteFiles(t *testing.T) {
 		modes map[string]os.FileMode
 	}{
 		{
-			name:  "new files get 0644",
-			outs:  func(d string) []Output { return []Output{Bytes(filepath.Join(d, "r.pdf"), []byte("pdf")), Bytes(filepath.Join(d, "r.json"), []byte("{}"))} },
+			name: "new files get 0644",
+			outs: func(d string) []Output {
+				return []Output{Bytes(filepath.Join(d, "r.pdf"), []byte("pdf")), Bytes(filepath.Join(d, "r.json"), []byte("{}"))}
+			},
 			want:  map[string]string{"r.pdf": "pdf", "r.json": "{}"},
 			modes: map[string]os.FileMode{"r.pdf": 0o644, "r.json": 0o644},
 		},
@@ -63,7 +65,9 @@ func TestWriteFiles(t *testing.T) {
 				write(t, filepath.Join(d, "r.pdf"), "old", 0o600)
 				write(t, filepath.Join(d, "r.json"), "old", 0o664)
 			},
-			outs:  func(d string) []Output { return []Output{Bytes(filepath.Join(d, "r.pdf"), []byte("new")), Bytes(filepath.Join(d, "r.json"), []byte("new"))} },
+			outs: func(d string) []Output {
+				return []Output{Bytes(filepath.Join(d, "r.pdf"), []byte("new")), Bytes(filepath.Join(d, "r.json"), []byte("new"))}
+			},
 			want:  map[string]string{"r.pdf": "new", "r.json": "new"},
 			modes: map[string]os.FileMode{"r.pdf": 0o600, "r.json": 0o664},
 		},
@@ -80,9 +84,9 @@ func TestWriteFiles(t *testing.T) {
 			want: map[string]string{"r.pdf": "old pdf", "r.json": "old json"},
 		},
 		{
-			name:  "a missing folder is named",
-			outs:  func(d string) []Output { return []Output{Bytes(filepath.Join(d, "nope", "r.pdf"), []byte("x"))} },
-			err:   ErrNoFolder, inMsg: "folder " + "DIR/nope does not exist",
+			name: "a missing folder is named",
+			outs: func(d string) []Output { return []Output{Bytes(filepath.Join(d, "nope", "r.pdf"), []byte("x"))} },
+			err:  ErrNoFolder, inMsg: "folder " + "DIR/nope does not exist",
 		},
 		{
 			name:  "a folder is not an output",
@@ -109,10 +113,13 @@ func TestWriteFiles(t *testing.T) {
 			modes: map[string]os.FileMode{"made.pdf": 0o644, "link.pdf": fs.ModeSymlink},
 		},
 		{
-			name:  "a loop of links is refused",
-			setup: func(t *testing.T, d string) { symlink(t, "b", filepath.Join(d, "a")); symlink(t, "a", filepath.Join(d, "b")) },
-			outs:  func(d string) []Output { return []Output{Bytes(filepath.Join(d, "a"), []byte("x"))} },
-			err:   errAny, inMsg: "symbolic links",
+			name: "a loop of links is refused",
+			setup: func(t *testing.T, d string) {
+				symlink(t, "b", filepath.Join(d, "a"))
+				symlink(t, "a", filepath.Join(d, "b"))
+			},
+			outs: func(d string) []Output { return []Output{Bytes(filepath.Join(d, "a"), []byte("x"))} },
+			err:  errAny, inMsg: "symbolic links",
 		},
 		{
 			name: "a write error never shows the temporary name",

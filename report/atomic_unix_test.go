@@ -15,7 +15,7 @@ import (
 // instead of being replaced (or, opened, blocking the run).
 func TestWriteFilesRefusesFIFO(t *testing.T) {
 	tests := []struct {
-		name string
+		name  string
 		fixed string // a fixed path instead of a new one
 		make  func(name string) error
 		want  string

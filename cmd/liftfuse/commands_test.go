@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"io"
 	"os"
@@ -137,7 +138,7 @@ func TestSimulateCommand(t *testing.T) {
 func BenchmarkReport(b *testing.B) {
 	out := filepath.Join(b.TempDir(), "r.pdf")
 	for b.Loop() {
-		if code := run([]string{"report", demo, "-o", out, "-q"}, io.Discard, io.Discard); code != 0 {
+		if code := run(context.Background(), []string{"report", demo, "-o", out, "-q"}, io.Discard, io.Discard); code != 0 {
 			b.Fatal("report failed")
 		}
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"os"
@@ -16,7 +17,7 @@ const demo = "../../examples/ducktail-fastback/campaign.yaml"
 func liftfuse(t *testing.T, args ...string) (int, string, string) {
 	t.Helper()
 	var out, errOut bytes.Buffer
-	code := run(args, &out, &errOut)
+	code := run(context.Background(), args, &out, &errOut)
 	return code, out.String(), errOut.String()
 }
 
