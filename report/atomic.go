@@ -85,11 +85,11 @@ func prepare(name string) (target string, mode os.FileMode, err error) {
 	}
 	dir := filepath.Dir(target)
 	if st, err := os.Stat(dir); errors.Is(err, fs.ErrNotExist) {
-		return "", 0, fmt.Errorf("cannot write %s: folder %s does not exist: %w", name, dir, ErrNoFolder)
+		return "", 0, kindErr(ErrNoFolder, "cannot write %s: folder %s does not exist", name, dir)
 	} else if err != nil {
 		return "", 0, fmt.Errorf("cannot write %s: %w", name, plain(err))
 	} else if !st.IsDir() {
-		return "", 0, fmt.Errorf("cannot write %s: %s is not a folder: %w", name, dir, ErrNoFolder)
+		return "", 0, kindErr(ErrNoFolder, "cannot write %s: %s is not a folder", name, dir)
 	}
 	st, err := os.Stat(target)
 	switch {
@@ -98,11 +98,25 @@ func prepare(name string) (target string, mode os.FileMode, err error) {
 	case err != nil:
 		return "", 0, fmt.Errorf("cannot write %s: %w", name, plain(err))
 	case st.IsDir():
-		return "", 0, fmt.Errorf("cannot write %s: it is a folder: %w", name, ErrNotFile)
+		return "", 0, kindErr(ErrNotFile, "cannot write %s: it is a folder", name)
 	case !st.Mode().IsRegular():
-		return "", 0, fmt.Errorf("cannot write %s: it is not a regular file (%s): %w", name, kindOf(st.Mode()), ErrNotFile)
+		return "", 0, kindErr(ErrNotFile, "cannot write %s: it is not a regular file (%s)", name, kindOf(st.Mode()))
 	}
 	return target, st.Mode().Perm(), nil
+}
+
+// kindError is a message that errors.Is matches to its kind, a sentinel
+// whose own text it does not repeat.
+type kindError struct {
+	msg  string
+	kind error
+}
+
+func (e *kindError) Error() string { return e.msg }
+func (e *kindError) Unwrap() error { return e.kind }
+
+func kindErr(kind error, format string, args ...any) error {
+	return &kindError{fmt.Sprintf(format, args...), kind}
 }
 
 func kindOf(m fs.FileMode) string {

@@ -65,10 +65,10 @@ link stays a link: the file it points to is replaced.`,
 		},
 	}
 	f := cmd.Flags()
-	f.StringVarP(&o.out, "out", "o", "", "PDF file to write (required)")
-	f.StringVar(&o.jsonOut, "json-out", "", "also write the result document to this file")
+	f.StringVarP(&o.out, "out", "o", "", "the PDF `FILE` to write (required)")
+	f.StringVar(&o.jsonOut, "json-out", "", "also write the result document to `FILE`")
 	f.BoolVar(&o.json, "json", false, "print the result document as JSON on stdout")
-	f.StringVar(&o.paper, "paper", "A4", "paper size: A4 or Letter (any case)")
+	f.StringVar(&o.paper, "paper", "A4", "paper `SIZE`: A4 or Letter (any case)")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
 }

@@ -44,7 +44,7 @@ shows up. The spec format is in examples/ducktail-fastback/spec.yaml.`,
 			return runSimulate(o, cmd.OutOrStdout())
 		},
 	}
-	cmd.Flags().StringVarP(&o.out, "out", "o", "", "folder to write the campaign into (required)")
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "`DIR` to write the campaign into (required)")
 	cmd.Flags().BoolVar(&o.force, "force", false, "write into a folder that already exists, replacing the campaign's files")
 	return cmd
 }

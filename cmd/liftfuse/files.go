@@ -72,7 +72,10 @@ func checkOutputs(file string, c *campaign.Campaign, outs ...output) error {
 				if in != file {
 					what = "a file the campaign reads"
 				}
-				return badInput("%s %s is %s (%s): refusing to overwrite an input", o.flag, o.name, what, in)
+				if in != o.name {
+					what += " " + in
+				}
+				return badInput("%s %s is %s: refusing to overwrite an input", o.flag, o.name, what)
 			}
 		}
 		for _, p := range outs[:i] {
