@@ -55,11 +55,11 @@ func Target(name string) (string, error) {
 			return p, nil
 		}
 		if err != nil {
-			return "", fmt.Errorf("cannot write %s: %w", name, plain(err))
+			return "", fmt.Errorf("cannot write %s: %w", name, pathless(err))
 		}
 		to, err := os.Readlink(p)
 		if err != nil {
-			return "", fmt.Errorf("cannot write %s: %w", name, plain(err))
+			return "", fmt.Errorf("cannot write %s: %w", name, pathless(err))
 		}
 		if !filepath.IsAbs(to) {
 			to = filepath.Join(filepath.Dir(p), to)
@@ -87,7 +87,7 @@ func prepare(name string) (target string, mode os.FileMode, err error) {
 	if st, err := os.Stat(dir); errors.Is(err, fs.ErrNotExist) {
 		return "", 0, kindErr(ErrNoFolder, "cannot write %s: folder %s does not exist", name, dir)
 	} else if err != nil {
-		return "", 0, fmt.Errorf("cannot write %s: %w", name, plain(err))
+		return "", 0, fmt.Errorf("cannot write %s: %w", name, pathless(err))
 	} else if !st.IsDir() {
 		return "", 0, kindErr(ErrNoFolder, "cannot write %s: %s is not a folder", name, dir)
 	}
@@ -96,7 +96,7 @@ func prepare(name string) (target string, mode os.FileMode, err error) {
 	case errors.Is(err, fs.ErrNotExist):
 		return target, newFileMode, nil
 	case err != nil:
-		return "", 0, fmt.Errorf("cannot write %s: %w", name, plain(err))
+		return "", 0, fmt.Errorf("cannot write %s: %w", name, pathless(err))
 	case st.IsDir():
 		return "", 0, kindErr(ErrNotFile, "cannot write %s: it is a folder", name)
 	case !st.Mode().IsRegular():
@@ -186,11 +186,11 @@ func WriteFiles(ctx context.Context, outs ...Output) (err error) {
 func writeTemp(o Output, target string, mode os.FileMode) (string, error) {
 	f, err := temps.create(filepath.Dir(target), "."+filepath.Base(target)+".tmp-*")
 	if err != nil {
-		return "", fmt.Errorf("cannot write %s: %w", o.Name, plain(err))
+		return "", fmt.Errorf("cannot write %s: %w", o.Name, pathless(err))
 	}
 	fail := func(err error) (string, error) {
 		f.Close()
-		return f.Name(), fmt.Errorf("cannot write %s: %w", o.Name, plain(err))
+		return f.Name(), fmt.Errorf("cannot write %s: %w", o.Name, pathless(err))
 	}
 	if err := o.Write(plainWriter{f}); err != nil {
 		return fail(err)
@@ -202,7 +202,7 @@ func writeTemp(o Output, target string, mode os.FileMode) (string, error) {
 		return fail(err)
 	}
 	if err := f.Close(); err != nil {
-		return f.Name(), fmt.Errorf("cannot write %s: %w", o.Name, plain(err))
+		return f.Name(), fmt.Errorf("cannot write %s: %w", o.Name, pathless(err))
 	}
 	return f.Name(), nil
 }
@@ -212,12 +212,12 @@ type plainWriter struct{ f *os.File }
 
 func (w plainWriter) Write(p []byte) (int, error) {
 	n, err := w.f.Write(p)
-	return n, plain(err)
+	return n, pathless(err)
 }
 
-// plain strips the path from a file-system error, so that a message never
+// pathless strips the path from a file-system error, so that a message never
 // shows a temporary name; errors.Is still sees the cause.
-func plain(err error) error {
+func pathless(err error) error {
 	var pe *fs.PathError
 	var le *os.LinkError
 	switch {
@@ -286,7 +286,7 @@ func (s *tempSet) commit(ctx context.Context, ps []pending) error {
 				os.Remove(q.tmp)
 				delete(s.names, q.tmp)
 			}
-			return fmt.Errorf("cannot write %s: %w", p.out.Name, plain(err))
+			return fmt.Errorf("cannot write %s: %w", p.out.Name, pathless(err))
 		}
 		delete(s.names, p.tmp)
 	}
@@ -314,11 +314,11 @@ func AbortWrites() {
 func WriteFolder(dir string, fill func(tmp string) error) error {
 	parent := filepath.Dir(filepath.Clean(dir))
 	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return fmt.Errorf("cannot create %s: %w", dir, plain(err))
+		return fmt.Errorf("cannot create %s: %w", dir, pathless(err))
 	}
 	tmp, err := temps.mkdir(parent, "."+filepath.Base(dir)+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("cannot create %s: %w", dir, plain(err))
+		return fmt.Errorf("cannot create %s: %w", dir, pathless(err))
 	}
 	defer temps.discard(tmp)
 	if err := fill(tmp); err != nil {
@@ -334,10 +334,10 @@ func WriteFolder(dir string, fill func(tmp string) error) error {
 		}
 		dst := filepath.Join(dir, rel)
 		if err := os.MkdirAll(filepath.Dir(dst), 0o755); err != nil {
-			return fmt.Errorf("cannot write %s: %w", dst, plain(err))
+			return fmt.Errorf("cannot write %s: %w", dst, pathless(err))
 		}
 		if err := os.Rename(p, dst); err != nil {
-			return fmt.Errorf("cannot write %s: %w", dst, plain(err))
+			return fmt.Errorf("cannot write %s: %w", dst, pathless(err))
 		}
 		return nil
 	})

@@ -32,7 +32,7 @@ func settings(c *campaign.Campaign) fuse.Settings {
 // load reads a campaign; the adapters stream the logs' bodies, so loading
 // checks only their headers.
 func load(file string) (*campaign.Campaign, error) {
-	return loadCampaign(file, campaign.Options{HeadersOnly: true})
+	return loadCampaign(file, campaign.Options{})
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on

@@ -60,19 +60,11 @@ reference. --target-axle takes its word in any case.`,
 	return cmd
 }
 
-// defaultTarget is the one owner of the plan's default target: the
-// campaign's plan.target, else the rear of the last configuration versus
-// the reference configuration (or alone, when the last is the reference).
+// defaultTarget is the campaign's plan.target, with the campaign's default
+// (methods/campaign, defaults.go: the one owner of that rule) applied.
 func defaultTarget(c *campaign.Campaign) fuse.Target {
-	if t := c.Plan.Target; t.Config != "" {
-		return fuse.Target{Config: t.Config, Axle: t.Axle, Versus: t.Versus}
-	}
-	last := c.Configurations[len(c.Configurations)-1].ID
-	t := fuse.Target{Config: last, Axle: evidence.AxleRear}
-	if last != c.Report.ReferenceConfig {
-		t.Versus = c.Report.ReferenceConfig
-	}
-	return t
+	t := c.Plan.Target
+	return fuse.Target{Config: t.Config, Axle: t.Axle, Versus: t.Versus}
 }
 
 // planTarget resolves the target from flags over the default. A
@@ -88,10 +80,7 @@ func planTarget(o planOptions, c *campaign.Campaign) (fuse.Target, error) {
 	if o.versus != "" {
 		t.Versus = o.versus
 	}
-	var ids []string
-	for _, cf := range c.Configurations {
-		ids = append(ids, cf.ID)
-	}
+	ids := c.ConfigIDs()
 	switch {
 	case !slices.Contains(ids, t.Config):
 		return t, badInput("unknown target configuration %q (known: %s)", t.Config, words(ids, "and"))

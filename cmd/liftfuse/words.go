@@ -5,18 +5,17 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+
+	"liftfuse/methods/campaign"
 )
 
-// words writes a list as in a sentence: "a", "a and b", "a, b and c"
-// (conj "and" or "or").
+// words writes a list as in a sentence (campaign.Words, the one owner);
+// an empty list is "".
 func words(list []string, conj string) string {
-	switch len(list) {
-	case 0:
+	if len(list) == 0 {
 		return ""
-	case 1:
-		return list[0]
 	}
-	return strings.Join(list[:len(list)-1], ", ") + " " + conj + " " + list[len(list)-1]
+	return campaign.Words(list, conj)
 }
 
 // count writes n with the singular or plural noun: "1 warning", "2 warnings".

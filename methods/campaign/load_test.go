@@ -295,3 +295,31 @@ func TestLoadRefusesFIFO(t *testing.T) {
 		t.Fatalf("campaign: want a not-a-regular-file error, got %v", err)
 	}
 }
+
+// TestLoadDefaultTarget: without plan.target, the target is the rear of the
+// last configuration versus the reference (campaign-format.md, plan).
+func TestLoadDefaultTarget(t *testing.T) {
+	tests := []struct {
+		name  string
+		edits []edit
+		want  campaign.Target
+	}{
+		{"last versus the reference", []edit{remove("plan.target")}, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+		{"the last is the reference", []edit{remove("plan.target"), add("report", "reference_config", "wing")}, campaign.Target{Config: "wing", Axle: "rear"}},
+		{"given", nil, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			path := fixture(t)
+			apply(t, path, tt.edits...)
+			c, err := campaign.Load(path, campaign.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := c.Plan.Target
+			if got.Config != tt.want.Config || got.Axle != tt.want.Axle || got.Versus != tt.want.Versus {
+				t.Errorf("target = %+v, want %+v", got, tt.want)
+			}
+		})
+	}
+}

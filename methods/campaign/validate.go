@@ -96,7 +96,7 @@ func (v *validator) oneOf(p Place, path, key, s string, words ...string) bool {
 			return true
 		}
 	}
-	v.errf(p.Of(key), join(path, key), ErrRange, "%s must be one of %v, got %q", key, words, s)
+	v.errf(p.Of(key), join(path, key), ErrRange, "%s must be %s, got %q", key, WordList(words), s)
 	return false
 }
 
