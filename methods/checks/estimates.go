@@ -1,0 +1,214 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
+	"liftfuse/methods/pressure"
+)
+
+// estimate is one entry's own, rough C_L·A of one configuration's axle
+// (m², at 100 km/h for ride heights, at the readings' speeds for taps):
+// β = Raw + Corr, where Raw is what the entry measured and Corr what the
+// campaign adds (a laser's tyre-growth prior, the pitch of drag, uncovered
+// patches). A sign slip in the data flips Raw and keeps Corr. SD is its
+// standard deviation, systematic parts (stiffness, gain, integration
+// scale, drag pitch) included.
+type estimate struct {
+	Entry      string
+	Kind       evidence.Kind
+	Config     string
+	Axle       string
+	Raw, Corr  float64
+	SD         float64
+}
+
+func (e estimate) beta() float64   { return e.Raw + e.Corr }
+func (e estimate) mirror() float64 { return -e.Raw + e.Corr }
+
+// pressureEstimates averages the readings' implied C_L·A per configuration
+// and axle and adds back the pitch of drag m = C_D·A·h/L (taps carry β_f − m
+// and β_r + m) and the uncovered patches' prior force −Cp·A·n_z per axle by
+// moments.
+func pressureEstimates(c *campaign.Campaign, r *pressure.Result) []estimate {
+	L := c.Vehicle.WheelbaseM
+	var m, msd float64
+	if d := c.Vehicle.Drag; d != nil {
+		m = d.CdAM2 * d.CentreHeightM / L
+		msd = m * d.SDPct / 100
+	}
+	rel := r.Entry.ModelSDPct / 100
+	var out []estimate
+	for _, cfg := range c.Configurations {
+		for _, axle := range []string{evidence.AxleFront, evidence.AxleRear} {
+			var xs []float64
+			for _, rd := range r.Readings {
+				if rd.Config != cfg.ID || rd.Q <= 0 {
+					continue
+				}
+				f := rd.ImpliedCLA()
+				if axle == evidence.AxleFront {
+					xs = append(xs, f.Front)
+				} else {
+					xs = append(xs, f.Rear)
+				}
+			}
+			if len(xs) == 0 {
+				continue
+			}
+			raw, v := meanVar(xs)
+			corr, cv := m, msd*msd
+			if axle == evidence.AxleRear {
+				corr = -m
+			}
+			for _, u := range r.Entry.Uncovered {
+				share := 1 - u.XM/L
+				if axle == evidence.AxleRear {
+					share = u.XM / L
+				}
+				corr += -u.CpMean * u.AreaM2 * u.Nz * share
+				cv += math.Pow(u.CpSD*u.AreaM2*u.Nz*share, 2)
+			}
+			beta := raw + corr
+			out = append(out, estimate{Entry: r.Entry.ID, Kind: evidence.KindPressure, Config: cfg.ID, Axle: axle,
+				Raw: raw, Corr: corr, SD: math.Sqrt(v/float64(len(xs)) + cv + rel*rel*beta*beta)})
+		}
+	}
+	return out
+}
+
+// meanVar returns the mean and the sample variance (0 for one value).
+func meanVar(xs []float64) (float64, float64) {
+	var s float64
+	for _, x := range xs {
+		s += x
+	}
+	mu := s / float64(len(xs))
+	if len(xs) < 2 {
+		return mu, 0
+	}
+	var v float64
+	for _, x := range xs {
+		v += (x - mu) * (x - mu)
+	}
+	return mu, v / float64(len(xs)-1)
+}
+
+// maxCLA is the size of an axle C_L·A no road car reaches (model.md:
+// "|C_L·A| beyond 1.5 m² for a road car").
+const maxCLA = 1.5
+
+// claTooLarge reports, per entry, the estimate most beyond ±1.5 m² when the
+// one-sided p-value P(|β| ≤ 1.5) ≈ Φ((1.5 − |β̂|)/sd) is below alphaCLA
+// shared over the entry's estimates.
+func claTooLarge(est []estimate) []Check {
+	var out []Check
+	for _, id := range entryIDs(est) {
+		mine := byEntry(est, id)
+		best, bestP := -1, 1.0
+		for k, e := range mine {
+			p := distuv.UnitNormal.CDF((maxCLA - math.Abs(e.beta())) / e.SD)
+			if p < bestP {
+				best, bestP = k, p
+			}
+		}
+		if best < 0 || bestP >= alphaCLA/float64(len(mine)) {
+			continue
+		}
+		e := mine[best]
+		out = append(out, Check{Check: IDCLATooLarge, Entry: id, Config: e.Config, PValue: bestP,
+			Where:  fmt.Sprintf("%s C_L·A %.2f ± %.2f m²", e.Axle, e.beta(), e.SD),
+			Cause:  "a C_L·A beyond 1.5 m² is out of reach for a road car: unit or sign slip? (speed in m/s under a km/h column, a calibration in the wrong unit, a tap table in the wrong unit)",
+			Action: fmt.Sprintf("check %s's units: speed column, calibration gain, stiffness, pressures in Pa", id)})
+	}
+	return out
+}
+
+// agreement compares an entry's estimates with the others' of the same
+// configuration and axle (inverse-variance pooled): χ² of β_E − β_O and of
+// the mirror image −Raw + Corr − β_O, each on k degrees of freedom.
+func agreement(est []estimate, id string) (pSame, pMirror float64, k int) {
+	var same, mirror float64
+	for _, e := range byEntry(est, id) {
+		var w, wb float64
+		for _, o := range est {
+			if o.Entry == id || o.Config != e.Config || o.Axle != e.Axle || o.SD <= 0 {
+				continue
+			}
+			w += 1 / (o.SD * o.SD)
+			wb += o.beta() / (o.SD * o.SD)
+		}
+		if w == 0 {
+			continue
+		}
+		v := e.SD*e.SD + 1/w
+		same += math.Pow(e.beta()-wb/w, 2) / v
+		mirror += math.Pow(e.mirror()-wb/w, 2) / v
+		k++
+	}
+	if k == 0 {
+		return 1, 1, 0
+	}
+	return chi2Survival(same, k), chi2Survival(mirror, k), k
+}
+
+// mirrorFits is the p-value above which the mirror image is taken to fit.
+const mirrorFits = 0.05
+
+// mirrored reports an entry whose estimates disagree with the others'
+// (p < alphaMirror) while their mirror image agrees (p > 5 %).
+func mirrored(est []estimate) []Check {
+	var out []Check
+	for _, id := range entryIDs(est) {
+		pSame, pMirror, k := agreement(est, id)
+		if k == 0 || pSame >= alphaMirror || pMirror <= mirrorFits {
+			continue
+		}
+		out = append(out, Check{Check: IDMirror, Entry: id, PValue: pSame,
+			Where:  fmt.Sprintf("%d axle figures (p = %.2g as measured, %.2f mirrored)", k, pSame, pMirror),
+			Cause:  "the entry's lift is the mirror image of the other entries': unit or sign slip? (tap pressures with the wrong sign, a sensor's gain sign, a reference port swapped)",
+			Action: fmt.Sprintf("check the sign convention of %s's data against the others' and re-reduce", id)})
+	}
+	return out
+}
+
+// confirmGain drops a negative-gain note when other entries on the axle
+// agree with the entry as measured (p ≥ 5 %).
+func confirmGain(cs []Check, est []estimate) []Check {
+	var out []Check
+	for _, c := range cs {
+		if c.Check == IDGainNegative {
+			if pSame, _, k := agreement(est, c.Entry); k > 0 && pSame >= mirrorFits {
+				continue
+			}
+		}
+		out = append(out, c)
+	}
+	return out
+}
+
+func entryIDs(est []estimate) []string {
+	var ids []string
+	seen := map[string]bool{}
+	for _, e := range est {
+		if !seen[e.Entry] {
+			seen[e.Entry] = true
+			ids = append(ids, e.Entry)
+		}
+	}
+	return ids
+}
+
+func byEntry(est []estimate, id string) []estimate {
+	var out []estimate
+	for _, e := range est {
+		if e.Entry == id {
+			out = append(out, e)
+		}
+	}
+	return out
+}

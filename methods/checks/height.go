@@ -1,0 +1,128 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
+)
+
+// notLinear reports the configurations whose height is not linear in q:
+// the extra-sum-of-squares F test of a q² term (heightfit.go) at
+// alphaNotLinear shared over the entry's configurations.
+func notLinear(r *height.Result, fits []cfgFit) []Check {
+	var out []Check
+	alpha := alphaNotLinear / float64(max(1, len(fits)))
+	for _, f := range fits {
+		if f.PCurv >= alpha {
+			continue
+		}
+		ch := Check{Check: IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
+			Cause: "ride height is not linear in dynamic pressure: bump-stop or packer contact, progressive springs, or the sensor at its end stop"}
+		if f.Broken {
+			ch.Where = "every speed"
+			ch.Action = fmt.Sprintf("measure the stiffness of %s's axle over the loads of the runs (ballast steps up to the aero load), or check the sensor's travel", r.Entry.ID)
+		} else {
+			ch.Where = fmt.Sprintf("windows above %.0f km/h", f.CutKmh)
+			ch.Action = fmt.Sprintf("set max_speed_kmh: %.0f on %s, or measure the stiffness at that load", f.CutKmh, r.Entry.ID)
+		}
+		out = append(out, ch)
+	}
+	return out
+}
+
+// residualSD is the size, in standard deviations, beyond which a window is
+// reported (model.md).
+const residualSD = 4
+
+// residuals reports windows whose internally studentised residual
+// z_i = r_i·√w_i / (s·√(1 − h_ii)) from the linear fit exceeds 4 in size and
+// whose Bonferroni p-value n·P(|T_ν| > |z_i|) is below alphaResidual (s is
+// the robust scale of the fit, at least 1). A window's standard error is
+// itself estimated from few effective samples, so z_i is referred to
+// Student's t with the window's degrees of freedom (windowDOF), not to the
+// normal: with n_eff ≈ 5 a 4-sd residual is common.
+func residuals(r *height.Result, fits []cfgFit) []Check {
+	n := 0
+	for _, f := range fits {
+		n += len(f.Kept)
+	}
+	vars := windowVars(r.Windows, r.Entry.FrictionMm)
+	var out []Check
+	for _, f := range fits {
+		for k, i := range f.Kept {
+			lev := math.Min(f.Lin.Lev[k], 0.99)
+			z := f.Lin.Resid[k] * math.Sqrt(f.Lin.W[k]) / (f.Scale * math.Sqrt(1-lev))
+			p := math.Min(1, float64(n)*tTwoSided(z, windowDOF(r.Windows[i], vars[i], r.Entry.FrictionMm*r.Entry.FrictionMm/3)))
+			if math.Abs(z) <= residualSD || p >= alphaResidual {
+				continue
+			}
+			w := r.Windows[i]
+			out = append(out, Check{Check: IDWindowResidual, Entry: r.Entry.ID, Config: f.Config, PValue: p,
+				Where: fmt.Sprintf("log %s, %.0f–%.0f s at %.0f km/h (%+.2f mm, %.1f sd)", r.Entry.Logs[w.Log].File, w.From, w.To, w.SpeedKmh, f.Lin.Resid[k], z),
+				Cause: "one window is off the line of the others: a gust, a bump or crest, traffic, or a driver input",
+				Action: fmt.Sprintf("look at the trace of %s over %.0f–%.0f s and cut that stretch from the log's segments if it was not steady",
+					r.Entry.ID, w.From, w.To)})
+		}
+	}
+	return out
+}
+
+// negativeGain notes a negative calibration gain (mm per unit of signal);
+// confirmGain keeps it only when the entry's own lift is not confirmed by
+// the others on its axle.
+func negativeGain(r *height.Result) []Check {
+	if r.Calibration.Gain >= 0 {
+		return nil
+	}
+	return []Check{{Check: IDGainNegative, Entry: r.Entry.ID, Where: "calibration",
+		Cause:  fmt.Sprintf("the calibration gain is negative (%.3g mm per unit): unit or sign slip?", r.Calibration.Gain),
+		Action: fmt.Sprintf("check the sign of %s's calibration: height must rise when the body rises; if this sensor's signal falls as the body rises, the sign is right", r.Entry.ID)}}
+}
+
+// heightEstimates turns each configuration's slope into the axle's C_L·A
+// at 100 km/h: β = K·(b − g/q₁₀₀), with b the height per Pa of q, g a laser's
+// tyre growth prior (mm at 100 km/h) and q₁₀₀ = ½ρ(100 km/h)². Its variance
+// adds the slope's (scaled by s²), the growth prior's and the relative
+// uncertainty of stiffness and gain.
+func heightEstimates(c *campaign.Campaign, r *height.Result, fits []cfgFit) []estimate {
+	K := r.Stiffness.K
+	q100 := air.DynamicPressure(c.Density(), air.KmhToMs(evidence.RefSpeedKmh))
+	var g, gsd float64
+	if r.Entry.Sensor == campaign.SensorLaser {
+		g, gsd = r.Entry.TyreGrowth.MmAt100kmh, r.Entry.TyreGrowth.SDMm
+	}
+	rel2 := r.Stiffness.RelSD() * r.Stiffness.RelSD()
+	if !r.Stiffness.GainCancels {
+		rel2 += r.Calibration.RelSD * r.Calibration.RelSD
+	}
+	var out []estimate
+	for _, f := range fits {
+		b := f.Lin.Beta[0] / f.QScale
+		vb := f.Lin.Cov.At(0, 0) / (f.QScale * f.QScale) * math.Max(1, f.Lin.RSS/float64(max(1, f.Lin.DF)))
+		raw, corr := K*b, -K*g/q100
+		beta := raw + corr
+		sd := math.Sqrt(K*K*vb + K*K*gsd*gsd/(q100*q100) + beta*beta*rel2)
+		out = append(out, estimate{Entry: r.Entry.ID, Kind: evidence.KindRideHeight, Config: f.Config, Axle: r.Entry.Axle,
+			Raw: raw, Corr: corr, SD: sd})
+	}
+	return out
+}
+
+// windowDOF is the degrees of freedom of a window's variance
+// σ² = max(SE², pooled) + f (see windowVars, f = friction²/3): a pooled
+// variance is taken as known; the window's own SE² has n_eff − 1, widened
+// by the known friction part by Satterthwaite's approximation
+// ν = σ⁴/(SE⁴/(n_eff − 1)) (Satterthwaite 1946, Biometrics Bulletin
+// 2(6):110–114).
+func windowDOF(w height.Window, v, f float64) float64 {
+	se2 := w.SE * w.SE
+	if se2 <= 0 || se2+f+1e-8 < 0.999*v {
+		return 1e6
+	}
+	nu := math.Max(1, w.NEff-1)
+	return nu * math.Pow(v/se2, 2)
+}

@@ -1,0 +1,242 @@
+package checks
+
+import (
+	"math"
+	"sort"
+
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
+)
+
+// cfgFit is the linear model of one ride-height entry's windows in one
+// configuration, directions pooled:
+//
+//	h_i = o_log + b·q_i [+ b₁·q_i·(V_i/100 − 1)] [+ c·dir_i·V_i] [+ d_log·t_i] + ε_i,
+//	var ε_i = SE_i² + friction²/3,
+//
+// with a static offset per log, the deflection linear in the ground dynamic
+// pressure q (lift, and a laser's tyre growth, which is ∝ V² ∝ q too), the
+// linear-in-speed lift of speed_model: linear, the along-road wind (the air
+// q is ½ρ(V ± w)², whose cross term 2ρVw flips with direction) and a drift
+// per log when the entry declares one.
+type cfgFit struct {
+	Config string
+	All    []int   // windows of the configuration (indices into Result.Windows)
+	Kept   []int   // those below the cut speed (all when linear)
+	PCurv  float64 // p-value of the curvature test on All
+	CutKmh float64 // windows above this speed leave the linear range; 0: none
+	Broken bool    // not linear even at the lowest speeds
+	Lin    *wlsFit // linear fit on Kept
+	QScale float64 // q is entered as q/QScale
+	Scale  float64 // residual scale s ≥ 1 of Lin (robust)
+}
+
+// speedLevelGapKmh separates two driven speeds (common practice, no source).
+const speedLevelGapKmh = 5
+
+// design builds the model's rows for windows idx; quad adds (q/QScale)².
+// The q column is always column 0.
+func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed, quad bool, qs float64) ([][]float64, []float64, []float64) {
+	logCol := map[int]int{}
+	var logs []int
+	dirs := map[int]bool{}
+	for _, i := range idx {
+		if _, ok := logCol[ws[i].Log]; !ok {
+			logCol[ws[i].Log] = len(logs)
+			logs = append(logs, ws[i].Log)
+		}
+		if ws[i].Q > 0 {
+			dirs[ws[i].Direction] = true
+		}
+	}
+	wind := dirs[1] && dirs[-1]
+	tbar := make([]float64, len(logs))
+	cnt := make([]float64, len(logs))
+	for _, i := range idx {
+		k := logCol[ws[i].Log]
+		tbar[k] += (ws[i].From + ws[i].To) / 2
+		cnt[k]++
+	}
+	for k := range tbar {
+		tbar[k] /= cnt[k]
+	}
+	v := windowVars(ws, e.FrictionMm)
+	var x [][]float64
+	var y, w []float64
+	for _, i := range idx {
+		win := ws[i]
+		qn := win.Q / qs
+		row := []float64{qn}
+		if linearSpeed {
+			row = append(row, qn*(win.SpeedKmh/evidence.RefSpeedKmh-1))
+		}
+		if wind {
+			row = append(row, float64(win.Direction)*win.SpeedKmh/evidence.RefSpeedKmh)
+		}
+		for k := range logs {
+			v := 0.0
+			if logCol[win.Log] == k {
+				v = 1
+			}
+			row = append(row, v)
+		}
+		if e.Drift {
+			for k := range logs {
+				v := 0.0
+				if logCol[win.Log] == k {
+					v = ((win.From+win.To)/2 - tbar[k]) / 1000
+				}
+				row = append(row, v)
+			}
+		}
+		if quad {
+			row = append(row, qn*qn)
+		}
+		x = append(x, row)
+		y = append(y, win.HeightMM)
+		w = append(w, 1/v[i])
+	}
+	return x, y, w
+}
+
+// curvature fits windows idx with and without the q² term and returns the
+// F test's p-value and the linear fit (nil when the data cannot tell).
+func curvature(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, qs float64) (float64, *wlsFit) {
+	x0, y, w := design(ws, idx, e, linearSpeed, false, qs)
+	lin, err := wls(x0, y, w)
+	if err != nil {
+		return 1, nil
+	}
+	if len(levels(ws, idx)) < 3 {
+		return 1, lin
+	}
+	x1, _, _ := design(ws, idx, e, linearSpeed, true, qs)
+	full, err := wls(x1, y, w)
+	if err != nil || full.DF < 2 {
+		return 1, lin
+	}
+	return fTest(lin, full), lin
+}
+
+// levels groups the windows' speeds into driven speeds (gaps of at least
+// speedLevelGapKmh) and returns each level's lowest and highest speed,
+// slowest first.
+func levels(ws []height.Window, idx []int) [][2]float64 {
+	v := make([]float64, len(idx))
+	for k, i := range idx {
+		v[k] = ws[i].SpeedKmh
+	}
+	sort.Float64s(v)
+	var out [][2]float64
+	for k, s := range v {
+		if k == 0 || s-v[k-1] >= speedLevelGapKmh {
+			out = append(out, [2]float64{s, s})
+		}
+		out[len(out)-1][1] = s
+	}
+	return out
+}
+
+// heightFits fits every configuration of a ride-height entry. When the
+// curvature test trips, the fastest driven speed is dropped until what is
+// left is linear (at a lenient 5 %); the cut lies halfway between the last
+// speed kept and the first dropped, rounded down to 5 km/h.
+func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
+	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
+	var order []string
+	byCfg := map[string][]int{}
+	for i, w := range r.Windows {
+		if _, ok := byCfg[w.Config]; !ok {
+			order = append(order, w.Config)
+		}
+		byCfg[w.Config] = append(byCfg[w.Config], i)
+	}
+	alpha := alphaNotLinear / float64(len(order))
+	var out []cfgFit
+	for _, cfg := range order {
+		idx := byCfg[cfg]
+		qs := 0.0
+		for _, i := range idx {
+			qs = math.Max(qs, r.Windows[i].Q)
+		}
+		if qs == 0 {
+			continue
+		}
+		f := cfgFit{Config: cfg, All: idx, Kept: idx, QScale: qs}
+		f.PCurv, f.Lin = curvature(r.Windows, idx, r.Entry, linearSpeed, qs)
+		if f.PCurv < alpha {
+			f.cut(r.Windows, r.Entry, linearSpeed)
+		}
+		if f.Lin == nil {
+			continue
+		}
+		f.Scale = robustScale(f.Lin)
+		out = append(out, f)
+	}
+	return out
+}
+
+// cut drops the fastest driven speeds until the rest is linear.
+func (f *cfgFit) cut(ws []height.Window, e *campaign.RideHeightEntry, linearSpeed bool) {
+	lv := levels(ws, f.All)
+	for n := len(lv) - 1; n >= 3; n-- {
+		top := lv[n-1][1]
+		var keep []int
+		for _, i := range f.All {
+			if ws[i].SpeedKmh <= top {
+				keep = append(keep, i)
+			}
+		}
+		p, lin := curvature(ws, keep, e, linearSpeed, f.QScale)
+		if lin != nil && p >= 0.05 {
+			f.Kept, f.Lin = keep, lin
+			f.CutKmh = 5 * math.Floor((top+lv[n][0])/2/5)
+			return
+		}
+	}
+	f.Broken = true
+}
+
+// robustScale is s = max(1, 1.4826·median|r_i|·√w_i): how much wider the
+// residuals are than the windows' standard errors say, by the median
+// absolute deviation (Huber & Ronchetti, Robust Statistics, 2nd ed., §5.1),
+// never below 1 so that well-measured windows are taken at their word.
+func robustScale(f *wlsFit) float64 {
+	a := make([]float64, len(f.Resid))
+	for i, r := range f.Resid {
+		a[i] = math.Abs(r) * math.Sqrt(f.W[i])
+	}
+	return math.Max(1, 1.4826*median(a))
+}
+
+func median(a []float64) float64 {
+	if len(a) == 0 {
+		return 0
+	}
+	b := append([]float64(nil), a...)
+	sort.Float64s(b)
+	n := len(b)
+	if n%2 == 1 {
+		return b[n/2]
+	}
+	return (b[n/2-1] + b[n/2]) / 2
+}
+
+// windowVars returns each window's variance σ_i² = max(SE_i², v̄/N_i) +
+// friction²/3, where v̄ = median_j SE_j²·N_j is the entry's pooled
+// variance-times-samples: for a stationary noise SE² ∝ 1/N, and a window
+// whose own SE came out low by chance (its lag-one correlation and spread
+// are estimated from a few effective samples) is not taken at its word.
+func windowVars(ws []height.Window, frictionMm float64) []float64 {
+	vn := make([]float64, len(ws))
+	for i, w := range ws {
+		vn[i] = w.SE * w.SE * float64(w.N)
+	}
+	pool := median(vn)
+	out := make([]float64, len(ws))
+	for i, w := range ws {
+		out[i] = math.Max(w.SE*w.SE, pool/float64(max(1, w.N))) + frictionMm*frictionMm/3 + 1e-8
+	}
+	return out
+}
