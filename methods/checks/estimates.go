@@ -128,27 +128,24 @@ func claTooLarge(est []estimate) []Check {
 	return out
 }
 
-// agreement compares an entry's estimates with the others' of the same
-// configuration and axle (inverse-variance pooled): χ² of β_E − β_O and of
-// the mirror image −Raw + Corr − β_O, each on k degrees of freedom.
-func agreement(est []estimate, id string) (pSame, pMirror float64, k int) {
+// pair compares entry a's estimates with entry b's on the quantities both
+// inform: χ² of β_a − β_b and of a's mirror image −Raw + Corr − β_b, each
+// on k degrees of freedom (k = 0: nothing shared).
+func pair(est []estimate, a, b string) (pSame, pMirror float64, k int) {
 	var same, mirror float64
-	for _, e := range byEntry(est, id) {
-		var w, wb float64
-		for _, o := range est {
-			if o.Entry == id || o.Config != e.Config || o.Axle != e.Axle || o.SD <= 0 {
+	for _, e := range byEntry(est, a) {
+		for _, o := range byEntry(est, b) {
+			if o.Config != e.Config || o.Axle != e.Axle {
 				continue
 			}
-			w += 1 / (o.SD * o.SD)
-			wb += o.beta() / (o.SD * o.SD)
+			v := e.SD*e.SD + o.SD*o.SD
+			if v <= 0 {
+				continue
+			}
+			same += math.Pow(e.beta()-o.beta(), 2) / v
+			mirror += math.Pow(e.mirror()-o.beta(), 2) / v
+			k++
 		}
-		if w == 0 {
-			continue
-		}
-		v := e.SD*e.SD + 1/w
-		same += math.Pow(e.beta()-wb/w, 2) / v
-		mirror += math.Pow(e.mirror()-wb/w, 2) / v
-		k++
 	}
 	if k == 0 {
 		return 1, 1, 0
@@ -156,33 +153,62 @@ func agreement(est []estimate, id string) (pSame, pMirror float64, k int) {
 	return chi2Survival(same, k), chi2Survival(mirror, k), k
 }
 
-// mirrorFits is the p-value above which the mirror image is taken to fit.
+// mirrorFits is the p-value above which a comparison is taken to fit.
 const mirrorFits = 0.05
 
-// mirrored reports an entry whose estimates disagree with the others'
-// (p < alphaMirror) while their mirror image agrees (p > 5 %).
+// mirrorVerdict compares an entry with every other entry it shares a
+// quantity with. A pair supports "mirrored" when the entry as measured
+// disagrees (p < 5 %) and its mirror image agrees (p > 5 %); it speaks
+// against when the reverse holds (mirror p < alphaMirror, as measured
+// p > 5 %). The entry is mirrored when at least two other entries support
+// it, none speaks against, and the strongest support has p < alphaMirror:
+// with two entries only, either could be the one flipped. The p-value is
+// the strongest support's.
+func mirrorVerdict(est []estimate, id string) (p float64, n int, against bool) {
+	p = 1
+	for _, o := range entryIDs(est) {
+		if o == id {
+			continue
+		}
+		pSame, pMirror, k := pair(est, id, o)
+		if k == 0 {
+			continue
+		}
+		switch {
+		case pSame < mirrorFits && pMirror > mirrorFits:
+			n++
+			p = math.Min(p, pSame)
+		case pMirror < alphaMirror && pSame > mirrorFits:
+			against = true
+		}
+	}
+	return p, n, against
+}
+
+// mirrored reports the entries whose lift is the mirror image of the
+// others' (mirrorVerdict).
 func mirrored(est []estimate) []Check {
 	var out []Check
 	for _, id := range entryIDs(est) {
-		pSame, pMirror, k := agreement(est, id)
-		if k == 0 || pSame >= alphaMirror || pMirror <= mirrorFits {
+		p, n, against := mirrorVerdict(est, id)
+		if n < 2 || against || p >= alphaMirror {
 			continue
 		}
-		out = append(out, Check{Check: IDMirror, Entry: id, PValue: pSame,
-			Where:  fmt.Sprintf("%d axle figures (p = %.2g as measured, %.2f mirrored)", k, pSame, pMirror),
+		out = append(out, Check{Check: IDMirror, Entry: id, PValue: p,
+			Where:  fmt.Sprintf("against %d other entries", n),
 			Cause:  "the entry's lift is the mirror image of the other entries': unit or sign slip? (tap pressures with the wrong sign, a sensor's gain sign, a reference port swapped)",
 			Action: fmt.Sprintf("check the sign convention of %s's data against the others' and re-reduce", id)})
 	}
 	return out
 }
 
-// confirmGain drops a negative-gain note when other entries on the axle
-// agree with the entry as measured (p ≥ 5 %).
+// confirmGain drops a negative-gain note when another entry agrees with the
+// entry as measured and not with its mirror image.
 func confirmGain(cs []Check, est []estimate) []Check {
 	var out []Check
 	for _, c := range cs {
 		if c.Check == IDGainNegative {
-			if pSame, _, k := agreement(est, c.Entry); k > 0 && pSame >= mirrorFits {
+			if _, _, against := mirrorVerdict(est, c.Entry); against {
 				continue
 			}
 		}

@@ -40,23 +40,20 @@ const residualSD = 4
 
 // residuals reports windows whose internally studentised residual
 // z_i = r_i·√w_i / (s·√(1 − h_ii)) from the linear fit exceeds 4 in size and
-// whose Bonferroni p-value n·P(|T_ν| > |z_i|) is below alphaResidual (s is
-// the robust scale of the fit, at least 1). A window's standard error is
-// itself estimated from few effective samples, so z_i is referred to
-// Student's t with the window's degrees of freedom (windowDOF), not to the
-// normal: with n_eff ≈ 5 a 4-sd residual is common.
+// whose Bonferroni p-value n·P(|Z| > |z_i|) is below alphaResidual (s is
+// the robust scale of the fit, at least 1; the windows' variances are
+// pooled, windowVars).
 func residuals(r *height.Result, fits []cfgFit) []Check {
 	n := 0
 	for _, f := range fits {
 		n += len(f.Kept)
 	}
-	vars := windowVars(r.Windows, r.Entry.FrictionMm)
 	var out []Check
 	for _, f := range fits {
 		for k, i := range f.Kept {
 			lev := math.Min(f.Lin.Lev[k], 0.99)
 			z := f.Lin.Resid[k] * math.Sqrt(f.Lin.W[k]) / (f.Scale * math.Sqrt(1-lev))
-			p := math.Min(1, float64(n)*tTwoSided(z, windowDOF(r.Windows[i], vars[i], r.Entry.FrictionMm*r.Entry.FrictionMm/3)))
+			p := math.Min(1, float64(n)*normTwoSided(z))
 			if math.Abs(z) <= residualSD || p >= alphaResidual {
 				continue
 			}
@@ -112,17 +109,3 @@ func heightEstimates(c *campaign.Campaign, r *height.Result, fits []cfgFit) []es
 	return out
 }
 
-// windowDOF is the degrees of freedom of a window's variance
-// σ² = max(SE², pooled) + f (see windowVars, f = friction²/3): a pooled
-// variance is taken as known; the window's own SE² has n_eff − 1, widened
-// by the known friction part by Satterthwaite's approximation
-// ν = σ⁴/(SE⁴/(n_eff − 1)) (Satterthwaite 1946, Biometrics Bulletin
-// 2(6):110–114).
-func windowDOF(w height.Window, v, f float64) float64 {
-	se2 := w.SE * w.SE
-	if se2 <= 0 || se2+f+1e-8 < 0.999*v {
-		return 1e6
-	}
-	nu := math.Max(1, w.NEff-1)
-	return nu * math.Pow(v/se2, 2)
-}

@@ -223,20 +223,41 @@ func median(a []float64) float64 {
 	return (b[n/2-1] + b[n/2]) / 2
 }
 
-// windowVars returns each window's variance σ_i² = max(SE_i², v̄/N_i) +
-// friction²/3, where v̄ = median_j SE_j²·N_j is the entry's pooled
-// variance-times-samples: for a stationary noise SE² ∝ 1/N, and a window
-// whose own SE came out low by chance (its lag-one correlation and spread
-// are estimated from a few effective samples) is not taken at its word.
+// windowVars returns each window's variance σ_i² = v_i/N_i + friction²/3,
+// where v_i is the pooled variance-times-samples SE²·N (for a stationary
+// noise SE² ∝ 1/N): the larger of the median over the entry's windows and
+// the median over the windows at the same driven speed (when there are at
+// least three; road noise grows with speed). A window's own SE is not taken
+// at its word: estimated from a few effective samples it comes out low by
+// chance, and a gust or a bump inside a window inflates it, which would
+// hide the very upset the residual check looks for.
 func windowVars(ws []height.Window, frictionMm float64) []float64 {
 	vn := make([]float64, len(ws))
+	idx := make([]int, len(ws))
 	for i, w := range ws {
 		vn[i] = w.SE * w.SE * float64(w.N)
+		idx[i] = i
 	}
 	pool := median(vn)
+	level := make([]float64, len(ws))
+	for _, lv := range levels(ws, idx) {
+		var in []float64
+		var members []int
+		for i, w := range ws {
+			if w.SpeedKmh >= lv[0] && w.SpeedKmh <= lv[1] {
+				in = append(in, vn[i])
+				members = append(members, i)
+			}
+		}
+		if len(in) >= 3 {
+			for _, i := range members {
+				level[i] = median(in)
+			}
+		}
+	}
 	out := make([]float64, len(ws))
 	for i, w := range ws {
-		out[i] = math.Max(w.SE*w.SE, pool/float64(max(1, w.N))) + frictionMm*frictionMm/3 + 1e-8
+		out[i] = math.Max(pool, level[i])/float64(max(1, w.N)) + frictionMm*frictionMm/3 + 1e-8
 	}
 	return out
 }

@@ -37,14 +37,18 @@ vortex:
 `
 
 // day is one simulated day's text, its fault-free truth drawn from the
-// priors the campaign declares (as fuse's coverage test does).
-func day(t *testing.T, seed int, wing string) string {
+// priors the campaign declares (as fuse's coverage test does); base and
+// wing, when not "", replace the drawn lifts.
+func day(t *testing.T, seed int, base, wing string) string {
 	t.Helper()
 	rng := rand.New(rand.NewPCG(uint64(seed), 5))
 	logn := func(sd float64) float64 { return math.Exp(sd * rng.NormFloat64()) }
 	truth := fmt.Sprintf("front_spring_scale: %.4f, rear_spring_scale: %.4f, drag_scale: %.4f, pressure_scale: %.4f, tyre_growth_mm: %.3f",
 		logn(math.Hypot(0.05, 2*0.02/0.9)), logn(math.Hypot(0.05, 2*0.02/0.85)), logn(0.2), logn(0.2), 0.5+0.5*rng.NormFloat64())
-	base := fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64())
+	b0 := fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64())
+	if base == "" {
+		base = b0
+	}
 	if wing == "" {
 		wing = fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64())
 	}

@@ -53,12 +53,13 @@ func meanCp(r *pressure.Result, id, config string, sigma float64) tapCp {
 }
 
 // Blocked-tap thresholds (common practice, no source): a tap reads "near
-// zero" when |Cp| < 0.05 and under a fifth of its neighbours', which must
-// share a sign and reach |Cp| ≥ 0.15: a smooth pressure field between two
+// zero" when |Cp| < 0.03 and under a quarter of its neighbours', which must
+// share a sign and reach |Cp| ≥ 0.08: a smooth pressure field between two
 // suctions (or two overpressures) does not dip to ambient.
 const (
-	cpZero      = 0.05
-	cpNeighbour = 0.15
+	cpZero      = 0.03
+	cpNeighbour = 0.08
+	cpRatio     = 0.25
 )
 
 // neighbours returns the nearest tap ahead and the nearest behind on the
@@ -106,7 +107,7 @@ func tapBlocked(c *campaign.Campaign, r *pressure.Result) []Check {
 			for _, j := range nb {
 				n := meanCp(r, r.Panels[j].ID, cfg.ID, sigma)
 				s := math.Copysign(1, n.Cp)
-				if math.Abs(n.Cp) < cpNeighbour || math.Abs(t.Cp) > 0.2*math.Abs(n.Cp) || (sign != 0 && s != sign) {
+				if math.Abs(n.Cp) < cpNeighbour || math.Abs(t.Cp) > cpRatio*math.Abs(n.Cp) || (sign != 0 && s != sign) {
 					ok = false
 					break
 				}

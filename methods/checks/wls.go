@@ -125,7 +125,3 @@ func normTwoSided(z float64) float64 {
 	return 2 * distuv.UnitNormal.Survival(math.Abs(z))
 }
 
-// tTwoSided is P(|T_ν| > |t|) for Student's t with ν degrees of freedom.
-func tTwoSided(t, nu float64) float64 {
-	return 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: nu}.Survival(math.Abs(t))
-}
