@@ -35,9 +35,10 @@ type cfgFit struct {
 // speedLevelGapKmh separates two driven speeds (common practice, no source).
 const speedLevelGapKmh = 5
 
-// design builds the model's rows for windows idx; quad adds (q/QScale)².
+// design builds the model's rows for windows idx; extra, when not nil,
+// adds a column of the normalised q/QScale (a curvature or hinge term).
 // The q column is always column 0.
-func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed, quad bool, qs float64) ([][]float64, []float64, []float64) {
+func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, extra func(qn float64) float64, qs float64) ([][]float64, []float64, []float64) {
 	logCol := map[int]int{}
 	var logs []int
 	dirs := map[int]bool{}
@@ -90,8 +91,8 @@ func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSp
 				row = append(row, v)
 			}
 		}
-		if quad {
-			row = append(row, qn*qn)
+		if extra != nil {
+			row = append(row, extra(qn))
 		}
 		x = append(x, row)
 		y = append(y, win.HeightMM)
@@ -100,23 +101,47 @@ func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSp
 	return x, y, w
 }
 
-// curvature fits windows idx with and without the q² term and returns the
-// F test's p-value and the linear fit (nil when the data cannot tell).
+// curvature tests the linear model of windows idx against two kinds of
+// departure: a q² term (progressive springs, a smooth stiffening), and a
+// hinge max(0, q − q_k) at each knot q_k halfway (in q) between two driven
+// speeds with at least three speeds below it and one above (a bump stop
+// or end stop met between them). Each is an extra-sum-of-squares F test;
+// the p-value is the smallest times the number of tests (Bonferroni). It
+// returns that p-value and the linear fit (nil when the data cannot tell).
 func curvature(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, qs float64) (float64, *wlsFit) {
-	x0, y, w := design(ws, idx, e, linearSpeed, false, qs)
+	x0, y, w := design(ws, idx, e, linearSpeed, nil, qs)
 	lin, err := wls(x0, y, w)
 	if err != nil {
 		return 1, nil
 	}
-	if len(levels(ws, idx)) < 3 {
+	lv := levels(ws, idx)
+	if len(lv) < 3 {
 		return 1, lin
 	}
-	x1, _, _ := design(ws, idx, e, linearSpeed, true, qs)
-	full, err := wls(x1, y, w)
-	if err != nil || full.DF < 2 {
-		return 1, lin
+	extras := []func(float64) float64{func(qn float64) float64 { return qn * qn }}
+	for k := 3; k < len(lv); k++ {
+		lo, hi := math.Inf(-1), math.Inf(1)
+		for _, i := range idx {
+			switch v := ws[i].SpeedKmh; {
+			case v <= lv[k-1][1]:
+				lo = math.Max(lo, ws[i].Q)
+			case v >= lv[k][0]:
+				hi = math.Min(hi, ws[i].Q)
+			}
+		}
+		knot := (lo + hi) / 2 / qs
+		extras = append(extras, func(qn float64) float64 { return math.Max(0, qn-knot) })
 	}
-	return fTest(lin, full), lin
+	best := 1.0
+	for _, ex := range extras {
+		x1, _, _ := design(ws, idx, e, linearSpeed, ex, qs)
+		full, err := wls(x1, y, w)
+		if err != nil || full.DF < 2 {
+			continue
+		}
+		best = math.Min(best, fTest(lin, full))
+	}
+	return math.Min(1, best*float64(len(extras))), lin
 }
 
 // levels groups the windows' speeds into driven speeds (gaps of at least
@@ -230,15 +255,22 @@ func median(a []float64) float64 {
 // least three; road noise grows with speed). A window's own SE is not taken
 // at its word: estimated from a few effective samples it comes out low by
 // chance, and a gust or a bump inside a window inflates it, which would
-// hide the very upset the residual check looks for.
+// hide the very upset the residual check looks for. Each SE²·N is roughly
+// a scaled χ²_ν/ν with ν = n_eff − 1, whose median lies below its mean by
+// the factor (1 − 2/(9ν))³ (Wilson & Hilferty 1931, PNAS 17:684–688); the
+// medians are divided by it.
 func windowVars(ws []height.Window, frictionMm float64) []float64 {
 	vn := make([]float64, len(ws))
 	idx := make([]int, len(ws))
+	ne := make([]float64, len(ws))
 	for i, w := range ws {
 		vn[i] = w.SE * w.SE * float64(w.N)
 		idx[i] = i
+		ne[i] = w.NEff
 	}
-	pool := median(vn)
+	nu := math.Max(2, median(ne)-1)
+	unbias := math.Pow(1-2/(9*nu), 3)
+	pool := median(vn) / unbias
 	level := make([]float64, len(ws))
 	for _, lv := range levels(ws, idx) {
 		var in []float64
@@ -251,7 +283,7 @@ func windowVars(ws []height.Window, frictionMm float64) []float64 {
 		}
 		if len(in) >= 3 {
 			for _, i := range members {
-				level[i] = median(in)
+				level[i] = median(in) / unbias
 			}
 		}
 	}

@@ -26,11 +26,12 @@ configurations:
   - {id: base, %[4]s}
   - {id: wing, %[5]s}
 air: {temperature_c: 15, pressure_hpa: 1000, humidity_pct: 70, wind_sd_ms: 1.0, wind_ms: %[3]g}
+prior: {speed_model: %[9]s}
 truth: {%[2]s}
 runs: {speeds_kmh: [80, 120, 150], repeats: 2, hold_s: 12, rate_hz: 10}
 ride_height:
-  - {id: fpot, axle: front, sensor: pot, noise_mm: 0.3, gain_error_pct: %[6]g}
-  - {id: rpot, axle: rear, sensor: pot, noise_mm: 0.3, gain_error_pct: %[7]g}
+  - {id: fpot, axle: front, sensor: pot, noise_mm: 0.3, gain_error_pct: %[6]g, friction_mm: %[10]g}
+  - {id: rpot, axle: rear, sensor: pot, noise_mm: 0.3, gain_error_pct: %[7]g, friction_mm: %[10]g}
   - {id: rlaser, axle: rear, sensor: laser, noise_mm: 0.4, gain_error_pct: %[8]g}
 vortex:
   - {id: tuft, side: right, speeds_kmh: [80, 120, 150], misread: 0.05}
@@ -38,21 +39,31 @@ vortex:
 
 // day is one simulated day's text, its fault-free truth drawn from the
 // priors the campaign declares (as fuse's coverage test does); base and
-// wing, when not "", replace the drawn lifts.
+// wing, when not "", replace the drawn lifts. Odd seeds make a day of
+// speed_model: linear, whose drawn lifts change with speed (slopes of
+// 0.1 m² per 100 km/h sd), and whose pots stick by ±0.1 mm (friction).
 func day(t *testing.T, seed int, base, wing string) string {
 	t.Helper()
 	rng := rand.New(rand.NewPCG(uint64(seed), 5))
 	logn := func(sd float64) float64 { return math.Exp(sd * rng.NormFloat64()) }
 	truth := fmt.Sprintf("front_spring_scale: %.4f, rear_spring_scale: %.4f, drag_scale: %.4f, pressure_scale: %.4f, tyre_growth_mm: %.3f",
 		logn(math.Hypot(0.05, 2*0.02/0.9)), logn(math.Hypot(0.05, 2*0.02/0.85)), logn(0.2), logn(0.2), 0.5+0.5*rng.NormFloat64())
-	b0 := fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64())
+	model, friction := "constant", 0.0
+	slopes := func() string { return "" }
+	if seed%2 == 1 {
+		model, friction = "linear", 0.1
+		slopes = func() string {
+			return fmt.Sprintf(", front_slope_m2: %.3f, rear_slope_m2: %.3f", 0.1*rng.NormFloat64(), 0.1*rng.NormFloat64())
+		}
+	}
+	b0 := fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64()) + slopes()
 	if base == "" {
 		base = b0
 	}
 	if wing == "" {
-		wing = fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64())
+		wing = fmt.Sprintf("front_cla_m2: %.3f, rear_cla_m2: %.3f", 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64()) + slopes()
 	}
-	text := fmt.Sprintf(daySpec, seed, truth, rng.NormFloat64(), base, wing, rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64())
+	text := fmt.Sprintf(daySpec, seed, truth, rng.NormFloat64(), base, wing, rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64(), model, friction)
 	car, err := os.ReadFile("../../testdata/sim/test-car.yaml")
 	if err != nil {
 		t.Fatal(err)
