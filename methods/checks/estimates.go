@@ -19,12 +19,12 @@ import (
 // standard deviation, systematic parts (stiffness, gain, integration
 // scale, drag pitch) included.
 type estimate struct {
-	Entry      string
-	Kind       evidence.Kind
-	Config     string
-	Axle       string
-	Raw, Corr  float64
-	SD         float64
+	Entry     string
+	Kind      evidence.Kind
+	Config    string
+	Axle      string
+	Raw, Corr float64
+	SD        float64
 }
 
 func (e estimate) beta() float64   { return e.Raw + e.Corr }

@@ -108,4 +108,3 @@ func heightEstimates(c *campaign.Campaign, r *height.Result, fits []cfgFit) []es
 	}
 	return out
 }
-

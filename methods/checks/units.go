@@ -106,6 +106,7 @@ func speedUnits(c *campaign.Campaign, r *methods.Reduced) []Check {
 	}
 	return out
 }
+
 // unitSlip applies the rule to one top speed.
 func unitSlip(entry, where string, top, ref float64) (Check, bool) {
 	if top <= 0 {
@@ -127,4 +128,3 @@ func unitSlip(entry, where string, top, ref float64) (Check, bool) {
 }
 
 func within(ratio float64) bool { return ratio >= unitRatioLo && ratio <= unitRatioHi }
-

@@ -124,4 +124,3 @@ func chi2Survival(x float64, k int) float64 {
 func normTwoSided(z float64) float64 {
 	return 2 * distuv.UnitNormal.Survival(math.Abs(z))
 }
-
