@@ -67,6 +67,9 @@ const (
 // Run returns every tripped model check of a reduced campaign, entry by
 // entry in the order of r.Entries, then the cross-entry checks.
 func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
+	if c == nil || r == nil {
+		return nil
+	}
 	var out []Check
 	var est []estimate
 	for _, e := range r.Entries {
@@ -74,7 +77,7 @@ func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
 		case *height.Result:
 			fits := heightFits(c, d)
 			out = append(out, notLinear(d, fits)...)
-			out = append(out, residuals(d, fits)...)
+			out = append(out, residuals(c, d, fits)...)
 			out = append(out, negativeGain(d)...)
 			est = append(est, heightEstimates(c, d, fits)...)
 		case *pressure.Result:

@@ -36,6 +36,11 @@ func TestPlantedFaults(t *testing.T) {
 					}
 				}
 				if hit {
+					if d == 0 {
+						for _, ch := range cs {
+							t.Logf("example: %s", ch)
+						}
+					}
 					found++
 				} else {
 					t.Logf("day %d: missed; checks: %v", seed, cs)

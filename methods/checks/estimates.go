@@ -197,7 +197,7 @@ func mirrored(est []estimate) []Check {
 		out = append(out, Check{Check: IDMirror, Entry: id, PValue: p,
 			Where:  fmt.Sprintf("against %d other entries", n),
 			Cause:  "the entry's lift is the mirror image of the other entries': unit or sign slip? (tap pressures with the wrong sign, a sensor's gain sign, a reference port swapped)",
-			Action: fmt.Sprintf("check the sign convention of %s's data against the others' and re-reduce", id)})
+			Action: fmt.Sprintf("check the sign convention of the data of %s against the others' and re-reduce", id)})
 	}
 	return out
 }

@@ -38,34 +38,61 @@ func notLinear(r *height.Result, fits []cfgFit) []Check {
 // reported (model.md).
 const residualSD = 4
 
+// maxOutliers bounds the windows reported per configuration.
+const maxOutliers = 3
+
 // residuals reports windows whose internally studentised residual
 // z_i = r_i·√w_i / (s·√(1 − h_ii)) from the linear fit exceeds 4 in size and
 // whose Bonferroni p-value n·P(|Z| > |z_i|) is below alphaResidual (s is
 // the robust scale of the fit, at least 1; the windows' variances are
-// pooled, windowVars).
-func residuals(r *height.Result, fits []cfgFit) []Check {
+// pooled, windowVars). The worst window is taken out and the rest refitted
+// before the next is looked at, so that one upset window, pulling the line,
+// does not make a good one look off (swamping; Barnett & Lewis, Outliers in
+// Statistical Data, 3rd ed., §2.3).
+func residuals(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
 	n := 0
 	for _, f := range fits {
 		n += len(f.Kept)
 	}
+	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
 	var out []Check
 	for _, f := range fits {
-		for k, i := range f.Kept {
-			lev := math.Min(f.Lin.Lev[k], 0.99)
-			z := f.Lin.Resid[k] * math.Sqrt(f.Lin.W[k]) / (f.Scale * math.Sqrt(1-lev))
+		kept, fit := f.Kept, f.Lin
+		for range maxOutliers {
+			k, z := worst(fit, robustScale(fit))
 			p := math.Min(1, float64(n)*normTwoSided(z))
-			if math.Abs(z) <= residualSD || p >= alphaResidual {
-				continue
+			if k < 0 || math.Abs(z) <= residualSD || p >= alphaResidual {
+				break
 			}
-			w := r.Windows[i]
+			w := r.Windows[kept[k]]
 			out = append(out, Check{Check: IDWindowResidual, Entry: r.Entry.ID, Config: f.Config, PValue: p,
-				Where: fmt.Sprintf("log %s, %.0f–%.0f s at %.0f km/h (%+.2f mm, %.1f sd)", r.Entry.Logs[w.Log].File, w.From, w.To, w.SpeedKmh, f.Lin.Resid[k], z),
+				Where: fmt.Sprintf("log %s, %.0f–%.0f s at %.0f km/h (%+.2f mm, %.1f sd)", r.Entry.Logs[w.Log].File, w.From, w.To, w.SpeedKmh, fit.Resid[k], z),
 				Cause: "one window is off the line of the others: a gust, a bump or crest, traffic, or a driver input",
 				Action: fmt.Sprintf("look at the trace of %s over %.0f–%.0f s and cut that stretch from the log's segments if it was not steady",
 					r.Entry.ID, w.From, w.To)})
+			kept = append(append([]int(nil), kept[:k]...), kept[k+1:]...)
+			x, y, wt := design(r.Windows, kept, r.Entry, linearSpeed, nil, f.QScale)
+			var err error
+			if fit, err = wls(x, y, wt); err != nil {
+				break
+			}
 		}
 	}
 	return out
+}
+
+// worst returns the row with the largest studentised residual and that
+// residual, or −1.
+func worst(fit *wlsFit, scale float64) (int, float64) {
+	k, zk := -1, 0.0
+	for i := range fit.Resid {
+		lev := math.Min(fit.Lev[i], 0.99)
+		z := fit.Resid[i] * math.Sqrt(fit.W[i]) / (scale * math.Sqrt(1-lev))
+		if math.Abs(z) > math.Abs(zk) {
+			k, zk = i, z
+		}
+	}
+	return k, zk
 }
 
 // negativeGain notes a negative calibration gain (mm per unit of signal);

@@ -78,11 +78,11 @@ func TestResidualSynthetic(t *testing.T) {
 	line := func(q float64) float64 { return -q * 0.25 / 50 }
 	for seed := uint64(1); seed <= 5; seed++ {
 		c, r := synthetic(seed, line)
-		if got := residuals(r, heightFits(c, r)); len(got) > 0 {
+		if got := residuals(c, r, heightFits(c, r)); len(got) > 0 {
 			t.Errorf("seed %d: clean line tripped %v", seed, got)
 		}
 		r.Windows[12].HeightMM += 1
-		got := residuals(r, heightFits(c, r))
+		got := residuals(c, r, heightFits(c, r))
 		if len(got) != 1 || !strings.Contains(got[0].Where, "360–370 s") || math.IsNaN(got[0].PValue) {
 			t.Errorf("seed %d: %v, want the window at 360–370 s", seed, got)
 		}

@@ -166,7 +166,7 @@ func levels(ws []height.Window, idx []int) [][2]float64 {
 // heightFits fits every configuration of a ride-height entry. When the
 // curvature test trips, the fastest driven speed is dropped until what is
 // left is linear (at a lenient 5 %); the cut lies halfway between the last
-// speed kept and the first dropped, rounded down to 5 km/h.
+// speed kept and the first dropped, rounded to 5 km/h.
 func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
 	var order []string
@@ -216,7 +216,7 @@ func (f *cfgFit) cut(ws []height.Window, e *campaign.RideHeightEntry, linearSpee
 		p, lin := curvature(ws, keep, e, linearSpeed, f.QScale)
 		if lin != nil && p >= 0.05 {
 			f.Kept, f.Lin = keep, lin
-			f.CutKmh = 5 * math.Floor((top+lv[n][0])/2/5)
+			f.CutKmh = 5 * math.Round((top+lv[n][0])/2/5)
 			return
 		}
 	}
