@@ -57,7 +57,7 @@ const (
 const (
 	alphaNotLinear = 0.002
 	alphaResidual  = 0.002
-	alphaTapSpeed  = 0.004
+	alphaTapSpeed  = 0.003
 	alphaCpHigh    = 0.002
 	alphaBlocked   = 0.001
 	alphaMirror    = 0.002

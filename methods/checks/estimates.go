@@ -3,7 +3,9 @@ package checks
 import (
 	"fmt"
 	"math"
+	"strings"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods/campaign"
@@ -15,20 +17,53 @@ import (
 // (m², at 100 km/h for ride heights, at the readings' speeds for taps):
 // β = Raw + Corr, where Raw is what the entry measured and Corr what the
 // campaign adds (a laser's tyre-growth prior, the pitch of drag, uncovered
-// patches). A sign slip in the data flips Raw and keeps Corr. SD is its
-// standard deviation, systematic parts (stiffness, gain, integration
-// scale, drag pitch) included.
+// patches). A sign slip in the data flips Raw and keeps Corr.
+//
+// Its errors are Stat, the entry's own noise (independent between
+// configurations), and named systematic errors, with the names of the
+// evidence (the axle's springs, a sensor's gain, the tyre growth, the pitch
+// of drag, an integration scale) so that an error two entries share is
+// counted once when they are compared: Abs[name] is an error's size in m²,
+// Rel[name] its relative size (the error is β·Rel). SD is the total.
 type estimate struct {
 	Entry     string
 	Kind      evidence.Kind
 	Config    string
 	Axle      string
 	Raw, Corr float64
+	Stat      float64
+	Abs, Rel  map[string]float64
 	SD        float64
 }
 
 func (e estimate) beta() float64   { return e.Raw + e.Corr }
 func (e estimate) mirror() float64 { return -e.Raw + e.Corr }
+
+// comp returns the size of the named error at lift b.
+func (e estimate) comp(name string, b float64) float64 { return e.Abs[name] + b*e.Rel[name] }
+
+// names lists the estimate's systematic errors.
+func (e estimate) names() []string {
+	var out []string
+	for n := range e.Abs {
+		out = append(out, n)
+	}
+	for n := range e.Rel {
+		if _, ok := e.Abs[n]; !ok {
+			out = append(out, n)
+		}
+	}
+	return out
+}
+
+// total sets SD from Stat and the systematic errors at β.
+func (e *estimate) total() {
+	v := e.Stat * e.Stat
+	for _, n := range e.names() {
+		v += math.Pow(e.comp(n, e.beta()), 2)
+	}
+	e.SD = math.Sqrt(v)
+}
 
 // pressureEstimates averages the readings' implied C_L·A per configuration
 // and axle and adds back the pitch of drag m = C_D·A·h/L (taps carry β_f − m
@@ -61,21 +96,25 @@ func pressureEstimates(c *campaign.Campaign, r *pressure.Result) []estimate {
 				continue
 			}
 			raw, v := meanVar(xs)
-			corr, cv := m, msd*msd
+			e := estimate{Entry: r.Entry.ID, Kind: evidence.KindPressure, Config: cfg.ID, Axle: axle, Raw: raw,
+				Stat: math.Sqrt(v / float64(len(xs))), Abs: map[string]float64{}, Rel: map[string]float64{}}
+			e.Corr, e.Abs[pressure.DragPitchName] = m, msd
 			if axle == evidence.AxleRear {
-				corr = -m
+				e.Corr, e.Abs[pressure.DragPitchName] = -m, -msd
 			}
-			for _, u := range r.Entry.Uncovered {
+			for j, u := range r.Entry.Uncovered {
 				share := 1 - u.XM/L
 				if axle == evidence.AxleRear {
 					share = u.XM / L
 				}
-				corr += -u.CpMean * u.AreaM2 * u.Nz * share
-				cv += math.Pow(u.CpSD*u.AreaM2*u.Nz*share, 2)
+				e.Corr += -u.CpMean * u.AreaM2 * u.Nz * share
+				e.Abs[fmt.Sprintf("%s/uncovered[%d]", r.Entry.ID, j)] = -u.CpSD * u.AreaM2 * u.Nz * share
 			}
-			beta := raw + corr
-			out = append(out, estimate{Entry: r.Entry.ID, Kind: evidence.KindPressure, Config: cfg.ID, Axle: axle,
-				Raw: raw, Corr: corr, SD: math.Sqrt(v/float64(len(xs)) + cv + rel*rel*beta*beta)})
+			if rel > 0 {
+				e.Rel[r.Entry.ID+"/integration"] = rel
+			}
+			e.total()
+			out = append(out, e)
 		}
 	}
 	return out
@@ -129,28 +168,83 @@ func claTooLarge(est []estimate) []Check {
 }
 
 // pair compares entry a's estimates with entry b's on the quantities both
-// inform: χ² of β_a − β_b and of a's mirror image −Raw + Corr − β_b, each
-// on k degrees of freedom (k = 0: nothing shared).
+// inform: χ² = δᵀC⁻¹δ of δ = β_a − β_b, and of a's mirror image
+// −Raw + Corr − β_b, each on k degrees of freedom (k = 0: nothing shared).
+// C holds both entries' noise and their systematic errors, a named error
+// the two share entering the difference once, with both coefficients
+// (pairCov).
 func pair(est []estimate, a, b string) (pSame, pMirror float64, k int) {
-	var same, mirror float64
+	var ea, eb []estimate
 	for _, e := range byEntry(est, a) {
 		for _, o := range byEntry(est, b) {
-			if o.Config != e.Config || o.Axle != e.Axle {
-				continue
+			if o.Config == e.Config && o.Axle == e.Axle {
+				ea, eb = append(ea, e), append(eb, o)
 			}
-			v := e.SD*e.SD + o.SD*o.SD
-			if v <= 0 {
-				continue
-			}
-			same += math.Pow(e.beta()-o.beta(), 2) / v
-			mirror += math.Pow(e.mirror()-o.beta(), 2) / v
-			k++
 		}
 	}
+	k = len(ea)
 	if k == 0 {
 		return 1, 1, 0
 	}
-	return chi2Survival(same, k), chi2Survival(mirror, k), k
+	chi := func(mirror bool) float64 {
+		d := make([]float64, k)
+		ba := make([]float64, k)
+		for i := range ea {
+			ba[i] = ea[i].beta()
+			if mirror {
+				ba[i] = ea[i].mirror()
+			}
+			d[i] = ba[i] - eb[i].beta()
+		}
+		return quadForm(pairCov(ea, eb, ba), d)
+	}
+	return chi2Survival(chi(false), k), chi2Survival(chi(true), k), k
+}
+
+// pairCov is the covariance of β_a,i − β_b,i: each error named in either
+// entry contributes g_i g_j with g_i = comp_a,i(name) − comp_b,i(name); the
+// noise adds Stat² on the diagonal. ba are a's lifts (measured or
+// mirrored), at which its relative errors are sized.
+func pairCov(ea, eb []estimate, ba []float64) *mat.SymDense {
+	k := len(ea)
+	names := map[string]bool{}
+	for i := range ea {
+		for _, n := range ea[i].names() {
+			names[n] = true
+		}
+		for _, n := range eb[i].names() {
+			names[n] = true
+		}
+	}
+	c := mat.NewSymDense(k, nil)
+	for n := range names {
+		g := make([]float64, k)
+		for i := range ea {
+			g[i] = ea[i].comp(n, ba[i]) - eb[i].comp(n, eb[i].beta())
+		}
+		for i := range k {
+			for j := i; j < k; j++ {
+				c.SetSym(i, j, c.At(i, j)+g[i]*g[j])
+			}
+		}
+	}
+	for i := range k {
+		c.SetSym(i, i, c.At(i, i)+ea[i].Stat*ea[i].Stat+eb[i].Stat*eb[i].Stat+1e-12)
+	}
+	return c
+}
+
+// quadForm returns dᵀC⁻¹d (+Inf when C is singular).
+func quadForm(c *mat.SymDense, d []float64) float64 {
+	var ch mat.Cholesky
+	if !ch.Factorize(c) {
+		return math.Inf(1)
+	}
+	x := mat.NewVecDense(len(d), nil)
+	if err := ch.SolveVecTo(x, mat.NewVecDense(len(d), append([]float64(nil), d...))); err != nil {
+		return math.Inf(1)
+	}
+	return mat.Dot(x, mat.NewVecDense(len(d), d))
 }
 
 // mirrorFits is the p-value above which a comparison is taken to fit.
@@ -160,11 +254,9 @@ const mirrorFits = 0.05
 // quantity with. A pair supports "mirrored" when the entry as measured
 // disagrees (p < 5 %) and its mirror image agrees (p > 5 %); it speaks
 // against when the reverse holds (mirror p < alphaMirror, as measured
-// p > 5 %). The entry is mirrored when at least two other entries support
-// it, none speaks against, and the strongest support has p < alphaMirror:
-// with two entries only, either could be the one flipped. The p-value is
-// the strongest support's.
-func mirrorVerdict(est []estimate, id string) (p float64, n int, against bool) {
+// p > 5 %). It returns the strongest support's p-value, the supporters and
+// whether any pair speaks against.
+func mirrorVerdict(est []estimate, id string) (p float64, supporters []string, against bool) {
 	p = 1
 	for _, o := range entryIDs(est) {
 		if o == id {
@@ -176,26 +268,49 @@ func mirrorVerdict(est []estimate, id string) (p float64, n int, against bool) {
 		}
 		switch {
 		case pSame < mirrorFits && pMirror > mirrorFits:
-			n++
+			supporters = append(supporters, o)
 			p = math.Min(p, pSame)
 		case pMirror < alphaMirror && pSame > mirrorFits:
 			against = true
 		}
 	}
-	return p, n, against
+	return p, supporters, against
+}
+
+// corroborated says whether entry s agrees, as measured, with some entry
+// other than id and disagrees with none (at alphaMirror).
+func corroborated(est []estimate, s, id string) bool {
+	agree := false
+	for _, o := range entryIDs(est) {
+		if o == s || o == id {
+			continue
+		}
+		pSame, _, k := pair(est, s, o)
+		if k == 0 {
+			continue
+		}
+		if pSame < alphaMirror {
+			return false
+		}
+		agree = agree || pSame > mirrorFits
+	}
+	return agree
 }
 
 // mirrored reports the entries whose lift is the mirror image of the
-// others' (mirrorVerdict).
+// others': the strongest support has p < alphaMirror, no pair speaks
+// against, and either two other entries support it or the one that does is
+// corroborated by a third. With two entries alone either could be the one
+// flipped, and nothing is said.
 func mirrored(est []estimate) []Check {
 	var out []Check
 	for _, id := range entryIDs(est) {
-		p, n, against := mirrorVerdict(est, id)
-		if n < 2 || against || p >= alphaMirror {
+		p, sup, against := mirrorVerdict(est, id)
+		if against || p >= alphaMirror || len(sup) == 0 || (len(sup) == 1 && !corroborated(est, sup[0], id)) {
 			continue
 		}
 		out = append(out, Check{Check: IDMirror, Entry: id, PValue: p,
-			Where:  fmt.Sprintf("against %d other entries", n),
+			Where:  fmt.Sprintf("against %s", strings.Join(sup, ", ")),
 			Cause:  "the entry's lift is the mirror image of the other entries': unit or sign slip? (tap pressures with the wrong sign, a sensor's gain sign, a reference port swapped)",
 			Action: fmt.Sprintf("check the sign convention of the data of %s against the others' and re-reduce", id)})
 	}

@@ -24,6 +24,7 @@ type fault struct {
 	plant func(t *testing.T, dir string, seed int)
 	check string
 	entry string
+	min   float64 // share of days it must be found on
 }
 
 // loaded reads the simulated campaign before planting, for its segments
@@ -168,13 +169,17 @@ func negativeGain(t *testing.T, dir string, _ int) {
 	}
 }
 
+// faults lists the planted errors. The share of days each must be found
+// on is 95 %, less for two whose size depends on the day's drawn truth: a
+// 2 mm upset over half a window (90 %), and inverted taps, which a pitch of
+// drag drawn 3–4 sd from its prior can hide (85 %).
 var faults = []fault{
-	{"bump stop", "", "front_cla_m2: 0.12, rear_cla_m2: -0.25", bumpStop, "height-not-linear", "rpot"},
-	{"gust", "", "", gust, "window-residual", "fpot"},
-	{"blocked tap", "", "", blockedTap, "tap-blocked", "taps"},
-	{"leaking tap", "", "", leakingTap, "tap-cp-speed", "taps"},
-	{"Cp above 1.05", "", "", highCp, "tap-cp-high", "taps"},
-	{"inverted taps", "front_cla_m2: 0.10, rear_cla_m2: 0.08", "front_cla_m2: 0.12, rear_cla_m2: -0.06", invertedTaps, "entry-mirrored", "taps"},
-	{"m/s under km/h", "", "", msUnderKmh, "speed-units", "fpot"},
-	{"negative gain", "", "", negativeGain, "gain-negative", "rpot"},
+	{"bump stop", "", "front_cla_m2: 0.12, rear_cla_m2: -0.25", bumpStop, "height-not-linear", "rpot", 0.95},
+	{"gust", "", "", gust, "window-residual", "fpot", 0.9},
+	{"blocked tap", "", "", blockedTap, "tap-blocked", "taps", 0.95},
+	{"leaking tap", "", "", leakingTap, "tap-cp-speed", "taps", 0.95},
+	{"Cp above 1.05", "", "", highCp, "tap-cp-high", "taps", 0.95},
+	{"inverted taps", "front_cla_m2: 0.10, rear_cla_m2: 0.08", "front_cla_m2: 0.12, rear_cla_m2: -0.06", invertedTaps, "entry-mirrored", "taps", 0.85},
+	{"m/s under km/h", "", "", msUnderKmh, "speed-units", "fpot", 0.95},
+	{"negative gain", "", "", negativeGain, "gain-negative", "rpot", 0.95},
 }

@@ -109,9 +109,12 @@ func negativeGain(r *height.Result) []Check {
 
 // heightEstimates turns each configuration's slope into the axle's C_L·A
 // at 100 km/h: β = K·(b − g/q₁₀₀), with b the height per Pa of q, g a laser's
-// tyre growth prior (mm at 100 km/h) and q₁₀₀ = ½ρ(100 km/h)². Its variance
-// adds the slope's (scaled by s²), the growth prior's and the relative
-// uncertainty of stiffness and gain.
+// tyre growth prior (mm at 100 km/h) and q₁₀₀ = ½ρ(100 km/h)². Its noise is
+// the slope's (scaled by s² when the residuals are wider than the SEs);
+// its systematic errors, under the evidence's names, are the stiffness
+// groups (β ∝ K: a group entering the compliance with power p moves β by
+// −p·sd), the calibration gain unless a ballast stiffness cancels it, and
+// the growth prior (∂β/∂g = −K/q₁₀₀).
 func heightEstimates(c *campaign.Campaign, r *height.Result, fits []cfgFit) []estimate {
 	K := r.Stiffness.K
 	q100 := air.DynamicPressure(c.Density(), air.KmhToMs(evidence.RefSpeedKmh))
@@ -119,19 +122,29 @@ func heightEstimates(c *campaign.Campaign, r *height.Result, fits []cfgFit) []es
 	if r.Entry.Sensor == campaign.SensorLaser {
 		g, gsd = r.Entry.TyreGrowth.MmAt100kmh, r.Entry.TyreGrowth.SDMm
 	}
-	rel2 := r.Stiffness.RelSD() * r.Stiffness.RelSD()
-	if !r.Stiffness.GainCancels {
-		rel2 += r.Calibration.RelSD * r.Calibration.RelSD
+	rel := map[string]float64{}
+	for _, ref := range r.Stiffness.Refs {
+		for _, grp := range r.Stiffness.Groups {
+			if grp.Name == ref.Name {
+				rel[grp.Name] += -ref.Pow * grp.SD
+			}
+		}
+	}
+	if !r.Stiffness.GainCancels && r.Calibration.RelSD > 0 {
+		rel[r.Entry.ID+"/gain"] = r.Calibration.RelSD
+	}
+	abs := map[string]float64{}
+	if gsd > 0 {
+		abs[r.Entry.Axle+"-tyre-growth"] = -K * gsd / q100
 	}
 	var out []estimate
 	for _, f := range fits {
 		b := f.Lin.Beta[0] / f.QScale
 		vb := f.Lin.Cov.At(0, 0) / (f.QScale * f.QScale) * math.Max(1, f.Lin.RSS/float64(max(1, f.Lin.DF)))
-		raw, corr := K*b, -K*g/q100
-		beta := raw + corr
-		sd := math.Sqrt(K*K*vb + K*K*gsd*gsd/(q100*q100) + beta*beta*rel2)
-		out = append(out, estimate{Entry: r.Entry.ID, Kind: evidence.KindRideHeight, Config: f.Config, Axle: r.Entry.Axle,
-			Raw: raw, Corr: corr, SD: sd})
+		e := estimate{Entry: r.Entry.ID, Kind: evidence.KindRideHeight, Config: f.Config, Axle: r.Entry.Axle,
+			Raw: K * b, Corr: -K * g / q100, Stat: K * math.Sqrt(vb), Abs: abs, Rel: rel}
+		e.total()
+		out = append(out, e)
 	}
 	return out
 }

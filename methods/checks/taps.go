@@ -134,53 +134,98 @@ func tapBlocked(c *campaign.Campaign, r *pressure.Result) []Check {
 
 // tapSpeed tests, per tap and configuration, whether Cp changes with
 // speed: p_i = q_i·(Cp + d·(V_i − V̄)/100) [+ c·dir_i·V_i for the wind, whose
-// cross term 2ρVw flips with direction], the z test of d with the stated
-// noise (scaled up by the entry's pooled residual scale when that is above
-// 1), at alphaTapSpeed shared over taps × configurations. A leak, or a
-// tube holding a pressure, makes Cp = Cp₀ + p₀/q, which changes with speed.
-// With speed_model: linear lift changes with speed on purpose: skipped.
+// cross term 2ρVw flips with direction]. Every tap of a configuration is
+// fitted to the same readings, so the reference port's offset, common to
+// a reading, enters every tap's d̂ alike; the test is of d̂_t against the
+// median of the other taps' d̂, whose difference carries the sensor noise
+// only: var = se_t² (1 + (π/2)/(T − 1)) with se_t from sensor_sd_pa (the
+// median's variance is about π/2 times the mean's; Kendall & Stuart, The
+// Advanced Theory of Statistics, vol. 1, §10.10). The stated noise is
+// widened when the common-mode-free residuals reject it (χ² at 1 %). The
+// z test runs at alphaTapSpeed shared over taps × configurations. A leak,
+// or a tube holding a pressure, makes Cp = Cp₀ + p₀/q, which changes with
+// speed. With speed_model: linear lift changes with speed on purpose:
+// skipped.
 func tapSpeed(c *campaign.Campaign, r *pressure.Result) []Check {
-	if c.Prior.SpeedModel == campaign.SpeedLinear {
+	if c.Prior.SpeedModel == campaign.SpeedLinear || len(r.Panels) < 3 {
 		return nil
 	}
-	sigma := tapNoise(r.Entry)
-	type test struct {
-		tap, config string
-		d, se       float64
+	sigma := math.Max(r.Entry.SensorSDPa, 0.1)
+	var all []tapSlope
+	for _, cfg := range c.Configurations {
+		all = append(all, tapSlopes(r, cfg.ID, sigma)...)
 	}
-	var tests []test
-	var rss float64
-	dof := 0
-	for _, pn := range r.Panels {
-		for _, cfg := range c.Configurations {
-			x, y, w := tapDesign(r, pn.ID, cfg.ID, sigma)
-			if len(y) == 0 || len(levelsOf(r, cfg.ID)) < 2 {
-				continue
-			}
-			f, err := wls(x, y, w)
-			if err != nil {
-				continue
-			}
-			rss += f.RSS
-			dof += f.DF
-			tests = append(tests, test{pn.ID, cfg.ID, f.Beta[1], math.Sqrt(f.Cov.At(1, 1))})
-		}
-	}
-	scale := 1.0
-	if dof > 0 {
-		scale = math.Max(1, math.Sqrt(rss/float64(dof)))
-	}
-	m := float64(len(tests))
+	m := float64(len(all))
 	var out []Check
-	for _, t := range tests {
-		p := normTwoSided(t.d / (t.se * scale))
+	for _, t := range all {
+		p := normTwoSided(t.z)
 		if p*m >= alphaTapSpeed {
 			continue
 		}
 		out = append(out, Check{Check: IDTapSpeed, Entry: r.Entry.ID, Config: t.config, PValue: math.Min(1, p*m),
-			Where:  fmt.Sprintf("tap %s: Cp changes by %+.3f per 100 km/h", t.tap, t.d),
+			Where:  fmt.Sprintf("tap %s: Cp changes by %+.3f per 100 km/h against the other taps", t.tap, t.d),
 			Cause:  "the tap's Cp changes with speed beyond its noise: a leaking tube or fitting, or a blocked tube holding a pressure",
 			Action: fmt.Sprintf("leak-test tap %s's tube and its connections, then re-run %s", t.tap, t.config)})
+	}
+	return out
+}
+
+// tapSlope is one tap's change of Cp with speed in one configuration,
+// relative to the other taps', and its z score.
+type tapSlope struct {
+	tap, config string
+	d, z        float64
+}
+
+// tapSlopes fits every tap of one configuration (tapDesign) and scores each
+// tap's d̂ against the median of the others'.
+func tapSlopes(r *pressure.Result, config string, sigma float64) []tapSlope {
+	if len(levelsOf(r, config)) < 2 {
+		return nil
+	}
+	var ids []string
+	var d, se []float64
+	var res [][]float64
+	df := 0
+	for _, pn := range r.Panels {
+		x, y, w := tapDesign(r, pn.ID, config, sigma)
+		f, err := wls(x, y, w)
+		if err != nil {
+			return nil
+		}
+		ids = append(ids, pn.ID)
+		d = append(d, f.Beta[1])
+		se = append(se, math.Sqrt(f.Cov.At(1, 1)))
+		res = append(res, f.Resid)
+		df = f.DF
+	}
+	T := len(ids)
+	// Residuals less their mean over taps are free of the reference offset.
+	var rss float64
+	for i := range res[0] {
+		var mean float64
+		for t := range T {
+			mean += res[t][i] / float64(T)
+		}
+		for t := range T {
+			rss += math.Pow(res[t][i]-mean, 2) * 1e6 / (sigma * sigma)
+		}
+	}
+	scale := 1.0
+	if k := (T - 1) * df; k > 0 && chi2Survival(rss, k) < 0.01 {
+		scale = math.Sqrt(rss / float64(k))
+	}
+	out := make([]tapSlope, T)
+	for t := range T {
+		var others []float64
+		for u := range T {
+			if u != t {
+				others = append(others, d[u])
+			}
+		}
+		rel := d[t] - median(others)
+		sd := se[t] * scale * math.Sqrt(1+math.Pi/2/float64(T-1))
+		out[t] = tapSlope{tap: ids[t], config: config, d: rel, z: rel / sd}
 	}
 	return out
 }
