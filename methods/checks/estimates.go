@@ -174,8 +174,32 @@ func claTooLarge(est []estimate) []Check {
 // the two share entering the difference once, with both coefficients
 // (pairCov).
 func pair(est []estimate, a, b string) (pSame, pMirror float64, k int) {
+	return pairOn(est, a, b, nil)
+}
+
+// quantity names an estimate's configuration and axle.
+type quantity struct{ config, axle string }
+
+// shared returns the quantities entries a and b both inform.
+func shared(est []estimate, a, b string) map[quantity]bool {
+	out := map[quantity]bool{}
+	for _, e := range byEntry(est, a) {
+		for _, o := range byEntry(est, b) {
+			if o.Config == e.Config && o.Axle == e.Axle {
+				out[quantity{e.Config, e.Axle}] = true
+			}
+		}
+	}
+	return out
+}
+
+// pairOn is pair on the quantities in only (all when nil).
+func pairOn(est []estimate, a, b string, only map[quantity]bool) (pSame, pMirror float64, k int) {
 	var ea, eb []estimate
 	for _, e := range byEntry(est, a) {
+		if only != nil && !only[quantity{e.Config, e.Axle}] {
+			continue
+		}
 		for _, o := range byEntry(est, b) {
 			if o.Config == e.Config && o.Axle == e.Axle {
 				ea, eb = append(ea, e), append(eb, o)
@@ -278,14 +302,16 @@ func mirrorVerdict(est []estimate, id string) (p float64, supporters []string, a
 }
 
 // corroborated says whether entry s agrees, as measured, with some entry
-// other than id and disagrees with none (at alphaMirror).
+// other than id on the quantities s and id share, and disagrees with none
+// there (at alphaMirror).
 func corroborated(est []estimate, s, id string) bool {
 	agree := false
+	on := shared(est, s, id)
 	for _, o := range entryIDs(est) {
 		if o == s || o == id {
 			continue
 		}
-		pSame, _, k := pair(est, s, o)
+		pSame, _, k := pairOn(est, s, o, on)
 		if k == 0 {
 			continue
 		}
