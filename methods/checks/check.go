@@ -76,7 +76,7 @@ func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
 		switch d := e.Detail.(type) {
 		case *height.Result:
 			fits := heightFits(c, d)
-			out = append(out, notLinear(d, fits)...)
+			out = append(out, notLinear(c, d, fits)...)
 			out = append(out, residuals(c, d, fits)...)
 			out = append(out, negativeGain(d)...)
 			est = append(est, heightEstimates(c, d, fits)...)

@@ -23,3 +23,18 @@ func TestDemoIsClean(t *testing.T) {
 		t.Errorf("demo: %s", ch)
 	}
 }
+
+// BenchmarkRunDemo times the checks on the reduced demo campaign.
+func BenchmarkRunDemo(b *testing.B) {
+	c, err := campaign.Load("../../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	r, err := methods.Reduce(c, methods.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		checks.Run(c, r)
+	}
+}

@@ -13,7 +13,8 @@ import (
 // notLinear reports the configurations whose height is not linear in q:
 // the extra-sum-of-squares F test of a q² term (heightfit.go) at
 // alphaNotLinear shared over the entry's configurations.
-func notLinear(r *height.Result, fits []cfgFit) []Check {
+func notLinear(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
+	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
 	var out []Check
 	alpha := alphaNotLinear / float64(max(1, len(fits)))
 	for _, f := range fits {
@@ -22,6 +23,9 @@ func notLinear(r *height.Result, fits []cfgFit) []Check {
 		}
 		ch := Check{Check: IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
 			Cause: "ride height is not linear in dynamic pressure: bump-stop or packer contact, progressive springs, or the sensor at its end stop"}
+		if !linearSpeed {
+			ch.Cause += "; or the lift itself changes with speed (prior.speed_model: linear)"
+		}
 		if f.Broken {
 			ch.Where = "every speed"
 			ch.Action = fmt.Sprintf("measure the stiffness of %s's axle over the loads of the runs (ballast steps up to the aero load), or check the sensor's travel", r.Entry.ID)

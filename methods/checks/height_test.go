@@ -57,7 +57,7 @@ func TestHeightNotLinearSynthetic(t *testing.T) {
 	for _, c := range cases {
 		for seed := uint64(1); seed <= 5; seed++ {
 			cp, r := synthetic(seed, c.h)
-			got := notLinear(r, heightFits(cp, r))
+			got := notLinear(cp, r, heightFits(cp, r))
 			switch {
 			case c.where == "" && len(got) > 0:
 				t.Errorf("%s (seed %d): tripped: %v", c.name, seed, got)
