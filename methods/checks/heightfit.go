@@ -190,6 +190,9 @@ func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 		}
 		f := cfgFit{Config: cfg, All: idx, Kept: idx, QScale: qs}
 		f.PCurv, f.Lin = curvature(r.Windows, idx, r.Entry, linearSpeed, qs)
+		if f.PCurv < alpha && f.Lin != nil {
+			f.PCurv = oneWindow(r.Windows, idx, r.Entry, linearSpeed, qs, f.Lin, f.PCurv)
+		}
 		if f.PCurv < alpha {
 			f.cut(r.Windows, r.Entry, linearSpeed)
 		}
@@ -200,6 +203,24 @@ func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 		out = append(out, f)
 	}
 	return out
+}
+
+// oneWindow repeats the curvature test without the window farthest off the
+// line (largest studentised residual) and returns the larger p-value: a
+// departure that one window carries is a gust or a bump in that window
+// (the residual check's business), not a bend of the axle, which every
+// window at the speeds beyond it shares (a deletion diagnostic; Cook &
+// Weisberg, Residuals and Influence in Regression, 1982, §3.4).
+func oneWindow(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, qs float64, lin *wlsFit, p float64) float64 {
+	k, _ := worst(lin, 1)
+	if k < 0 {
+		return p
+	}
+	rest := append(append([]int(nil), idx[:k]...), idx[k+1:]...)
+	if q, fit := curvature(ws, rest, e, linearSpeed, qs); fit != nil {
+		return math.Max(p, q)
+	}
+	return p
 }
 
 // cut drops the fastest driven speeds until the rest is linear.
