@@ -40,6 +40,13 @@
 // 5 of 1500 ride-height entry-days, height-not-linear 2 of 1500, taps 0 of
 // 500).
 //
+// Detection (TestPlantedFaults with 50 days of speed_model: constant):
+// bump stop 49/50, a 1 mm window upset 50/50, blocked tap 50/50, leaking
+// tap 50/50, Cp 1.3 50/50, inverted taps 46/50, m/s under km/h 50/50,
+// negative gain 50/50, with no correct entry named on any of those days.
+// With speed_model: linear the lift's speed slope absorbs most of a bump
+// stop (4/20) and the leak test is skipped (Cp may change with speed).
+//
 // Two rules have no noise model and report p_value 0: a negative
 // calibration gain (kept only when no other entry agrees with the entry as
 // measured) and a log's speed range a factor 3.6 off the campaign's other
