@@ -18,6 +18,31 @@ type Result struct {
 	Methods     []MethodResult  `json:"methods"`
 	Warnings    []string        `json:"warnings"`
 	Diagnostics *DiagnosticsDoc `json:"diagnostics,omitempty"`
+
+	// Headline says which fusion Configs and Deltas are: HeadlinePlain,
+	// or HeadlineRobust when some entry looks off (P(off) > 0.5) and the
+	// robust fusion, with that entry's errors widened by κ, is reported.
+	Headline string `json:"headline"`
+	// DownWeighted names the entries whose errors the robust fusion
+	// widened (empty with a plain headline).
+	DownWeighted []string `json:"down_weighted"`
+	// Plain holds the plain fusion's figures when the headline is robust.
+	Plain *PlainFusion `json:"plain,omitempty"`
+	// Checks are the tripped model checks, each also one line of Warnings.
+	Checks []Check `json:"checks"`
+}
+
+// Headline values of Result.Headline.
+const (
+	HeadlinePlain  = "plain"
+	HeadlineRobust = "robust"
+)
+
+// PlainFusion is the plain fusion's configurations and deltas, kept beside
+// a robust headline so that a reader can see what the down-weighting moved.
+type PlainFusion struct {
+	Configs []ConfigResult `json:"configs"`
+	Deltas  []DeltaResult  `json:"deltas"`
 }
 
 // CampaignInfo names the campaign and fingerprints its inputs.
@@ -61,12 +86,24 @@ type SAECoefficients struct {
 	CL            Estimate `json:"c_l"`
 }
 
-// SpeedResult holds axle forces at a report speed, in newtons.
+// SpeedResult holds axle forces at a report speed, in newtons, and
+// P(downforce) there. With the linear speed model every figure uses β(V) at
+// that speed, β(V) = β + γ·(V − V_ref)/V_ref: the force is q(V)·β(V) and
+// P(downforce) = P(β(V) < 0), which may differ from the configuration's
+// P(downforce) at V_ref.
 type SpeedResult struct {
-	SpeedKmh float64  `json:"speed_kmh"`
-	FrontN   Estimate `json:"front_n"`
-	RearN    Estimate `json:"rear_n"`
-	TotalN   Estimate `json:"total_n"`
+	SpeedKmh   float64   `json:"speed_kmh"`
+	FrontN     Estimate  `json:"front_n"`
+	RearN      Estimate  `json:"rear_n"`
+	TotalN     Estimate  `json:"total_n"`
+	PDownforce AxleProbs `json:"p_downforce"`
+}
+
+// AxleProbs is a probability per axle and for the total.
+type AxleProbs struct {
+	Front float64 `json:"front"`
+	Rear  float64 `json:"rear"`
+	Total float64 `json:"total"`
 }
 
 // DeltaResult is a configuration's difference to the reference one.

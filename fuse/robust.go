@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"liftfuse/methods/evidence"
 )
@@ -105,4 +106,53 @@ func (m *model) variant(off map[int]bool, noise, sys bool) *model {
 		}
 	}
 	return alt
+}
+
+// robustHeadline makes the robust fusion the headline when some entry looks
+// off (P(off) > flagOff): the joint posterior is refitted with those
+// entries' random errors and own systematic priors widened by κ (the "off"
+// alternatives of pOff, both at once), its configurations and deltas become
+// the result's, the plain fusion's move to Result.Plain, and Fused.Posterior
+// becomes the robust one, so that plan and crosscheck use it too.
+func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits) error {
+	res := out.Result
+	off := map[int]bool{}
+	for e, p := range lo.pOff {
+		if p > flagOff {
+			off[e] = true
+			res.DownWeighted = append(res.DownWeighted, full.entries[e])
+		}
+	}
+	if len(off) == 0 || len(full.entries) < 2 {
+		return nil
+	}
+	R, err := full.variant(off, true, true).fit()
+	if err != nil {
+		return fmt.Errorf("the robust fusion (down-weighting %s): %w", joinMax(res.DownWeighted, 4), err)
+	}
+	res.Plain = &PlainFusion{Configs: res.Configs, Deltas: res.Deltas}
+	scratch := &Result{}
+	configResults(scratch, R, in, set)
+	deltaResults(scratch, R, in.Reference, set.Configs)
+	res.Configs, res.Deltas = scratch.Configs, scratch.Deltas
+	res.Headline = HeadlineRobust
+	out.Posterior = R
+	res.Warnings = append(res.Warnings, fmt.Sprintf("the headline figures are the robust fusion's: the errors of %s are widened ×%g because it looks off; the plain fusion is shown beside them",
+		quoteJoin(res.DownWeighted), kappa))
+	return nil
+}
+
+// quoteJoin lists ids in quotes: "a", "b" and "c".
+func quoteJoin(ids []string) string {
+	q := make([]string, len(ids))
+	for i, id := range ids {
+		q[i] = fmt.Sprintf("%q", id)
+	}
+	switch len(q) {
+	case 0:
+		return ""
+	case 1:
+		return q[0]
+	}
+	return strings.Join(q[:len(q)-1], ", ") + " and " + q[len(q)-1]
 }
