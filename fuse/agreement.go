@@ -2,9 +2,9 @@ package fuse
 
 import (
 	"fmt"
+	"os"
 	"math"
 
-	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods/evidence"
@@ -31,63 +31,50 @@ func (ag *Agreement) warning(entry string) string {
 	return msg
 }
 
-// agreement compares entry ev's standalone posterior with the others' on
-// the quantities it informs: the Mahalanobis distance
-//
-//	d² = Δᵀ (C_alone + C_others)⁻¹ Δ,   p = P(χ²_k > d²)
-//
-// (the two posteriors are independent given the prior, which is wide). For
-// sign evidence it is the posterior predictive p-value of the observed
-// senses under the others' posterior, with T = −Σ log P(sense | θ).
-func agreement(full *model, ei int, ev evidence.Evidence, alone, others *Posterior) *Agreement {
+// agreement compares entry ev with every other entry by the leave-one-out
+// predictive of its data (see predictive.go): d² = tᵀV⁻¹t, p = P(χ²_r > d²)
+// with r the rank of V, the errors the entry shares with the others
+// counted once. Worst is the quantity with the largest |t_i|/√V_ii: t_i is
+// in m² what the entry's data say minus what the others predict they would
+// say. For an entry of sign evidence only, it is the posterior predictive
+// p-value of the observed senses under the others' posterior, with
+// T = −Σ log P(sense | θ).
+func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) *Agreement {
 	if len(ev.Blocks) == 0 && len(ev.Signs) > 0 {
 		return signAgreement(full, ei, others)
 	}
-	k := len(ev.Informs)
-	if k == 0 {
+	if len(ev.Informs) == 0 {
 		return &Agreement{PValue: 1, Note: "informs no quantity"}
 	}
-	series := func(P *Posterior) ([][]float64, []float64) {
-		xs := make([][]float64, k)
-		means := make([]float64, k)
-		for i, q := range ev.Informs {
-			xs[i] = flatten(P.seriesOf(P.weights([]evidence.Term{{Config: q.Config, Axle: q.Axle, W: 1}})))
-			means[i], _ = meanVar(xs[i])
-		}
-		return xs, means
+	st, ok := looPredictive(full, ei, ev, others)
+	if !ok {
+		return &Agreement{PValue: 1, Note: "the leave-one-out prediction of its data is singular"}
 	}
-	xa, ma := series(alone)
-	xo, mo := series(others)
-	C := mat.NewSymDense(k, nil)
-	for i := range k {
-		for j := i; j < k; j++ {
-			C.SetSym(i, j, covariance(xa[i], xa[j])+covariance(xo[i], xo[j]))
-		}
-	}
-	diff := make([]float64, k)
 	ag := &Agreement{}
 	worst := -1.0
-	for i := range k {
-		diff[i] = ma[i] - mo[i]
-		if s := math.Abs(diff[i]) / math.Sqrt(C.At(i, i)); s > worst {
+	for i, q := range st.names {
+		sd := math.Sqrt(st.V.At(i, i))
+		if sd == 0 || st.slope[i] {
+			continue
+		}
+		if s := math.Abs(st.t[i]) / sd; s > worst {
 			worst = s
-			ag.Worst = &Disagreement{Config: ev.Informs[i].Config, Axle: ev.Informs[i].Axle, DiffM2: diff[i], Sigmas: diff[i] / math.Sqrt(C.At(i, i))}
+			ag.Worst = &Disagreement{Config: q.Config, Axle: q.Axle, DiffM2: st.t[i], Sigmas: st.t[i] / sd}
 		}
 	}
-	var ch mat.Cholesky
-	if !ch.Factorize(C) {
-		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
+	d2, rank := st.chi2()
+	if os.Getenv("LF_DEBUG") != "" {
+		for i := range st.t {
+			fmt.Fprintf(os.Stderr, "DEBUG %s %v slope=%v t=%.4g sd=%.4g own=%.4g\n", ev.Entry, st.names[i], st.slope[i], st.t[i], math.Sqrt(st.V.At(i, i)), math.Sqrt(st.own[i]))
+		}
+		fmt.Fprintf(os.Stderr, "DEBUG %s d2=%.3g rank=%d\n", ev.Entry, d2, rank)
+	}
+	if rank == 0 || math.IsNaN(d2) {
+		ag.PValue, ag.Note = 1, "the leave-one-out prediction of its data is singular"
 		return ag
 	}
-	dv := mat.NewVecDense(k, diff)
-	var x mat.VecDense
-	if err := ch.SolveVecTo(&x, dv); err != nil {
-		ag.PValue, ag.Note = 1, "covariance of the comparison is singular"
-		return ag
-	}
-	d2 := mat.Dot(dv, &x)
 	ag.Distance = math.Sqrt(d2)
-	ag.PValue = distuv.ChiSquared{K: float64(k)}.Survival(d2)
+	ag.PValue = distuv.ChiSquared{K: float64(rank)}.Survival(d2)
 	return ag
 }
 

@@ -19,7 +19,11 @@ const (
 // some other entry looks off (P(off) > flagOff): such an entry would drag
 // the others' posterior along and make the good entries disagree with it,
 // so the others are fused with that entry's random errors and own
-// systematic priors inflated by κ.
+// systematic priors inflated by κ. An entry that looks off itself is
+// checked against the plain fusion of the others: two entries in conflict
+// (two pots on one axle, one with a wrong gain, and nothing else as
+// precise) both look off, and each must then meet the other at full
+// weight, not a prediction from which its rival was removed.
 func (lo *looFits) robustOthers(evs []evidence.Evidence) error {
 	if len(evs) == 1 {
 		return nil
@@ -41,9 +45,13 @@ func (lo *looFits) robustOthers(evs []evidence.Evidence) error {
 }
 
 // offAmongOthers returns the entries that look off (P(off) > flagOff), by
-// their index in the model of every entry but ei.
+// their index in the model of every entry but ei; none when ei looks off
+// itself.
 func (lo *looFits) offAmongOthers(ei int) map[int]bool {
 	off := map[int]bool{}
+	if lo.pOff[ei] > flagOff {
+		return off
+	}
 	k := 0
 	for j := range lo.pOff {
 		if j == ei {

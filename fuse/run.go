@@ -153,7 +153,7 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 		if len(evs) > 1 {
 			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag := agreement(full, ei, ev, lo.alone[ei], O)
+			ag := agreement(full, ei, ev, O)
 			ag.POff = lo.pOff[ei]
 			ag.Flag = ag.flagged()
 			if ag.Flag {

@@ -1,0 +1,294 @@
+package fuse
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+
+	"liftfuse/methods/evidence"
+)
+
+// The leave-one-out predictive check of an entry's data (model.md,
+// "Agreement and fault localisation"). Entry e's data y_e are predicted from
+// every other entry's posterior p(θ, φ | y_−e): the parameters e shares with
+// the others (lift, speed slopes, springs, wind, drag pitch, probe — the
+// same names) take the others' joint posterior, e's own errors (gain,
+// offsets, its own tyre growth) their prior. So an error e shares with the
+// others is counted once, in one joint distribution, instead of once in
+// each of two posteriors that are then compared as if independent.
+//
+// Linearised at the predictive mean x̄ of (θ, φ), with J = ∂μ_e/∂(θ, φ) and
+// C the predictive covariance,
+//
+//	y_e ~ N(μ_e(x̄), Σ_e + J C Jᵀ).
+//
+// The test statistic is what the entry's data say about the quantities it
+// informs, relative to that prediction: the standalone generalised least
+// squares map A = W H⁻¹ JᵀΣ_e⁻¹ with H = P₀ + JᵀΣ_e⁻¹J (P₀ the prior
+// precision, zero for a flat offset) applied to the residual,
+//
+//	t = A (y_e − μ_e(x̄)),   V = Cov t = W H⁻¹ F H⁻¹ Wᵀ + (W H⁻¹ F) C (W H⁻¹ F)ᵀ,  F = JᵀΣ_e⁻¹J,
+//
+// and d² = tᵀ V⁻¹ t is χ² with rank(V) degrees of freedom when the entry
+// agrees with the others (Gelman, Meng & Stern 1996 for predictive checks;
+// Vehtari, Gelman & Gabry 2017 for leave-one-out predictive densities —
+// from memory). A flat offset drops out of t exactly (A J e_f = W e_f = 0),
+// so its improper prior does no harm. W picks β of each quantity the entry
+// informs (total = front + rear) and, with the linear speed model, the
+// speed slope γ where the entry's speeds inform it.
+
+// paramKey names parameter i of (θ, φ) so that the same parameter can be
+// found in a model of a subset of the entries.
+func (m *model) paramKey(i int) string {
+	p := len(m.lin)
+	if i >= p {
+		return "φ " + m.phi[i-p].name
+	}
+	switch lp := m.lin[i]; lp.kind {
+	case kindBeta:
+		return "β " + lp.config + " " + lp.axle
+	case kindGamma:
+		return "γ " + lp.config + " " + lp.axle
+	default:
+		return "ν " + lp.nuis.Name
+	}
+}
+
+// priorPrecision is P₀ of parameter i of (θ, φ), unweighted by any
+// inflation: 0 for a flat prior.
+func (m *model) priorPrecision(i int) float64 {
+	p := len(m.lin)
+	if i < p {
+		return m.lin[i].prec
+	}
+	sd := m.phi[i-p].sd
+	return 1 / (sd * sd)
+}
+
+// predictiveMoments returns the mean and covariance over the full model's
+// (θ, φ) of the others' posterior of entry e, with e's own parameters (those
+// no other entry declares) at their priors, independent of the rest; a flat
+// prior gets variance 0 (it drops out of the test, see above).
+func predictiveMoments(full *model, others *Posterior) ([]float64, *mat.SymDense) {
+	om := others.p.m
+	oMean, oCov := others.joint()
+	where := map[string]int{}
+	for i := range om.dim() {
+		where[om.paramKey(i)] = i
+	}
+	D := full.dim()
+	p := len(full.lin)
+	mean := make([]float64, D)
+	cov := mat.NewSymDense(D, nil)
+	src := make([]int, D)
+	for i := range D {
+		j, ok := where[full.paramKey(i)]
+		src[i] = -1
+		if ok {
+			src[i], mean[i] = j, oMean[j]
+			continue
+		}
+		switch {
+		case i >= p:
+			sd := full.phi[i-p].sd
+			cov.SetSym(i, i, sd*sd)
+		case full.lin[i].prec > 0:
+			mean[i] = full.lin[i].mean
+			cov.SetSym(i, i, 1/full.lin[i].prec)
+		}
+	}
+	for i := range D {
+		for j := i; j < D; j++ {
+			if src[i] >= 0 && src[j] >= 0 {
+				cov.SetSym(i, j, oCov.At(src[i], src[j]))
+			}
+		}
+	}
+	return mean, cov
+}
+
+// looStat is the predictive check's statistic of one entry: t and V over
+// the rows of W (see above), with the quantity each row stands for.
+type looStat struct {
+	t     []float64
+	V     *mat.SymDense
+	names []evidence.Quantity
+	slope []bool // the row is a speed slope γ, not β at V_ref
+	own   []float64
+}
+
+// looPredictive computes the statistic of entry e's Gaussian data under the
+// others' posterior; ok is false when the entry has no Gaussian data or the
+// computation is singular.
+func looPredictive(full *model, e int, ev evidence.Evidence, others *Posterior) (*looStat, bool) {
+	mean, C := predictiveMoments(full, others)
+	p := len(full.lin)
+	theta, phi := mean[:p], mean[p:]
+	sp := repeatSpace{D: full.dim(), newIdx: map[int]int{}}
+	D := sp.D
+	F := mat.NewSymDense(D, nil)
+	g := make([]float64, D) // Jᵀ Σ⁻¹ (y − μ)
+	var buf []entryRef
+	rows := 0
+	for bi := range full.blocks {
+		bl := &full.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		J := full.repeatJacobian(bl, sp, theta, phi)
+		n := len(bl.rows)
+		res := make([]float64, n)
+		for a, ri := range bl.rows {
+			r := &full.rows[ri]
+			res[a] = r.y - full.rowMean(r, theta, phi, buf)
+		}
+		for a := range n {
+			for b := range n {
+				var w float64
+				switch {
+				case bl.diag != nil && a == b:
+					w = bl.diag[a]
+				case bl.diag == nil:
+					w = bl.precD[a*n+b]
+				}
+				if w == 0 {
+					continue
+				}
+				addOuter(F, w, J.RawRowView(a), J.RawRowView(b))
+				ja := J.RawRowView(a)
+				for i := range D {
+					g[i] += w * ja[i] * res[b]
+				}
+			}
+		}
+		rows += n
+	}
+	if rows == 0 {
+		return nil, false
+	}
+	return looFromInformation(full, ev, F, g, C)
+}
+
+// looFromInformation finishes the statistic from F = JᵀΣ⁻¹J, g = JᵀΣ⁻¹r
+// and the predictive covariance C, over the parameters the entry's data
+// touch (the others do not enter H⁻¹ restricted to them, the prior being
+// independent between parameters).
+func looFromInformation(full *model, ev evidence.Evidence, F *mat.SymDense, g []float64, C *mat.SymDense) (*looStat, bool) {
+	D := F.SymmetricDim()
+	var cols []int
+	pos := map[int]int{}
+	for i := range D {
+		if F.At(i, i) > 0 {
+			pos[i] = len(cols)
+			cols = append(cols, i)
+		}
+	}
+	st := &looStat{}
+	var W [][]float64
+	addRow := func(q evidence.Quantity, slope bool) {
+		w := make([]float64, len(cols))
+		any := false
+		for _, r := range full.quantity(q) {
+			c := r.col
+			if slope {
+				c = full.gammaOf(c)
+			}
+			if k, ok := pos[c]; ok {
+				w[k] += r.v
+				any = true
+			}
+		}
+		if any {
+			W = append(W, w)
+			st.names = append(st.names, q)
+			st.slope = append(st.slope, slope)
+		}
+	}
+	for _, q := range ev.Informs {
+		addRow(q, false)
+	}
+	if full.set.Linear {
+		for _, q := range ev.Informs {
+			addRow(q, true)
+		}
+	}
+	if len(W) == 0 {
+		return nil, false
+	}
+	n := len(cols)
+	H := mat.NewSymDense(n, nil)
+	Fs := mat.NewSymDense(n, nil)
+	Cs := mat.NewSymDense(n, nil)
+	gs := mat.NewVecDense(n, nil)
+	for a, i := range cols {
+		gs.SetVec(a, g[i])
+		for b := a; b < n; b++ {
+			j := cols[b]
+			Fs.SetSym(a, b, F.At(i, j))
+			Cs.SetSym(a, b, C.At(i, j))
+			H.SetSym(a, b, F.At(i, j))
+		}
+		H.SetSym(a, a, H.At(a, a)+full.priorPrecision(i))
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(H) {
+		return nil, false
+	}
+	k := len(W)
+	Wm := mat.NewDense(k, n, nil)
+	for r, w := range W {
+		Wm.SetRow(r, w)
+	}
+	// B = W H⁻¹ (k×n), t = B g, AJ = B F.
+	var HinvWt mat.Dense
+	if err := ch.SolveTo(&HinvWt, Wm.T()); err != nil {
+		return nil, false
+	}
+	B := mat.DenseCopyOf(HinvWt.T())
+	var t mat.VecDense
+	t.MulVec(B, gs)
+	var AJ, V1, tmp, V2 mat.Dense
+	AJ.Mul(B, Fs)
+	V1.Mul(&AJ, B.T())
+	tmp.Mul(&AJ, Cs)
+	V2.Mul(&tmp, AJ.T())
+	st.V = mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+0.5*(V2.At(i, j)+V2.At(j, i)))
+		}
+	}
+	st.t = t.RawVector().Data
+	for i := range k {
+		st.own = append(st.own, V1.At(i, i))
+	}
+	return st, true
+}
+
+// chi2 returns d² = tᵀV⁺t and the rank of V, dropping eigen-directions
+// below 10⁻¹⁰ of the largest (a quantity the entry informs twice, as front,
+// rear and total).
+func (st *looStat) chi2() (float64, int) {
+	var eig mat.EigenSym
+	if !eig.Factorize(st.V, true) {
+		return math.NaN(), 0
+	}
+	vals := eig.Values(nil)
+	var U mat.Dense
+	eig.VectorsTo(&U)
+	top := 0.0
+	for _, v := range vals {
+		top = math.Max(top, v)
+	}
+	d2, rank := 0.0, 0
+	tv := mat.NewVecDense(len(st.t), st.t)
+	for i, v := range vals {
+		if v <= 1e-10*top || v <= 0 {
+			continue
+		}
+		u := mat.Dot(U.ColView(i), tv)
+		d2 += u * u / v
+		rank++
+	}
+	return d2, rank
+}
