@@ -114,7 +114,6 @@ type looStat struct {
 	V     *mat.SymDense
 	names []evidence.Quantity
 	slope []bool // the row is a speed slope γ, not β at V_ref
-	own   []float64
 }
 
 // looPredictive computes the statistic of entry e's Gaussian data under the
@@ -126,55 +125,72 @@ func looPredictive(full *model, e int, ev evidence.Evidence, others *Posterior) 
 	theta, phi := mean[:p], mean[p:]
 	sp := repeatSpace{D: full.dim(), newIdx: map[int]int{}}
 	D := sp.D
-	F := mat.NewSymDense(D, nil)
-	g := make([]float64, D) // Jᵀ Σ⁻¹ (y − μ)
+	var Js []*mat.Dense
+	st := &looStat{}
 	var buf []entryRef
-	rows := 0
+	var res []float64
+	n := 0
 	for bi := range full.blocks {
 		bl := &full.blocks[bi]
 		if bl.entry != e {
 			continue
 		}
-		J := full.repeatJacobian(bl, sp, theta, phi)
-		n := len(bl.rows)
-		res := make([]float64, n)
-		for a, ri := range bl.rows {
+		Js = append(Js, full.repeatJacobian(bl, sp, theta, phi))
+		for _, ri := range bl.rows {
 			r := &full.rows[ri]
-			res[a] = r.y - full.rowMean(r, theta, phi, buf)
+			res = append(res, r.y-full.rowMean(r, theta, phi, buf))
 		}
-		for a := range n {
-			for b := range n {
+		n += len(bl.rows)
+	}
+	if n == 0 {
+		return nil, false
+	}
+	// G = Σ⁻¹J (n×D), block by block.
+	J := mat.NewDense(n, D, nil)
+	G := mat.NewDense(n, D, nil)
+	k := 0
+	for bi := range full.blocks {
+		bl := &full.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		Jb := Js[0]
+		Js = Js[1:]
+		nb := len(bl.rows)
+		for a := range nb {
+			J.SetRow(k+a, Jb.RawRowView(a))
+			for b := range nb {
 				var w float64
 				switch {
 				case bl.diag != nil && a == b:
 					w = bl.diag[a]
 				case bl.diag == nil:
-					w = bl.precD[a*n+b]
+					w = bl.precD[a*nb+b]
 				}
 				if w == 0 {
 					continue
 				}
-				addOuter(F, w, J.RawRowView(a), J.RawRowView(b))
-				ja := J.RawRowView(a)
+				ga, jb := G.RawRowView(k+a), Jb.RawRowView(b)
 				for i := range D {
-					g[i] += w * ja[i] * res[b]
+					ga[i] += w * jb[i]
 				}
 			}
 		}
-		rows += n
+		k += nb
 	}
-	if rows == 0 {
+	if !st.finish(full, ev, J, G, C, res) {
 		return nil, false
 	}
-	return looFromInformation(full, ev, F, g, C)
+	return st, true
 }
 
-// looFromInformation finishes the statistic from F = JᵀΣ⁻¹J, g = JᵀΣ⁻¹r
-// and the predictive covariance C, over the parameters the entry's data
-// touch (the others do not enter H⁻¹ restricted to them, the prior being
+// finish computes t, V and M over the parameters the entry's data touch
+// (the others do not enter H⁻¹ restricted to them, the prior being
 // independent between parameters).
-func looFromInformation(full *model, ev evidence.Evidence, F *mat.SymDense, g []float64, C *mat.SymDense) (*looStat, bool) {
-	D := F.SymmetricDim()
+func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C *mat.SymDense, res []float64) bool {
+	n, D := J.Dims()
+	var F mat.Dense
+	F.Mul(J.T(), G)
 	var cols []int
 	pos := map[int]int{}
 	for i := range D {
@@ -183,10 +199,69 @@ func looFromInformation(full *model, ev evidence.Evidence, F *mat.SymDense, g []
 			cols = append(cols, i)
 		}
 	}
-	st := &looStat{}
+	W := st.weights(full, ev, pos, len(cols))
+	if len(W) == 0 {
+		return false
+	}
+	nc := len(cols)
+	H := mat.NewSymDense(nc, nil)
+	Fs := mat.NewDense(nc, nc, nil)
+	Cs := mat.NewDense(nc, nc, nil)
+	Gs := mat.NewDense(n, nc, nil)
+	for a, i := range cols {
+		for r := range n {
+			Gs.Set(r, a, G.At(r, i))
+		}
+		for b, j := range cols {
+			Fs.Set(a, b, F.At(i, j))
+			Cs.Set(a, b, C.At(i, j))
+			if b >= a {
+				H.SetSym(a, b, 0.5*(F.At(i, j)+F.At(j, i)))
+			}
+		}
+		H.SetSym(a, a, H.At(a, a)+full.priorPrecision(i))
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(H) {
+		return false
+	}
+	k := len(W)
+	Wm := mat.NewDense(k, nc, nil)
+	for r, w := range W {
+		Wm.SetRow(r, w)
+	}
+	// B = W H⁻¹ (k×nc), A = B Gᵀ (k×n), AJ = B F.
+	var HinvWt mat.Dense
+	if err := ch.SolveTo(&HinvWt, Wm.T()); err != nil {
+		return false
+	}
+	B := mat.DenseCopyOf(HinvWt.T())
+	var M mat.Dense
+	M.Mul(B, Gs.T())
+	var t mat.VecDense
+	t.MulVec(&M, mat.NewVecDense(n, res))
+	var AJ, V1, tmp, V2 mat.Dense
+	AJ.Mul(B, Fs)
+	V1.Mul(&AJ, B.T())
+	tmp.Mul(&AJ, Cs)
+	V2.Mul(&tmp, AJ.T())
+	st.V = mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+0.5*(V2.At(i, j)+V2.At(j, i)))
+		}
+	}
+	st.t = t.RawVector().Data
+	return true
+}
+
+// weights returns the rows of W over the touched parameters (pos maps a
+// full column to its place among nc): β of each quantity the entry informs
+// and, with the linear speed model, its slope γ where touched.
+func (st *looStat) weights(full *model, ev evidence.Evidence, pos map[int]int, nc int) [][]float64 {
 	var W [][]float64
 	addRow := func(q evidence.Quantity, slope bool) {
-		w := make([]float64, len(cols))
+		w := make([]float64, nc)
 		any := false
 		for _, r := range full.quantity(q) {
 			c := r.col
@@ -212,66 +287,16 @@ func looFromInformation(full *model, ev evidence.Evidence, F *mat.SymDense, g []
 			addRow(q, true)
 		}
 	}
-	if len(W) == 0 {
-		return nil, false
-	}
-	n := len(cols)
-	H := mat.NewSymDense(n, nil)
-	Fs := mat.NewSymDense(n, nil)
-	Cs := mat.NewSymDense(n, nil)
-	gs := mat.NewVecDense(n, nil)
-	for a, i := range cols {
-		gs.SetVec(a, g[i])
-		for b := a; b < n; b++ {
-			j := cols[b]
-			Fs.SetSym(a, b, F.At(i, j))
-			Cs.SetSym(a, b, C.At(i, j))
-			H.SetSym(a, b, F.At(i, j))
-		}
-		H.SetSym(a, a, H.At(a, a)+full.priorPrecision(i))
-	}
-	var ch mat.Cholesky
-	if !ch.Factorize(H) {
-		return nil, false
-	}
-	k := len(W)
-	Wm := mat.NewDense(k, n, nil)
-	for r, w := range W {
-		Wm.SetRow(r, w)
-	}
-	// B = W H⁻¹ (k×n), t = B g, AJ = B F.
-	var HinvWt mat.Dense
-	if err := ch.SolveTo(&HinvWt, Wm.T()); err != nil {
-		return nil, false
-	}
-	B := mat.DenseCopyOf(HinvWt.T())
-	var t mat.VecDense
-	t.MulVec(B, gs)
-	var AJ, V1, tmp, V2 mat.Dense
-	AJ.Mul(B, Fs)
-	V1.Mul(&AJ, B.T())
-	tmp.Mul(&AJ, Cs)
-	V2.Mul(&tmp, AJ.T())
-	st.V = mat.NewSymDense(k, nil)
-	for i := range k {
-		for j := i; j < k; j++ {
-			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+0.5*(V2.At(i, j)+V2.At(j, i)))
-		}
-	}
-	st.t = t.RawVector().Data
-	for i := range k {
-		st.own = append(st.own, V1.At(i, i))
-	}
-	return st, true
+	return W
 }
 
-// chi2 returns d² = tᵀV⁺t and the rank of V, dropping eigen-directions
-// below 10⁻¹⁰ of the largest (a quantity the entry informs twice, as front,
-// rear and total).
-func (st *looStat) chi2() (float64, int) {
+// metric returns the pseudo-inverse V⁺ of the statistic's covariance and
+// its rank, dropping eigen-directions below 10⁻¹⁰ of the largest (a
+// quantity the entry informs twice, as front, rear and total).
+func (st *looStat) metric() (*mat.SymDense, int) {
 	var eig mat.EigenSym
 	if !eig.Factorize(st.V, true) {
-		return math.NaN(), 0
+		return nil, 0
 	}
 	vals := eig.Values(nil)
 	var U mat.Dense
@@ -280,15 +305,22 @@ func (st *looStat) chi2() (float64, int) {
 	for _, v := range vals {
 		top = math.Max(top, v)
 	}
-	d2, rank := 0.0, 0
-	tv := mat.NewVecDense(len(st.t), st.t)
+	k := len(vals)
+	Vp := mat.NewSymDense(k, nil)
+	rank := 0
 	for i, v := range vals {
 		if v <= 1e-10*top || v <= 0 {
 			continue
 		}
-		u := mat.Dot(U.ColView(i), tv)
-		d2 += u * u / v
 		rank++
+		u := U.ColView(i)
+		Vp.SymRankOne(Vp, 1/v, u)
 	}
-	return d2, rank
+	return Vp, rank
+}
+
+// quadForm returns xᵀ A x.
+func quadForm(A *mat.SymDense, x []float64) float64 {
+	v := mat.NewVecDense(len(x), x)
+	return mat.Inner(v, A, v)
 }

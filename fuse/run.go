@@ -66,6 +66,9 @@ func Run(in Input) (*Fused, error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := lo.refinePOff(P.p.logZ); err != nil {
+		return nil, err
+	}
 	if err := lo.robustOthers(in.Evidence); err != nil {
 		return nil, err
 	}
