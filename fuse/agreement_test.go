@@ -108,6 +108,9 @@ func TestFaultRankedFirst(t *testing.T) {
 					t.Errorf("correct entry %s: P(off) %.3f (faulty pot %.3f), flagged %v", m.ID, ag.POff, bad.POff, ag.Flag)
 				}
 			}
+			if day == 0 {
+				diagnoseGainFault(t, f)
+			}
 			if bad.POff > 0.5 {
 				robust++
 				if res.Headline != fuse.HeadlineRobust || len(res.DownWeighted) != 1 || res.DownWeighted[0] != "fpot" || res.Plain == nil {
@@ -147,6 +150,34 @@ func priorDay(t *testing.T, rng *rand.Rand, seed int) string {
 		text = strings.Replace(text, "{id: "+id+",", fmt.Sprintf("{id: %s, gain_error_pct: %g,", id, rng.NormFloat64()), 1)
 	}
 	return text
+}
+
+// diagnoseGainFault: the faulty pot's diagnosis may name only its own
+// errors (the front springs and the wind are shared with the other pots,
+// so they move both sides alike), within their physical bounds — a 12 %
+// gain error is 12 sd of a 1 % calibration, so nothing qualifies — and
+// its trade checks are a ride-height entry's, not the taps'.
+func diagnoseGainFault(t *testing.T, f *fuse.Fused) {
+	t.Helper()
+	cc, err := f.Diagnose("fpot")
+	if err != nil || cc == nil {
+		t.Fatalf("diagnosis of fpot: %v, %v", cc, err)
+	}
+	t.Logf("diagnosis: %s; %s; %+v; checks %q", cc.Verdict, cc.Summary, cc.Explanations, cc.Checks)
+	for _, e := range cc.Explanations {
+		if strings.Contains(e.Nuisance, "spring") || strings.Contains(e.Nuisance, "wind") || math.Abs(e.ShiftSD) > 4 {
+			t.Errorf("diagnosis names a shared or implausible error: %+v", e)
+		}
+	}
+	if cc.Verdict != fuse.VerdictUnexplained || cc.Summary != "no single modelled error explains it" {
+		t.Errorf("verdict %q (%s), want unexplained", cc.Verdict, cc.Summary)
+	}
+	if !containsText(cc.Checks, "bracket") || containsText(cc.Checks, "tap tube") {
+		t.Errorf("checks %q, want a ride-height entry's", cc.Checks)
+	}
+	if d, _ := f.Diagnose("rpot"); d != nil {
+		t.Errorf("an entry that is not flagged is diagnosed: %+v", d)
+	}
 }
 
 // falseAlarms fuses a number of clean days and returns the flags raised
@@ -203,3 +234,4 @@ func TestPriorDrawnFalseAlarms(t *testing.T) {
 		t.Errorf("%d flags in %d entry-days, want ≤ 4 %%", flags, n)
 	}
 }
+

@@ -108,6 +108,7 @@ const (
 var (
 	tradeChecks = map[evidence.Kind][]string{
 		evidence.KindRideHeight: {
+			"a sensor's calibration gain wrong or copied from another sensor (re-check it against gauge blocks)",
 			"a sensor bracket or mount that flexes under load or vibration",
 			"a change of fuel load or driver between runs (static height moves)",
 			"a tyre pressure change (hot versus cold, a slow puncture)",
@@ -164,7 +165,10 @@ func (f *Fused) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 // the claim, in m² at V_ref, and the entry's standalone posterior the
 // prediction. Its explanations are the entry's own errors and those it
 // shares, so they match its kind; nil when the entry is not flagged or
-// has no standalone and others' posteriors.
+// has no standalone and others' posteriors. An error the entry shares with
+// another entry (the springs of an axle, the wind, the pitch of drag) moves
+// both sides of the disagreement alike and cannot explain it: only the
+// entry's own errors are asked.
 func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
 	var ag *Agreement
 	for _, m := range f.Result.Methods {
@@ -178,13 +182,37 @@ func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
 	}
 	w := ag.Worst
 	e, _ := others.Quantity(evidence.Quantity{Config: w.Config, Axle: w.Axle})
-	return alone.Crosscheck(Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, f.Result.Air.DensityKgM3)
+	return alone.crosscheck(Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"},
+		f.Result.Air.DensityKgM3, f.Plain.p.m.sharedKeys())
+}
+
+// sharedKeys names (by paramKey) the errors that more than one entry
+// declares.
+func (m *model) sharedKeys() map[string]bool {
+	out := map[string]bool{}
+	for i, lp := range m.lin {
+		if lp.kind == kindNuisance && len(lp.owners) > 1 {
+			out[m.paramKey(i)] = true
+		}
+	}
+	for j, ph := range m.phi {
+		if len(ph.owners) > 1 {
+			out[m.paramKey(len(m.lin)+j)] = true
+		}
+	}
+	return out
 }
 
 // Crosscheck is Fused.Crosscheck against any posterior: with an entry's
 // standalone posterior and the other entries' estimate as the claim, it asks
 // which of the entry's own errors would have to move to reach the others.
 func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
+	return P.crosscheck(cl, rho, nil)
+}
+
+// crosscheck is Crosscheck with the errors named in shared (by paramKey)
+// left out of the explanations.
+func (P *Posterior) crosscheck(cl Claim, rho float64, shared map[string]bool) (*Crosscheck, error) {
 	m := P.p.m
 	if _, ok := m.beta[[2]string{cl.Config, evidence.AxleFront}]; !ok {
 		return nil, fmt.Errorf("unknown configuration %q", cl.Config)
@@ -204,7 +232,7 @@ func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 		out.Summary = fmt.Sprintf("consistent: the campaign agrees with the claim (p = %.2g)", out.PValue)
 		return out, nil
 	}
-	out.Explanations = m.explanations(cl.Value, T, vals)
+	out.Explanations = m.explanations(cl.Value, T, vals, shared)
 	plausible := false
 	for _, e := range out.Explanations {
 		plausible = plausible || e.Plausible
@@ -282,9 +310,12 @@ type errorTerm struct {
 // would have to move to explain the claimed value (see Crosscheck) and
 // keeps the single errors that stay within their physical bounds, the
 // cheapest explanation first.
-func (m *model) explanations(claim float64, T []float64, vals [][]float64) []Explanation {
+func (m *model) explanations(claim float64, T []float64, vals [][]float64, skip map[string]bool) []Explanation {
 	out := []Explanation{}
 	add := func(i int, et errorTerm, owners map[int]bool) {
+		if skip[m.paramKey(i)] {
+			return
+		}
 		if ex, ok := explain(claim, T, vals[i], et); ok {
 			ex.Entry = m.ownerNames(owners)
 			out = append(out, ex)
