@@ -247,4 +247,3 @@ func TestPriorDrawnFalseAlarms(t *testing.T) {
 		t.Errorf("%d flags in %d entry-days, want ≤ 4 %%", flags, n)
 	}
 }
-
