@@ -123,6 +123,7 @@ func TestFaultRankedFirst(t *testing.T) {
 			}
 			if day == 0 {
 				diagnoseGainFault(t, f)
+				headlineEverywhere(t, f)
 			}
 			if bad.POff > 0.5 {
 				robust++
@@ -190,6 +191,30 @@ func diagnoseGainFault(t *testing.T, f *fuse.Fused) {
 	}
 	if d, _ := f.Diagnose("rpot"); d != nil {
 		t.Errorf("an entry that is not flagged is diagnosed: %+v", d)
+	}
+}
+
+// headlineEverywhere: with a robust headline, plan and crosscheck start
+// from the robust posterior and say so; the plain posterior stays at hand.
+func headlineEverywhere(t *testing.T, f *fuse.Fused) {
+	t.Helper()
+	res := f.Result
+	if res.Headline != fuse.HeadlineRobust || f.Posterior == f.Plain {
+		t.Fatalf("headline %q; robust posterior distinct from the plain one: %v", res.Headline, f.Posterior != f.Plain)
+	}
+	pl, err := f.PlanRepeats(fuse.Target{Config: "wing", Axle: "front", Versus: "base"}, func(string) float64 { return 1 })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if pl.Headline != fuse.HeadlineRobust || len(pl.DownWeighted) != 1 || math.Abs(pl.Target.Now.Mean-res.Deltas[0].Front.CLA.Mean) > 1e-12 {
+		t.Errorf("plan: headline %q %v, now %+v; the robust delta is %+v", pl.Headline, pl.DownWeighted, pl.Target.Now, res.Deltas[0].Front.CLA)
+	}
+	cc, err := f.Crosscheck(fuse.Claim{Config: "base", Axle: "front", SpeedKmh: 100, Value: 0.10, SD: 0.01, Unit: "m2"}, res.Air.DensityKgM3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if cc.Headline != fuse.HeadlineRobust || math.Abs(cc.Predictive.Mean-res.Configs[0].Front.CLA.Mean) > 1e-12 {
+		t.Errorf("crosscheck: headline %q, predictive %+v; the robust base front is %+v", cc.Headline, cc.Predictive, res.Configs[0].Front.CLA)
 	}
 }
 

@@ -131,18 +131,24 @@ type StandaloneResult struct {
 	PDownforce float64  `json:"p_downforce"`
 }
 
-// Agreement compares an entry with all the others. Distance is the
-// Mahalanobis distance between its standalone posterior and the others'
-// fused posterior on the quantities it informs (for sign evidence, the
-// normal quantile of the posterior predictive p-value); POff is the
-// posterior probability that its errors are inflated.
+// Agreement compares an entry with all the others by the leave-one-out
+// predictive of its data (predictive.go): the errors it shares with the
+// others (springs, wind, pitch of drag, probe) are counted once. Distance
+// is √d², d² = tᵀV⁻¹t with t what the entry's data say of the quantities
+// it informs minus what the others predict they would say; PValue is
+// P(χ²_r > d²), r the rank of V (for sign evidence, the posterior
+// predictive p-value of the observed senses, and Distance its two-sided
+// normal quantile). POff is the posterior probability that its errors are
+// inflated by κ, computed as a sequential diagnosis (robust.go). Flag is
+// PValue < 0.01 or POff > 0.5.
 type Agreement struct {
 	Distance float64 `json:"distance"`
 	PValue   float64 `json:"p_value"`
 	POff     float64 `json:"p_off"`
 	Flag     bool    `json:"flag"`
 	// Worst names the quantity where the entry disagrees most, with the
-	// difference (entry minus others) in m² and in standard deviations.
+	// difference (what its data say minus what the others predict) in m²
+	// and in standard deviations of the prediction.
 	Worst *Disagreement `json:"worst,omitempty"`
 	Note  string        `json:"note,omitempty"`
 }
