@@ -56,7 +56,7 @@ func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) *Ag
 	worst := -1.0
 	for i, q := range st.names {
 		sd := math.Sqrt(st.V.At(i, i))
-		if sd == 0 || st.slope[i] {
+		if sd == 0 || !st.lift[i] {
 			continue
 		}
 		if s := math.Abs(st.t[i]) / sd; s > worst {

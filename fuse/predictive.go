@@ -22,20 +22,22 @@ import (
 //
 //	y_e ~ N(μ_e(x̄), Σ_e + J C Jᵀ).
 //
-// The test statistic is what the entry's data say about the quantities it
-// informs, relative to that prediction: the standalone generalised least
-// squares map A = W H⁻¹ JᵀΣ_e⁻¹ with H = P₀ + JᵀΣ_e⁻¹J (P₀ the prior
-// precision, zero for a flat offset) applied to the residual,
+// The test statistic is what the entry's data say about the parameters
+// they touch, relative to that prediction: one Gauss–Newton step of the
+// entry's data alone from x̄, the standalone generalised least squares map
+// A = W H⁻¹ JᵀΣ_e⁻¹ with H = P₀ + JᵀΣ_e⁻¹J (P₀ the prior precision, zero
+// for a flat offset) applied to the residual,
 //
 //	t = A (y_e − μ_e(x̄)),   V = Cov t = W H⁻¹ F H⁻¹ Wᵀ + (W H⁻¹ F) C (W H⁻¹ F)ᵀ,  F = JᵀΣ_e⁻¹J,
 //
-// and d² = tᵀ V⁻¹ t is χ² with rank(V) degrees of freedom when the entry
+// and d² = tᵀ V⁺ t is χ² with rank(V) degrees of freedom when the entry
 // agrees with the others (Gelman, Meng & Stern 1996 for predictive checks;
 // Vehtari, Gelman & Gabry 2017 for leave-one-out predictive densities —
-// from memory). A flat offset drops out of t exactly (A J e_f = W e_f = 0),
-// so its improper prior does no harm. W picks β of each quantity the entry
-// informs (total = front + rear) and, with the linear speed model, the
-// speed slope γ where the entry's speeds inform it.
+// from memory). W picks every touched parameter with a proper prior (see
+// weights); a flat offset drops out of t exactly (A J e_f = W e_f = 0), so
+// its improper prior does no harm. The rank of V is the number of
+// directions the entry's data can tell apart, so the degrees of freedom
+// follow what the data say, not how many parameters are named.
 
 // paramKey names parameter i of (θ, φ) so that the same parameter can be
 // found in a model of a subset of the entries.
@@ -108,12 +110,12 @@ func predictiveMoments(full *model, others *Posterior) ([]float64, *mat.SymDense
 }
 
 // looStat is the predictive check's statistic of one entry: t and V over
-// the rows of W (see above), with the quantity each row stands for.
+// the rows of W (see weights).
 type looStat struct {
 	t     []float64
 	V     *mat.SymDense
-	names []evidence.Quantity
-	slope []bool // the row is a speed slope γ, not β at V_ref
+	names []evidence.Quantity // the lift parameter of a row, where it is one
+	lift  []bool              // the row is a lift parameter β at V_ref
 }
 
 // looPredictive computes the statistic of entry e's Gaussian data under the
@@ -256,46 +258,81 @@ func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C 
 }
 
 // weights returns the rows of W over the touched parameters (pos maps a
-// full column to its place among nc): β of each quantity the entry informs
-// and, with the linear speed model, its slope γ where touched.
+// full column to its place among nc): one row for the lift β and speed
+// slope γ the entry's data touch, and one for each of its own errors with
+// a proper prior (tyre growth, gain, an integration scale), so that a
+// discrepancy the entry's data put into one of its own errors (a laser
+// whose tyres grow 3 mm against a prior of 0.5 ± 0.5) is seen as well as
+// one in its lift. Left out: a flat offset (its prior says nothing to
+// compare with) and the errors shared with other entries (springs of an
+// axle, the wind, the pitch of drag) — they are conditioned on the others
+// in the prediction, and a disagreement about them is not this entry's
+// alone (the wind's direction-dependent part is also where unmodelled
+// direction effects — gusts, a gradient, acceleration — show; the model
+// checks look for those).
 func (st *looStat) weights(full *model, ev evidence.Evidence, pos map[int]int, nc int) [][]float64 {
 	var W [][]float64
-	addRow := func(q evidence.Quantity, slope bool) {
+	for i, k := range sortedCols(pos) {
+		if full.priorPrecision(k) == 0 || full.sharedParam(k) {
+			continue
+		}
 		w := make([]float64, nc)
-		any := false
-		for _, r := range full.quantity(q) {
-			c := r.col
-			if slope {
-				c = full.gammaOf(c)
-			}
-			if k, ok := pos[c]; ok {
-				w[k] += r.v
-				any = true
-			}
+		w[i] = 1
+		W = append(W, w)
+		q, lift := evidence.Quantity{}, false
+		if k < len(full.lin) && full.lin[k].kind != kindNuisance {
+			q = evidence.Quantity{Config: full.lin[k].config, Axle: full.lin[k].axle}
+			lift = full.lin[k].kind == kindBeta
 		}
-		if any {
-			W = append(W, w)
-			st.names = append(st.names, q)
-			st.slope = append(st.slope, slope)
-		}
-	}
-	for _, q := range ev.Informs {
-		addRow(q, false)
-	}
-	if full.set.Linear {
-		for _, q := range ev.Informs {
-			addRow(q, true)
-		}
+		st.names = append(st.names, q)
+		st.lift = append(st.lift, lift)
 	}
 	return W
 }
 
+// sharedParam reports whether parameter k of (θ, φ) is an error that more
+// than one entry declares.
+func (m *model) sharedParam(k int) bool {
+	p := len(m.lin)
+	if k >= p {
+		return len(m.phi[k-p].owners) > 1
+	}
+	return m.lin[k].kind == kindNuisance && len(m.lin[k].owners) > 1
+}
+
+// sortedCols returns the full columns of pos in the order of their places.
+func sortedCols(pos map[int]int) []int {
+	cols := make([]int, len(pos))
+	for c, i := range pos {
+		cols[i] = c
+	}
+	return cols
+}
+
 // metric returns the pseudo-inverse V⁺ of the statistic's covariance and
-// its rank, dropping eigen-directions below 10⁻¹⁰ of the largest (a
-// quantity the entry informs twice, as front, rear and total).
+// its rank. The rows of t are dependent where the entry's data cannot
+// tell two parameters apart (a pot's spring rate and its gain both scale
+// its lift), so V is singular there: its eigen-directions below 10⁻⁶ of
+// the largest, on the correlation scale (the rows are in m², mm and log
+// units), are dropped — a loose cut, because the φ columns of J come from
+// finite differences and a direction the data cannot see keeps an
+// eigenvalue of their rounding, about 10⁻¹⁰.
 func (st *looStat) metric() (*mat.SymDense, int) {
+	k := len(st.t)
+	sd := make([]float64, k)
+	R := mat.NewSymDense(k, nil)
+	for i := range k {
+		sd[i] = math.Sqrt(st.V.At(i, i))
+	}
+	for i := range k {
+		for j := i; j < k; j++ {
+			if sd[i] > 0 && sd[j] > 0 {
+				R.SetSym(i, j, st.V.At(i, j)/(sd[i]*sd[j]))
+			}
+		}
+	}
 	var eig mat.EigenSym
-	if !eig.Factorize(st.V, true) {
+	if !eig.Factorize(R, true) {
 		return nil, 0
 	}
 	vals := eig.Values(nil)
@@ -305,16 +342,23 @@ func (st *looStat) metric() (*mat.SymDense, int) {
 	for _, v := range vals {
 		top = math.Max(top, v)
 	}
-	k := len(vals)
-	Vp := mat.NewSymDense(k, nil)
+	Rp := mat.NewSymDense(k, nil)
 	rank := 0
 	for i, v := range vals {
-		if v <= 1e-10*top || v <= 0 {
+		if v <= 1e-6*top || v <= 0 {
 			continue
 		}
 		rank++
-		u := U.ColView(i)
-		Vp.SymRankOne(Vp, 1/v, u)
+		Rp.SymRankOne(Rp, 1/v, U.ColView(i))
+	}
+	// V⁺ = D⁻¹ R⁺ D⁻¹ with D the diagonal of sds.
+	Vp := mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			if sd[i] > 0 && sd[j] > 0 {
+				Vp.SetSym(i, j, Rp.At(i, j)/(sd[i]*sd[j]))
+			}
+		}
 	}
 	return Vp, rank
 }
