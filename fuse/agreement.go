@@ -41,16 +41,16 @@ func (ag *Agreement) warning(entry string) string {
 // say. For an entry of sign evidence only, it is the posterior predictive
 // p-value of the observed senses under the others' posterior, with
 // T = −Σ log P(sense | θ).
-func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) *Agreement {
+func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) (*Agreement, *looStat) {
 	if len(ev.Blocks) == 0 && len(ev.Signs) > 0 {
-		return signAgreement(full, ei, others)
+		return signAgreement(full, ei, others), nil
 	}
 	if len(ev.Informs) == 0 {
-		return &Agreement{PValue: 1, Note: "informs no quantity"}
+		return &Agreement{PValue: 1, Note: "informs no quantity"}, nil
 	}
 	st, ok := looPredictive(full, ei, ev, others)
 	if !ok {
-		return &Agreement{PValue: 1, Note: "the leave-one-out prediction of its data is singular"}
+		return &Agreement{PValue: 1, Note: "the leave-one-out prediction of its data is singular"}, nil
 	}
 	ag := &Agreement{}
 	worst := -1.0
@@ -67,12 +67,13 @@ func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) *Ag
 	Vp, rank := st.metric()
 	if rank == 0 {
 		ag.PValue, ag.Note = 1, "the leave-one-out prediction of its data is singular"
-		return ag
+		return ag, nil
 	}
 	d2 := quadForm(Vp, st.t)
+	st.Vp, st.d2 = Vp, d2
 	ag.Distance = math.Sqrt(d2)
 	ag.PValue = distuv.ChiSquared{K: float64(rank)}.Survival(d2)
-	return ag
+	return ag, st
 }
 
 func covariance(a, b []float64) float64 {

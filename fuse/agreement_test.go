@@ -272,3 +272,54 @@ func TestPriorDrawnFalseAlarms(t *testing.T) {
 		t.Errorf("%d flags in %d entry-days, want ≤ 4 %%", flags, n)
 	}
 }
+
+// TestDiagnoseTyreGrowth: a rear laser whose tyres grow more than its
+// prior of 0.5 ± 0.5 mm at 100 km/h says. The laser alone is flagged; its
+// diagnosis names its tyre growth first, at the planted value (the
+// simulation's truth) within 0.3 mm, when that is within 4 prior sd
+// (2.3 mm: 3.6 sd); at 3.5 mm (6 sd) no single error within the bounds
+// explains it, and the diagnosis says so with a ride-height entry's
+// checks.
+func TestDiagnoseTyreGrowth(t *testing.T) {
+	seeds := []int{3, 4, 5}
+	if testing.Short() {
+		seeds = seeds[:1]
+	}
+	cases := []struct {
+		name    string
+		growth  float64
+		verdict string
+	}{
+		{"3.6 sd", 2.3, fuse.VerdictExplained},
+		{"6 sd", 3.5, fuse.VerdictUnexplained},
+	}
+	for _, tc := range cases {
+		for _, seed := range seeds {
+			t.Run(fmt.Sprintf("%s seed %d", tc.name, seed), func(t *testing.T) {
+				f, err := fuse.Run(simInput(t, fmt.Sprintf(simSpec, seed, tc.growth, "constant", plainWing, "80, 120, 150"), []float64{100}))
+				if err != nil {
+					t.Fatal(err)
+				}
+				if got := flagged(f.Result); len(got) != 1 || got[0] != "rlaser" {
+					t.Fatalf("flagged %v, want [rlaser]", got)
+				}
+				cc, err := f.Diagnose("rlaser")
+				if err != nil || cc == nil {
+					t.Fatalf("diagnosis %v, %v", cc, err)
+				}
+				t.Logf("%s: %s", cc.Verdict, cc.Summary)
+				if cc.Verdict != tc.verdict {
+					t.Fatalf("verdict %q, want %q", cc.Verdict, tc.verdict)
+				}
+				if tc.verdict == fuse.VerdictExplained {
+					first := cc.Explanations[0]
+					if !strings.Contains(first.Nuisance, "tyre growth") || math.Abs(first.Value-tc.growth) > 0.3 || first.ShiftSD <= 2 || first.ShiftSD > 4 {
+						t.Errorf("first explanation %+v, want the rear tyre growth at %.1f mm", first, tc.growth)
+					}
+				} else if len(cc.Explanations) != 0 || !containsText(cc.Checks, "tyre pressure") || containsText(cc.Checks, "tap tube") {
+					t.Errorf("explanations %+v, checks %q; want none, a ride-height entry's checks", cc.Explanations, cc.Checks)
+				}
+			})
+		}
+	}
+}

@@ -159,33 +159,6 @@ func (f *Fused) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	return cc, nil
 }
 
-// Diagnose asks which of a flagged entry's own modelled errors would have
-// to move least for it to agree with the other entries on the quantity
-// where it disagrees most (Agreement.Worst): the others' estimate there is
-// the claim, in m² at V_ref, and the entry's standalone posterior the
-// prediction. Its explanations are the entry's own errors and those it
-// shares, so they match its kind; nil when the entry is not flagged or
-// has no standalone and others' posteriors. An error the entry shares with
-// another entry (the springs of an axle, the wind, the pitch of drag) moves
-// both sides of the disagreement alike and cannot explain it: only the
-// entry's own errors are asked.
-func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
-	var ag *Agreement
-	for _, m := range f.Result.Methods {
-		if m.ID == entry {
-			ag = m.Agreement
-		}
-	}
-	alone, others := f.Standalone[entry], f.Others[entry]
-	if ag == nil || !ag.Flag || ag.Worst == nil || alone == nil || others == nil {
-		return nil, nil
-	}
-	w := ag.Worst
-	e, _ := others.Quantity(evidence.Quantity{Config: w.Config, Axle: w.Axle})
-	return alone.crosscheck(Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"},
-		f.Result.Air.DensityKgM3, f.Plain.p.m.sharedKeys())
-}
-
 // sharedKeys names (by paramKey) the errors that more than one entry
 // declares.
 func (m *model) sharedKeys() map[string]bool {
@@ -353,18 +326,10 @@ func explain(claim float64, T, nu []float64, et errorTerm) (Explanation, bool) {
 	}
 	shift := (claim - tm) * et.sd / c
 	target := et.mean + shift*et.sd
-	ex := Explanation{Nuisance: et.label, ShiftSD: shift, Value: target, Unit: et.unit, Plausible: math.Abs(shift) <= 2}
 	if !et.within(shift, target) {
 		return Explanation{}, false
 	}
-	switch {
-	case et.logScale:
-		ex.Value, ex.Unit = math.Exp(target), "×"
-		ex.Note = fmt.Sprintf("the %s factor would have to be ×%.3g instead of ×1 (prior ±%.1f %%)", et.label, ex.Value, 100*et.sd)
-	default:
-		ex.Note = strings.Replace(fmt.Sprintf("the %s would have to be %.3g %s instead of %.3g ± %.3g", et.label, target, et.unit, et.mean, et.sd), "  ", " ", 1)
-	}
-	return ex, true
+	return et.explanation("", shift, target), true
 }
 
 // within reports whether a shift of an error, in prior sd, and the value

@@ -116,6 +116,14 @@ type looStat struct {
 	V     *mat.SymDense
 	names []evidence.Quantity // the lift parameter of a row, where it is one
 	lift  []bool              // the row is a lift parameter β at V_ref
+
+	// For the diagnosis: AJ = A·J, how t moves when a touched parameter
+	// moves (k×nc), cols the full index of each of its columns, Vp = V⁺
+	// and d2 = tᵀV⁺t.
+	AJ   *mat.Dense
+	cols []int
+	Vp   *mat.SymDense
+	d2   float64
 }
 
 // looPredictive computes the statistic of entry e's Gaussian data under the
@@ -247,6 +255,7 @@ func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C 
 	V1.Mul(&AJ, B.T())
 	tmp.Mul(&AJ, Cs)
 	V2.Mul(&tmp, AJ.T())
+	st.AJ, st.cols = &AJ, cols
 	st.V = mat.NewSymDense(k, nil)
 	for i := range k {
 		for j := i; j < k; j++ {

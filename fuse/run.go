@@ -30,6 +30,9 @@ type Fused struct {
 	Standalone map[string]*Posterior
 	Others     map[string]*Posterior
 	Result     *Result
+
+	full *model              // the plain joint model
+	loo  map[string]*looStat // each entry's leave-one-out statistic, for Diagnose
 }
 
 // Run fuses every entry, computes each entry's standalone posterior and its
@@ -58,7 +61,8 @@ func Run(in Input) (*Fused, error) {
 	for _, c := range in.Checks {
 		res.Warnings = append(res.Warnings, c.Line())
 	}
-	out := &Fused{Posterior: P, Plain: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res}
+	out := &Fused{Posterior: P, Plain: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res,
+		full: full, loo: map[string]*looStat{}}
 
 	configResults(res, P, in, set)
 	deltaResults(res, P, in.Reference, set.Configs)
@@ -156,7 +160,8 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 		if len(evs) > 1 {
 			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag := agreement(full, ei, ev, O)
+			ag, st := agreement(full, ei, ev, O)
+			out.loo[ev.Entry] = st
 			ag.POff = lo.pOff[ei]
 			ag.Flag = ag.flagged()
 			if ag.Flag {
