@@ -57,10 +57,8 @@ func Run(in Input) (*Fused, error) {
 	}
 	res := &Result{Format: ResultFormat, Credible: set.Credible, Air: AirInfo{DensityKgM3: in.Rho, Method: "CIPM-2007"},
 		Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Methods: []MethodResult{}, Warnings: append([]string{}, in.Warnings...),
-		Headline: HeadlinePlain, DownWeighted: []string{}, Checks: append([]Check{}, in.Checks...)}
-	for _, c := range in.Checks {
-		res.Warnings = append(res.Warnings, c.Line())
-	}
+		Headline: HeadlinePlain, DownWeighted: []string{}}
+	res.AddChecks(in.Checks)
 	out := &Fused{Posterior: P, Plain: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res,
 		full: full, loo: map[string]*looStat{}}
 
@@ -201,7 +199,8 @@ func axle(P *Posterior, config, ax string) AxleResult {
 // estimates filled (what `reduce --json` prints).
 func Standalone(evs []evidence.Evidence, set Settings) (*Result, error) {
 	set = set.withDefaults()
-	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{}}
+	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{},
+		DownWeighted: []string{}, Checks: []Check{}}
 	for _, ev := range evs {
 		alone, err := Fit([]evidence.Evidence{ev}, set)
 		if err != nil {
