@@ -48,7 +48,7 @@ func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) (*A
 	if len(ev.Informs) == 0 {
 		return &Agreement{PValue: 1, Note: "informs no quantity"}, nil
 	}
-	st, ok := looPredictive(full, ei, ev, others)
+	st, ok := looPredictive(full, ei, others)
 	if !ok {
 		return &Agreement{PValue: 1, Note: "the leave-one-out prediction of its data is singular"}, nil
 	}

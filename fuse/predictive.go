@@ -129,7 +129,7 @@ type looStat struct {
 // looPredictive computes the statistic of entry e's Gaussian data under the
 // others' posterior; ok is false when the entry has no Gaussian data or the
 // computation is singular.
-func looPredictive(full *model, e int, ev evidence.Evidence, others *Posterior) (*looStat, bool) {
+func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
 	mean, C := predictiveMoments(full, others)
 	p := len(full.lin)
 	theta, phi := mean[:p], mean[p:]
@@ -188,16 +188,16 @@ func looPredictive(full *model, e int, ev evidence.Evidence, others *Posterior) 
 		}
 		k += nb
 	}
-	if !st.finish(full, ev, J, G, C, res) {
+	if !st.finish(full, J, G, C, res) {
 		return nil, false
 	}
 	return st, true
 }
 
-// finish computes t, V and M over the parameters the entry's data touch
+// finish computes t, V and A·J over the parameters the entry's data touch
 // (the others do not enter H⁻¹ restricted to them, the prior being
 // independent between parameters).
-func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C *mat.SymDense, res []float64) bool {
+func (st *looStat) finish(full *model, J, G *mat.Dense, C *mat.SymDense, res []float64) bool {
 	n, D := J.Dims()
 	var F mat.Dense
 	F.Mul(J.T(), G)
@@ -209,7 +209,7 @@ func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C 
 			cols = append(cols, i)
 		}
 	}
-	W := st.weights(full, ev, pos, len(cols))
+	W := st.weights(full, pos, len(cols))
 	if len(W) == 0 {
 		return false
 	}
@@ -279,7 +279,7 @@ func (st *looStat) finish(full *model, ev evidence.Evidence, J, G *mat.Dense, C 
 // alone (the wind's direction-dependent part is also where unmodelled
 // direction effects — gusts, a gradient, acceleration — show; the model
 // checks look for those).
-func (st *looStat) weights(full *model, ev evidence.Evidence, pos map[int]int, nc int) [][]float64 {
+func (st *looStat) weights(full *model, pos map[int]int, nc int) [][]float64 {
 	var W [][]float64
 	for i, k := range sortedCols(pos) {
 		if full.priorPrecision(k) == 0 || full.sharedParam(k) {
