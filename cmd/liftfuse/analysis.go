@@ -9,6 +9,7 @@ import (
 	"liftfuse/fuse"
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/checks"
 	"liftfuse/methods/height"
 )
 
@@ -21,11 +22,7 @@ type analysis struct {
 
 // settings returns the fusion settings of a campaign.
 func settings(c *campaign.Campaign) fuse.Settings {
-	ids := make([]string, len(c.Configurations))
-	for i, cf := range c.Configurations {
-		ids[i] = cf.ID
-	}
-	return fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
+	return fuse.Settings{Configs: c.ConfigIDs(), PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 		Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}
 }
 
@@ -79,6 +76,7 @@ func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campa
 	f, err := fuse.Run(fuse.Input{
 		Evidence: r.Evidence(), Settings: settings(c), Reference: c.Report.ReferenceConfig,
 		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
+		Checks: modelChecks(c, r),
 	})
 	if err != nil {
 		return nil, err
@@ -87,6 +85,17 @@ func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campa
 		return nil, err
 	}
 	return &analysis{campaign: c, reduced: r, fused: f}, nil
+}
+
+// modelChecks runs the model checks on the adapters' results and hands
+// them over in the result document's type (the same fields).
+func modelChecks(c *campaign.Campaign, r *methods.Reduced) []fuse.Check {
+	cs := checks.Run(c, r)
+	out := make([]fuse.Check, len(cs))
+	for i, k := range cs {
+		out[i] = fuse.Check(k)
+	}
+	return out
 }
 
 // stamp fills the result's campaign title, input hash and tool version.

@@ -49,6 +49,7 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 		return err
 	}
 	res.Warnings = append(r.Warnings, res.Warnings...)
+	res.AddChecks(modelChecks(c, r))
 	if err := stamp(res, c); err != nil {
 		return err
 	}

@@ -9,7 +9,6 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods/campaign"
-	"liftfuse/methods/evidence"
 	"liftfuse/report"
 )
 
@@ -125,21 +124,16 @@ func runReport(ctx context.Context, o reportOptions, out, stderr io.Writer) erro
 	return nil
 }
 
-// explanations asks, for each flagged entry, which of its own modelled
-// errors would have to move least for it to agree with the other entries on
-// the quantity where it disagrees most: the others' estimate is the claim,
-// the entry's standalone posterior the prediction.
+// explanations asks, for each flagged entry, which single one of its own
+// modelled errors, within physical bounds, explains its disagreement with
+// the other entries (fuse.Fused.Diagnose), if any.
 func explanations(a *analysis) (map[string]*fuse.Crosscheck, error) {
 	out := map[string]*fuse.Crosscheck{}
 	for _, m := range a.fused.Result.Methods {
-		ag := m.Agreement
-		alone, others := a.fused.Standalone[m.ID], a.fused.Others[m.ID]
-		if ag == nil || !ag.Flag || ag.Worst == nil || alone == nil || others == nil {
+		if ag := m.Agreement; ag == nil || !ag.Flag {
 			continue
 		}
-		w := ag.Worst
-		e, _ := others.Quantity(evidence.Quantity{Config: w.Config, Axle: w.Axle})
-		cc, err := alone.Crosscheck(fuse.Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, a.campaign.Density())
+		cc, err := a.fused.Diagnose(m.ID)
 		if err != nil {
 			return nil, err
 		}
