@@ -130,11 +130,11 @@ func smallExp(b []byte) (int, bool) {
 }
 
 // prefixFloat parses the plain decimal number at the start of b (sign,
-// digits, optional fraction; no exponent) and returns it with the bytes it
+// digits, optional fraction after the decimal mark dec; no exponent) and returns it with the bytes it
 // took. ok is false when the prefix is not such a number or carries more
 // than 15 significant digits; the caller then takes the general path. The
 // result is exact by the same argument as fastFloat's.
-func prefixFloat(b []byte) (x float64, n int, ok bool) {
+func prefixFloat(b []byte, dec byte) (x float64, n int, ok bool) {
 	i := 0
 	neg := false
 	if i < len(b) && (b[i] == '-' || b[i] == '+') {
@@ -157,7 +157,7 @@ func prefixFloat(b []byte) (x float64, n int, ok bool) {
 	}
 	intDigits := i - start
 	frac := 0
-	if i < len(b) && b[i] == '.' {
+	if i < len(b) && b[i] == dec {
 		i++
 		fs := i
 		for ; i < len(b); i++ {

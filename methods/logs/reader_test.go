@@ -45,7 +45,7 @@ func TestReaderErrors(t *testing.T) {
 	}{
 		{"empty file", "", 1, 0, "", logs.ErrEmpty, true},
 		{"header only blank", "\n\n", 1, 0, "", logs.ErrEmpty, true},
-		{"missing column", "t,v\n0,1\n", 1, 0, "cfg", logs.ErrNoColumn, true},
+		{"missing column", "t,v\n0,1\n", 1, 1, "cfg", logs.ErrNoColumn, true},
 		{"non-numeric cell", "t,v,cfg\n0,1,a\n1,x1,a\n", 3, 3, "v", logs.ErrNotNumber, false},
 		{"missing cell", "t,v,cfg\n0,1,a\n1,,a\n", 3, 3, "v", logs.ErrMissingCell, false},
 		{"short row", "t,v,cfg\n0,1,a\n1,2\n", 3, 4, "cfg", logs.ErrMissingCell, false},
