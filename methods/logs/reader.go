@@ -231,6 +231,7 @@ func cellColumn(line []byte, delim byte, i int) int {
 	}
 	return utf8.RuneCount(line[:at]) + 1
 }
+
 // Names returns the header's column names, in file order.
 func (r *Reader) Names() []string { return r.names }
 

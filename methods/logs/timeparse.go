@@ -78,7 +78,8 @@ func clockNanos(b []byte, dec byte) (int64, bool) {
 // full-date "T" full-time) as nanoseconds since 1970-01-01T00:00:00Z. As
 // the RFC's section 5.6 note allows, a space or lower-case "t" may stand
 // for the "T"; the fraction may follow '.' or ','; a missing zone is taken
-// as UTC. Leap seconds (:60) are refused, as Go's time package does.
+// as UTC. Leap seconds (:60) are refused, as Go's time package does, and
+// so are years outside 1700–2200.
 func isoNanos(b []byte) (int64, bool) {
 	if len(b) < 19 || b[4] != '-' || b[7] != '-' || b[13] != ':' || b[16] != ':' {
 		return 0, false
@@ -97,6 +98,9 @@ func isoNanos(b []byte) (int64, bool) {
 		return 0, false
 	}
 	y := y1*100 + y2
+	if y < 1700 || y > 2200 { // int64 nanoseconds span 1678–2262
+		return 0, false
+	}
 	if mo < 1 || mo > 12 || d < 1 || d > daysIn(y, mo) || h > 23 || mi > 59 || s > 59 {
 		return 0, false
 	}
@@ -151,9 +155,9 @@ func daysFromCivil(y, m, d int) int64 {
 	if m <= 2 {
 		y--
 	}
-	era := y / 400 // y ≥ −1 here, and −1/400 is 0 as the algorithm wants for y ≥ 0 eras
+	era := y / 400
 	if y < 0 {
-		era = (y - 399) / 400
+		era = (y - 399) / 400 // floor division
 	}
 	yoe := y - era*400
 	mp := (m + 9) % 12
