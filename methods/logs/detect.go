@@ -89,7 +89,7 @@ func (r *Reader) settle(buf []byte, final bool) (done bool, err error) {
 		}
 		return err != nil, err
 	}
-	skip := r.format.SkipLines
+	skip := max(r.format.SkipLines, 0)
 	if !final && len(lines) < h+1+max(skip, 1)+detectRows {
 		return false, nil
 	}
@@ -98,10 +98,12 @@ func (r *Reader) settle(buf []byte, final bool) (done bool, err error) {
 	if err := r.setHeader(lines[h]); err != nil {
 		return true, err
 	}
-	if skip == 0 && h+1 < len(lines) && r.isUnitsRow(lines[h+1]) {
+	if r.format.SkipLines == 0 && h+1 < len(lines) && r.isUnitsRow(lines[h+1]) {
 		skip = 1
 	}
-	r.format.SkipLines = skip
+	if r.format.SkipLines >= 0 {
+		r.format.SkipLines = skip
+	}
 	last := min(h+skip, len(lines)-1) // index of the last line before the data
 	r.line = last + 1
 	rest := buf[ends[last]:]
@@ -121,7 +123,7 @@ func (r *Reader) findHeader(lines [][]byte, final bool) (h int, delim byte, err 
 	if f.HeaderLine > 0 {
 		if f.HeaderLine > len(lines) {
 			if final {
-				return -1, 0, &ParseError{File: r.file, Line: len(lines), Err: fmt.Errorf("%w: header_line is %d but the file has %d lines", ErrNoHeader, f.HeaderLine, len(lines))}
+				return -1, 0, &ParseError{File: r.file, Line: max(len(lines), 1), Err: fmt.Errorf("%w: header_line is %d but the file has %d lines", ErrNoHeader, f.HeaderLine, len(lines))}
 			}
 			return -1, 0, nil
 		}

@@ -28,7 +28,9 @@ type Format struct {
 	// SkipLines is the number of lines right after the header to skip (a
 	// units row, say). Zero: one line is skipped when the line right under
 	// the header is a units row — it has a non-empty cell and no cell that
-	// reads as a number or a time ("s", "km/h", "V").
+	// reads as a number or a time ("s", "km/h", "V"). NoSkip (negative):
+	// none is skipped, nothing detected (a campaign's explicit
+	// "skip_lines: 0").
 	SkipLines int
 	// Time is how the time column (the Column marked Time, else the
 	// reader's Increasing column) is written. With TimeClock and TimeISO
@@ -37,6 +39,9 @@ type Format struct {
 	// Empty is what an empty cell in an asked-for column means.
 	Empty EmptyPolicy
 }
+
+// NoSkip as Format.SkipLines skips no line and detects no units row.
+const NoSkip = -1
 
 // TimeFormat is how time is written in a log.
 type TimeFormat uint8
@@ -162,8 +167,6 @@ func (f Format) Check() error {
 	switch {
 	case f.HeaderLine < 0:
 		return fmt.Errorf("%w: header_line %d (want 1 or more)", ErrBadFormat, f.HeaderLine)
-	case f.SkipLines < 0:
-		return fmt.Errorf("%w: skip_lines %d (want 0 or more)", ErrBadFormat, f.SkipLines)
 	case f.Time > TimeISO:
 		return fmt.Errorf("%w: time %d", ErrBadFormat, f.Time)
 	case f.Empty > EmptySkip:
@@ -185,9 +188,9 @@ func (f Format) String() string {
 	if f.HeaderLine > 0 {
 		parts = append(parts, fmt.Sprintf("header on line %d", f.HeaderLine))
 	}
-	switch f.SkipLines {
-	case 0:
-	case 1:
+	switch {
+	case f.SkipLines <= 0:
+	case f.SkipLines == 1:
 		parts = append(parts, "1 units row skipped")
 	default:
 		parts = append(parts, fmt.Sprintf("%d lines skipped after the header", f.SkipLines))

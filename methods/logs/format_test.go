@@ -461,7 +461,7 @@ func TestFormatKeys(t *testing.T) {
 		{"decimal comma with semicolon", logs.Format{Delimiter: ';', Decimal: ','}, true},
 		{"decimal comma with comma cells", logs.Format{Delimiter: ',', Decimal: ','}, false},
 		{"pipe delimiter", logs.Format{Delimiter: '|'}, false},
-		{"negative skip", logs.Format{SkipLines: -1}, false},
+		{"negative header line", logs.Format{HeaderLine: -1}, false},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -495,6 +495,35 @@ func TestFormatKeys(t *testing.T) {
 			}
 			if err != nil || got != tt.want {
 				t.Errorf("got %v, %v; want %v", got, err, tt.want)
+			}
+		})
+	}
+}
+
+// TestNoSkip: with skip_lines given as 0 a units row is not skipped but is
+// an error at its place.
+func TestNoSkip(t *testing.T) {
+	src := "t;v\ns;V\n0;1\n"
+	tests := []struct {
+		name string
+		skip int
+		line int // of the error, or 0
+	}{
+		{"detected", 0, 0},
+		{"given", 1, 0},
+		{"none", logs.NoSkip, 2},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r, err := logs.NewReaderFormat(strings.NewReader(src), "u.csv", []logs.Column{{Name: "t", Time: true}, {Name: "v"}}, logs.Format{SkipLines: tt.skip})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for r.Next() {
+			}
+			var pe *logs.ParseError
+			if tt.line == 0 && r.Err() != nil || tt.line != 0 && (!errors.As(r.Err(), &pe) || pe.Line != tt.line) {
+				t.Errorf("err = %v, want an error on line %d", r.Err(), tt.line)
 			}
 		})
 	}
