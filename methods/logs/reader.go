@@ -119,6 +119,7 @@ type Reader struct {
 
 	cur      *block
 	i        int
+	base     int // index of the current row's first cell in cur.vals
 	prev     float64
 	havePrev bool
 	blank    int // first line of trailing blank lines of the previous block
@@ -131,8 +132,11 @@ type block struct {
 	rows  int
 	line  []int32     // line number of each row
 	start []int32     // offset of each row in data
-	vals  [][]float64 // per asked column (numeric); NaN is an empty cell held
-	text  [][][2]int32
+	// vals holds the asked-for cells row by row (row i, column k at
+	// i·len(cols)+k): numbers (NaN: an empty cell to hold), clock and ISO
+	// times as int64 nanoseconds in the float's bits until Next converts
+	// them, text as a span of data packed in the bits (see span).
+	vals []float64
 	// trailing is the line of the first blank line after the last row, or 0
 	trailing int
 	err      error
@@ -247,7 +251,10 @@ func (r *Reader) Next() bool {
 		}
 	}
 	for {
-		if !r.advance() {
+		if r.cur != nil && r.i+1 < r.cur.rows {
+			r.i++ // the common case, kept inline
+			r.base += len(r.cols)
+		} else if !r.advance() {
 			return false
 		}
 		if r.post && !r.postRow() {
@@ -259,7 +266,7 @@ func (r *Reader) Next() bool {
 		break
 	}
 	if k := r.Increasing; k >= 0 {
-		x := r.cur.vals[k][r.i]
+		x := r.cur.vals[r.base+k]
 		if r.havePrev && !(x > r.prev) {
 			r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
 				Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
@@ -300,6 +307,7 @@ func (r *Reader) advance() bool {
 		}
 	}
 	r.i++
+	r.base = r.i * len(r.cols)
 	return true
 }
 
@@ -308,24 +316,23 @@ func (r *Reader) advance() bool {
 // sample. It returns false when the row is dropped because a held column
 // has had no value yet.
 func (r *Reader) postRow() bool {
-	b, i, keep := r.cur, r.i, true
+	row, keep := r.cur.vals[r.base:r.base+len(r.cols)], true
 	for k, h := range r.hold {
 		if !h {
 			continue
 		}
 		if r.kind[k] == kindText {
-			s := b.text[k][i]
-			if s[0] >= 0 {
-				r.lastTxt[k] = append(r.lastTxt[k][:0], b.data[s[0]:s[1]]...)
+			if s, e, ok := unspan(row[k]); ok {
+				r.lastTxt[k] = append(r.lastTxt[k][:0], r.cur.data[s:e]...)
 				r.has[k] = true
 			}
 			keep = keep && r.has[k]
 			continue
 		}
-		if x := b.vals[k][i]; x == x {
+		if x := row[k]; x == x {
 			r.last[k], r.has[k] = x, true
 		} else {
-			b.vals[k][i] = r.last[k]
+			row[k] = r.last[k]
 			keep = keep && r.has[k]
 		}
 	}
@@ -333,7 +340,7 @@ func (r *Reader) postRow() bool {
 		return false
 	}
 	if k := r.timeK; k >= 0 && r.kind[k] >= kindClock {
-		ns := int64(math.Float64bits(b.vals[k][i]))
+		ns := int64(math.Float64bits(row[k]))
 		if !r.haveT0 {
 			r.t0, r.prevNs, r.haveT0 = ns, ns, true
 		}
@@ -342,7 +349,7 @@ func (r *Reader) postRow() bool {
 		}
 		ns += r.day
 		r.prevNs = ns
-		b.vals[k][i] = float64(ns-r.t0) / float64(nsPerSec)
+		row[k] = float64(ns-r.t0) / float64(nsPerSec)
 	}
 	return true
 }
@@ -358,16 +365,27 @@ func (r *Reader) Origin() float64 {
 }
 
 // Float returns the value of asked-for column k in the current row.
-func (r *Reader) Float(k int) float64 { return r.cur.vals[k][r.i] }
+func (r *Reader) Float(k int) float64 { return r.cur.vals[r.base+k] }
 
 // Text returns the bytes of asked-for text column k in the current row;
 // they are valid until the next call to Next.
 func (r *Reader) Text(k int) []byte {
-	s := r.cur.text[k][r.i]
-	if s[0] < 0 {
+	s, e, ok := unspan(r.cur.vals[r.base+k])
+	if !ok {
 		return r.lastTxt[k] // an empty cell, held
 	}
-	return r.cur.data[s[0]:s[1]]
+	return r.cur.data[s:e]
+}
+
+// span packs the offsets of a text cell in data into a float's bits;
+// noSpan (all ones) marks an empty cell to hold.
+func span(s, e int) float64 { return math.Float64frombits(uint64(s)<<32 | uint64(e)) }
+
+const noSpan = ^uint64(0)
+
+func unspan(x float64) (s, e int, ok bool) {
+	u := math.Float64bits(x)
+	return int(u >> 32), int(uint32(u)), u != noSpan
 }
 
 // File returns the name the reader gives its source in errors.
@@ -548,17 +566,10 @@ func (r *Reader) newBlock(data []byte) *block {
 	select {
 	case b = <-r.spare:
 	default:
-		b = &block{vals: make([][]float64, len(r.cols)), text: make([][][2]int32, len(r.cols))}
+		b = &block{}
 	}
 	b.data, b.rows, b.trailing, b.err = data, 0, 0, nil
-	b.line, b.start = b.line[:0], b.start[:0]
-	for k, c := range r.cols {
-		if c.Text {
-			b.text[k] = b.text[k][:0]
-		} else {
-			b.vals[k] = b.vals[k][:0]
-		}
-	}
+	b.line, b.start, b.vals = b.line[:0], b.start[:0], b.vals[:0]
 	return b
 }
 
@@ -622,12 +633,20 @@ var errSkipRow = errors.New("row skipped")
 // the same pass that finds the delimiters; an unusual cell (spaces, quotes,
 // an exponent, many digits, an empty cell, a time) takes the general path.
 func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
-	at, found := 0, 0
+	nc := len(r.cols)
+	base := len(b.vals)
+	if base+nc > cap(b.vals) {
+		b.vals = append(b.vals, make([]float64, nc)...)
+	}
+	b.vals = b.vals[:base+nc]
+	out := b.vals[base : base+nc]
+	at, found, j := 0, 0, 0
 	d, dec := r.delim, r.dec
-	for _, k := range r.want {
-		if at > len(row) || found == len(r.cols) {
-			break // the row has no more cells, or none that we want
+	for ; j < len(r.want) && found < nc; j++ {
+		if at > len(row) {
+			break // the row has no more cells
 		}
+		k := r.want[j]
 		if k < 0 {
 			if i := bytes.IndexByte(row[at:], d); i >= 0 {
 				at += i + 1
@@ -639,7 +658,7 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 		found++
 		if r.kind[k] == kindNum {
 			if x, n, ok := prefixFloat(row[at:], dec); ok && (at+n == len(row) || row[at+n] == d) {
-				b.vals[k] = append(b.vals[k], x)
+				out[k] = x
 				at += n + 1
 				continue
 			}
@@ -648,15 +667,15 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 		if i := bytes.IndexByte(row[at:], d); i >= 0 {
 			end = at + i
 		}
-		if err := r.cell(b, k, row, at, end, line, off); err != nil {
+		if err := r.cell(out, k, row, at, end, line, off); err != nil {
 			return err
 		}
 		at = end + 1
 	}
-	if found < len(r.cols) {
-		for k := range r.cols {
-			if r.count(b, k) <= b.rows {
-				if err := r.empty(b, k, line, len(row)+1); err != nil {
+	if found < nc { // the row ended before these asked-for cells
+		for ; j < len(r.want); j++ {
+			if k := r.want[j]; k >= 0 {
+				if err := r.empty(out, k, line, len(row)+1); err != nil {
 					return err
 				}
 			}
@@ -669,36 +688,16 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 }
 
 // dropRow takes back the cells of a row that parseRow did not finish.
-func (r *Reader) dropRow(b *block) {
-	for k := range r.cols {
-		if r.kind[k] == kindText {
-			b.text[k] = b.text[k][:min(len(b.text[k]), b.rows)]
-		} else {
-			b.vals[k] = b.vals[k][:min(len(b.vals[k]), b.rows)]
-		}
-	}
-}
-
-// count returns how many cells of asked-for column k the block holds.
-func (r *Reader) count(b *block, k int) int {
-	if r.kind[k] == kindText {
-		return len(b.text[k])
-	}
-	return len(b.vals[k])
-}
+func (r *Reader) dropRow(b *block) { b.vals = b.vals[:b.rows*len(r.cols)] }
 
 // empty deals with an empty (or absent) cell of asked-for column k, at
 // character column col, by the format's policy.
-func (r *Reader) empty(b *block, k, line, col int) error {
+func (r *Reader) empty(out []float64, k, line, col int) error {
 	switch {
 	case r.format.Empty == EmptySkip:
 		return errSkipRow
 	case r.format.Empty == EmptyHold && k != r.timeK:
-		if r.kind[k] == kindText {
-			b.text[k] = append(b.text[k], [2]int32{-1, -1})
-		} else {
-			b.vals[k] = append(b.vals[k], math.NaN())
-		}
+		out[k] = math.Float64frombits(noSpan) // a NaN, and no text span
 		return nil
 	}
 	return &ParseError{File: r.file, Line: line, Column: col, Field: r.cols[k].Name, Err: ErrMissingCell}
@@ -708,28 +707,28 @@ func (r *Reader) empty(b *block, k, line, col int) error {
 // and double quotes around it are dropped, text is kept as a span, a number
 // must parse exactly as strconv.ParseFloat would (after the decimal comma
 // becomes a point) and be finite, a time must read by its format.
-func (r *Reader) cell(b *block, k int, row []byte, at, end, line, off int) error {
+func (r *Reader) cell(out []float64, k int, row []byte, at, end, line, off int) error {
 	cell := bytes.TrimSpace(row[at:end])
 	if len(cell) >= 2 && cell[0] == '"' && cell[len(cell)-1] == '"' {
 		cell = cell[1 : len(cell)-1]
 	}
 	if len(cell) == 0 {
-		return r.empty(b, k, line, at+1)
+		return r.empty(out, k, line, at+1)
 	}
 	fail := func(sentinel error) error {
 		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q", sentinel, cell)}
 	}
 	switch r.kind[k] {
 	case kindText:
-		s := int32(off + cap(row) - cap(cell)) // cell is a sub-slice of row
-		b.text[k] = append(b.text[k], [2]int32{s, s + int32(len(cell))})
+		s := off + cap(row) - cap(cell) // cell is a sub-slice of row
+		out[k] = span(s, s+len(cell))
 		return nil
 	case kindClock, kindISO:
 		ns, ok := r.timeNanos(k, cell)
 		if !ok {
 			return fail(ErrNotTime)
 		}
-		b.vals[k] = append(b.vals[k], math.Float64frombits(uint64(ns)))
+		out[k] = math.Float64frombits(uint64(ns))
 		return nil
 	}
 	x, err := parseDecimal(cell, r.dec)
@@ -739,7 +738,7 @@ func (r *Reader) cell(b *block, k int, row []byte, at, end, line, off int) error
 	if math.IsInf(x, 0) || math.IsNaN(x) {
 		return fail(ErrNotFinite)
 	}
-	b.vals[k] = append(b.vals[k], x)
+	out[k] = x
 	return nil
 }
 
