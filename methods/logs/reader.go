@@ -130,8 +130,8 @@ type Reader struct {
 type block struct {
 	data  []byte
 	rows  int
-	line  []int32     // line number of each row
-	start []int32     // offset of each row in data
+	line  []int32 // line number of each row
+	start []int32 // offset of each row in data
 	// vals holds the asked-for cells row by row (row i, column k at
 	// i·len(cols)+k): numbers (NaN: an empty cell to hold), clock and ISO
 	// times as int64 nanoseconds in the float's bits until Next converts
