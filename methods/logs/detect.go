@@ -147,8 +147,11 @@ func (r *Reader) findHeader(lines [][]byte, final bool) (h int, delim byte, err 
 // going to the one that cuts it into most cells, then to the first tried.
 func (r *Reader) bestDelimiter(line []byte) (found int, delim byte) {
 	cands := delimiters
-	if r.format.Delimiter != 0 {
+	switch {
+	case r.format.Delimiter != 0:
 		cands = []byte{r.format.Delimiter}
+	case r.format.Decimal == ',':
+		cands = delimiters[1:] // the decimal comma rules out ',' cells
 	}
 	bestCells := -1
 	for _, d := range cands {

@@ -71,3 +71,23 @@ func threadCPU() int64 {
 	}
 	return ru.Utime.Nano() + ru.Stime.Nano()
 }
+
+// BenchmarkPrefixFloat: the fast number path alone on cells like the
+// benchmark log's.
+func BenchmarkPrefixFloat(b *testing.B) {
+	cells := [][]byte{[]byte("1234.567,"), []byte("118.42,"), []byte("-1,"), []byte("2.0131,"), []byte("1.6042,"), []byte("88.3,"), []byte("-0.27\n")}
+	sum := 0.0
+	runtime.LockOSThread()
+	defer runtime.UnlockOSThread()
+	cpu0 := threadCPU()
+	for b.Loop() {
+		for _, c := range cells {
+			x, _, _ := prefixFloat(c, '.')
+			sum += x
+		}
+	}
+	b.ReportMetric(float64(threadCPU()-cpu0)/float64(b.N), "cpu-ns/op")
+	if sum == 0 {
+		b.Fatal(sum)
+	}
+}
