@@ -528,3 +528,48 @@ func TestNoSkip(t *testing.T) {
 		})
 	}
 }
+
+// TestFarErrorPlace: an error deep in a long log (many blocks) names its
+// line and column, whether or not rows were dropped before it.
+func TestFarErrorPlace(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("t,x,v\n")
+	const bad = 120_000
+	for i := range 150_000 {
+		switch {
+		case i == bad:
+			fmt.Fprintf(&b, "%d,1,oops\n", i)
+		case i%7 == 3:
+			fmt.Fprintf(&b, "%d,1,\n", i) // empty: dropped under EmptySkip
+		default:
+			fmt.Fprintf(&b, "%d,1,%d.5\n", i, i)
+		}
+	}
+	src := b.String()
+	tests := []struct {
+		name   string
+		policy logs.EmptyPolicy
+		line   int
+	}{
+		{"hold", logs.EmptyHold, bad + 2},
+		{"skip", logs.EmptySkip, bad + 2},
+		{"error at the first empty cell", logs.EmptyError, 3 + 2},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r, err := logs.NewReaderFormat(strings.NewReader(src), "far.csv", []logs.Column{{Name: "t", Time: true}, {Name: "v"}}, logs.Format{Empty: tt.policy})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for r.Next() {
+				if want := int(r.Float(0)) + 2; r.Line() != want {
+					t.Fatalf("row t=%g on line %d, want %d", r.Float(0), r.Line(), want)
+				}
+			}
+			var pe *logs.ParseError
+			if !errors.As(r.Err(), &pe) || pe.Line != tt.line || pe.Column != len(fmt.Sprint(tt.line-2))+4 {
+				t.Errorf("err = %v, want line %d column %d", r.Err(), tt.line, len(fmt.Sprint(tt.line-2))+4)
+			}
+		})
+	}
+}

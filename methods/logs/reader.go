@@ -130,8 +130,11 @@ type Reader struct {
 type block struct {
 	data  []byte
 	rows  int
-	line  []int32 // line number of each row
-	start []int32 // offset of each row in data
+	// first is the line of the first row; the rows are the lines that
+	// follow it, unless rows may be dropped (EmptySkip): then line holds
+	// each row's line.
+	first int
+	line  []int32
 	// vals holds the asked-for cells row by row (row i, column k at
 	// i·len(cols)+k): numbers (NaN: an empty cell to hold), clock and ISO
 	// times as int64 nanoseconds in the float's bits until Next converts
@@ -392,12 +395,20 @@ func unspan(x float64) (s, e int, ok bool) {
 func (r *Reader) File() string { return r.file }
 
 // Line returns the 1-based line number of the current row.
-func (r *Reader) Line() int { return int(r.cur.line[r.i]) }
+func (r *Reader) Line() int {
+	if r.format.Empty == EmptySkip {
+		return int(r.cur.line[r.i])
+	}
+	return r.cur.first + r.i
+}
 
 // Column returns the 1-based character column where asked-for column k's
 // cell starts in the current row.
 func (r *Reader) Column(k int) int {
-	row := r.cur.data[r.cur.start[r.i]:]
+	row := r.cur.data
+	for n := r.Line() - r.cur.first; n > 0; n-- { // the row's start: a slow path for messages
+		row = row[bytes.IndexByte(row, '\n')+1:]
+	}
 	if e := bytes.IndexByte(row, '\n'); e >= 0 {
 		row = row[:e]
 	}
@@ -569,13 +580,14 @@ func (r *Reader) newBlock(data []byte) *block {
 		b = &block{}
 	}
 	b.data, b.rows, b.trailing, b.err = data, 0, 0, nil
-	b.line, b.start, b.vals = b.line[:0], b.start[:0], b.vals[:0]
+	b.line, b.vals = b.line[:0], b.vals[:0]
 	return b
 }
 
 // parse parses the lines of data, the first of which is line first.
 func (r *Reader) parse(data []byte, first int) *block {
 	b := r.newBlock(data)
+	b.first = first
 	line := first - 1
 	blank := 0
 	for off := 0; off < len(data); {
@@ -681,8 +693,9 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 			}
 		}
 	}
-	b.line = append(b.line, int32(line))
-	b.start = append(b.start, int32(off))
+	if r.format.Empty == EmptySkip {
+		b.line = append(b.line, int32(line))
+	}
 	b.rows++
 	return nil
 }
