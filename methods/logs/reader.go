@@ -128,8 +128,8 @@ type Reader struct {
 
 // block is one parsed piece of the log.
 type block struct {
-	data  []byte
-	rows  int
+	data []byte
+	rows int
 	// first is the line of the first row; the rows are the lines that
 	// follow it, unless rows may be dropped (EmptySkip): then line holds
 	// each row's line.
