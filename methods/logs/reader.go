@@ -605,7 +605,7 @@ func (r *Reader) parse(data []byte, first int) *block {
 		if len(row) > 0 && row[len(row)-1] == '\r' {
 			row = row[:len(row)-1]
 		}
-		if isBlank(row) {
+		if (len(row) == 0 || row[0] == ' ' || row[0] == '\t') && isBlank(row) {
 			if blank == 0 {
 				blank = line
 			}
@@ -653,12 +653,12 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 	b.vals = b.vals[:base+nc]
 	out := b.vals[base : base+nc]
 	at, found, j := 0, 0, 0
-	d, dec := r.delim, r.dec
-	for ; j < len(r.want) && found < nc; j++ {
+	d, dec, want, kind := r.delim, r.dec, r.want, r.kind
+	for ; j < len(want) && found < nc; j++ {
 		if at > len(row) {
 			break // the row has no more cells
 		}
-		k := r.want[j]
+		k := want[j]
 		if k < 0 {
 			if i := bytes.IndexByte(row[at:], d); i >= 0 {
 				at += i + 1
@@ -668,7 +668,7 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 			continue
 		}
 		found++
-		if r.kind[k] == kindNum {
+		if kind[k] == kindNum {
 			if x, n, ok := prefixFloat(row[at:], dec); ok && (at+n == len(row) || row[at+n] == d) {
 				out[k] = x
 				at += n + 1
