@@ -573,3 +573,28 @@ func TestFarErrorPlace(t *testing.T) {
 		})
 	}
 }
+
+// TestBadTimeCell: a time cell that does not read by the log's time
+// format is an error at its place that says what was expected.
+func TestBadTimeCell(t *testing.T) {
+	tests := []struct {
+		name, src, want string
+	}{
+		{"clock", "t,v\n12:00:00,1\n12:61:00,2\n", `b.csv:3:1: column "t": not a time: "12:61:00" (want clock time h:mm:ss[.fff])`},
+		{"iso", "t,v\n2026-05-01T12:00:00Z,1\n2026-05-01 12:00,2\n", `b.csv:3:1: column "t": not a time: "2026-05-01 12:00" (want RFC 3339 time such as 2026-05-01T12:00:00.25+02:00)`},
+		{"seconds", "t,v\n0,1\n0:01,2\n", `b.csv:3:1: column "t": not a number: "0:01"`},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r, err := logs.NewReaderFormat(strings.NewReader(tt.src), "b.csv", []logs.Column{{Name: "t", Time: true}, {Name: "v"}}, logs.Format{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for r.Next() {
+			}
+			if r.Err() == nil || r.Err().Error() != tt.want {
+				t.Errorf("err = %v, want %s", r.Err(), tt.want)
+			}
+		})
+	}
+}

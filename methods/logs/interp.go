@@ -21,7 +21,9 @@ var ErrOutsideSpan = errors.New("outside the other log's time span")
 // The other log's time plus OffsetS is this log's time. When both logs
 // write clock time (or both ISO time), their times are first aligned on
 // the clock, not on their first samples: OffsetS then only corrects the
-// difference between the two devices' clocks.
+// difference between the two devices' clocks. Otherwise (time in seconds,
+// or one log on a clock and the other not) each log's own seconds are
+// used as they are read, and OffsetS alone aligns them.
 type Interp struct {
 	main, other   *Reader
 	mainK         int // time column of main

@@ -739,7 +739,11 @@ func (r *Reader) cell(out []float64, k int, row []byte, at, end, line, off int) 
 	case kindClock, kindISO:
 		ns, ok := r.timeNanos(k, cell)
 		if !ok {
-			return fail(ErrNotTime)
+			want := "clock time h:mm:ss[.fff]"
+			if r.kind[k] == kindISO {
+				want = "RFC 3339 time such as 2026-05-01T12:00:00.25+02:00"
+			}
+			return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q (want %s)", ErrNotTime, cell, want)}
 		}
 		out[k] = math.Float64frombits(uint64(ns))
 		return nil
