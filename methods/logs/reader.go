@@ -553,12 +553,13 @@ func (r *Reader) send(b *block, res chan *block) bool {
 func (r *Reader) buffer(n int) []byte {
 	const slack = 64 << 10
 	if b, ok := r.pool.Get().(*block); ok {
+		data := b.data // before a parser may take b and reset it
 		select {
 		case r.spare <- b: // its arrays, for newBlock
 		default:
 		}
-		if cap(b.data) >= chunkSize+n {
-			return b.data[:n]
+		if cap(data) >= chunkSize+n {
+			return data[:n]
 		}
 	}
 	return make([]byte, n, chunkSize+max(n, slack))
