@@ -49,6 +49,9 @@ func runValidate(o validateOptions, out io.Writer) error {
 	for _, w := range r.Warnings {
 		fmt.Fprintf(out, "warning: %s\n", w)
 	}
+	for _, d := range c.DetectedFormats() {
+		fmt.Fprintf(out, "read %s\n", d)
+	}
 	n := len(c.Evidence.RideHeight) + len(c.Evidence.Pressure) + len(c.Evidence.Vortex)
 	fmt.Fprintf(out, "%s: valid campaign %q: %s, %s, %s read, %s\n", o.file, c.Campaign.Title,
 		count(len(c.Configurations), "configuration", "configurations"), count(n, "evidence entry", "evidence entries"),

@@ -323,3 +323,76 @@ func TestLoadDefaultTarget(t *testing.T) {
 		})
 	}
 }
+
+// europeanLog rewrites the fixture's log as many European loggers export:
+// a byte-order mark, a preamble, ';' between cells, decimal commas and a
+// units row under the header.
+func europeanLog(t *testing.T, campaignPath string) {
+	t.Helper()
+	name := filepath.Join(filepath.Dir(campaignPath), "logs", "run.csv")
+	data, err := os.ReadFile(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	var b strings.Builder
+	b.WriteString("\ufeffLogger X2 export\nsession;7\n")
+	for i, l := range lines {
+		cells := strings.Split(l, ",")
+		for k := range cells {
+			cells[k] = strings.ReplaceAll(cells[k], ".", ",")
+		}
+		b.WriteString(strings.Join(cells, ";") + "\n")
+		if i == 0 {
+			b.WriteString("s;km/h;m/s;-;V;V;-\n")
+		}
+	}
+	if err := os.WriteFile(name, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestLoadDetectsLoggerFormat: the same log written the European way loads
+// without format keys, and what was detected is told.
+func TestLoadDetectsLoggerFormat(t *testing.T) {
+	path := fixture(t)
+	europeanLog(t, path)
+	c, err := campaign.Load(path, campaign.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := strings.Join(c.DetectedFormats(), "\n")
+	for _, want := range []string{`delimiter ";"`, `decimal ","`, "header on line 3", "units row"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("detected %q lacks %q", got, want)
+		}
+	}
+}
+
+// TestLoadMissingColumnsHelp: every missing column once, at its key, with
+// the header's columns and the closest name.
+func TestLoadMissingColumnsHelp(t *testing.T) {
+	path := fixture(t)
+	log0 := "evidence.ride_height[0].logs[0]"
+	apply(t, path, set(log0+".signal", "FP"), set(log0+".direction", "dir"))
+	_, err := campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("want problems, got %v", err)
+	}
+	var signal, direction int
+	for _, p := range probs {
+		switch p.Path {
+		case log0 + ".signal":
+			signal++
+			if !strings.Contains(p.Error(), `did you mean "fp"`) || !strings.Contains(p.Error(), "columns: t, v") || p.Line != lineOf(t, path, log0+".signal") {
+				t.Errorf("signal problem %q lacks the header or the closest name, or stands elsewhere", p.Error())
+			}
+		case log0 + ".direction":
+			direction++
+		}
+	}
+	if signal != 1 || direction != 1 {
+		t.Errorf("want one problem per missing column, got:\n%v", err)
+	}
+}
