@@ -21,11 +21,12 @@ type proposal struct {
 	mode  []float64
 	lower mat.TriDense // L
 	d, p  int
+	comps []component // the blocks of θ refreshed after every joint step
 }
 
 // newProposal builds the proposal around a Laplace fit.
 func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error) {
-	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin)}
+	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin), comps: m.components()}
 	if pr.d > 0 {
 		sc := mat.NewSymDense(pr.d, nil)
 		sc.ScaleSym(tScale*tScale, cov)
@@ -40,8 +41,14 @@ func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error
 
 // chainState is one independence Metropolis–Hastings chain.
 type chainState struct {
-	rng  *rand.Rand
-	cond cond
+	rng *rand.Rand
+	// conds[cur] is the conditional posterior at the current φ, the other
+	// one that at the proposed φ (without φ, one conditioning serves all).
+	conds [2]cond
+	cur   int
+	ready bool
+	// layout-order buffers of the component steps
+	x, saved []float64
 	// proposal buffers, swapped with theta and phi on acceptance
 	propTheta, propPhi, z []float64
 	lw                    float64 // log weight of the current state
@@ -60,7 +67,7 @@ func (pr *proposal) newChains() []*chainState {
 	chains := make([]*chainState, nChains)
 	for c := range chains {
 		chains[c] = &chainState{rng: rand.New(rand.NewPCG(pr.m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
-			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d))}
+			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d)), x: make([]float64, p), saved: make([]float64, p)}
 	}
 	return chains
 }
@@ -95,9 +102,12 @@ func (pr *proposal) propose(ch *chainState) float64 {
 		}
 	}
 	logq := -0.5 * (tNu + float64(d)) * math.Log1p(maha/tNu)
-	c := &ch.cond
-	if err := m.condition(phi, c); err != nil {
-		return math.Inf(-1)
+	c := ch.proposed(d)
+	if !ch.ready || d > 0 {
+		if err := m.condition(phi, c); err != nil {
+			return math.Inf(-1)
+		}
+		ch.ready = d == 0
 	}
 	for i := range p {
 		z[i] = ch.rng.NormFloat64()
@@ -111,8 +121,18 @@ func (pr *proposal) propose(ch *chainState) float64 {
 	return lw
 }
 
+// proposed returns the conditioning buffer of a proposal: the one not
+// holding the current state's, or the only one when there is no φ.
+func (ch *chainState) proposed(d int) *cond {
+	if d == 0 {
+		return &ch.conds[0]
+	}
+	return &ch.conds[1-ch.cur]
+}
+
 // step advances a chain by n proposals, accepting with probability
-// min(1, w'/w) (the first finite proposal always), and records its state
+// min(1, w'/w) (the first finite proposal always), refreshes each
+// component of θ given the rest (see component), and records the state
 // from the first acceptance on.
 func (pr *proposal) step(ch *chainState, n int) {
 	ch.draws = slices.Grow(ch.draws, n*pr.p)
@@ -125,9 +145,15 @@ func (pr *proposal) step(ch *chainState, n int) {
 			ch.theta, ch.propTheta = ch.propTheta, ch.theta
 			ch.lw, ch.begun = lw, true
 			ch.accept++
+			if pr.d > 0 {
+				ch.cur = 1 - ch.cur
+			}
 		}
 		if !ch.begun {
 			continue
+		}
+		for k := range pr.comps {
+			pr.refresh(ch, &pr.comps[k])
 		}
 		ch.draws = append(ch.draws, ch.theta...)
 		ch.phis = append(ch.phis, ch.phi...)

@@ -23,6 +23,7 @@ const (
 type gcol struct {
 	col  int
 	kind int
+	at   int // position of col in the model's layout
 }
 
 func (g gcol) qpow() int { return min(g.kind, 1) }
@@ -66,16 +67,16 @@ func rowValues(r *row) ([]gcol, []float64) {
 	var cols []gcol
 	var vals []float64
 	for _, c := range r.lift {
-		cols, vals = append(cols, gcol{c.col, colLift}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colLift}), append(vals, c.v)
 	}
 	for _, c := range r.gamma {
-		cols, vals = append(cols, gcol{c.col, colLift}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colLift}), append(vals, c.v)
 	}
 	for _, c := range r.nuisPerQ {
-		cols, vals = append(cols, gcol{c.col, colPerQ}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colPerQ}), append(vals, c.v)
 	}
 	for _, c := range r.nuis {
-		cols, vals = append(cols, gcol{c.col, colFixed}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colFixed}), append(vals, c.v)
 	}
 	return cols, vals
 }
@@ -131,10 +132,17 @@ func (m *model) buildGroups() {
 			g.yWy += wt * r.y * r.y
 		}
 	}
+	m.buildLayout()
+	for gi := range m.groups {
+		for j := range m.groups[gi].cols {
+			c := &m.groups[gi].cols[j]
+			c.at = m.lay.pos[c.col]
+		}
+	}
 }
 
-// accumulate adds the group's contribution at φ to Λ and b and returns its
-// share of yᵀΣ⁻¹y.
+// accumulate adds the group's contribution at φ to Λ and b (in layout
+// order) and returns its share of yᵀΣ⁻¹y.
 func (g *group) accumulate(m *model, phi, lam, b []float64, p int) float64 {
 	k := m.inflate[g.entry]
 	iw := 1 / (k * k)
@@ -155,15 +163,15 @@ func (g *group) accumulate(m *model, phi, lam, b []float64, p int) float64 {
 		for d := range 5 {
 			v += g.b[j][d] * pw[d]
 		}
-		b[cj.col] += iw * fpow[cj.fpow()] * v
+		b[cj.at] += iw * fpow[cj.fpow()] * v
 		for kk := j; kk < nc; kk++ {
 			ck := g.cols[kk]
 			c := &g.lam[j*nc+kk]
 			v := c[0] + c[1]*pw[1] + c[2]*pw[2] + c[3]*pw[3] + c[4]*pw[4]
 			v *= iw * fpow[cj.fpow()+ck.fpow()]
-			lam[cj.col*p+ck.col] += v
+			lam[cj.at*p+ck.at] += v
 			if kk != j {
-				lam[ck.col*p+cj.col] += v
+				lam[ck.at*p+cj.at] += v
 			}
 		}
 	}

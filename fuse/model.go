@@ -158,6 +158,7 @@ type data struct {
 	// other blocks, conditioned row by row.
 	groups     []group
 	fullBlocks []int
+	lay        *layout // the order Λ is factorised in
 	informed   map[string]bool   // configurations some evidence speaks of
 	beta       map[[2]string]int // (config, axle) → column of β
 	gamma      map[[2]string]int

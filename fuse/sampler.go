@@ -106,13 +106,7 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 		for i, v := range a {
 			mean += v * c.mean[i]
 		}
-		// aᵀΛ⁻¹a = ‖L⁻¹a‖²
-		copy(c.x, a)
-		forward(c.l, c.x, p)
-		var vr float64
-		for _, x := range c.x {
-			vr += x * x
-		}
+		vr := c.quadInto(a, c.x) // aᵀΛ⁻¹a
 		pr := s.probit(mean / math.Sqrt(s.softness*s.softness+vr))
 		if !s.up {
 			pr = 1 - pr

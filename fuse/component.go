@@ -1,0 +1,102 @@
+package fuse
+
+import "math"
+
+// Component steps. Given φ and the shared nuisances θ_S, the components of
+// θ (see layout) are independent, each Gaussian from the Gaussian data,
+// times the probabilities of the signs that involve it. After every joint
+// independence step each component θ_k is refreshed by a Metropolis step
+// within Gibbs (Tierney, "Markov chains for exploring posterior
+// distributions", Ann. Statist. 22 (1994) 1701–1762 — from memory): θ_k′ is
+// drawn from its conditional Gaussian p(θ_k | θ_S, φ, y) and kept with
+// probability min(1, Π P(sign | θ′) / Π P(sign | θ)) over its signs (always,
+// without signs: a Gibbs step). The joint step alone proposes every
+// component at once, so its acceptance falls as the signs of more
+// configurations multiply; the component steps keep the chain moving at a
+// cost linear in the number of configurations.
+//
+// With Λ = L·Lᵀ in layout order (shared last), θ − m = L⁻ᵀz; the rows of
+// component k give L_kkᵀ x_k + L_Skᵀ x_S = z_k, so a fresh z_k with x_S
+// held is a draw of x_k given x_S.
+type component struct {
+	lo, hi int   // positions in the layout
+	shared int   // first position of the shared nuisances
+	signs  []int // signs that involve the component
+}
+
+// components returns the components of the model's layout.
+func (m *model) components() []component {
+	lay := m.lay
+	shared := len(lay.comp)
+	for i, k := range lay.comp {
+		if k < 0 {
+			shared = i
+			break
+		}
+	}
+	var out []component
+	for k, signs := range m.componentSigns() {
+		lo, hi := lay.span(k)
+		out = append(out, component{lo: lo, hi: hi, shared: shared, signs: signs})
+	}
+	return out
+}
+
+// signLogProb is Σ log P(sign | θ) over the signs of a component.
+func (m *model) signLogProb(signs []int, theta []float64) float64 {
+	var s float64
+	for _, si := range signs {
+		sg := &m.signs[si]
+		s += math.Log(math.Max(m.signProb(sg, sg.value(theta)), 1e-300))
+	}
+	return s
+}
+
+// refresh makes the component step for component k of a chain's state.
+func (pr *proposal) refresh(ch *chainState, k *component) {
+	m, c := pr.m, &ch.conds[ch.cur]
+	if pr.d == 0 {
+		c = &ch.conds[0]
+	}
+	lay, l, p, x, theta := c.lay, c.l, c.p, ch.x, ch.theta
+	for i := k.shared; i < p; i++ {
+		x[i] = theta[lay.col[i]] - c.mean[lay.col[i]]
+	}
+	for i := k.lo; i < k.hi; i++ {
+		x[i] = ch.rng.NormFloat64()
+	}
+	for j := k.shared; j < p; j++ {
+		lj := l[j*p:]
+		for i := max(k.lo, lay.first[j]); i < k.hi; i++ {
+			x[i] -= lj[i] * x[j]
+		}
+	}
+	for i := k.hi - 1; i >= k.lo; i-- {
+		li := l[i*p:]
+		x[i] /= li[i]
+		for q := lay.first[i]; q < i; q++ {
+			x[q] -= li[q] * x[i]
+		}
+	}
+	var old float64
+	if len(k.signs) > 0 {
+		old = m.signLogProb(k.signs, theta)
+		for i := k.lo; i < k.hi; i++ {
+			ch.saved[i] = theta[lay.col[i]]
+		}
+	}
+	for i := k.lo; i < k.hi; i++ {
+		theta[lay.col[i]] = c.mean[lay.col[i]] + x[i]
+	}
+	if len(k.signs) == 0 {
+		return
+	}
+	nw := m.signLogProb(k.signs, theta)
+	if math.Log(ch.rng.Float64()) < nw-old {
+		ch.lw += nw - old
+		return
+	}
+	for i := k.lo; i < k.hi; i++ {
+		theta[lay.col[i]] = ch.saved[i]
+	}
+}
