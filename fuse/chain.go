@@ -49,6 +49,13 @@ type chainState struct {
 	ready bool
 	// layout-order buffers of the component steps
 	x, saved []float64
+	// zc are the standardised draws z of the current θ = m + L⁻ᵀz (layout
+	// order), zp those of the proposal
+	zc, zp []float64
+	// lp[k] is Σ log P(sign | θ) of component k's signs, valid when
+	// lpGen[k] equals accept (no joint step has moved θ since)
+	lp    []float64
+	lpGen []int
 	// proposal buffers, swapped with theta and phi on acceptance
 	propTheta, propPhi, z []float64
 	lw                    float64 // log weight of the current state
@@ -67,14 +74,22 @@ func (pr *proposal) newChains() []*chainState {
 	chains := make([]*chainState, nChains)
 	for c := range chains {
 		chains[c] = &chainState{rng: rand.New(rand.NewPCG(pr.m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
-			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d)), x: make([]float64, p), saved: make([]float64, p)}
+			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d)), x: make([]float64, p), saved: make([]float64, p),
+			zc: make([]float64, p), zp: make([]float64, p)}
 	}
 	return chains
 }
 
 // propose draws φ from the Student-t proposal and θ from its conditional
 // Gaussian into the chain's proposal buffers, and returns the log
-// importance weight (−∞ where the conditioning fails)
+// importance weight (−∞ where the conditioning fails). In the coordinates
+// (φ, z) with θ = m(φ) + L(φ)⁻ᵀz, where the Gaussian part of the target is
+// N(z; 0, I), the step proposes φ and the shared nuisances' z afresh and
+// holds the components' z (which the component steps renew): a
+// Metropolis–Hastings update of (φ, z_S) given z_K, whose ratio is that of
+// the weights below. Holding z_K keeps each configuration's lift at the
+// same standardised place as φ moves, so the signs' probabilities, and
+// the acceptance, do not degrade as configurations multiply.
 //
 //	log w = log p(y | φ) + log p(φ) − log q(φ) + Σ_signs log P(sign | θ),
 //	log q(φ) = −½(ν + d)·log(1 + ‖z‖²/u)  (+ const).
@@ -110,8 +125,13 @@ func (pr *proposal) propose(ch *chainState) float64 {
 		ch.ready = d == 0
 	}
 	for i := range p {
-		z[i] = ch.rng.NormFloat64()
+		if ch.begun && m.lay.comp[i] >= 0 {
+			ch.zp[i] = ch.zc[i] // the components' standardised draws held
+		} else {
+			ch.zp[i] = ch.rng.NormFloat64()
+		}
 	}
+	copy(z, ch.zp)
 	c.draw(z[:p], theta)
 	lw := c.logML + m.logPhiPrior(phi) - logq
 	for si := range m.signs {
@@ -144,6 +164,7 @@ func (pr *proposal) step(ch *chainState, n int) {
 			ch.phi, ch.propPhi = ch.propPhi, ch.phi
 			ch.theta, ch.propTheta = ch.propTheta, ch.theta
 			ch.lw, ch.begun = lw, true
+			ch.zc, ch.zp = ch.zp, ch.zc
 			ch.accept++
 			if pr.d > 0 {
 				ch.cur = 1 - ch.cur

@@ -22,22 +22,20 @@ type component struct {
 	lo, hi int   // positions in the layout
 	shared int   // first position of the shared nuisances
 	signs  []int // signs that involve the component
+	idx    int
+	own    bool // every sign of the component involves it alone
 }
 
 // components returns the components of the model's layout.
 func (m *model) components() []component {
 	lay := m.lay
-	shared := len(lay.comp)
-	for i, k := range lay.comp {
-		if k < 0 {
-			shared = i
-			break
-		}
-	}
+	shared := lay.shared()
 	var out []component
-	for k, signs := range m.componentSigns() {
+	for k, signs := range m.compSigns {
 		lo, hi := lay.span(k)
-		out = append(out, component{lo: lo, hi: hi, shared: shared, signs: signs})
+		c := component{lo: lo, hi: hi, shared: shared, signs: signs, idx: k}
+		c.own = m.ownSigns(&c)
+		out = append(out, c)
 	}
 	return out
 }
@@ -64,6 +62,7 @@ func (pr *proposal) refresh(ch *chainState, k *component) {
 	}
 	for i := k.lo; i < k.hi; i++ {
 		x[i] = ch.rng.NormFloat64()
+		ch.zp[i] = x[i] // the proposal's standardised draw, kept on acceptance
 	}
 	for j := k.shared; j < p; j++ {
 		lj := l[j*p:]
@@ -80,7 +79,7 @@ func (pr *proposal) refresh(ch *chainState, k *component) {
 	}
 	var old float64
 	if len(k.signs) > 0 {
-		old = m.signLogProb(k.signs, theta)
+		old = ch.signLogProb(m, k, theta)
 		for i := k.lo; i < k.hi; i++ {
 			ch.saved[i] = theta[lay.col[i]]
 		}
@@ -89,14 +88,40 @@ func (pr *proposal) refresh(ch *chainState, k *component) {
 		theta[lay.col[i]] = c.mean[lay.col[i]] + x[i]
 	}
 	if len(k.signs) == 0 {
+		copy(ch.zc[k.lo:k.hi], ch.zp[k.lo:k.hi])
 		return
 	}
 	nw := m.signLogProb(k.signs, theta)
 	if math.Log(ch.rng.Float64()) < nw-old {
 		ch.lw += nw - old
+		ch.lp[k.idx] = nw
+		copy(ch.zc[k.lo:k.hi], ch.zp[k.lo:k.hi])
 		return
 	}
 	for i := k.lo; i < k.hi; i++ {
 		theta[lay.col[i]] = ch.saved[i]
 	}
+}
+
+// signLogProb returns the component's Σ log P(sign | θ) at the chain's
+// state, kept from the last component step unless a joint step moved θ
+// since (or a sign involves other components too, which may have moved).
+func (ch *chainState) signLogProb(m *model, k *component, theta []float64) float64 {
+	if len(ch.lp) == 0 {
+		ch.lp, ch.lpGen = make([]float64, len(m.compSigns)), make([]int, len(m.compSigns))
+	}
+	if ch.lpGen[k.idx] != ch.accept || !k.own {
+		ch.lp[k.idx], ch.lpGen[k.idx] = m.signLogProb(k.signs, theta), ch.accept
+	}
+	return ch.lp[k.idx]
+}
+
+// ownSigns reports whether every sign of the component involves it alone.
+func (m *model) ownSigns(k *component) bool {
+	for _, si := range k.signs {
+		if len(m.signComps[si]) > 1 {
+			return false
+		}
+	}
+	return true
 }

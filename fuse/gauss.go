@@ -28,6 +28,7 @@ type cond struct {
 	logML float64
 
 	lam, b []float64 // buffers, reused between calls
+	fs     []float64 // s(φ) of the model's scale sets
 	a, x   []float64
 	xs     [][]entryRef
 }
@@ -68,6 +69,37 @@ func (c *cond) quadInto(a, x []float64) float64 {
 	return s
 }
 
+// signVar returns aᵀΛ⁻¹a = ‖L⁻¹a‖² for a sign's weights a. They lie in one
+// component of the layout (or a few), so L⁻¹a is non-zero only on the
+// positions of the touched components and of the shared nuisances; the
+// rest are skipped.
+func (m *model) signVar(si int, c *cond) float64 {
+	s, lay, p, x, l := &m.signs[si], c.lay, c.p, c.x, c.l
+	spans := m.signSpans[si] // ascending, the shared positions last
+	for _, sp := range spans {
+		clear(x[sp[0]:sp[1]])
+	}
+	for _, t := range s.all {
+		x[lay.pos[t.col]] += t.v
+	}
+	var sum float64
+	for si, sp := range spans {
+		for i := sp[0]; i < sp[1]; i++ {
+			v := x[i]
+			li := l[i*p:]
+			for _, sq := range spans[:si+1] {
+				for q := max(lay.first[i], sq[0]); q < min(sq[1], i); q++ {
+					v -= li[q] * x[q]
+				}
+			}
+			v /= li[i]
+			x[i] = v
+			sum += v * v
+		}
+	}
+	return sum
+}
+
 // liftFactor returns the factors s(φ)·q(w) and q(w) of a row.
 func (m *model) liftFactor(r *row, phi []float64) (float64, float64) {
 	s := 0.0
@@ -80,6 +112,17 @@ func (m *model) liftFactor(r *row, phi []float64) (float64, float64) {
 		q += r.a*w + r.c*w*w
 	}
 	return math.Exp(s) * q, q
+}
+
+// factorAt is liftFactor with the scale factors fs of the model's scale
+// sets at φ given.
+func (m *model) factorAt(r *row, phi, fs []float64) (float64, float64) {
+	q := r.q0
+	if r.wind >= 0 {
+		w := phi[r.wind]
+		q += r.a*w + r.c*w*w
+	}
+	return fs[r.scaleSet] * q, q
 }
 
 // inflation returns how much an entry-owned prior is widened: κ when every
@@ -157,9 +200,10 @@ func (m *model) condition(phi []float64, c *cond) error {
 		b[at] = pr.prec[i] * m.lin[i].mean
 	}
 	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
+	c.fs = m.scaleFactors(phi, c.fs)
 	// Diagonal blocks through their grouped sufficient statistics.
 	for gi := range m.groups {
-		yWy += m.groups[gi].accumulate(m, phi, lam, b, p)
+		yWy += m.groups[gi].accumulate(m, phi, c.fs, lam, b, p)
 	}
 	// Full blocks row by row.
 	for _, bi := range m.fullBlocks {
@@ -169,11 +213,11 @@ func (m *model) condition(phi []float64, c *cond) error {
 		for len(c.xs) < len(bl.rows) {
 			c.xs = append(c.xs, nil)
 		}
-		f, q := m.liftFactor(&m.rows[bl.rows[0]], phi)
+		f, q := m.factorAt(&m.rows[bl.rows[0]], phi, c.fs)
 		for i, ri := range bl.rows {
 			r := &m.rows[ri]
 			if i > 0 && !bl.uniform {
-				f, q = m.liftFactor(r, phi)
+				f, q = m.factorAt(r, phi, c.fs)
 			}
 			c.xs[i] = designAt(r, f, q, c.xs[i][:0])
 		}

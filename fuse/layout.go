@@ -113,6 +113,25 @@ func (m *model) buildLayout() {
 	u := newUnionFind(p)
 	joinWithin(u, func(c int) bool { return !shared(c) })
 	m.lay = orderLayout(p, cl, u, shared)
+	m.compSigns = m.componentSigns()
+	m.signSpans = make([][][2]int, len(m.signs))
+	for si, comps := range m.signComps {
+		for _, k := range slices.Sorted(slices.Values(comps)) {
+			lo, hi := m.lay.span(k)
+			m.signSpans[si] = append(m.signSpans[si], [2]int{lo, hi})
+		}
+		m.signSpans[si] = append(m.signSpans[si], [2]int{m.lay.shared(), p})
+	}
+}
+
+// shared returns the first position of the shared nuisances (p if none).
+func (l *layout) shared() int {
+	for i, k := range l.comp {
+		if k < 0 {
+			return i
+		}
+	}
+	return len(l.comp)
 }
 
 // orderLayout places the components in the order of their first column,
@@ -177,19 +196,20 @@ func (l *layout) span(k int) (int, int) {
 }
 
 // componentSigns lists, for each component of the layout, the signs whose
-// quantity involves one of its columns.
+// quantity involves one of its columns, and records each sign's
+// components in m.signComps.
 func (m *model) componentSigns() [][]int {
 	n := 0
 	for _, k := range m.lay.comp {
 		n = max(n, k+1)
 	}
 	out := make([][]int, n)
+	m.signComps = make([][]int, len(m.signs))
 	for si := range m.signs {
-		seen := map[int]bool{}
 		for _, t := range m.signs[si].refs() {
 			k := m.lay.comp[m.lay.pos[t.col]]
-			if k >= 0 && !seen[k] {
-				seen[k] = true
+			if k >= 0 && !slices.Contains(m.signComps[si], k) {
+				m.signComps[si] = append(m.signComps[si], k)
 				out[k] = append(out[k], si)
 			}
 		}

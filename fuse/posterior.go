@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"sort"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -187,17 +186,23 @@ func flatten(chains [][]float64) []float64 {
 	return out
 }
 
-// summarize returns mean, sd, central interval and P(x < 0) of draws.
+// summarize returns mean, sd, central interval and P(x < 0) of draws. The
+// two quantiles are found by selection rather than a full sort (the same
+// order statistics, in linear time).
 func summarize(x []float64, level float64) (Estimate, float64) {
 	if len(x) == 0 {
 		nan := math.NaN()
 		return Estimate{nan, nan, nan, nan}, nan
 	}
 	m, v := meanVar(x)
+	neg := 0
+	for _, xi := range x {
+		if xi < 0 {
+			neg++
+		}
+	}
 	s := append([]float64(nil), x...)
-	sort.Float64s(s)
-	neg := sort.SearchFloat64s(s, 0)
-	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSorted(s, 0.5-level/2), Hi: quantileSorted(s, 0.5+level/2)},
+	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSelect(s, 0.5-level/2), Hi: quantileSelect(s, 0.5+level/2)},
 		float64(neg) / float64(len(s))
 }
 
