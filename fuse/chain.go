@@ -134,11 +134,7 @@ func (pr *proposal) propose(ch *chainState) float64 {
 	copy(z, ch.zp)
 	c.draw(z[:p], theta)
 	lw := c.logML + m.logPhiPrior(phi) - logq
-	for si := range m.signs {
-		s := &m.signs[si]
-		lw += math.Log(math.Max(m.signProb(s, s.value(theta)), 1e-300))
-	}
-	return lw
+	return lw + m.signLogProb(m.allSigns, theta)
 }
 
 // proposed returns the conditioning buffer of a proposal: the one not

@@ -41,13 +41,20 @@ func (m *model) components() []component {
 }
 
 // signLogProb is Σ log P(sign | θ) over the signs of a component.
+// The probabilities are multiplied and their product's logarithm taken
+// once (before it could underflow), not one logarithm per sign.
 func (m *model) signLogProb(signs []int, theta []float64) float64 {
 	var s float64
+	prod := 1.0
 	for _, si := range signs {
 		sg := &m.signs[si]
-		s += math.Log(math.Max(m.signProb(sg, sg.value(theta)), 1e-300))
+		prod *= math.Max(m.signProb(sg, sg.value(theta)), 1e-300)
+		if prod < 1e-200 {
+			s += math.Log(prod)
+			prod = 1
+		}
 	}
-	return s
+	return s + math.Log(prod)
 }
 
 // refresh makes the component step for component k of a chain's state.

@@ -114,6 +114,10 @@ func (m *model) buildLayout() {
 	joinWithin(u, func(c int) bool { return !shared(c) })
 	m.lay = orderLayout(p, cl, u, shared)
 	m.compSigns = m.componentSigns()
+	m.allSigns = make([]int, len(m.signs))
+	for i := range m.allSigns {
+		m.allSigns[i] = i
+	}
 	m.signSpans = make([][][2]int, len(m.signs))
 	for si, comps := range m.signComps {
 		for _, k := range slices.Sorted(slices.Values(comps)) {

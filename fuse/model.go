@@ -168,6 +168,7 @@ type data struct {
 	// that of the shared nuisances
 	signSpans [][][2]int
 	compSigns [][]int           // per layout component: the signs that involve it
+	allSigns  []int             // 0 … len(signs)−1
 	informed  map[string]bool   // configurations some evidence speaks of
 	beta      map[[2]string]int // (config, axle) → column of β
 	gamma     map[[2]string]int

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
@@ -145,7 +146,11 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	}
 	// A failed line search or the iteration limit still leaves a usable best
 	// point; the chains correct for an imperfect proposal.
-	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200}, &optimize.BFGS{})
+	// It stops where three iterations gain less than 1e-6 in log density
+	// (the objective's rounding keeps the gradient from ever reaching the
+	// threshold on a large campaign).
+	conv := &optimize.FunctionConverge{Absolute: 1e-6, Iterations: 3}
+	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
 	mode = x0
 	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
 		mode = res.X // also when the optimiser stopped early: its best point
@@ -246,6 +251,7 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 		}
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
 		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
+			post.keep()
 			return nil
 		}
 		need := float64(n) * (m.set.MinESS/math.Max(emin, 1) - 1) * 1.35
@@ -262,6 +268,16 @@ func (post *posterior) collect(chains []*chainState, n, p, d int) {
 	for _, ch := range chains {
 		post.draws = append(post.draws, ch.draws[:n*p])
 		post.phiDraws = append(post.phiDraws, ch.phis[:n*d])
+	}
+}
+
+// keep copies the kept draws out of the chains' buffers, which grew by
+// doubling, so that a posterior held for later (the standalone and
+// leave-one-out fits are) holds no more memory than its draws.
+func (post *posterior) keep() {
+	for c := range post.draws {
+		post.draws[c] = slices.Clone(post.draws[c])
+		post.phiDraws[c] = slices.Clone(post.phiDraws[c])
 	}
 }
 

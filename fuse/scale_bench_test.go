@@ -16,34 +16,6 @@ import (
 // scaleSizes are the campaign sizes of the scaling benchmarks (issue 15).
 var scaleSizes = []int{2, 6, 12, 24, 48}
 
-// scaleSpec returns the demo's simulation spec with n configurations: the
-// demo's own two (baseline, ducktail) and n−2 more, v03 … vNN, whose true
-// lift steps through a wing-angle-like sweep (invented values). Every
-// ride-height sensor logs every configuration, the taps read each and the
-// tuft watches each, as on the demo day.
-func scaleSpec(tb testing.TB, n int) string {
-	tb.Helper()
-	b, err := os.ReadFile("../examples/ducktail-fastback/spec.yaml")
-	if err != nil {
-		tb.Fatal(err)
-	}
-	text := string(b)
-	start := strings.Index(text, "\nconfigurations:\n")
-	end := strings.Index(text, "\nair:\n")
-	if start < 0 || end < start {
-		tb.Fatal("demo spec: no configurations block")
-	}
-	var sb strings.Builder
-	sb.WriteString("\nconfigurations:\n")
-	sb.WriteString("  - {id: baseline, front_cla_m2: 0.120, rear_cla_m2: 0.100}\n")
-	sb.WriteString("  - {id: ducktail, front_cla_m2: 0.135, rear_cla_m2: -0.045}\n")
-	for i := 3; i <= n; i++ {
-		x := float64(i-2) / float64(n)
-		fmt.Fprintf(&sb, "  - {id: v%02d, front_cla_m2: %.4f, rear_cla_m2: %.4f}\n", i, 0.12+0.03*x, 0.10-0.2*x)
-	}
-	return text[:start] + sb.String() + text[end:]
-}
-
 var (
 	scaleMu     sync.Mutex
 	scaleInputs = map[int]fuse.Input{}
@@ -59,7 +31,7 @@ func scaleInput(tb testing.TB, n int) fuse.Input {
 		return in
 	}
 	dir := tb.TempDir()
-	c, _, err := sim.Build(strings.NewReader(scaleSpec(tb, n)), "scale.yaml", dir)
+	c, _, err := sim.Build(strings.NewReader(fuse.ScaleSpec(tb, n)), "scale.yaml", dir)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -122,7 +94,7 @@ func TestScaleSpec(t *testing.T) {
 	}
 	for _, n := range scaleSizes {
 		p := filepath.Join(out, fmt.Sprintf("scale-%02d.yaml", n))
-		if err := os.WriteFile(p, []byte(scaleSpec(t, n)), 0o644); err != nil {
+		if err := os.WriteFile(p, []byte(fuse.ScaleSpec(t, n)), 0o644); err != nil {
 			t.Fatal(err)
 		}
 	}
