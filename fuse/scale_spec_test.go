@@ -37,4 +37,3 @@ func scaleSpec(tb testing.TB, n int) string {
 	}
 	return text[:start] + sb.String() + text[end:]
 }
-
