@@ -100,7 +100,8 @@ func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 		}
 		return Estimate{Mean: mean, SD: sd, Lo: mean - z*sd, Hi: mean + z*sd}, pneg
 	}
-	return summarize(flatten(P.p.series(w)), P.level)
+	_, pooled := P.p.seriesInto(w, nil) // the chains one after another
+	return summarizeOwned(pooled, P.level)
 }
 
 // Quantity returns the estimate of an axle (front, rear or total) of a
@@ -126,7 +127,7 @@ func (P *Posterior) Ratio(num, den []evidence.Term) Estimate {
 			r = append(r, a[i]/b[i])
 		}
 	}
-	e, _ := summarize(r, P.level)
+	e, _ := summarizeOwned(r, P.level)
 	return e
 }
 
@@ -179,7 +180,11 @@ func (p *posterior) gaussMoments(w []entryRef) (float64, float64) {
 }
 
 func flatten(chains [][]float64) []float64 {
-	var out []float64
+	n := 0
+	for _, c := range chains {
+		n += len(c)
+	}
+	out := make([]float64, 0, n)
 	for _, c := range chains {
 		out = append(out, c...)
 	}
@@ -190,6 +195,11 @@ func flatten(chains [][]float64) []float64 {
 // two quantiles are found by selection rather than a full sort (the same
 // order statistics, in linear time).
 func summarize(x []float64, level float64) (Estimate, float64) {
+	return summarizeOwned(append([]float64(nil), x...), level)
+}
+
+// summarizeOwned is summarize on draws it may reorder.
+func summarizeOwned(x []float64, level float64) (Estimate, float64) {
 	if len(x) == 0 {
 		nan := math.NaN()
 		return Estimate{nan, nan, nan, nan}, nan
@@ -201,9 +211,8 @@ func summarize(x []float64, level float64) (Estimate, float64) {
 			neg++
 		}
 	}
-	s := append([]float64(nil), x...)
-	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSelect(s, 0.5-level/2), Hi: quantileSelect(s, 0.5+level/2)},
-		float64(neg) / float64(len(s))
+	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSelect(x, 0.5-level/2), Hi: quantileSelect(x, 0.5+level/2)},
+		float64(neg) / float64(len(x))
 }
 
 // Fitted returns, for each Gaussian observation of an entry in evidence

@@ -245,8 +245,11 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 		}
 		post.collect(chains, n, prop.p, prop.d)
 		rmax, emin := 1.0, math.Inf(1)
+		var buf []float64
 		for _, q := range tracked {
-			r, e := RhatESS(post.series(q))
+			var chains [][]float64
+			chains, buf = post.seriesInto(q, buf)
+			r, e := RhatESS(chains)
 			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
 		}
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
@@ -299,10 +302,18 @@ func (m *model) trackedColumns() [][]entryRef {
 
 // series returns the draws of a linear combination, chain by chain.
 func (p *posterior) series(w []entryRef) [][]float64 {
+	out, _ := p.seriesInto(w, nil)
+	return out
+}
+
+// seriesInto is series with the chains cut from one buffer, grown as
+// needed and returned for reuse.
+func (p *posterior) seriesInto(w []entryRef, buf []float64) ([][]float64, []float64) {
 	np := len(p.m.lin)
+	buf = grow(buf, len(p.draws)*p.n)
 	out := make([][]float64, len(p.draws))
 	for c, d := range p.draws {
-		out[c] = make([]float64, p.n)
+		out[c] = buf[c*p.n : (c+1)*p.n]
 		for i := range p.n {
 			var x float64
 			for _, t := range w {
@@ -311,7 +322,7 @@ func (p *posterior) series(w []entryRef) [][]float64 {
 			out[c][i] = x
 		}
 	}
-	return out
+	return out, buf
 }
 
 // newRand returns a seeded generator for stream k.
