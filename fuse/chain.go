@@ -22,11 +22,16 @@ type proposal struct {
 	lower mat.TriDense // L
 	d, p  int
 	comps []component // the blocks of θ refreshed after every joint step
+	// ownSigns: every sign involves one component only
+	ownSigns bool
 }
 
 // newProposal builds the proposal around a Laplace fit.
 func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error) {
-	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin), comps: m.components()}
+	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin), comps: m.components(), ownSigns: true}
+	for _, comps := range m.signComps {
+		pr.ownSigns = pr.ownSigns && len(comps) == 1
+	}
 	if pr.d > 0 {
 		sc := mat.NewSymDense(pr.d, nil)
 		sc.ScaleSym(tScale*tScale, cov)
@@ -54,8 +59,9 @@ type chainState struct {
 	zc, zp []float64
 	// lp[k] is Σ log P(sign | θ) of component k's signs, valid when
 	// lpGen[k] equals accept (no joint step has moved θ since)
-	lp    []float64
-	lpGen []int
+	lp     []float64
+	lpGen  []int
+	lpProp []float64 // the proposal's sums, by component
 	// proposal buffers, swapped with theta and phi on acceptance
 	propTheta, propPhi, z []float64
 	lw                    float64 // log weight of the current state
@@ -134,7 +140,17 @@ func (pr *proposal) propose(ch *chainState) float64 {
 	copy(z, ch.zp)
 	c.draw(z[:p], theta)
 	lw := c.logML + m.logPhiPrior(phi) - logq
-	return lw + m.signLogProb(m.allSigns, theta)
+	if !pr.ownSigns {
+		return lw + m.signLogProb(m.allSigns, theta)
+	}
+	// Each sign in one component: sum by component, and keep the sums for
+	// the component steps should the proposal be accepted.
+	ch.lpProp = grow(ch.lpProp, len(pr.comps))
+	for k := range pr.comps {
+		ch.lpProp[k] = m.signLogProb(pr.comps[k].signs, theta)
+		lw += ch.lpProp[k]
+	}
+	return lw
 }
 
 // proposed returns the conditioning buffer of a proposal: the one not
@@ -162,6 +178,7 @@ func (pr *proposal) step(ch *chainState, n int) {
 			ch.lw, ch.begun = lw, true
 			ch.zc, ch.zp = ch.zp, ch.zc
 			ch.accept++
+			ch.keepSignSums(pr)
 			if pr.d > 0 {
 				ch.cur = 1 - ch.cur
 			}

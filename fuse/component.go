@@ -123,6 +123,20 @@ func (ch *chainState) signLogProb(m *model, k *component, theta []float64) float
 	return ch.lp[k.idx]
 }
 
+// keepSignSums records, after an accepted joint step, the components' sign
+// sums that the proposal computed, so the component steps need not.
+func (ch *chainState) keepSignSums(pr *proposal) {
+	if !pr.ownSigns {
+		return
+	}
+	if len(ch.lp) == 0 {
+		ch.lp, ch.lpGen = make([]float64, len(pr.comps)), make([]int, len(pr.comps))
+	}
+	for k := range pr.comps {
+		ch.lp[k], ch.lpGen[k] = ch.lpProp[k], ch.accept
+	}
+}
+
 // ownSigns reports whether every sign of the component involves it alone.
 func (m *model) ownSigns(k *component) bool {
 	for _, si := range k.signs {

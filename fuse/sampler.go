@@ -146,10 +146,10 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	}
 	// A failed line search or the iteration limit still leaves a usable best
 	// point; the chains correct for an imperfect proposal.
-	// It stops where three iterations gain less than 1e-6 in log density
+	// It stops where two iterations gain less than 1e-5 in log density
 	// (the objective's rounding keeps the gradient from ever reaching the
 	// threshold on a large campaign).
-	conv := &optimize.FunctionConverge{Absolute: 1e-6, Iterations: 3}
+	conv := &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 2}
 	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
 	mode = x0
 	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
