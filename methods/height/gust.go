@@ -1,0 +1,127 @@
+package height
+
+import (
+	"gonum.org/v1/gonum/mat"
+
+	"liftfuse/methods/air"
+	"liftfuse/methods/gust"
+)
+
+// gustModel is the run-to-run wind of an entry: per log, the runs (as
+// positions in the log's block) and each window's sensitivity to its run's
+// wind deviation (mm per m/s), and the estimated scatter σ_g (m/s).
+type gustModel struct {
+	runs [][][]int
+	sens [][]float64
+	sd   float64
+}
+
+// gusts splits each log's windows into runs, fits the pilot, and estimates
+// σ_g from the run-to-run residuals (package gust). Windows read with an
+// airspeed probe carry no gust term: the probe measures the wind.
+func (b *builder) gusts(perLog [][]int) gustModel {
+	g := gustModel{runs: make([][][]int, len(perLog)), sens: make([][]float64, len(perLog))}
+	if b.c.Air.GustSDMs <= 0 {
+		return g
+	}
+	var pts [][]gust.Point
+	for li, idx := range perLog {
+		if len(idx) == 0 {
+			continue
+		}
+		keys := make([]gust.Key, len(idx))
+		for k, i := range idx {
+			w := b.res.Windows[i]
+			keys[k] = gust.Key{Log: li, Config: w.Config, Direction: w.Direction, SpeedKmh: w.SpeedKmh, From: w.From, To: w.To}
+			if w.Probe {
+				keys[k].SpeedKmh = 0
+			}
+		}
+		g.runs[li] = gust.Runs(keys)
+		resid, sens := b.pilot(idx)
+		g.sens[li] = sens
+		for _, run := range g.runs[li] {
+			ps := make([]gust.Point, len(run))
+			for a, k := range run {
+				ps[a] = gust.Point{R: resid[k], Var: b.variance(b.res.Windows[idx[k]]), C: sens[k]}
+			}
+			pts = append(pts, ps)
+		}
+	}
+	g.sd, b.res.GustSDSDMs = gust.Scatter(pts, b.c.Air.GustSDMs)
+	b.res.GustSDMs = g.sd
+	return g
+}
+
+// pilot fits one log's windows by weighted least squares, with the known
+// terms at their prior means (tyre growth, load transfer at h_cg's mean)
+// taken off: a static offset, the drift if modelled, and per configuration
+// a slope p_c on q (mm/Pa) and a mean-wind column ρ·Dir·V (its coefficient
+// is p_c·w). It returns the residuals and each window's gust sensitivity
+// p_c·ρ·V·Dir (Dir 0, unknown, counts as +1: the sign is common to a run).
+func (b *builder) pilot(idx []int) (resid, sens []float64) {
+	ws := b.res.Windows
+	n := len(idx)
+	col := map[string][2]int{} // config → q column, wind column (−1 none)
+	p := 1
+	if b.e.Drift {
+		p++
+	}
+	for _, i := range idx {
+		w := ws[i]
+		c, ok := col[w.Config]
+		if !ok {
+			c = [2]int{p, -1}
+			p++
+		}
+		if c[1] < 0 && !w.Probe && w.Direction != 0 {
+			c[1] = p
+			p++
+		}
+		col[w.Config] = c
+	}
+	X := mat.NewDense(n, p, nil)
+	y := make([]float64, n)
+	wt := make([]float64, n)
+	tbar := meanTime(ws, idx)
+	for k, i := range idx {
+		w := ws[i]
+		y[k] = w.HeightMM - b.known(w)
+		wt[k] = 1 / b.variance(w)
+		X.Set(k, 0, 1)
+		if b.e.Drift {
+			X.Set(k, 1, (w.From+w.To)/2-tbar)
+		}
+		c := col[w.Config]
+		X.Set(k, c[0], w.Q)
+		if c[1] >= 0 && !w.Probe {
+			X.Set(k, c[1], b.rho*float64(w.Direction)*air.KmhToMs(w.SpeedKmh))
+		}
+	}
+	beta, resid := gust.Fit(X, y, wt)
+	sens = make([]float64, n)
+	for k, i := range idx {
+		w := ws[i]
+		if w.Probe || w.SpeedKmh < gust.Stop {
+			continue
+		}
+		dir := float64(w.Direction)
+		if dir == 0 {
+			dir = 1
+		}
+		sens[k] = beta[col[w.Config][0]] * b.rho * air.KmhToMs(w.SpeedKmh) * dir
+	}
+	return resid, sens
+}
+
+// known is the part of a window's height the pilot takes as known: tyre
+// growth at its prior mean and the load transfer at h_cg's prior mean.
+func (b *builder) known(w Window) float64 {
+	var y float64
+	if b.laser {
+		for _, cf := range b.res.Lever.growthCoefs(w.SpeedSq) {
+			y += cf.C * b.e.TyreGrowth.MmAt100kmh
+		}
+	}
+	return y + accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2)*b.c.Vehicle.CGHeightM
+}
