@@ -9,7 +9,7 @@ import (
 // lineSums accumulates the sums of a least-squares line y = a + b·t, with
 // t measured from the window's start (so the sums stay well conditioned).
 type lineSums struct {
-	n                      float64
+	n                     float64
 	st, stt, sy, syy, sty float64
 }
 

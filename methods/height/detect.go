@@ -106,4 +106,3 @@ func warnings(e *campaign.RideHeightEntry, res *Result, rho float64) []string {
 	}
 	return out
 }
-
