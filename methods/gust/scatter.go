@@ -7,22 +7,28 @@ import (
 )
 
 // Point is one observation of a run for the scatter estimate: its residual
-// R after the pilot fit, its noise variance Var (> 0) and its sensitivity C
-// to the run's wind deviation (units of R per m/s).
+// R after the pilot fit, its noise variance Var (> 0), its sensitivity C
+// to the run's wind deviation (units of R per m/s), and Base, a known
+// variance (m²/s²) of the run's wind besides the gusts: the session wind's
+// σ_w² when the direction of travel is unknown (its sign then changes from
+// run to run like a gust). The points of one run share Base.
 type Point struct {
-	R, Var, C float64
+	R, Var, C, Base float64
 }
 
 // gridN is the number of grid points of the posterior of σ_g.
 const gridN = 400
 
-// runLogLik returns log N(r; 0, D + σ²·c·cᵀ) up to a constant, with D the
+// runLogLik returns log N(r; 0, D + (σ² + Base)·c·cᵀ) up to a constant, with D the
 // diagonal of variances: by the matrix determinant lemma and the
 // Sherman–Morrison formula (e.g. Golub & Van Loan, Matrix Computations,
 // §2.1.4 — from memory), with a = Σc²/v, b = Σc·r/v,
 //
 //	log det = Σ log v + log(1 + σ²·a),   rᵀΣ⁻¹r = Σ r²/v − σ²·b²/(1 + σ²·a).
 func runLogLik(ps []Point, s2 float64) float64 {
+	if len(ps) > 0 {
+		s2 += ps[0].Base
+	}
 	var ld, rr, a, b float64
 	for _, p := range ps {
 		ld += math.Log(p.Var)

@@ -43,7 +43,11 @@ func (b *builder) gusts(perLog [][]int) gustModel {
 		for _, run := range g.runs[li] {
 			ps := make([]gust.Point, len(run))
 			for a, k := range run {
-				ps[a] = gust.Point{R: resid[k], Var: b.variance(b.res.Windows[idx[k]]), C: sens[k]}
+				w := b.res.Windows[idx[k]]
+				ps[a] = gust.Point{R: resid[k], Var: b.variance(w), C: sens[k]}
+				if w.Direction == 0 && b.wind != "" {
+					ps[a].Base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
+				}
 			}
 			pts = append(pts, ps)
 		}
