@@ -293,21 +293,21 @@ const (
 
 // PressureEntry is one set of pressure taps with its readings.
 type PressureEntry struct {
-	At            Place     `yaml:"-"`
-	ID            string    `yaml:"id" lf:"required"`
-	Mode          string    `yaml:"mode" lf:"required"`
-	SensorSDPa    float64   `yaml:"sensor_sd_pa" lf:"required"`
-	ReferenceSDPa float64   `yaml:"reference_sd_pa" lf:"required"`
-	ModelSDPct    float64   `yaml:"model_sd_pct"`
-	Taps          []Tap     `yaml:"taps"`
+	At            Place   `yaml:"-"`
+	ID            string  `yaml:"id" lf:"required"`
+	Mode          string  `yaml:"mode" lf:"required"`
+	SensorSDPa    float64 `yaml:"sensor_sd_pa" lf:"required"`
+	ReferenceSDPa float64 `yaml:"reference_sd_pa" lf:"required"`
+	ModelSDPct    float64 `yaml:"model_sd_pct"`
+	Taps          []Tap   `yaml:"taps"`
 	// Logs hold the taps logged in time, instead of readings (model v2).
 	Logs []LogSpec `yaml:"logs"`
 	// Steady sets how steady windows are found in those logs.
-	Steady Steady `yaml:"steady"`
-	TapsFile      string    `yaml:"taps_file"`
-	Uncovered     []Patch   `yaml:"uncovered"`
-	Readings      []Reading `yaml:"readings"`
-	ReadingsFile  string    `yaml:"readings_file"`
+	Steady       Steady    `yaml:"steady"`
+	TapsFile     string    `yaml:"taps_file"`
+	Uncovered    []Patch   `yaml:"uncovered"`
+	Readings     []Reading `yaml:"readings"`
+	ReadingsFile string    `yaml:"readings_file"`
 }
 
 // Tap is one pressure tap: a panel (area and normal) or a strip station
@@ -418,4 +418,24 @@ func (c *Campaign) WindNuisance() string {
 		return evidence.WindName
 	}
 	return ""
+}
+
+// ConfigIDs returns the configuration ids in file order: the one list every
+// package uses.
+func (c *Campaign) ConfigIDs() []string {
+	ids := make([]string, len(c.Configurations))
+	for i, cf := range c.Configurations {
+		ids[i] = cf.ID
+	}
+	return ids
+}
+
+// HasConfig reports whether id is one of the campaign's configurations.
+func (c *Campaign) HasConfig(id string) bool {
+	for _, cf := range c.Configurations {
+		if cf.ID == id {
+			return true
+		}
+	}
+	return false
 }

@@ -70,6 +70,9 @@ func (l *LogSpec) logKeys() []string {
 	return keys
 }
 
+// maxTableBytes bounds a taps or readings table.
+const maxTableBytes = 16 << 20
+
 // logProblem turns a log reader error into a Problem at the log's position.
 func logProblem(err error, path string) *Problem {
 	var pe *logs.ParseError
@@ -86,90 +89,141 @@ func logProblem(err error, path string) *Problem {
 // scanLog checks a log: the file opens, the named columns exist, and (unless
 // HeadersOnly) every used cell is a finite number, time increases, direction
 // is ±1, configuration ids are known and segments lie inside the log's span.
+// A log named by several entries with the same columns is read once.
 func (v *validator) scanLog(l *LogSpec, path string) {
-	if l.File == "" || l.Format != nil || l.SpeedFile != nil || len(l.Taps) > 0 || l.Airspeed() {
+	if l.File == "" {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "the log's file name is empty")
+		return
+	}
+	if l.Format != nil || l.SpeedFile != nil || len(l.Taps) > 0 || l.Airspeed() {
 		return // TODO(v2 reader): formats, joins, airspeed and tap columns
 	}
 	name := v.c.Path(l.File)
-	f, err := os.Open(name)
-	if err != nil {
-		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot read log %q: %v", l.File, unwrapPath(err))
+	cols, ix := l.LogColumns()
+	key := scanKey(name, cols)
+	res, seen := v.scanned[key]
+	if !seen {
+		res = v.scanBody(l, path, name, cols, ix)
+		if v.scanned == nil {
+			v.scanned = map[string]*scanResult{}
+		}
+		v.scanned[key] = res
+	}
+	if res == nil {
 		return
+	}
+	for id := range res.configs {
+		v.informed[id] = true
+	}
+	for k, s := range l.Segments {
+		if s.FromS < res.t0 || s.ToS > res.t1 {
+			v.errf(s.At.Where, fmt.Sprintf("%s.segments[%d]", path, k), ErrRange,
+				"segment %g–%g s lies outside the log's time span %g–%g s", s.FromS, s.ToS, res.t0, res.t1)
+		}
+	}
+}
+
+// scanResult is what a read of a log's body found: its time span and the
+// configuration ids it holds. nil: the log could not be read through.
+type scanResult struct {
+	t0, t1  float64
+	configs map[string]bool
+}
+
+func scanKey(name string, cols []logs.Column) string {
+	var b strings.Builder
+	b.WriteString(name)
+	for _, c := range cols {
+		fmt.Fprintf(&b, "\x00%s\x00%t", c.Name, c.Text)
+	}
+	return b.String()
+}
+
+// scanBody opens the log, checks its header and (unless HeadersOnly) reads
+// its body.
+func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, ix LogIndex) *scanResult {
+	f, err := OpenRegular(name)
+	if err != nil {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot read log %q: %v", l.File, err)
+		return nil
 	}
 	defer f.Close()
 	v.c.addFile(name)
+	if !v.header(f, l, path, name, cols) || v.opt.HeadersOnly || l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
+		return nil
+	}
+	if _, err := f.Seek(0, io.SeekStart); err != nil {
+		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot re-read log %q: %v", l.File, err)
+		return nil
+	}
+	r, err := logs.NewReader(f, name, cols)
+	if err != nil {
+		v.errs = append(v.errs, logProblem(err, path))
+		return nil
+	}
+	defer r.Close()
+	r.Increasing = ix.Time
+	return v.rows(r, l, path, ix)
+}
+
+// header checks that every named column is in the log's header.
+func (v *validator) header(f io.Reader, l *LogSpec, path, name string, cols []logs.Column) bool {
 	hr, err := logs.NewReader(f, name, nil)
 	if err != nil {
 		v.errs = append(v.errs, logProblem(err, path+".file"))
-		return
+		return false
 	}
 	have := map[string]bool{}
 	for _, n := range hr.Names() {
 		have[n] = true
 	}
-	cols, ix := l.LogColumns()
-	missing := false
+	ok := true
 	for k, c := range cols {
 		if c.Name != "" && !have[c.Name] {
 			key := l.logKeys()[k]
 			v.errf(l.At.Of(key), path+"."+key, ErrColumn, "column %q is not in the header of %s", c.Name, l.File)
-			missing = true
+			ok = false
 		}
 	}
-	if missing || v.opt.HeadersOnly || l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
-		return
-	}
-	if _, err := f.Seek(0, io.SeekStart); err != nil {
-		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot re-read log %q: %v", l.File, err)
-		return
-	}
-	r, err := logs.NewReader(f, name, cols)
-	if err != nil {
-		v.errs = append(v.errs, logProblem(err, path))
-		return
-	}
-	defer r.Close()
-	r.Increasing = ix.Time
-	t0, t1, rows := math.Inf(1), math.Inf(-1), 0
+	return ok
+}
+
+// rows reads a log's body: cells, time order, directions, configuration ids.
+func (v *validator) rows(r *logs.Reader, l *LogSpec, path string, ix LogIndex) *scanResult {
+	res := &scanResult{t0: math.Inf(1), t1: math.Inf(-1), configs: map[string]bool{}}
+	rows := 0
 	unknown := map[string]bool{}
 	for r.Next() {
 		rows++
 		t := r.Float(ix.Time)
-		t0, t1 = math.Min(t0, t), math.Max(t1, t)
+		res.t0, res.t1 = math.Min(res.t0, t), math.Max(res.t1, t)
 		if ix.Direction >= 0 {
-			if d := r.Float(ix.Direction); d != 1 && d != -1 {
-				v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
-					Err: wrapf(ErrRange, "column %q: direction must be 1 or -1, got %g", l.Direction, d)})
-				return
+			if err := RowDirection(r.Float(ix.Direction)); err != nil {
+				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
+					Err: fmt.Errorf("column %q: %w", l.Direction, err)})
+				return nil
 			}
 		}
 		if ix.Config >= 0 {
-			id := r.Text(ix.Config)
-			if !v.configs[string(id)] {
-				if !unknown[string(id)] && len(unknown) < 5 {
-					v.errs = append(v.errs, &Problem{Where: Where{File: name, Line: r.Line(), Column: r.Column(ix.Config)}, Path: path + ".config",
-						Err: wrapf(ErrReference, "column %q: unknown configuration %q (known: %s)", l.Config, id, v.configList())})
-				}
-				unknown[string(id)] = true
-			} else {
-				v.informed[string(id)] = true
+			id := string(r.Text(ix.Config))
+			if err := v.c.RowConfig(id); err == nil {
+				res.configs[id] = true
+			} else if !unknown[id] && len(unknown) < 5 {
+				unknown[id] = true
+				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Config)}, Path: path + ".config",
+					Err: fmt.Errorf("column %q: %w", l.Config, err)})
 			}
 		}
 	}
 	if err := r.Err(); err != nil {
 		v.errs = append(v.errs, logProblem(err, path))
-		return
+		return nil
 	}
 	if rows == 0 {
 		v.errf(l.At.Of("file"), path+".file", ErrFile, "log %q has a header but no data rows", l.File)
-		return
+		return nil
 	}
-	for k, s := range l.Segments {
-		if s.FromS < t0 || s.ToS > t1 {
-			v.errf(s.At.Where, fmt.Sprintf("%s.segments[%d]", path, k), ErrRange,
-				"segment %g–%g s lies outside the log's time span %g–%g s", s.FromS, s.ToS, t0, t1)
-		}
-	}
+	return res
 }
 
 // csvTable reads a small CSV table (taps_file, readings_file) with its header,
@@ -182,12 +236,15 @@ type csvTable struct {
 }
 
 func readTable(name string) (*csvTable, error) {
-	f, err := os.Open(name)
+	f, err := OpenRegular(name)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	cr := csv.NewReader(io.LimitReader(f, 16<<20))
+	if st, err := f.Stat(); err == nil && st.Size() > maxTableBytes {
+		return nil, fmt.Errorf("the table is larger than %d MiB (it holds one row per tap or reading)", maxTableBytes>>20)
+	}
+	cr := csv.NewReader(io.LimitReader(f, maxTableBytes))
 	cr.TrimLeadingSpace = true
 	cr.FieldsPerRecord = 0
 	t := &csvTable{name: name}
@@ -397,4 +454,22 @@ func (c *Campaign) Hash() (string, error) {
 		}
 	}
 	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// RowDirection checks one logged direction cell: +1 or −1. The validator
+// and the adapters that read a direction column both call it, so a fault
+// reads the same whoever finds it.
+func RowDirection(d float64) error {
+	if d != 1 && d != -1 {
+		return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
+	}
+	return nil
+}
+
+// RowConfig checks one logged configuration id cell.
+func (c *Campaign) RowConfig(id string) error {
+	if !c.HasConfig(id) {
+		return wrapf(ErrReference, "unknown configuration %q (known: %s)", id, WordList(c.ConfigIDs()))
+	}
+	return nil
 }

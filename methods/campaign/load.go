@@ -2,6 +2,8 @@ package campaign
 
 import (
 	"bytes"
+	"errors"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -24,9 +26,9 @@ type Options struct {
 // returns Problems listing every one found, in file order; warnings are in
 // the returned campaign's Warnings.
 func Load(path string, opt Options) (*Campaign, error) {
-	f, err := os.Open(path)
+	f, err := OpenRegular(path)
 	if err != nil {
-		return nil, Problems{{Where: Where{File: path}, Err: wrapf(ErrFile, "cannot read campaign: %v", unwrapPath(err))}}
+		return nil, Problems{{Where: Where{File: path}, Err: wrapf(ErrFile, "cannot read campaign: %v", err)}}
 	}
 	defer f.Close()
 	return Parse(f, path, filepath.Dir(path), opt)
@@ -67,18 +69,35 @@ func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
 	return c, nil
 }
 
-// readNode reads a YAML document into its root node.
+// MaxDocumentBytes is the largest campaign (or other YAML document of ours)
+// read; a larger file is refused, never truncated.
+const MaxDocumentBytes = 64 << 20
+
+// readNode reads a YAML document into its root node. A second document in
+// the same file is refused: it would otherwise be silently ignored.
 func readNode(src io.Reader, name string) (*yaml.Node, error) {
-	data, err := io.ReadAll(io.LimitReader(src, 64<<20))
+	data, err := io.ReadAll(io.LimitReader(src, MaxDocumentBytes+1))
 	if err != nil {
 		return nil, Problems{{Where: Where{File: name}, Err: wrapf(ErrFile, "cannot read: %v", err)}}
 	}
+	if len(data) > MaxDocumentBytes {
+		return nil, Problems{{Where: Where{File: name}, Err: wrapf(ErrRange, "the file is larger than %d MiB; a campaign is a few kB (logs belong in their own files)", MaxDocumentBytes>>20)}}
+	}
+	dec := yaml.NewDecoder(bytes.NewReader(data))
 	var doc yaml.Node
-	if err := yaml.NewDecoder(bytes.NewReader(data)).Decode(&doc); err != nil {
+	if err := dec.Decode(&doc); err != nil {
 		if err == io.EOF {
 			return nil, Problems{{Where: Where{File: name, Line: 1}, Err: wrapf(ErrSyntax, "empty file")}}
 		}
 		return nil, Problems{syntaxProblem(name, err)}
+	}
+	var next yaml.Node
+	switch err := dec.Decode(&next); {
+	case err == io.EOF:
+	case err != nil:
+		return nil, Problems{syntaxProblem(name, err)}
+	default:
+		return nil, Problems{{Where: Where{File: name, Line: next.Line, Column: next.Column}, Err: wrapf(ErrSyntax, "a second YAML document (after ---) is not read; one file holds one document")}}
 	}
 	root := &doc
 	if root.Kind == yaml.DocumentNode && len(root.Content) == 1 {
@@ -158,4 +177,49 @@ func Decode(src io.Reader, name string, v any) error {
 // checked outside this package.
 func Errorf(w Where, path string, kind error, format string, args ...any) *Problem {
 	return &Problem{Where: w, Path: path, Err: wrapf(kind, format, args...)}
+}
+
+// ErrNotRegular is wrapped when a path names a FIFO, a device, a folder or
+// anything else that is not a regular file: reading it could block forever
+// or read without end.
+var ErrNotRegular = errors.New("not a regular file")
+
+// OpenRegular opens name for reading only if it is a regular file (or a
+// link to one). It checks before opening, since opening a FIFO blocks.
+func OpenRegular(name string) (*os.File, error) {
+	if name == "" {
+		return nil, fmt.Errorf("no file named (the path is empty)")
+	}
+	fi, err := os.Stat(name)
+	if err != nil {
+		return nil, unwrapPath(err)
+	}
+	if !fi.Mode().IsRegular() {
+		what := "a folder"
+		switch m := fi.Mode(); {
+		case m&os.ModeNamedPipe != 0:
+			what = "a named pipe (FIFO)"
+		case m&(os.ModeDevice|os.ModeCharDevice) != 0:
+			what = "a device"
+		case m&os.ModeSocket != 0:
+			what = "a socket"
+		case !m.IsDir():
+			what = "not a plain file"
+		}
+		return nil, fmt.Errorf("%w: it is %s", ErrNotRegular, what)
+	}
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, unwrapPath(err)
+	}
+	return f, nil
+}
+
+// Open opens a file named in the campaign (relative to its folder) with
+// OpenRegular's rules.
+func (c *Campaign) Open(p string) (*os.File, error) {
+	if p == "" {
+		return nil, fmt.Errorf("no file named (the path is empty)")
+	}
+	return OpenRegular(c.Path(p))
 }

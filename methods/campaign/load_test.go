@@ -1,63 +1,16 @@
 package campaign_test
 
 import (
+	"bytes"
 	"errors"
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
 
 	"liftfuse/methods/campaign"
 )
-
-// fixture copies testdata/mini into a temporary folder and returns the
-// campaign path.
-func fixture(t *testing.T) string {
-	t.Helper()
-	dir := t.TempDir()
-	if err := os.CopyFS(dir, os.DirFS("../../testdata/mini")); err != nil {
-		t.Fatal(err)
-	}
-	return filepath.Join(dir, "campaign.yaml")
-}
-
-// edit changes a fixture file: on 1-based line n, old becomes new (n < 0
-// inserts new as a line after line -n; old "" with n > 0 deletes the line).
-type edit struct {
-	file     string // relative to the campaign folder; "" is campaign.yaml
-	n        int
-	old, new string
-}
-
-func apply(t *testing.T, campaign string, edits []edit) {
-	t.Helper()
-	for _, e := range edits {
-		name := filepath.Join(filepath.Dir(campaign), e.file)
-		if e.file == "" {
-			name = campaign
-		}
-		data, err := os.ReadFile(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		lines := strings.Split(string(data), "\n")
-		switch {
-		case e.n < 0:
-			at := -e.n
-			lines = append(lines[:at], append([]string{e.new}, lines[at:]...)...)
-		case e.old == "":
-			lines = append(lines[:e.n-1], lines[e.n:]...)
-		default:
-			if !strings.Contains(lines[e.n-1], e.old) {
-				t.Fatalf("fixture drift: line %d of %s is %q, no %q in it", e.n, e.file, lines[e.n-1], e.old)
-			}
-			lines[e.n-1] = strings.Replace(lines[e.n-1], e.old, e.new, 1)
-		}
-		if err := os.WriteFile(name, []byte(strings.Join(lines, "\n")), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-}
 
 func TestLoadValidFixture(t *testing.T) {
 	c, err := campaign.Load(fixture(t), campaign.Options{})
@@ -86,57 +39,88 @@ func TestLoadValidFixture(t *testing.T) {
 }
 
 func TestLoadInvalid(t *testing.T) {
-	const log = "logs/run.csv"
+	const (
+		rh0  = "evidence.ride_height[0]"
+		log0 = rh0 + ".logs[0]"
+		rh1  = "evidence.ride_height[1]"
+		pr0  = "evidence.pressure[0]"
+	)
 	tests := []struct {
-		name     string
-		edits    []edit
-		wantFile string // suffix; "" means campaign.yaml
-		wantLine int
-		wantPath string
+		name  string
+		edits []edit
+		text  *textChange // a change to campaign.yaml's text instead
+		log   *textChange // a change to logs/run.csv
+		// at is the YAML path whose line the problem must stand on ("" with
+		// a text change: the changed line); path is the problem's own.
+		at, path string
 		wantErr  error
 	}{
-		{"unknown top-level key", []edit{{n: -80, new: "colour: red"}}, "", 81, "colour", campaign.ErrUnknownKey},
-		{"unknown nested key", []edit{{n: 11, old: "wheelbase_m", new: "wheelbase_mm"}}, "", 11, "vehicle.wheelbase_mm", campaign.ErrUnknownKey},
-		{"missing required key", []edit{{n: 11}}, "", 9, "vehicle.wheelbase_m", campaign.ErrMissing},
-		{"duplicate key", []edit{{n: -12, new: "  mass_kg: 1300"}}, "", 13, "vehicle.mass_kg", campaign.ErrDuplicate},
-		{"wrong type", []edit{{n: 12, old: "1200", new: "heavy"}}, "", 12, "vehicle.mass_kg", campaign.ErrType},
-		{"non-finite number", []edit{{n: 20, old: "20", new: ".inf"}}, "", 20, "air.temperature_c", campaign.ErrRange},
-		{"negative length", []edit{{n: 11, old: "2.5", new: "-2.5"}}, "", 11, "vehicle.wheelbase_m", campaign.ErrRange},
-		{"zero mass", []edit{{n: 12, old: "1200", new: "0"}}, "", 12, "vehicle.mass_kg", campaign.ErrRange},
-		{"percentage out of range", []edit{{n: 14, old: "spring_sd_pct: 5", new: "spring_sd_pct: 150"}}, "", 14, "vehicle.axles.front.spring_sd_pct", campaign.ErrRange},
-		{"probability out of range", []edit{{n: -71, new: "      misread: 0.6"}}, "", 72, "evidence.vortex[0].misread", campaign.ErrRange},
-		{"credible out of range", []edit{{n: -77, new: "  credible: 1.5"}}, "", 78, "report.credible", campaign.ErrRange},
-		{"bad date", []edit{{n: 7, old: "2026-03-02", new: "02/03/2026"}}, "", 7, "campaign.date", campaign.ErrRange},
-		{"wrong format number", []edit{{n: 4, old: "1", new: "2"}}, "", 4, "liftfuse", campaign.ErrFormat},
-		{"yaml syntax (parser)", []edit{{n: 17, old: "as is}", new: "as is"}}, "", 17, "", campaign.ErrSyntax},
-		{"yaml syntax (scanner)", []edit{{n: 21, old: "pressure_hpa: 1013", new: "pressure_hpa: 1013: 5"}}, "", 21, "", campaign.ErrSyntax},
-		{"duplicate configuration id", []edit{{n: 18, old: "wing", new: "base"}}, "", 18, "configurations[1].id", campaign.ErrDuplicate},
-		{"malformed configuration id", []edit{{n: 18, old: "wing", new: "Wing Tip"}}, "", 18, "configurations[1].id", campaign.ErrRange},
-		{"duplicate entry id", []edit{{n: 39, old: "rlaser", new: "fpot"}}, "", 39, "evidence.ride_height[1].id", campaign.ErrDuplicate},
-		{"unknown configuration in segment", []edit{{n: 38, old: "wing", new: "wingg"}}, "", 38, "evidence.ride_height[0].logs[0].segments[1].config", campaign.ErrReference},
-		{"missing log file", []edit{{n: 31, old: "run.csv", new: "nope.csv"}}, "", 31, "evidence.ride_height[0].logs[0].file", campaign.ErrFile},
-		{"missing log column", []edit{{n: 34, old: "fp", new: "fpx"}}, "", 34, "evidence.ride_height[0].logs[0].signal", campaign.ErrColumn},
-		{"two speed columns", []edit{{n: -33, new: "          speed_ms: vms"}}, "", 31, "evidence.ride_height[0].logs[0]", campaign.ErrMissing},
-		{"overlapping segments", []edit{{n: 38, old: "from_s: 5", new: "from_s: 3"}}, "", 38, "evidence.ride_height[0].logs[0].segments[1]", campaign.ErrOverlap},
-		{"segment outside the log", []edit{{n: 38, old: "to_s: 9", new: "to_s: 20"}}, "", 38, "evidence.ride_height[0].logs[0].segments[1]", campaign.ErrRange},
-		{"points with one distinct signal", []edit{{n: 43, old: "[[0, 0]", new: "[[1, 0]"}}, "", 43, "evidence.ride_height[1].calibration.points", campaign.ErrRange},
-		{"ballast with one distinct mass", []edit{{n: 48, old: "added_kg: 50", new: "added_kg: 0"}}, "", 47, "evidence.ride_height[1].stiffness.ballast", campaign.ErrRange},
-		{"zero tap area", []edit{{n: 62, old: "area_m2: 0.5", new: "area_m2: 0"}}, "", 62, "evidence.pressure[0].taps[0].area_m2", campaign.ErrRange},
-		{"tap without reading", []edit{{n: 67, old: ", f1: -80", new: ""}}, "", 67, "evidence.pressure[0].readings[0]", campaign.ErrMissing},
-		{"non-finite tap reading", []edit{{n: 67, old: "r1: -300", new: "r1: .nan"}}, "", 67, "evidence.pressure[0].readings[0].pa.r1", campaign.ErrRange},
-		{"reading of an unknown tap", []edit{{n: 68, old: "f1: -90", new: "f1: -90, x9: 4"}}, "", 68, "evidence.pressure[0].readings[1].pa.x9", campaign.ErrReference},
-		{"vortex on a wagon", []edit{{n: 10, old: "fastback", new: "wagon"}}, "", 70, "evidence.vortex[0]", campaign.ErrNotApply},
-		{"plan cost of an unknown entry", []edit{{n: 80, old: "fpot:", new: "fpott:"}}, "", 80, "plan.cost_h.fpott", campaign.ErrReference},
-		{"non-numeric log cell", []edit{{file: log, n: 4, old: "100.0,27.778", new: "1OO,27.778"}}, log, 4, "evidence.ride_height[0].logs[0]", campaign.ErrColumn},
-		{"missing log cell", []edit{{file: log, n: 6, old: "1.040", new: ""}}, log, 6, "evidence.ride_height[0].logs[0]", campaign.ErrColumn},
-		{"time not increasing", []edit{{file: log, n: 5, old: "3.0,", new: "1.5,"}}, log, 5, "evidence.ride_height[0].logs[0]", campaign.ErrColumn},
-		{"direction not ±1", []edit{{file: log, n: 4, old: ",1,1.020", new: ",0,1.020"}}, log, 4, "evidence.ride_height[0].logs[0].direction", campaign.ErrRange},
-		{"unknown configuration in log", []edit{{file: log, n: 8, old: "wing", new: "wig"}}, log, 8, "evidence.ride_height[1].logs[0].config", campaign.ErrReference},
+		{"unknown top-level key", []edit{add("", "colour", "red")}, nil, nil, "colour", "colour", campaign.ErrUnknownKey},
+		{"unknown nested key", []edit{rename("vehicle.wheelbase_m", "wheelbase_mm")}, nil, nil, "vehicle.wheelbase_mm", "vehicle.wheelbase_mm", campaign.ErrUnknownKey},
+		{"missing required key", []edit{remove("vehicle.wheelbase_m")}, nil, nil, "vehicle", "vehicle.wheelbase_m", campaign.ErrMissing},
+		{"duplicate key", []edit{add("vehicle", "mass_kg", "1300")}, nil, nil, "vehicle.mass_kg", "vehicle.mass_kg", campaign.ErrDuplicate},
+		{"wrong type", []edit{set("vehicle.mass_kg", "heavy")}, nil, nil, "vehicle.mass_kg", "vehicle.mass_kg", campaign.ErrType},
+		{"non-finite number", []edit{set("air.temperature_c", ".inf")}, nil, nil, "air.temperature_c", "air.temperature_c", campaign.ErrRange},
+		{"negative length", []edit{set("vehicle.wheelbase_m", "-2.5")}, nil, nil, "vehicle.wheelbase_m", "vehicle.wheelbase_m", campaign.ErrRange},
+		{"zero mass", []edit{set("vehicle.mass_kg", "0")}, nil, nil, "vehicle.mass_kg", "vehicle.mass_kg", campaign.ErrRange},
+		{"percentage out of range", []edit{set("vehicle.axles.front.spring_sd_pct", "150")}, nil, nil, "vehicle.axles.front.spring_sd_pct", "vehicle.axles.front.spring_sd_pct", campaign.ErrRange},
+		{"probability out of range", []edit{add("evidence.vortex[0]", "misread", "0.6")}, nil, nil, "evidence.vortex[0].misread", "evidence.vortex[0].misread", campaign.ErrRange},
+		{"credible out of range", []edit{add("report", "credible", "1.5")}, nil, nil, "report.credible", "report.credible", campaign.ErrRange},
+		{"bad date", []edit{set("campaign.date", "02/03/2026")}, nil, nil, "campaign.date", "campaign.date", campaign.ErrRange},
+		{"wrong format number", []edit{set("liftfuse", "2")}, nil, nil, "liftfuse", "liftfuse", campaign.ErrFormat},
+		{"yaml syntax (parser)", nil, &textChange{"as is}", "as is"}, nil, "", "", campaign.ErrSyntax},
+		{"yaml syntax (scanner)", nil, &textChange{"pressure_hpa: 1013", "pressure_hpa: 1013: 5"}, nil, "", "", campaign.ErrSyntax},
+		{"duplicate configuration id", []edit{set("configurations[1].id", "base")}, nil, nil, "configurations[1].id", "configurations[1].id", campaign.ErrDuplicate},
+		{"malformed configuration id", []edit{set("configurations[1].id", "Wing Tip")}, nil, nil, "configurations[1].id", "configurations[1].id", campaign.ErrRange},
+		{"duplicate entry id", []edit{set(rh1+".id", "fpot")}, nil, nil, rh1 + ".id", rh1 + ".id", campaign.ErrDuplicate},
+		{"unknown configuration in segment", []edit{set(log0+".segments[1].config", "wingg")}, nil, nil, log0 + ".segments[1].config", log0 + ".segments[1].config", campaign.ErrReference},
+		{"missing log file", []edit{set(log0+".file", "logs/nope.csv")}, nil, nil, log0 + ".file", log0 + ".file", campaign.ErrFile},
+		{"missing log column", []edit{set(log0+".signal", "fpx")}, nil, nil, log0 + ".signal", log0 + ".signal", campaign.ErrColumn},
+		{"two speed columns", []edit{add(log0, "speed_ms", "vms")}, nil, nil, log0, log0, campaign.ErrMissing},
+		{"overlapping segments", []edit{set(log0+".segments[1].from_s", "20")}, nil, nil, log0 + ".segments[1].from_s", log0 + ".segments[1]", campaign.ErrOverlap},
+		{"segment outside the log", []edit{set(log0+".segments[1].to_s", "90")}, nil, nil, log0 + ".segments[1]", log0 + ".segments[1]", campaign.ErrRange},
+		{"points with one distinct signal", []edit{set(rh1+".calibration.points", "[[1, 0], [1, 10]]")}, nil, nil, rh1 + ".calibration.points", rh1 + ".calibration.points", campaign.ErrRange},
+		{"ballast with one distinct mass", []edit{set(rh1+".stiffness.ballast[1].added_kg", "0")}, nil, nil, rh1 + ".stiffness.ballast", rh1 + ".stiffness.ballast", campaign.ErrRange},
+		{"zero tap area", []edit{set(pr0+".taps[0].area_m2", "0")}, nil, nil, pr0 + ".taps[0].area_m2", pr0 + ".taps[0].area_m2", campaign.ErrRange},
+		{"tap without reading", []edit{remove(pr0 + ".readings[0].pa.f1")}, nil, nil, pr0 + ".readings[0]", pr0 + ".readings[0]", campaign.ErrMissing},
+		{"non-finite tap reading", []edit{set(pr0+".readings[0].pa.r1", ".nan")}, nil, nil, pr0 + ".readings[0].pa.r1", pr0 + ".readings[0].pa.r1", campaign.ErrRange},
+		{"reading of an unknown tap", []edit{add(pr0+".readings[1].pa", "x9", "4")}, nil, nil, pr0 + ".readings[1].pa.x9", pr0 + ".readings[1].pa.x9", campaign.ErrReference},
+		{"vortex on a wagon", []edit{set("vehicle.body", "wagon")}, nil, nil, "evidence.vortex[0]", "evidence.vortex[0]", campaign.ErrNotApply},
+		{"plan cost of an unknown entry", []edit{rename("plan.cost_h.fpot", "fpott")}, nil, nil, "plan.cost_h.fpott", "plan.cost_h.fpott", campaign.ErrReference},
+		{"x_m on a potentiometer", []edit{add(rh0, "x_m", "0.1")}, nil, nil, rh0 + ".x_m", rh0 + ".x_m", campaign.ErrNotApply},
+		{"laser off the car", []edit{add(rh1, "x_m", "9")}, nil, nil, rh1 + ".x_m", rh1 + ".x_m", campaign.ErrRange},
+		{"decimal comma with comma delimiter", []edit{add(log0, "format", "{delimiter: \",\", decimal: \",\"}")}, nil, nil, log0 + ".format.decimal", log0 + ".format.decimal", campaign.ErrRange},
+		{"pressure log with a tap not read", []edit{remove(pr0 + ".readings"), add(pr0, "logs", "[{file: logs/run.csv, time: t, speed_kmh: v, taps: {r1: fp}}]")}, nil, nil, pr0 + ".logs[0].taps", pr0 + ".logs[0].taps", campaign.ErrMissing},
+		{"overflowing mass", []edit{set("vehicle.mass_kg", "1e308")}, nil, nil, "vehicle.mass_kg", "vehicle.mass_kg", campaign.ErrRange},
+		{"overflowing wheelbase", []edit{set("vehicle.wheelbase_m", "1e308")}, nil, nil, "vehicle.wheelbase_m", "vehicle.wheelbase_m", campaign.ErrRange},
+		{"overflowing motion ratio", []edit{set("vehicle.axles.rear.motion_ratio", "1e308")}, nil, nil, "vehicle.axles.rear.motion_ratio", "vehicle.axles.rear.motion_ratio", campaign.ErrRange},
+		{"overflowing prior sd", []edit{add("", "prior", "{cla_sd_m2: 1e308}")}, nil, nil, "prior.cla_sd_m2", "prior.cla_sd_m2", campaign.ErrRange},
+		{"overflowing gain", []edit{set(rh0+".calibration.mm_per_unit", "1e308")}, nil, nil, rh0 + ".calibration.mm_per_unit", rh0 + ".calibration.mm_per_unit", campaign.ErrRange},
+		{"overflowing filter time", []edit{add(rh0, "filter_tau_s", "1e308")}, nil, nil, rh0 + ".filter_tau_s", rh0 + ".filter_tau_s", campaign.ErrRange},
+		{"overflowing cost", []edit{set("plan.cost_h.tuft", "1e308")}, nil, nil, "plan.cost_h.tuft", "plan.cost_h.tuft", campaign.ErrRange},
+		{"empty log file name", []edit{set(log0+".file", `""`)}, nil, nil, log0 + ".file", log0 + ".file", campaign.ErrFile},
+		{"too many report speeds", []edit{set("report.speeds_kmh", "["+strings.Repeat("100, ", 60)+"100]")}, nil, nil, "report.speeds_kmh", "report.speeds_kmh", campaign.ErrRange},
+		{"title too long", []edit{set("campaign.title", strings.Repeat("x", 3000))}, nil, nil, "campaign.title", "campaign.title", campaign.ErrRange},
+		{"non-numeric log cell", nil, nil, &textChange{"\n12.0,100.0", "\n12.0,1OO"}, "", log0, campaign.ErrColumn},
+		{"missing log cell", nil, nil, &textChange{"\n13.0,100.0,27.778,1,", "\n13.0,100.0,27.778,1,,"}, "", log0, campaign.ErrColumn},
+		{"time not increasing", nil, nil, &textChange{"\n3.0,", "\n1.5,"}, "", log0, campaign.ErrColumn},
+		{"direction not ±1", nil, nil, &textChange{"\n14.0,100.0,27.778,1,", "\n14.0,100.0,27.778,0,"}, "", log0 + ".direction", campaign.ErrRange},
+		{"unknown configuration in log", nil, nil, &textChange{"0.4861,wing\n41.0", "0.4861,wig\n41.0"}, "", rh1 + ".logs[0].config", campaign.ErrReference},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			path := fixture(t)
-			apply(t, path, tt.edits)
+			apply(t, path, tt.edits...)
+			wantFile, wantLine := "campaign.yaml", 0
+			switch {
+			case tt.text != nil:
+				wantLine = change(t, path, *tt.text)
+			case tt.log != nil:
+				wantFile = "run.csv"
+				wantLine = change(t, filepath.Join(filepath.Dir(path), "logs", "run.csv"), *tt.log)
+			default:
+				wantLine = lineOf(t, path, tt.at)
+			}
 			c, err := campaign.Load(path, campaign.Options{})
 			if err == nil {
 				t.Fatalf("loaded an invalid campaign: %+v", c.Campaign)
@@ -145,48 +129,38 @@ func TestLoadInvalid(t *testing.T) {
 			if !errors.As(err, &probs) {
 				t.Fatalf("error is %T, want campaign.Problems: %v", err, err)
 			}
-			wantFile := tt.wantFile
-			if wantFile == "" {
-				wantFile = "campaign.yaml"
-			}
 			for _, p := range probs {
-				if strings.HasSuffix(p.File, wantFile) && p.Line == tt.wantLine && p.Path == tt.wantPath && errors.Is(p, tt.wantErr) {
+				if strings.HasSuffix(p.File, wantFile) && p.Line == wantLine && p.Path == tt.path && errors.Is(p, tt.wantErr) {
 					if !strings.HasPrefix(p.Error(), p.Where.String()+": ") || p.Column == 0 && tt.wantErr != campaign.ErrSyntax {
 						t.Errorf("message %q does not start with file:line:column", p.Error())
 					}
 					return
 				}
 			}
-			t.Errorf("no problem at %s:%d %s wrapping %v; got:\n%v", wantFile, tt.wantLine, tt.wantPath, tt.wantErr, err)
+			t.Errorf("no problem at %s:%d %s wrapping %v; got:\n%v", wantFile, wantLine, tt.path, tt.wantErr, err)
 		})
 	}
 }
 
 func TestLoadListsEveryProblem(t *testing.T) {
 	path := fixture(t)
-	apply(t, path, []edit{
-		{n: 11, old: "2.5", new: "-2.5"},
-		{n: 38, old: "wing", new: "wingg"},
-		{n: 80, old: "fpot:", new: "fpott:"},
-	})
+	at := []string{"vehicle.wheelbase_m", "evidence.ride_height[0].logs[0].segments[1].config", "plan.cost_h.fpott"}
+	apply(t, path, set(at[0], "-2.5"), set(at[1], "wingg"), rename("plan.cost_h.fpot", "fpott"))
 	_, err := campaign.Load(path, campaign.Options{})
 	var probs campaign.Problems
 	if !errors.As(err, &probs) || len(probs) != 3 {
 		t.Fatalf("want exactly 3 problems in file order, got %v", err)
 	}
-	for i, want := range []int{11, 38, 80} {
-		if probs[i].Line != want {
-			t.Errorf("problem %d at line %d, want %d", i, probs[i].Line, want)
+	for i, p := range at {
+		if want := lineOf(t, path, p); probs[i].Line != want {
+			t.Errorf("problem %d at line %d, want %d (%s)", i, probs[i].Line, want, p)
 		}
 	}
 }
 
 func TestLoadWarnings(t *testing.T) {
 	path := fixture(t)
-	apply(t, path, []edit{
-		{n: 49},          // the laser loses its tyre-growth prior
-		{n: 63}, {n: 63}, // the pressure entry loses its uncovered patches
-	})
+	apply(t, path, remove("evidence.ride_height[1].tyre_growth"), remove("evidence.pressure[0].uncovered"))
 	c, err := campaign.Load(path, campaign.Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -213,10 +187,8 @@ func TestLoadTables(t *testing.T) {
 	}
 	write("taps.csv", "id,x_m,surface,area_m2,nz\nr1,1.0,upper,0.5,1\nf1,1.0,lower,0.5,-1\n")
 	write("readings.csv", "config,speed_kmh,direction,r1,f1\nbase,100,1,-300,-80\nwing,100,-1,-280,\n")
-	apply(t, path, []edit{
-		{n: 61, old: "taps:", new: "taps_file: taps.csv"}, {n: 62}, {n: 62},
-		{n: 64, old: "readings:", new: "readings_file: readings.csv"}, {n: 65}, {n: 65},
-	})
+	const pr0 = "evidence.pressure[0]"
+	apply(t, path, remove(pr0+".taps"), add(pr0, "taps_file", "taps.csv"), remove(pr0+".readings"), add(pr0, "readings_file", "readings.csv"))
 	_, err := campaign.Load(path, campaign.Options{})
 	var probs campaign.Problems
 	if !errors.As(err, &probs) {
@@ -233,5 +205,53 @@ func TestLoadTables(t *testing.T) {
 	}
 	if got, _ := c.Evidence.Pressure[0].Readings[1].Pa.Get("f1"); got != -90 || c.Evidence.Pressure[0].Taps[1].Nz != -1 {
 		t.Errorf("tables not loaded: %+v", c.Evidence.Pressure[0])
+	}
+}
+
+func TestLoadRefusesTrailingDocument(t *testing.T) {
+	path := fixture(t)
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Count(string(data), "\n")
+	if err := os.WriteFile(path, append(data, "---\ncolour: red\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) || len(probs) != 1 || probs[0].Line != lines+1 || !errors.Is(probs[0], campaign.ErrSyntax) {
+		t.Fatalf("want one syntax problem at line %d (the second document's ---), got %v", lines+1, err)
+	}
+}
+
+func TestLoadRefusesOversizedCampaign(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "big.yaml")
+	big := append([]byte("liftfuse: 1\n# "), bytes.Repeat([]byte("x"), campaign.MaxDocumentBytes)...)
+	if err := os.WriteFile(path, big, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err := campaign.Load(path, campaign.Options{})
+	if !errors.Is(err, campaign.ErrRange) || !strings.Contains(err.Error(), "larger than 64 MiB") {
+		t.Fatalf("want a size error, got %v", err)
+	}
+}
+
+// TestLoadRefusesFIFO: reading a named pipe would block forever; it must be
+// refused by name, whether it is the campaign or a log.
+func TestLoadRefusesFIFO(t *testing.T) {
+	path := fixture(t)
+	fifo := filepath.Join(filepath.Dir(path), "pipe.csv")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Skipf("no FIFOs here: %v", err)
+	}
+	apply(t, path, set("evidence.ride_height[0].logs[0].file", "pipe.csv"))
+	_, err := campaign.Load(path, campaign.Options{})
+	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
+		t.Fatalf("log: want a not-a-regular-file error, got %v", err)
+	}
+	_, err = campaign.Load(fifo, campaign.Options{})
+	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
+		t.Fatalf("campaign: want a not-a-regular-file error, got %v", err)
 	}
 }

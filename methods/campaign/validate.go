@@ -2,6 +2,7 @@ package campaign
 
 import (
 	"fmt"
+	"math"
 	"regexp"
 	"sort"
 	"time"
@@ -16,7 +17,8 @@ type validator struct {
 	warns []*Problem
 
 	configs  map[string]bool
-	informed map[string]bool // configs that some evidence speaks of
+	informed map[string]bool        // configs that some evidence speaks of
+	scanned  map[string]*scanResult // logs read, by file and columns
 }
 
 func (v *validator) errf(w Where, path string, kind error, format string, args ...any) {
@@ -34,16 +36,43 @@ var (
 
 // positive requires x > 0.
 func (v *validator) positive(p Place, path, key string, x float64) {
-	if !(x > 0) {
-		v.errf(p.Of(key), join(path, key), ErrRange, "%s must be positive, got %g", key, x)
+	hi, unit := upper(key)
+	if !(x > 0 && x <= hi) {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s must lie in (0, %g]%s, got %g", key, hi, unit, x)
 	}
 }
 
-// nonNegative requires x ≥ 0.
+// nonNegative requires 0 ≤ x ≤ the key's physical upper bound.
 func (v *validator) nonNegative(p Place, path, key string, x float64) {
-	if x < 0 {
-		v.errf(p.Of(key), join(path, key), ErrRange, "%s must not be negative, got %g", key, x)
+	hi, unit := upper(key)
+	if !(x >= 0 && x <= hi) {
+		v.errf(p.Of(key), join(path, key), ErrRange, "%s must lie in [0, %g]%s, got %g", key, hi, unit, x)
 	}
+}
+
+// upperBounds are generous physical limits of each key, so that a slip of
+// units or an overflow (1e308) is an error at its place rather than a
+// failure deep in the fusion. Each is far beyond any road car (common
+// practice, no source).
+var upperBounds = map[string]struct {
+	hi   float64
+	unit string
+}{
+	"wheelbase_m": {10, " m"}, "mass_kg": {60000, " kg"}, "frontal_area_m2": {20, " m²"},
+	"cda_m2": {20, " m²"}, "centre_height_m": {5, " m"}, "spring_n_per_mm": {5000, " N/mm"},
+	"motion_ratio": {5, ""}, "motion_ratio_sd": {1, ""}, "tyre_n_per_mm": {10000, " N/mm"},
+	"wind_sd_ms": {20, " m/s"}, "cla_sd_m2": {10, " m²"}, "added_kg": {5000, " kg"},
+	"friction_mm": {20, " mm"}, "sd_mm": {50, " mm"}, "speed_tol_kmh": {50, " km/h"},
+	"min_duration_s": {3600, " s"}, "filter_tau_s": {60, " s"}, "sensor_sd_pa": {10000, " Pa"},
+	"reference_sd_pa": {10000, " Pa"}, "area_m2": {50, " m²"}, "width_m": {10, " m"},
+	"cp_sd": {10, ""}, "speed_kmh": {500, " km/h"}, "softness_m2": {1, " m²"}, "rpm": {100000, " 1/min"},
+}
+
+func upper(key string) (float64, string) {
+	if b, ok := upperBounds[key]; ok {
+		return b.hi, b.unit
+	}
+	return math.MaxFloat64, ""
 }
 
 // within requires lo ≤ x ≤ hi, a physical range stated in the message.
@@ -80,13 +109,7 @@ func (v *validator) config(p Place, path, key, id string) {
 	v.informed[id] = true
 }
 
-func (v *validator) configList() string {
-	ids := make([]string, len(v.c.Configurations))
-	for i, cf := range v.c.Configurations {
-		ids[i] = cf.ID
-	}
-	return fmt.Sprint(ids)
-}
+func (v *validator) configList() string { return WordList(v.c.ConfigIDs()) }
 
 func (v *validator) direction(p Place, path, key string, d int) {
 	if d != -1 && d != 0 && d != 1 {
@@ -102,6 +125,7 @@ func (v *validator) run() {
 	if _, err := time.Parse("2006-01-02", c.Campaign.Date); err != nil {
 		v.errf(c.Campaign.At.Of("date"), "campaign.date", ErrRange, "date must be an ISO date such as 2026-10-14, got %q", c.Campaign.Date)
 	}
+	v.sizes()
 	v.vehicle()
 	if len(c.Configurations) == 0 {
 		v.errf(c.At.Of("configurations"), "configurations", ErrRange, "at least one configuration is needed")
@@ -227,8 +251,8 @@ func (v *validator) evidence() {
 	for _, cv := range c.Plan.CostH {
 		if !ids[cv.Key] {
 			v.errf(cv.At, "plan.cost_h."+cv.Key, ErrReference, "no evidence entry %q", cv.Key)
-		} else if !(cv.V > 0) {
-			v.errf(cv.At, "plan.cost_h."+cv.Key, ErrRange, "cost must be positive hours, got %g", cv.V)
+		} else if !(cv.V > 0 && cv.V <= 1000) {
+			v.errf(cv.At, "plan.cost_h."+cv.Key, ErrRange, "cost must lie in (0, 1000] hours, got %g", cv.V)
 		}
 	}
 }
@@ -242,8 +266,8 @@ func (v *validator) rideHeight(e *RideHeightEntry, path string) {
 	switch hasGain, hasPts := cal.At.Has("mm_per_unit"), cal.At.Has("points"); {
 	case hasGain == hasPts:
 		v.errf(e.At.Of("calibration"), cp, ErrMissing, "give exactly one of mm_per_unit and points")
-	case hasGain && cal.MmPerUnit == 0:
-		v.errf(cal.At.Of("mm_per_unit"), cp+".mm_per_unit", ErrRange, "mm_per_unit must not be zero")
+	case hasGain && !(math.Abs(cal.MmPerUnit) > 0 && math.Abs(cal.MmPerUnit) <= 1e5):
+		v.errf(cal.At.Of("mm_per_unit"), cp+".mm_per_unit", ErrRange, "mm_per_unit must not be zero and its size at most 1e5 mm per unit, got %g", cal.MmPerUnit)
 	case hasPts:
 		if distinct(len(cal.Points), func(i int) float64 { return cal.Points[i].A }) < 2 {
 			v.errf(cal.At.Of("points"), cp+".points", ErrRange, "a points calibration needs at least 2 distinct signals")
@@ -499,8 +523,8 @@ func (v *validator) vortex(e *VortexEntry, path string) {
 
 func (v *validator) report() {
 	r := &v.c.Report
-	if len(r.SpeedsKmh) == 0 {
-		v.errf(r.At.Of("speeds_kmh"), "report.speeds_kmh", ErrRange, "at least one report speed is needed")
+	if n := len(r.SpeedsKmh); n == 0 || n > MaxReportSpeeds {
+		v.errf(r.At.Of("speeds_kmh"), "report.speeds_kmh", ErrRange, "give 1 to %d report speeds, got %d", MaxReportSpeeds, n)
 	}
 	for i, s := range r.SpeedsKmh {
 		if !(s > 0 && s < 500) {
@@ -606,4 +630,48 @@ func (e *PressureEntry) hasTap(id string) bool {
 		}
 	}
 	return false
+}
+
+// Limits on how much a campaign may ask for, so that the work stays bounded
+// by what a test day can hold.
+const (
+	MaxConfigurations = 200
+	MaxEntries        = 200  // evidence entries of all methods
+	MaxLogSpecs       = 1000 // logs named by all entries
+	MaxReportSpeeds   = 50
+	MaxTextLen        = 2000 // characters of a title, label, site or note
+)
+
+// sizes checks the campaign's counts and text lengths against the limits.
+func (v *validator) sizes() {
+	c := v.c
+	if n := len(c.Configurations); n > MaxConfigurations {
+		v.errf(c.At.Of("configurations"), "configurations", ErrRange, "at most %d configurations, got %d", MaxConfigurations, n)
+	}
+	e := &c.Evidence
+	if n := len(e.RideHeight) + len(e.Pressure) + len(e.Vortex); n > MaxEntries {
+		v.errf(c.At.Of("evidence"), "evidence", ErrRange, "at most %d evidence entries, got %d", MaxEntries, n)
+	}
+	logs := 0
+	for _, r := range e.RideHeight {
+		logs += len(r.Logs)
+	}
+	for _, p := range e.Pressure {
+		logs += len(p.Logs)
+	}
+	if logs > MaxLogSpecs {
+		v.errf(c.At.Of("evidence"), "evidence", ErrRange, "at most %d logs in all entries, got %d", MaxLogSpecs, logs)
+	}
+	for _, t := range []struct {
+		at        Place
+		path, key string
+		s         string
+	}{
+		{c.Campaign.At, "campaign", "title", c.Campaign.Title}, {c.Campaign.At, "campaign", "site", c.Campaign.Site},
+		{c.Campaign.At, "campaign", "notes", c.Campaign.Notes}, {c.Vehicle.At, "vehicle", "label", c.Vehicle.Label},
+	} {
+		if n := len([]rune(t.s)); n > MaxTextLen {
+			v.errf(t.at.Of(t.key), join(t.path, t.key), ErrRange, "%s is %d characters long; at most %d", t.key, n, MaxTextLen)
+		}
+	}
 }
