@@ -135,7 +135,7 @@ func BallastStiffness(entry, axle string, pts []campaign.BallastPoint, wheelbase
 	K := -1 / slope
 	sd := se / -slope * TInflation(len(pts), ballastLevel)
 	var warn string
-	if sd == 0 {
+	if sd < 1e-9 { // round-off of an exact line
 		sd = DefaultBallastSDPct / 100
 		warn = fmt.Sprintf("%s: the ballast stiffness rests on %d points with no scatter between them: its uncertainty is taken as %g %%; add a third mass to measure it",
 			entry, len(pts), float64(DefaultBallastSDPct))
