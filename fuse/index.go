@@ -174,7 +174,7 @@ func (ix *indexer) indexObservations(ei int, ev evidence.Evidence) error {
 			m.rows = append(m.rows, r)
 		}
 		bl.uniform = m.uniform(bl.rows)
-		if err := bl.setCov(b.Cov); err != nil {
+		if err := bl.setCov(b); err != nil {
 			return fmt.Errorf("fuse: entry %q: %w", ev.Entry, err)
 		}
 		m.blocks = append(m.blocks, bl)

@@ -225,7 +225,7 @@ func (m *model) undirected() error {
 			cov.SetSym(i, i, cov.At(i, i)+extra[i]+1e-300)
 		}
 		*bl = block{rows: bl.rows, entry: bl.entry, uniform: bl.uniform}
-		if err := bl.setCov(cov); err != nil {
+		if err := bl.setCov(evidence.Block{Cov: cov}); err != nil {
 			return err
 		}
 	}
@@ -236,7 +236,16 @@ func (m *model) undirected() error {
 }
 
 // setCov stores the inverse covariance and its log-determinant.
-func (b *block) setCov(cov *mat.SymDense) error {
+func (b *block) setCov(eb evidence.Block) error {
+	if eb.Var != nil {
+		b.diag = make([]float64, len(eb.Var))
+		for i, v := range eb.Var {
+			b.diag[i] = 1 / v
+			b.logdet += math.Log(v)
+		}
+		return nil
+	}
+	cov := eb.Cov
 	n := cov.SymmetricDim()
 	diagonal := true
 	for i := 0; i < n && diagonal; i++ {

@@ -146,10 +146,25 @@ type Obs struct {
 	Label  string // what it is, for the report ("window 3 at 101 km/h")
 }
 
-// Block is a set of observations with a full error covariance (units of y²).
+// Block is a set of observations with their error covariance (units of
+// y²): a full matrix Cov, or, for independent errors, their variances Var
+// alone (Cov nil), so that memory grows with the observations, not their
+// square.
 type Block struct {
 	Obs []Obs
 	Cov *mat.SymDense
+	Var []float64
+}
+
+// At returns element (i, j) of the block's covariance.
+func (b Block) At(i, j int) float64 {
+	if b.Cov != nil {
+		return b.Cov.At(i, j)
+	}
+	if i == j {
+		return b.Var[i]
+	}
+	return 0
 }
 
 // Sign is one observed sense of a lift quantity.
@@ -232,11 +247,17 @@ func Diagonal(obs []Obs, sd []float64) (Block, error) {
 	if len(sd) != len(obs) {
 		return Block{}, badf("%d observations but %d standard deviations", len(obs), len(sd))
 	}
-	cov := mat.NewSymDense(len(obs), nil)
-	for i, s := range sd {
-		cov.SetSym(i, i, s*s)
+	if len(obs) == 0 {
+		return Block{}, badf("empty block")
 	}
-	return NewBlock(obs, cov)
+	v := make([]float64, len(sd))
+	for i, s := range sd {
+		if !finite(s) || !(s > 0) {
+			return Block{}, badf("standard deviation of %q is %g; it must be positive and finite", obs[i].Label, s)
+		}
+		v[i] = s * s
+	}
+	return Block{Obs: obs, Var: v}, nil
 }
 
 // Check reports the first way in which e is malformed: non-finite numbers,
@@ -288,7 +309,7 @@ func (e *Evidence) Check() error {
 		return nil
 	}
 	for bi, b := range e.Blocks {
-		if b.Cov == nil || b.Cov.SymmetricDim() != len(b.Obs) {
+		if (b.Cov == nil) == (b.Var == nil) || b.Cov != nil && b.Cov.SymmetricDim() != len(b.Obs) || b.Var != nil && len(b.Var) != len(b.Obs) {
 			return badf("entry %q: block %d covariance has the wrong size", e.Entry, bi)
 		}
 		for _, o := range b.Obs {

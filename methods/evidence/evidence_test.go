@@ -1,0 +1,96 @@
+package evidence_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"liftfuse/methods/evidence"
+)
+
+func obs(label string) evidence.Obs {
+	return evidence.Obs{Y: 1, Terms: []evidence.Term{{Config: "c", Axle: evidence.AxleFront, W: 1}}, Air: evidence.Airspeed{Q: 100}, Label: label}
+}
+
+func TestDiagonal(t *testing.T) {
+	tests := []struct {
+		name    string
+		sd      []float64
+		wantErr bool
+	}{
+		{"two windows", []float64{0.5, 2}, false},
+		{"zero sd", []float64{0.5, 0}, true},
+		{"infinite sd", []float64{math.Inf(1), 1}, true},
+		{"count mismatch", []float64{1}, true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			b, err := evidence.Diagonal([]evidence.Obs{obs("a"), obs("b")}, tt.sd)
+			if (err != nil) != tt.wantErr {
+				t.Fatalf("err = %v, want error %v", err, tt.wantErr)
+			}
+			if err != nil {
+				if !errors.Is(err, evidence.ErrBadEvidence) {
+					t.Errorf("error %v does not wrap ErrBadEvidence", err)
+				}
+				return
+			}
+			if b.Cov != nil || len(b.Var) != 2 {
+				t.Fatalf("a diagonal block keeps its variances only, got Cov %v Var %v", b.Cov, b.Var)
+			}
+			for i := range 2 {
+				for j := range 2 {
+					want := 0.0
+					if i == j {
+						want = tt.sd[i] * tt.sd[i]
+					}
+					if got := b.At(i, j); got != want {
+						t.Errorf("At(%d, %d) = %g, want %g", i, j, got, want)
+					}
+				}
+			}
+		})
+	}
+}
+
+func TestCheckBlocks(t *testing.T) {
+	full := mat.NewSymDense(2, []float64{1, 0.5, 0.5, 1})
+	diag, err := evidence.Diagonal([]evidence.Obs{obs("a"), obs("b")}, []float64{1, 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fullBlock, err := evidence.NewBlock([]evidence.Obs{obs("a"), obs("b")}, full)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		name    string
+		block   evidence.Block
+		wantErr bool
+	}{
+		{"diagonal", diag, false},
+		{"full", fullBlock, false},
+		{"both kinds", evidence.Block{Obs: diag.Obs, Cov: full, Var: diag.Var}, true},
+		{"neither", evidence.Block{Obs: diag.Obs}, true},
+		{"variances of the wrong length", evidence.Block{Obs: diag.Obs, Var: []float64{1}}, true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			e := evidence.Evidence{Entry: "e", Kind: evidence.KindRideHeight, Blocks: []evidence.Block{tt.block},
+				Informs: []evidence.Quantity{{Config: "c", Axle: evidence.AxleFront}}}
+			if err := e.Check(); (err != nil) != tt.wantErr {
+				t.Errorf("Check() = %v, want error %v", err, tt.wantErr)
+			}
+		})
+	}
+}
+
+func TestNewBlockRefusesIndefinite(t *testing.T) {
+	// A correlation above 1 is no covariance (common practice (no source)).
+	cov := mat.NewSymDense(2, []float64{1, 2, 2, 1})
+	if _, err := evidence.NewBlock([]evidence.Obs{obs("a"), obs("b")}, cov); !errors.Is(err, evidence.ErrBadEvidence) {
+		t.Errorf("indefinite covariance accepted: %v", err)
+	}
+}
