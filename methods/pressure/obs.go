@@ -20,14 +20,17 @@ import (
 //	β_a·q = s·F_a + U_a + P_a,   U_a = −q·Σ_j Cp_j·A_j·n_j·share_{j,a}
 //
 // Writing s = 1 + σ with σ an additive nuisance (prior N(0, model_sd_pct²)),
-// this is exact and linear in every unknown but the product σ·F_a, where
-// the observed F_a stands in for the true one (the error is σ times the
-// sensor noise, second order):
+// this is exact and linear in every unknown but the product σ·F_a:
 //
 //	y_a = F_a = β_a·q − U_a − P_a − F_a·σ + ε_a
 //
 // so the scale multiplies only what the taps integrate, and the patches and
-// the drag pitch stay outside it. ε is the sensor noise and the reference
+// the drag pitch stay outside it. The coefficient of σ must not be the
+// observed F_a itself: it equals y, so σ = −1 would fit every reading
+// exactly and the data would drag σ there (errors in variables). It is
+// the pilot's covered force b̂_a·q(w) instead (b̂_a the configuration's
+// fitted dF_a/dq, see fitPilot), which scales with q like the lift; its
+// error (b̂ − b)·σ·q is second order. ε is the sensor noise and the reference
 // offset; with an unknown direction of travel the session wind's error in
 // q is common to both rows of the reading, a rank-one covariance
 // σ_w²·c·cᵀ with c_a = b̂_a·ρ·V (b̂_a the pilot dF_a/dq); the run-to-run
@@ -156,7 +159,7 @@ func (b *builder) block(ri int, rd Reading) (evidence.Block, error) {
 			o.Nuis = append(o.Nuis, evidence.Coef{Name: uncoveredName(e.ID, j), C: q * up.AreaM2 * up.Nz * share, PerQ: true})
 		}
 		if e.ModelSDPct > 0 {
-			o.Nuis = append(o.Nuis, evidence.Coef{Name: IntegrationName(e.ID), C: -F})
+			o.Nuis = append(o.Nuis, evidence.Coef{Name: IntegrationName(e.ID), C: -b.pilot[rd.Config][k] * q, PerQ: true})
 		}
 		obs[k] = o
 	}
