@@ -14,10 +14,10 @@ import (
 
 // realityFigure is one fused figure beside its truth.
 type realityFigure struct {
-	name        string
-	mean, sd    float64
-	truth       float64
-	lo, hi      float64
+	name         string
+	mean, sd     float64
+	truth        float64
+	lo, hi       float64
 	delta, laser bool
 }
 
