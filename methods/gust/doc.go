@@ -11,8 +11,12 @@
 //
 //	Cov(y_i, y_j) = c_i·c_j·σ_g²
 //
-// a rank-one block per run. σ_g is estimated from the run-to-run residuals
-// of the pilot fit by its marginal posterior under a half-normal prior of
-// scale air.gust_sd_ms (evaluated on a grid), and the posterior mean of
-// σ_g² is used: an empirical-Bayes plug-in, not a full hierarchical fit.
+// The ride-height adapter writes d_r as an additive nuisance per run,
+// named by the log file and the run's start, so every sensor of that log
+// shares it; the pressure adapter, whose readings name no run, adds the
+// rank-one block σ_g²·c·cᵀ to each reading's covariance. σ_g is estimated
+// from the run-to-run residuals of the pilot fit by its marginal posterior
+// under a half-normal prior of scale air.gust_sd_ms (evaluated on a grid),
+// and the posterior mean of σ_g² is used: an empirical-Bayes plug-in, not a
+// full hierarchical fit.
 package gust

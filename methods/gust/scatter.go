@@ -71,18 +71,6 @@ func Scatter(runs [][]Point, scale float64) (sd, sdOfSD float64) {
 	return math.Sqrt(m2), math.Sqrt(math.Max(0, m2-m1*m1))
 }
 
-// AddRuns adds σ²·c·cᵀ to the covariance over the indices of each run.
-func AddRuns(cov *mat.SymDense, runs [][]int, c []float64, sd float64) {
-	s2 := sd * sd
-	for _, run := range runs {
-		for a, i := range run {
-			for _, j := range run[a:] {
-				cov.SetSym(i, j, cov.At(i, j)+s2*c[i]*c[j])
-			}
-		}
-	}
-}
-
 // Fit returns the coefficients b̂ and the residuals y − X·b̂ of the
 // weighted least-squares fit with weights w (1/variance). A tiny ridge
 // (1e-10 of each column's weighted sum of squares) keeps an unidentified

@@ -7,6 +7,7 @@ import (
 
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/gust"
 )
 
 // Result is everything one ride-height entry yields: its windows and traces
@@ -64,10 +65,8 @@ func ReduceAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, opt Options
 			return nil, err
 		}
 	}
-	for i, e := range es {
-		if err := finish(c, e, results[i]); err != nil {
-			return nil, err
-		}
+	if err := finishAll(c, es, results); err != nil {
+		return nil, err
 	}
 	return results, nil
 }
@@ -139,24 +138,47 @@ func (g *readGroup) read(opt Options, owner map[*campaign.RideHeightEntry]*Resul
 	return nil
 }
 
-// finish orders an entry's windows by log, drops those above its speed
-// limit, and builds its evidence, detectability and warnings.
-func finish(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Result) error {
-	// Windows in log order, as the evidence lists its observations.
+// finishAll orders each entry's windows and drops those above its speed
+// limit, estimates the run-to-run wind scatter once from every entry's
+// runs (a property of the day, and the prior of the runs' shared wind
+// nuisances, which every entry must declare alike), and builds each
+// entry's evidence, detectability and warnings.
+func finishAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, results []*Result) error {
+	bs := make([]*builder, len(es))
+	var pts [][]gust.Point
+	for i, e := range es {
+		if err := order(e, results[i]); err != nil {
+			return err
+		}
+		bs[i] = newBuilder(c, e, results[i])
+		bs[i].split()
+		pts = append(pts, bs[i].gust.points...)
+	}
+	sd, sdsd := gust.Scatter(pts, c.Air.GustSDMs)
+	rho := c.Density()
+	for i, e := range es {
+		res := results[i]
+		bs[i].gustSD, res.GustSDMs, res.GustSDSDMs = sd, sd, sdsd
+		var err error
+		if res.Evidence, err = bs[i].evidence(); err != nil {
+			return err
+		}
+		res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
+		res.Warnings = warnings(e, res, rho)
+		res.Evidence.Warnings = res.Warnings
+	}
+	return nil
+}
+
+// order sorts an entry's windows by log, as the evidence lists its
+// observations, and drops those above its speed limit.
+func order(e *campaign.RideHeightEntry, res *Result) error {
 	sort.SliceStable(res.Windows, func(a, b int) bool { return res.Windows[a].Log < res.Windows[b].Log })
 	res.Windows, res.Dropped = underSpeed(res.Windows, e.MaxSpeedKmh)
 	if len(res.Windows) == 0 {
 		return fmt.Errorf("%s: no steady windows found (speed within ±%g km/h for %g s%s): check the speed column and the steady settings",
 			e.ID, e.Steady.SpeedTolKmh, e.Steady.MinDurationS, limitNote(e.MaxSpeedKmh, res.Dropped))
 	}
-	var err error
-	if res.Evidence, err = buildEvidence(c, e, res); err != nil {
-		return err
-	}
-	rho := c.Density()
-	res.Detect = Detect(res.Windows, e.FrictionMm, res.Stiffness.K, rho)
-	res.Warnings = warnings(e, res, rho)
-	res.Evidence.Warnings = res.Warnings
 	return nil
 }
 

@@ -1,30 +1,43 @@
 package height
 
 import (
+	"fmt"
+
 	"gonum.org/v1/gonum/mat"
 
 	"liftfuse/methods/air"
 	"liftfuse/methods/gust"
 )
 
-// gustModel is the run-to-run wind of an entry: per log, the runs (as
-// positions in the log's block) and each window's sensitivity to its run's
-// wind deviation (mm per m/s), and the estimated scatter σ_g (m/s).
+// gustModel is the run-to-run wind seen by an entry: per log, the runs (as
+// positions among the log's windows), each window's sensitivity to its
+// run's wind deviation (mm per m/s) and each run's nuisance name; and the
+// points the scatter estimate reads.
 type gustModel struct {
-	runs [][][]int
-	sens [][]float64
-	sd   float64
+	runs   [][][]int
+	sens   [][]float64
+	names  [][]string
+	points [][]gust.Point
 }
 
-// gusts splits each log's windows into runs, fits the pilot, and estimates
-// σ_g from the run-to-run residuals (package gust). Windows read with an
-// airspeed probe carry no gust term: the probe measures the wind.
+// minGustSD keeps a run's wind nuisance proper when the data say the
+// scatter is nil (m/s).
+const minGustSD = 1e-3
+
+// GustName returns the nuisance name of the wind deviation of the run of a
+// log file that begins at t s: every sensor logged in that file sees the
+// same deviation, so the name is the file's and the run's, not the entry's.
+func GustName(file string, t float64) string { return fmt.Sprintf("gust/%s@%.1fs", file, t) }
+
+// gusts splits each log's windows into runs, fits the pilot, and collects
+// the run-to-run residuals for the scatter estimate (package gust), which
+// ReduceAll makes once over every entry. Windows read with an airspeed
+// probe carry no gust term: the probe measures the wind.
 func (b *builder) gusts(perLog [][]int) gustModel {
-	g := gustModel{runs: make([][][]int, len(perLog)), sens: make([][]float64, len(perLog))}
+	g := gustModel{runs: make([][][]int, len(perLog)), sens: make([][]float64, len(perLog)), names: make([][]string, len(perLog))}
 	if b.c.Air.GustSDMs <= 0 {
 		return g
 	}
-	var pts [][]gust.Point
 	for li, idx := range perLog {
 		if len(idx) == 0 {
 			continue
@@ -41,6 +54,7 @@ func (b *builder) gusts(perLog [][]int) gustModel {
 		resid, sens := b.pilot(idx)
 		g.sens[li] = sens
 		for _, run := range g.runs[li] {
+			g.names[li] = append(g.names[li], GustName(b.e.Logs[li].File, b.res.Windows[idx[run[0]]].From))
 			ps := make([]gust.Point, len(run))
 			for a, k := range run {
 				w := b.res.Windows[idx[k]]
@@ -49,12 +63,25 @@ func (b *builder) gusts(perLog [][]int) gustModel {
 					ps[a].Base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
 				}
 			}
-			pts = append(pts, ps)
+			g.points = append(g.points, ps)
 		}
 	}
-	g.sd, b.res.GustSDSDMs = gust.Scatter(pts, b.c.Air.GustSDMs)
-	b.res.GustSDMs = g.sd
 	return g
+}
+
+// runOf returns, for each position of a log's windows, the index of its run
+// (−1: none).
+func (g gustModel) runOf(li, n int) []int {
+	out := make([]int, n)
+	for k := range out {
+		out[k] = -1
+	}
+	for r, run := range g.runs[li] {
+		for _, k := range run {
+			out[k] = r
+		}
+	}
+	return out
 }
 
 // pilot fits one log's windows by weighted least squares, with the known

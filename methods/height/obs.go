@@ -2,13 +2,11 @@ package height
 
 import (
 	"fmt"
-
-	"gonum.org/v1/gonum/mat"
+	"math"
 
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
-	"liftfuse/methods/gust"
 )
 
 // builder turns an entry's windows into evidence. For window i of log l in
@@ -21,9 +19,11 @@ import (
 // scale factors, G_a the axle's tyre growth (lasers only), κ_i the
 // load-transfer coefficient of the window's acceleration (accelCoef) on
 // the shared nuisance h_cg ~ N(cg_height_m, cg_height_sd_m²), d an optional
-// drift. ε has the window's variance (standard error², the friction band's
-// f²/3 and the acceleration estimate's share) plus the run-to-run wind
-// scatter common to the windows of a run (package gust).
+// drift, plus c_i·d_r, the run-to-run wind deviation d_r ~ N(0, σ_g²) of
+// the window's run (package gust), a nuisance shared by every sensor of
+// the log, with c_i the pilot's sensitivity. ε has the window's variance
+// (standard error², the friction band's f²/3 and the acceleration
+// estimate's share).
 type builder struct {
 	c     *campaign.Campaign
 	e     *campaign.RideHeightEntry
@@ -33,6 +33,10 @@ type builder struct {
 	laser bool
 	refs  []evidence.ScaleRef // stiffness and gain
 	probe *evidence.ScaleGroup
+
+	perLog [][]int // window indices of each log
+	gust   gustModel
+	gustSD float64 // run-to-run wind scatter, m/s (0: none)
 }
 
 func newBuilder(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Result) *builder {
@@ -49,23 +53,27 @@ func newBuilder(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Result) 
 
 func (b *builder) gainName() string { return b.e.ID + "/gain" }
 
-// buildEvidence turns the windows into Gaussian observations, one block
-// per log, with the nuisances and scale groups they name.
-func buildEvidence(c *campaign.Campaign, e *campaign.RideHeightEntry, res *Result) (evidence.Evidence, error) {
-	b := newBuilder(c, e, res)
-	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindRideHeight}
-	perLog := make([][]int, len(e.Logs))
-	for i, w := range res.Windows {
-		perLog[w.Log] = append(perLog[w.Log], i)
+// split groups the windows by log and prepares the run-to-run wind.
+func (b *builder) split() {
+	b.perLog = make([][]int, len(b.e.Logs))
+	for i, w := range b.res.Windows {
+		b.perLog[w.Log] = append(b.perLog[w.Log], i)
 	}
-	gusts := b.gusts(perLog)
+	b.gust = b.gusts(b.perLog)
+}
+
+// evidence turns the windows into Gaussian observations, one block per
+// log, with the nuisances and scale groups they name.
+func (b *builder) evidence() (evidence.Evidence, error) {
+	c, e, res := b.c, b.e, b.res
+	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindRideHeight}
 	informs := map[string]bool{}
 	used := map[string]bool{}
-	for li, idx := range perLog {
+	for li, idx := range b.perLog {
 		if len(idx) == 0 {
 			continue // a log with no steady window says nothing, not even its offset
 		}
-		blk, err := b.block(li, idx, gusts, used)
+		blk, err := b.block(li, idx, used)
 		if err != nil {
 			return ev, fmt.Errorf("%s: %w", e.ID, err)
 		}
@@ -112,6 +120,14 @@ func (b *builder) declare(used map[string]bool) ([]evidence.ScaleGroup, []eviden
 		v := b.c.Vehicle
 		ns = append(ns, evidence.Nuisance{Name: CGHeightName, Label: "centre-of-gravity height", Unit: "m", Mean: v.CGHeightM, SD: v.CGHeightSDM})
 	}
+	for _, names := range b.gust.names {
+		for _, n := range names {
+			if used[n] {
+				ns = append(ns, evidence.Nuisance{Name: n, Label: "run-to-run wind of the run from " + n[len("gust/"):], Unit: "m/s",
+					SD: max(b.gustSD, minGustSD), PerRun: true})
+			}
+		}
+	}
 	for li := range b.e.Logs {
 		if !used[b.offsetName(li)] {
 			continue
@@ -128,32 +144,19 @@ func (b *builder) offsetName(li int) string { return fmt.Sprintf("%s/offset[%d]"
 func (b *builder) driftName(li int) string  { return fmt.Sprintf("%s/drift[%d]", b.e.ID, li) }
 
 // block builds the observations of one log's windows idx and their
-// covariance, and marks the names they use.
-func (b *builder) block(li int, idx []int, g gustModel, used map[string]bool) (evidence.Block, error) {
+// variances, and marks the names they use. A window in a run carries the
+// run's wind deviation as an additive nuisance, coefficient its pilot
+// sensitivity (mm per m/s), shared with every sensor of the log.
+func (b *builder) block(li int, idx []int, used map[string]bool) (evidence.Block, error) {
 	tbar := meanTime(b.res.Windows, idx) // the drift's origin
 	obs := make([]evidence.Obs, len(idx))
-	cov := mat.NewSymDense(len(idx), nil)
+	sd := make([]float64, len(idx))
+	run := b.gust.runOf(li, len(idx))
 	for k, i := range idx {
 		w := b.res.Windows[i]
-		o := evidence.Obs{
-			Y:      w.HeightMM,
-			Terms:  b.res.Lever.Terms(w.Config),
-			Air:    b.airspeed(w),
-			Scales: b.refs,
-			Nuis:   []evidence.Coef{{Name: b.offsetName(li), C: 1}},
-			Label:  fmt.Sprintf("window %d, %s, %.0f km/h, %.0f–%.0f s", i+1, w.Config, w.SpeedKmh, w.From, w.To),
-		}
-		if w.Probe && b.probe != nil {
-			o.Scales = append(append([]evidence.ScaleRef(nil), b.refs...), evidence.ScaleRef{Name: ProbeName, Pow: 1})
-		}
-		if b.laser {
-			o.Nuis = append(o.Nuis, b.res.Lever.growthCoefs(w.SpeedSq)...)
-		}
-		if b.e.Drift {
-			o.Nuis = append(o.Nuis, evidence.Coef{Name: b.driftName(li), C: (w.From+w.To)/2 - tbar})
-		}
-		if k := accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2); k != 0 {
-			o.Nuis = append(o.Nuis, evidence.Coef{Name: CGHeightName, C: k})
+		o := b.obs(li, i, w, tbar)
+		if r := run[k]; r >= 0 && b.gustSD > 0 && b.gust.sens[li][k] != 0 {
+			o.Nuis = append(o.Nuis, evidence.Coef{Name: b.gust.names[li][r], C: b.gust.sens[li][k]})
 		}
 		for _, s := range o.Scales {
 			used[s.Name] = true
@@ -165,10 +168,34 @@ func (b *builder) block(li int, idx []int, g gustModel, used map[string]bool) (e
 			used[o.Air.Wind] = true
 		}
 		obs[k] = o
-		cov.SetSym(k, k, b.variance(w))
+		sd[k] = math.Sqrt(b.variance(w))
 	}
-	gust.AddRuns(cov, g.runs[li], g.sens[li], g.sd)
-	return evidence.NewBlock(obs, cov)
+	return evidence.Diagonal(obs, sd)
+}
+
+// obs is window i's observation without its run's wind.
+func (b *builder) obs(li, i int, w Window, tbar float64) evidence.Obs {
+	o := evidence.Obs{
+		Y:      w.HeightMM,
+		Terms:  b.res.Lever.Terms(w.Config),
+		Air:    b.airspeed(w),
+		Scales: b.refs,
+		Nuis:   []evidence.Coef{{Name: b.offsetName(li), C: 1}},
+		Label:  fmt.Sprintf("window %d, %s, %.0f km/h, %.0f–%.0f s", i+1, w.Config, w.SpeedKmh, w.From, w.To),
+	}
+	if w.Probe && b.probe != nil {
+		o.Scales = append(append([]evidence.ScaleRef(nil), b.refs...), evidence.ScaleRef{Name: ProbeName, Pow: 1})
+	}
+	if b.laser {
+		o.Nuis = append(o.Nuis, b.res.Lever.growthCoefs(w.SpeedSq)...)
+	}
+	if b.e.Drift {
+		o.Nuis = append(o.Nuis, evidence.Coef{Name: b.driftName(li), C: (w.From+w.To)/2 - tbar})
+	}
+	if k := accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2); k != 0 {
+		o.Nuis = append(o.Nuis, evidence.Coef{Name: CGHeightName, C: k})
+	}
+	return o
 }
 
 // airspeed is a window's dynamic pressure: at ground speed with the

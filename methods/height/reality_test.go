@@ -102,6 +102,7 @@ func TestRealityDays(t *testing.T) {
 			}
 		}},
 		{"speed creeping 0.75 km/h/s", func(d *reality.Day) { d.Faults.CreepKmhPerS = 0.75 }},
+		{"gusty: 2 m/s run to run", func(d *reality.Day) { d.Faults.Gusts = &reality.Gusts{RunSDMs: 2, WithinSDMs: 0.5} }},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
