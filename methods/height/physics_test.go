@@ -5,8 +5,6 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"gonum.org/v1/gonum/stat"
-
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 )
@@ -127,30 +125,40 @@ func TestAccelCoef(t *testing.T) {
 	}
 }
 
-// TestSlope: the streaming slope equals gonum's least-squares line, and
-// its standard error the textbook s/√S_tt (computed here from scratch).
-func TestSlope(t *testing.T) {
+// TestMeanAccel: a window's mean acceleration is the mean of a(t) over
+// it — a stand whose last 0.3 s is the start of a 1.5 m/s² ramp averages
+// 1.5·0.3/8 m/s² — and its error is √2·σ_v/T for white speed noise of sd
+// σ_v (worked here by hand; the von Neumann estimate of σ_v is checked
+// against the noise drawn).
+func TestMeanAccel(t *testing.T) {
+	cases := []struct {
+		name   string
+		speed  func(tt float64) float64 // km/h
+		wantMs float64
+	}{
+		{"constant speed", func(float64) float64 { return 120 }, 0},
+		{"creep 0.75 km/h/s", func(tt float64) float64 { return 120 + 0.75*tt }, 0.75 / 3.6},
+		{"stand ending in a ramp", func(tt float64) float64 { return 3.6 * 1.5 * max(0, tt-7.7) }, 1.5 * 0.3 / 8},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			var s speedEnds
+			for i := range 81 {
+				s.add(tc.speed(0.1 * float64(i)))
+			}
+			a, se := s.accel(8)
+			if math.Abs(a/3.6-tc.wantMs) > 1e-9 || (tc.name == "constant speed" && se != 0) {
+				t.Errorf("mean acceleration %.6f ± %.6f m/s², want %.6f", a/3.6, se/3.6, tc.wantMs)
+			}
+		})
+	}
 	rng := rand.New(rand.NewPCG(3, 4))
-	var l lineSums
-	var ts, vs []float64
-	for i := range 80 {
-		tt := 0.1 * float64(i)
-		v := 120 + 0.6*tt + 0.3*rng.NormFloat64()
-		l.add(tt, v)
-		ts, vs = append(ts, tt), append(vs, v)
+	var s speedEnds
+	for range 4001 {
+		s.add(120 + 0.3*rng.NormFloat64())
 	}
-	b, se := l.slope()
-	a, wantB := stat.LinearRegression(ts, vs, nil, false)
-	var rss, stt float64
-	mt := stat.Mean(ts, nil)
-	for i := range ts {
-		r := vs[i] - a - wantB*ts[i]
-		rss += r * r
-		stt += (ts[i] - mt) * (ts[i] - mt)
-	}
-	wantSE := math.Sqrt(rss / float64(len(ts)-2) / stt)
-	if math.Abs(b-wantB) > 1e-9 || math.Abs(se-wantSE) > 1e-9 {
-		t.Errorf("slope %.6f ± %.6f, want %.6f ± %.6f", b, se, wantB, wantSE)
+	if _, se := s.accel(400); math.Abs(se-math.Sqrt2*0.3/400) > 0.05*math.Sqrt2*0.3/400 {
+		t.Errorf("error %.6f km/h/s, want √2·0.3/400 = %.6f within 5 %%", se, math.Sqrt2*0.3/400)
 	}
 }
 

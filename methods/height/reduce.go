@@ -28,9 +28,9 @@ type Window struct {
 	HeightMM  float64 // mean height, mm
 	SE        float64 // standard error of the mean height, mm (friction not included)
 	Scatter   float64 // standard deviation of the samples within the window, mm
-	// AccelMs2 is the window's mean longitudinal acceleration, the
-	// least-squares slope of ground speed against time (m/s²), and
-	// AccelSE its standard error (white speed noise assumed).
+	// AccelMs2 is the window's mean longitudinal acceleration (m/s²),
+	// the change of ground speed over its span, and AccelSE its standard
+	// error (see speedEnds.accel).
 	AccelMs2, AccelSE float64
 	// Probe is true when the log carries a measured airspeed: Q is then
 	// the mean of ½ρV_air² (or of the logged q) and AirKmh the mean
@@ -242,7 +242,7 @@ type finder struct {
 		from, to         float64
 		sumV, minV, maxV float64
 		sumV2            float64 // Σ V², (km/h)²
-		line             lineSums
+		ends             speedEnds
 		sumQA, sumVA     float64 // Σ q_air (Pa), Σ V_air (m/s)
 		probe            bool
 		h                windowStats
@@ -273,7 +273,7 @@ func (f *finder) add(s sample, config string, dir int) {
 		f.open = true
 		c.config, c.dir, c.from = config, dir, s.t
 		c.sumV, c.minV, c.maxV, c.sumV2 = 0, v, v, 0
-		c.line = lineSums{}
+		c.ends = speedEnds{}
 		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
 		c.h = windowStats{}
 	}
@@ -281,7 +281,7 @@ func (f *finder) add(s sample, config string, dir int) {
 	c.sumV += v
 	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
 	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
-	c.line.add(s.t-c.from, v)
+	c.ends.add(v)
 	if c.probe {
 		qa := math.Max(s.qa, 0)
 		c.sumQA += qa
@@ -301,7 +301,7 @@ func (f *finder) close() {
 	}
 	n := float64(c.h.n)
 	se, neff := c.h.standardError()
-	slope, slopeSE := c.line.slope()
+	slope, slopeSE := c.ends.accel(c.to - c.from)
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
 		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n,
