@@ -45,30 +45,13 @@ func runLogLik(ps []Point, s2 float64) float64 {
 // scale of σ_g. Runs whose points carry no sensitivity say nothing; with no
 // informative run the prior mean of σ_g² (the scale²) is returned.
 func Scatter(runs [][]Point, scale float64) (sd, sdOfSD float64) {
-	if scale <= 0 {
-		return 0, 0
-	}
-	top := 5 * scale
-	lp := make([]float64, gridN)
-	best := math.Inf(-1)
-	for k := range gridN {
-		s := top * (float64(k) + 0.5) / gridN
-		lp[k] = -0.5 * s * s / (scale * scale)
+	return posterior(func(s2 float64) float64 {
+		var ll float64
 		for _, ps := range runs {
-			lp[k] += runLogLik(ps, s*s)
+			ll += runLogLik(ps, s2)
 		}
-		best = math.Max(best, lp[k])
-	}
-	var z, m1, m2 float64
-	for k := range gridN {
-		s := top * (float64(k) + 0.5) / gridN
-		w := math.Exp(lp[k] - best)
-		z += w
-		m1 += w * s
-		m2 += w * s * s
-	}
-	m1, m2 = m1/z, m2/z
-	return math.Sqrt(m2), math.Sqrt(math.Max(0, m2-m1*m1))
+		return ll
+	}, scale)
 }
 
 // Fit returns the coefficients b̂ and the residuals y − X·b̂ of the

@@ -145,16 +145,16 @@ func (g *readGroup) read(opt Options, owner map[*campaign.RideHeightEntry]*Resul
 // entry's evidence, detectability and warnings.
 func finishAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, results []*Result) error {
 	bs := make([]*builder, len(es))
-	var pts [][]gust.Point
+	var groups []gust.Group
 	for i, e := range es {
 		if err := order(e, results[i]); err != nil {
 			return err
 		}
 		bs[i] = newBuilder(c, e, results[i])
 		bs[i].split()
-		pts = append(pts, bs[i].gust.points...)
+		groups = append(groups, bs[i].gust.groups...)
 	}
-	sd, sdsd := gust.Scatter(pts, c.Air.GustSDMs)
+	sd, sdsd := gust.ScatterREML(groups, c.Air.GustSDMs)
 	rho := c.Density()
 	for i, e := range es {
 		res := results[i]

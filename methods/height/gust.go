@@ -17,7 +17,7 @@ type gustModel struct {
 	runs   [][][]int
 	sens   [][]float64
 	names  [][]string
-	points [][]gust.Point
+	groups []gust.Group
 }
 
 // minGustSD keeps a run's wind nuisance proper when the data say the
@@ -30,8 +30,9 @@ const minGustSD = 1e-3
 func GustName(file string, t float64) string { return fmt.Sprintf("gust/%s@%.1fs", file, t) }
 
 // gusts splits each log's windows into runs, fits the pilot, and collects
-// the run-to-run residuals for the scatter estimate (package gust), which
-// ReduceAll makes once over every entry. Windows read with an airspeed
+// each log's pilot design, data and runs for the scatter estimate (its
+// restricted likelihood, package gust), which ReduceAll makes once over
+// every entry. Windows read with an airspeed
 // probe carry no gust term: the probe measures the wind.
 func (b *builder) gusts(perLog [][]int) gustModel {
 	g := gustModel{runs: make([][][]int, len(perLog)), sens: make([][]float64, len(perLog)), names: make([][]string, len(perLog))}
@@ -51,20 +52,21 @@ func (b *builder) gusts(perLog [][]int) gustModel {
 			}
 		}
 		g.runs[li] = gust.Runs(keys)
-		resid, sens := b.pilot(idx)
-		g.sens[li] = sens
+		X, y, wt, col := b.pilotDesign(idx)
+		g.sens[li] = b.sensitivities(idx, X, y, wt, col)
+		grp := gust.Group{X: X, Y: y, Var: make([]float64, len(idx)), C: g.sens[li], Runs: g.runs[li]}
+		for k := range idx {
+			grp.Var[k] = 1 / wt[k]
+		}
 		for _, run := range g.runs[li] {
 			g.names[li] = append(g.names[li], GustName(b.e.Logs[li].File, b.res.Windows[idx[run[0]]].From))
-			ps := make([]gust.Point, len(run))
-			for a, k := range run {
-				w := b.res.Windows[idx[k]]
-				ps[a] = gust.Point{R: resid[k], Var: b.variance(w), C: sens[k]}
-				if w.Direction == 0 && b.wind != "" {
-					ps[a].Base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
-				}
+			base := 0.0
+			if b.res.Windows[idx[run[0]]].Direction == 0 && b.wind != "" {
+				base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
 			}
-			g.points = append(g.points, ps)
+			grp.Base = append(grp.Base, base)
 		}
+		g.groups = append(g.groups, grp)
 	}
 	return g
 }
@@ -84,16 +86,16 @@ func (g gustModel) runOf(li, n int) []int {
 	return out
 }
 
-// pilot fits one log's windows by weighted least squares, with the known
-// terms at their prior means (tyre growth, load transfer at h_cg's mean)
-// taken off: a static offset, the drift if modelled, and per configuration
-// a slope p_c on q (mm/Pa) and a mean-wind column ρ·Dir·V (its coefficient
-// is p_c·w). It returns the residuals and each window's gust sensitivity
-// p_c·ρ·V·Dir (Dir 0, unknown, counts as +1: the sign is common to a run).
-func (b *builder) pilot(idx []int) (resid, sens []float64) {
+// pilotDesign is the pilot fit of one log's windows, with the known terms
+// at their prior means (tyre growth, load transfer at h_cg's mean) taken
+// off y: a static offset, the drift if modelled, and per configuration a
+// slope p_c on q (mm/Pa) and a mean-wind column ρ·Dir·V (its coefficient
+// is p_c·w). It returns the design, y, the weights 1/variance and each
+// configuration's columns (q, wind or −1).
+func (b *builder) pilotDesign(idx []int) (X *mat.Dense, y, wt []float64, col map[string][2]int) {
 	ws := b.res.Windows
 	n := len(idx)
-	col := map[string][2]int{} // config → q column, wind column (−1 none)
+	col = map[string][2]int{}
 	p := 1
 	if b.e.Drift {
 		p++
@@ -111,9 +113,9 @@ func (b *builder) pilot(idx []int) (resid, sens []float64) {
 		}
 		col[w.Config] = c
 	}
-	X := mat.NewDense(n, p, nil)
-	y := make([]float64, n)
-	wt := make([]float64, n)
+	X = mat.NewDense(n, p, nil)
+	y = make([]float64, n)
+	wt = make([]float64, n)
 	tbar := meanTime(ws, idx)
 	for k, i := range idx {
 		w := ws[i]
@@ -129,10 +131,17 @@ func (b *builder) pilot(idx []int) (resid, sens []float64) {
 			X.Set(k, c[1], b.rho*float64(w.Direction)*air.KmhToMs(w.SpeedKmh))
 		}
 	}
-	beta, resid := gust.Fit(X, y, wt)
-	sens = make([]float64, n)
+	return X, y, wt, col
+}
+
+// sensitivities fits the pilot and returns each window's gust sensitivity
+// p_c·ρ·V·Dir (Dir 0, unknown, counts as +1: the sign is common to a run;
+// 0 for standstill and probe windows).
+func (b *builder) sensitivities(idx []int, X *mat.Dense, y, wt []float64, col map[string][2]int) []float64 {
+	beta, _ := gust.Fit(X, y, wt)
+	sens := make([]float64, len(idx))
 	for k, i := range idx {
-		w := ws[i]
+		w := b.res.Windows[i]
 		if w.Probe || w.SpeedKmh < gust.Stop {
 			continue
 		}
@@ -142,7 +151,7 @@ func (b *builder) pilot(idx []int) (resid, sens []float64) {
 		}
 		sens[k] = beta[col[w.Config][0]] * b.rho * air.KmhToMs(w.SpeedKmh) * dir
 	}
-	return resid, sens
+	return sens
 }
 
 // known is the part of a window's height the pilot takes as known: tyre

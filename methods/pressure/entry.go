@@ -43,7 +43,7 @@ const DragPitchName = "drag-pitch"
 
 // Reduce integrates every reading of a pressure entry and builds its
 // evidence: the panels, each reading's forces, the pilot lift per
-// configuration, the run-to-run wind scatter, then one block per reading.
+// configuration, the run-to-run wind scatter, then one block per run.
 // wind names the campaign's wind nuisance ("" for none).
 func Reduce(c *campaign.Campaign, e *campaign.PressureEntry, wind string) (*Result, error) {
 	panels, err := Panels(e)
@@ -64,13 +64,15 @@ func Reduce(c *campaign.Campaign, e *campaign.PressureEntry, wind string) (*Resu
 	res.GustSDMs, res.GustSDSDMs = b.gustScatter(res.Readings)
 	ev := evidence.Evidence{Entry: e.ID, Kind: evidence.KindPressure}
 	informs := map[string]bool{}
-	for ri, rd := range res.Readings {
-		blk, err := b.block(ri, rd)
+	for _, run := range runs(res.Readings) {
+		blk, err := b.block(run, res.Readings)
 		if err != nil {
-			return nil, fmt.Errorf("%s: reading %d: %w", e.ID, ri+1, err)
+			return nil, fmt.Errorf("%s: reading %d: %w", e.ID, run[0]+1, err)
 		}
 		ev.Blocks = append(ev.Blocks, blk)
-		informs[rd.Config] = true
+		for _, ri := range run {
+			informs[res.Readings[ri].Config] = true
+		}
 	}
 	ev.Nuisances = b.declare()
 	for _, cf := range c.Configurations {

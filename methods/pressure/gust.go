@@ -70,10 +70,10 @@ func ones(n int) []float64 {
 }
 
 // gustScatter estimates the run-to-run wind scatter σ_g from the pilot's
-// residuals, each reading one run (one pass in one direction) whose two
-// rows share the deviation (package gust). The rows' noise is taken as
-// independent here (the reference offset's correlation is left out of the
-// estimate, not of the covariance).
+// residuals, the rows of the readings of one run (see runs) sharing the
+// deviation (package gust). The rows' noise is taken as independent here
+// (the reference offset's correlation is left out of the estimate, not of
+// the covariance).
 func (b *builder) gustScatter(rds []Reading) (sd, sdOfSD float64) {
 	if b.c.Air.GustSDMs <= 0 || len(rds) == 0 {
 		return 0, 0
@@ -83,24 +83,29 @@ func (b *builder) gustScatter(rds []Reading) (sd, sdOfSD float64) {
 		byConfig[rd.Config] = append(byConfig[rd.Config], i)
 	}
 	noise := b.noiseCov()
-	runs := make([][]gust.Point, len(rds))
+	pts := make([][]gust.Point, len(rds)) // per reading
 	for _, idx := range byConfig {
 		X, _ := b.design(rds, idx)
 		for k := range 2 {
 			_, resid := gust.Fit(X, axleForces(rds, idx, k), ones(len(idx)))
 			for a, i := range idx {
-				sign, base := float64(rds[i].Direction), 0.0
-				if sign == 0 {
-					sign = 1
-					if b.wind != "" {
-						base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
-					}
+				base := 0.0
+				if rds[i].Direction == 0 && b.wind != "" {
+					base = b.c.Air.WindSDMs * b.c.Air.WindSDMs
 				}
-				c := b.windSens(rds[i], sign)
-				runs[i] = append(runs[i], gust.Point{R: resid[a], Var: noise.At(k, k), C: c[k], Base: base})
+				c := b.windSens(rds[i], dirSign(rds[i].Direction))
+				pts[i] = append(pts[i], gust.Point{R: resid[a], Var: noise.At(k, k), C: c[k], Base: base})
 			}
 		}
 	}
-	b.gustSD, sdOfSD = gust.Scatter(runs, b.c.Air.GustSDMs)
+	var byRun [][]gust.Point
+	for _, run := range runs(rds) {
+		var ps []gust.Point
+		for _, ri := range run {
+			ps = append(ps, pts[ri]...)
+		}
+		byRun = append(byRun, ps)
+	}
+	b.gustSD, sdOfSD = gust.Scatter(byRun, b.c.Air.GustSDMs)
 	return b.gustSD, sdOfSD
 }

@@ -76,7 +76,7 @@ func TestIntegrationScaleAlgebra(t *testing.T) {
 			evidence.AxleRear:  (s*rd.Forces.Rear + unc*u.XM/2.5 - m*q) / q,
 		}
 		nuis := map[string]float64{pressure.IntegrationName("taps"): s - 1, pressure.DragPitchName: m, "taps/uncovered[0]": cpU}
-		for _, o := range res.Evidence.Blocks[ri].Obs {
+		for _, o := range readingObs(res.Evidence, ri) {
 			if got := predict(o, beta, nuis); math.Abs(got-o.Y) > 1e-9*math.Abs(o.Y)+1e-9 {
 				t.Errorf("%s: predicted %.6f at the truth, observed %.6f", o.Label, got, o.Y)
 			}
@@ -105,21 +105,66 @@ func TestUndirectedWind(t *testing.T) {
 	}
 	rho := cu.Density()
 	for ri, rd := range undirected.Readings {
-		bd, bu := directed.Evidence.Blocks[ri], undirected.Evidence.Blocks[ri]
-		if bd.Obs[0].Air.Wind != evidence.WindName || bu.Obs[0].Air.Wind != "" {
-			t.Fatalf("reading %d: wind %q directed, %q undirected", ri+1, bd.Obs[0].Air.Wind, bu.Obs[0].Air.Wind)
+		od, ou := readingObs(directed.Evidence, ri), readingObs(undirected.Evidence, ri)
+		cd, cu := readingCov(directed.Evidence, ri), readingCov(undirected.Evidence, ri)
+		if od[0].Air.Wind != evidence.WindName || ou[0].Air.Wind != "" {
+			t.Fatalf("reading %d: wind %q directed, %q undirected", ri+1, od[0].Air.Wind, ou[0].Air.Wind)
 		}
 		// The taps here scale exactly with q, so dF/dq = F/q.
 		V := air.KmhToMs(rd.SpeedKmh)
 		c := [2]float64{rd.Forces.Front / rd.Q * rho * V, rd.Forces.Rear / rd.Q * rho * V}
 		for _, ij := range [][2]int{{0, 0}, {0, 1}, {1, 1}} {
-			got := bu.Cov.At(ij[0], ij[1]) - bd.Cov.At(ij[0], ij[1])
+			got := cu[ij[0]][ij[1]] - cd[ij[0]][ij[1]]
 			if want := c[ij[0]] * c[ij[1]]; math.Abs(got-want) > 1e-6*math.Abs(want)+1e-9 {
 				t.Errorf("reading %d cov%v grew by %.4f, want %.4f", ri+1, ij, got, want)
 			}
 		}
-		if want := rd.Q + 0.5*rho; math.Abs(bu.Obs[0].Air.Q-want) > 1e-9 {
-			t.Errorf("E[q] %.4f, want q + ½ρσ_w² = %.4f", bu.Obs[0].Air.Q, want)
+		if want := rd.Q + 0.5*rho; math.Abs(ou[0].Air.Q-want) > 1e-9 {
+			t.Errorf("E[q] %.4f, want q + ½ρσ_w² = %.4f", ou[0].Air.Q, want)
 		}
+	}
+}
+
+// at locates row k of reading ri among the blocks (readings in order, two
+// rows each): the block and the row's position in it.
+func at(ev evidence.Evidence, ri, k int) (evidence.Block, int) {
+	n := 2*ri + k
+	for _, b := range ev.Blocks {
+		if n < len(b.Obs) {
+			return b, n
+		}
+		n -= len(b.Obs)
+	}
+	panic("no such row")
+}
+
+func readingObs(ev evidence.Evidence, ri int) [2]evidence.Obs {
+	bf, i := at(ev, ri, 0)
+	br, j := at(ev, ri, 1)
+	return [2]evidence.Obs{bf.Obs[i], br.Obs[j]}
+}
+
+func readingCov(ev evidence.Evidence, ri int) [2][2]float64 {
+	b, i := at(ev, ri, 0)
+	return [2][2]float64{{b.At(i, i), b.At(i, i+1)}, {b.At(i+1, i), b.At(i+1, i+1)}}
+}
+
+// TestRuns: consecutive readings of one configuration and one known
+// direction are one pass; a reading of unknown direction is its own run.
+// A run's readings share one block, and with a run-to-run wind scatter
+// their rows are correlated across readings.
+func TestRuns(t *testing.T) {
+	c, e := v2Campaign(1)
+	e.Readings[2].Direction = -1
+	c.Air.GustSDMs = 1.5
+	res, err := pressure.Reduce(c, e, evidence.WindName)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Evidence.Blocks) != 2 || len(res.Evidence.Blocks[0].Obs) != 4 {
+		t.Fatalf("%d blocks (first of %d rows), want 2 (first of 4)", len(res.Evidence.Blocks), len(res.Evidence.Blocks[0].Obs))
+	}
+	if res.GustSDMs <= 0 || res.Evidence.Blocks[0].At(1, 2) == 0 {
+		t.Errorf("gust sd %g, cross-reading covariance %g: the run's readings must share its wind", res.GustSDMs, res.Evidence.Blocks[0].At(1, 2))
 	}
 }

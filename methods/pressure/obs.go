@@ -34,7 +34,8 @@ import (
 // offset; with an unknown direction of travel the session wind's error in
 // q is common to both rows of the reading, a rank-one covariance
 // σ_w²·c·cᵀ with c_a = b̂_a·ρ·V (b̂_a the pilot dF_a/dq); the run-to-run
-// wind adds σ_g²·c·cᵀ with the direction's sign (package gust).
+// wind adds σ_g²·c·cᵀ with the direction's sign over the readings of one
+// run (package gust; see runs).
 type builder struct {
 	c      *campaign.Campaign
 	e      *campaign.PressureEntry
@@ -111,15 +112,14 @@ func (b *builder) windSens(rd Reading, sign float64) [2]float64 {
 	return [2]float64{p[0] * k, p[1] * k}
 }
 
-// block builds the two observations (front, rear) of reading ri.
-func (b *builder) block(ri int, rd Reading) (evidence.Block, error) {
+// rows builds the two observations (front, rear) of reading ri and their
+// covariance without the run-to-run wind.
+func (b *builder) rows(ri int, rd Reading) ([2]evidence.Obs, *mat.SymDense) {
 	e, L := b.e, b.c.Vehicle.WheelbaseM
 	V := air.KmhToMs(rd.SpeedKmh)
 	cov := b.noiseCov()
 	as := evidence.Airspeed{Q: rd.Q, V: V, Rho: b.rho, Dir: float64(rd.Direction), Wind: b.wind}
-	sign := float64(rd.Direction)
 	if rd.Direction == 0 {
-		sign = 1
 		if b.wind != "" {
 			// Unknown direction: the wind's sign changes from reading to
 			// reading, so it is no shared nuisance but an error common to
@@ -129,7 +129,6 @@ func (b *builder) block(ri int, rd Reading) (evidence.Block, error) {
 			addOuter(cov, b.windSens(rd, 1), sw*sw)
 		}
 	}
-	addOuter(cov, b.windSens(rd, sign), b.gustSD*b.gustSD)
 	if as.Wind != "" {
 		b.used[as.Wind] = true
 	}
@@ -163,5 +162,61 @@ func (b *builder) block(ri int, rd Reading) (evidence.Block, error) {
 		}
 		obs[k] = o
 	}
-	return evidence.NewBlock(obs[:], cov)
+	return obs, cov
+}
+
+// block builds the observations of the readings of one run (see runs):
+// each reading's two rows with its own covariance, plus σ_g²·c·cᵀ over the
+// whole run, c the rows' sensitivities to the run's wind deviation.
+func (b *builder) block(run []int, rds []Reading) (evidence.Block, error) {
+	n := 2 * len(run)
+	obs := make([]evidence.Obs, 0, n)
+	cov := mat.NewSymDense(n, nil)
+	c := make([]float64, 0, n)
+	for a, ri := range run {
+		o, cv := b.rows(ri, rds[ri])
+		obs = append(obs, o[:]...)
+		for i := range 2 {
+			for j := i; j < 2; j++ {
+				cov.SetSym(2*a+i, 2*a+j, cv.At(i, j))
+			}
+		}
+		sens := b.windSens(rds[ri], dirSign(rds[ri].Direction))
+		c = append(c, sens[:]...)
+	}
+	s2 := b.gustSD * b.gustSD
+	for i := range n {
+		for j := i; j < n; j++ {
+			cov.SetSym(i, j, cov.At(i, j)+s2*c[i]*c[j])
+		}
+	}
+	return evidence.NewBlock(obs, cov)
+}
+
+// dirSign is the sign of a direction, +1 when unknown (the sign is then
+// common to the reading's rows, which is all a run of one reading needs).
+func dirSign(d int) float64 {
+	if d == 0 {
+		return 1
+	}
+	return float64(d)
+}
+
+// runs groups the readings, in the order the campaign lists them (the
+// order they were driven), into runs: consecutive readings of one
+// configuration and one known direction are one pass and share its wind
+// deviation; a reading of unknown direction is a run of its own.
+func runs(rds []Reading) [][]int {
+	var out [][]int
+	for i, rd := range rds {
+		if k := len(out); k > 0 && rd.Direction != 0 {
+			last := rds[out[k-1][len(out[k-1])-1]]
+			if last.Config == rd.Config && last.Direction == rd.Direction {
+				out[k-1] = append(out[k-1], i)
+				continue
+			}
+		}
+		out = append(out, []int{i})
+	}
+	return out
 }
