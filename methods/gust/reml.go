@@ -18,6 +18,55 @@ type Group struct {
 	Base      []float64
 }
 
+// reml holds a group's sums for its restricted likelihood: with D the
+// diagonal of variances and, per run r, a_r = c_rᵀD⁻¹c_r, u_r = XᵀD⁻¹c_r
+// and w_r = c_rᵀD⁻¹y, every grid point costs O(runs·p²), not O(n³).
+type reml struct {
+	logDetD float64
+	xdx     *mat.SymDense // XᵀD⁻¹X
+	xdy     *mat.VecDense // XᵀD⁻¹y
+	ydy     float64       // yᵀD⁻¹y
+	a, w    []float64
+	u       []*mat.VecDense
+	base    []float64
+}
+
+func (g Group) prepare() reml {
+	n, p := g.X.Dims()
+	X := nonZeroColumns(g.X, n, p)
+	_, p = X.Dims()
+	r := reml{xdx: mat.NewSymDense(p, nil), xdy: mat.NewVecDense(p, nil)}
+	for i := range n {
+		d := 1 / g.Var[i]
+		r.logDetD += math.Log(g.Var[i])
+		r.ydy += g.Y[i] * g.Y[i] * d
+		for a := range p {
+			r.xdy.SetVec(a, r.xdy.AtVec(a)+X.At(i, a)*d*g.Y[i])
+			for b := a; b < p; b++ {
+				r.xdx.SetSym(a, b, r.xdx.At(a, b)+X.At(i, a)*d*X.At(i, b))
+			}
+		}
+	}
+	for k, run := range g.Runs {
+		u := mat.NewVecDense(p, nil)
+		var a, w float64
+		for _, i := range run {
+			d := 1 / g.Var[i]
+			a += g.C[i] * g.C[i] * d
+			w += g.C[i] * d * g.Y[i]
+			for b := range p {
+				u.SetVec(b, u.AtVec(b)+X.At(i, b)*d*g.C[i])
+			}
+		}
+		base := 0.0
+		if k < len(g.Base) {
+			base = g.Base[k]
+		}
+		r.a, r.w, r.u, r.base = append(r.a, a), append(r.w, w), append(r.u, u), append(r.base, base)
+	}
+	return r
+}
+
 // restrictedLogLik returns the restricted (REML) log-likelihood of σ_g²,
 // up to a constant: the likelihood of the residuals with the fixed effects
 // integrated out under a flat prior (Patterson & Thompson, Biometrika 58,
@@ -25,62 +74,39 @@ type Group struct {
 //
 //	−½·[log det V + log det XᵀV⁻¹X + yᵀV⁻¹y − bᵀ(XᵀV⁻¹X)⁻¹b],  b = XᵀV⁻¹y
 //
-// with V = diag(Var) + Σ_runs (σ_g² + Base)·c·cᵀ. Unlike the plain
-// likelihood of pilot residuals it does not lose the run-to-run variance
-// that the fitted offsets, slopes and wind absorb. Columns of X that are
-// all zero are left out; ok is false when V or XᵀV⁻¹X is singular.
-func (g Group) restrictedLogLik(s2 float64) (ll float64, ok bool) {
-	n, p := g.X.Dims()
-	V := mat.NewSymDense(n, nil)
-	for i := range n {
-		V.SetSym(i, i, g.Var[i])
-	}
-	for r, run := range g.Runs {
-		v := s2
-		if r < len(g.Base) {
-			v += g.Base[r]
-		}
-		for a, i := range run {
-			for _, j := range run[a:] {
-				V.SetSym(i, j, V.At(i, j)+v*g.C[i]*g.C[j])
-			}
-		}
-	}
-	var cv mat.Cholesky
-	if !cv.Factorize(V) {
-		return 0, false
-	}
-	X := nonZeroColumns(g.X, n, p)
-	var vx mat.Dense
-	if err := cv.SolveTo(&vx, X); err != nil {
-		return 0, false
-	}
-	y := mat.NewVecDense(n, g.Y)
-	var vy mat.VecDense
-	if err := cv.SolveVecTo(&vy, y); err != nil {
-		return 0, false
-	}
-	var A mat.Dense
-	A.Mul(X.T(), &vx)
-	As := mat.NewSymDense(A.RawMatrix().Rows, nil)
-	for i := range As.SymmetricDim() {
-		for j := i; j < As.SymmetricDim(); j++ {
-			As.SetSym(i, j, (A.At(i, j)+A.At(j, i))/2)
-		}
+// with V = D + Σ_runs s_r·c_r·c_rᵀ, s_r = σ_g² + Base_r. The runs are
+// disjoint, so by Sherman–Morrison V⁻¹ = D⁻¹ − Σ_r k_r·D⁻¹c_r·c_rᵀD⁻¹ with
+// k_r = s_r/(1 + s_r·a_r), and log det V = log det D + Σ log(1 + s_r·a_r).
+// Unlike the plain likelihood of pilot residuals it does not lose the
+// run-to-run variance the fitted offsets, slopes and wind absorb. Columns
+// of X that are all zero are left out; ok is false when XᵀV⁻¹X is singular.
+func (r reml) logLik(s2 float64) (ll float64, ok bool) {
+	p := r.xdy.Len()
+	A := mat.NewSymDense(p, nil)
+	A.CopySym(r.xdx)
+	b := mat.VecDenseCopyOf(r.xdy)
+	ldv, quad := r.logDetD, r.ydy
+	for k := range r.a {
+		s := s2 + r.base[k]
+		ldv += math.Log1p(s * r.a[k])
+		kr := s / (1 + s*r.a[k])
+		quad -= kr * r.w[k] * r.w[k]
+		A.SymRankOne(A, -kr, r.u[k])
+		b.AddScaledVec(b, -kr*r.w[k], r.u[k])
 	}
 	var ca mat.Cholesky
-	if !ca.Factorize(As) {
+	if !ca.Factorize(A) {
 		return 0, false
 	}
-	var b mat.VecDense
-	b.MulVec(X.T(), &vy)
 	var ab mat.VecDense
-	if err := ca.SolveVecTo(&ab, &b); err != nil {
+	if err := ca.SolveVecTo(&ab, b); err != nil {
 		return 0, false
 	}
-	quad := mat.Dot(y, &vy) - mat.Dot(&b, &ab)
-	return -0.5 * (cv.LogDet() + ca.LogDet() + quad), true
+	return -0.5 * (ldv + ca.LogDet() + quad - mat.Dot(b, &ab)), true
 }
+
+// restrictedLogLik is the group's restricted log-likelihood of σ_g².
+func (g Group) restrictedLogLik(s2 float64) (float64, bool) { return g.prepare().logLik(s2) }
 
 // nonZeroColumns returns X without its all-zero columns.
 func nonZeroColumns(X *mat.Dense, n, p int) *mat.Dense {
@@ -107,20 +133,20 @@ func nonZeroColumns(X *mat.Dense, n, p int) *mat.Dense {
 // and the posterior sd of σ_g under the half-normal prior of the given
 // scale. A group whose likelihood cannot be formed is left out.
 func ScatterREML(groups []Group, scale float64) (sd, sdOfSD float64) {
+	rs := make([]reml, len(groups))
+	for i, g := range groups {
+		rs[i] = g.prepare()
+	}
 	return posteriorN(func(s2 float64) float64 {
 		var ll float64
-		for _, g := range groups {
-			if v, ok := g.restrictedLogLik(s2); ok {
+		for _, r := range rs {
+			if v, ok := r.logLik(s2); ok {
 				ll += v
 			}
 		}
 		return ll
-	}, scale, gridREML)
+	}, scale, gridN)
 }
-
-// gridREML is the grid of the restricted likelihood, each point of which
-// factors the groups' covariances.
-const gridREML = 120
 
 // posterior returns √E[σ²] and sd(σ) on a grid for a log-likelihood of σ²
 // and a half-normal prior of the given scale.
