@@ -24,7 +24,7 @@ func (r *reporter) agreement() {
 	pg.para("Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5.")
 	if bars := r.agreementBars(); len(bars) > 0 {
 		pg.chart(agreementChart(bars), math.Min(30+4.2*float64(len(bars)), 200))
-		pg.note("Thick black: fused result of every entry. Grey: each entry alone (dashed when flagged). Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table.")
+		pg.note("Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table.")
 	}
 	r.agreementTable()
 	for _, m := range r.res.Methods {
@@ -37,6 +37,7 @@ func (r *reporter) agreement() {
 // bar is one interval of the agreement chart.
 type bar struct {
 	label   string
+	config  int // index of the configuration, for its colour
 	est     fuse.Estimate
 	fused   bool
 	flagged bool
@@ -53,7 +54,7 @@ func (r *reporter) agreementBars() []bar {
 		mr, _ := reportOf(m.Kind)
 		signOnly[m.ID] = mr.signOnly
 	}
-	for _, cfg := range r.configs() {
+	for ci, cfg := range r.configs() {
 		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
 			var entries []bar
 			for _, m := range r.res.Methods {
@@ -62,7 +63,7 @@ func (r *reporter) agreementBars() []bar {
 				}
 				for _, s := range m.Standalone {
 					if s.Config == cfg && s.Axle == ax {
-						entries = append(entries, bar{label: cfg + " " + ax + ": " + m.ID, est: s.CLA, flagged: flagged[m.ID]})
+						entries = append(entries, bar{label: cfg + " " + ax + ": " + m.ID, config: ci, est: s.CLA, flagged: flagged[m.ID]})
 					}
 				}
 			}
@@ -70,7 +71,7 @@ func (r *reporter) agreementBars() []bar {
 				continue
 			}
 			e, _ := r.in.Fused.Posterior.Quantity(evidence.Quantity{Config: cfg, Axle: ax})
-			bars = append(bars, bar{label: cfg + " " + ax + ": fused", est: e, fused: true})
+			bars = append(bars, bar{label: cfg + " " + ax + ": fused", config: ci, est: e, fused: true})
 			bars = append(bars, entries...)
 		}
 	}
@@ -104,7 +105,7 @@ func (r *reporter) agreementTable() {
 func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 	pg := r.pg
 	pg.h2("What could explain "+id, 30)
-	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² (C_L·A) where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
+	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
 		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, id))
 	var items []string
 	for i, e := range cc.Explanations {
@@ -126,15 +127,17 @@ func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 // agreementChart: every entry's standalone interval beside the fused one,
 // per configuration and axle, as horizontal bars.
 func agreementChart(rows []bar) *plot.Plot {
-	p := newPlot("what each method says, and the fused result", "C_L·A (m²), central interval", "")
+	p := newPlot("what each method says, and the fused result", "axle lift coefficient × area (m²), central interval", "")
 	names := make([]string, len(rows))
 	for i, r := range rows {
 		names[len(rows)-1-i] = r.label
 		y := float64(len(rows) - 1 - i)
-		col := color.Color(color.Gray{110})
-		width := vg.Points(1.5)
+		col, shape := styleOf(r.config)
+		width := vg.Points(1)
 		if r.fused {
-			col, width = color.Gray{0}, vg.Points(3)
+			width = vg.Points(3)
+		} else {
+			shape = hollow(shape)
 		}
 		seg, _ := plotter.NewLine(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}})
 		seg.LineStyle = draw.LineStyle{Color: col, Width: width}
@@ -142,7 +145,7 @@ func agreementChart(rows []bar) *plot.Plot {
 			seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
 		}
 		dot, _ := plotter.NewScatter(plotter.XYs{{X: r.est.Mean, Y: y}})
-		dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: draw.CircleGlyph{}}
+		dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
 		p.Add(seg, dot)
 	}
 	zero, _ := plotter.NewLine(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}})
@@ -150,5 +153,7 @@ func agreementChart(rows []bar) *plot.Plot {
 	p.Add(zero)
 	p.NominalY(names...)
 	p.Y.Tick.Label.Font.Size = 6.5
+	dx := 0.04 * (p.X.Max - p.X.Min)
+	p.X.Min, p.X.Max = p.X.Min-dx, p.X.Max+dx
 	return p
 }

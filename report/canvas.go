@@ -97,9 +97,23 @@ func (c *pdfCanvas) Pop() {
 	}
 }
 
+// withAlpha sets the PDF's opacity to that of the current colour for the
+// length of one drawing call, and restores it after.
+func (c *pdfCanvas) withAlpha(draw func()) {
+	_, _, _, a := c.state.color.RGBA()
+	if a == 0xffff {
+		draw()
+		return
+	}
+	c.pdf.SetAlpha(float64(a)/0xffff, "Normal")
+	draw()
+	c.pdf.SetAlpha(1, "Normal")
+}
+
+// rgb is a colour's 8-bit components, un-premultiplied.
 func rgb(col color.Color) (int, int, int) {
-	r, g, b, _ := col.RGBA()
-	return int(r >> 8), int(g >> 8), int(b >> 8)
+	n := color.NRGBAModel.Convert(col).(color.NRGBA)
+	return int(n.R), int(n.G), int(n.B)
 }
 
 // trace emits a path; arcs become short line segments.
@@ -157,9 +171,11 @@ func (c *pdfCanvas) Stroke(p vg.Path) {
 	} else {
 		c.pdf.SetDashPattern(nil, 0)
 	}
-	if c.trace(p) {
-		c.pdf.DrawPath("D")
-	}
+	c.withAlpha(func() {
+		if c.trace(p) {
+			c.pdf.DrawPath("D")
+		}
+	})
 	c.pdf.SetDashPattern(nil, 0)
 }
 
@@ -168,9 +184,11 @@ func (c *pdfCanvas) Fill(p vg.Path) {
 		return
 	}
 	c.pdf.SetFillColor(rgb(c.state.color))
-	if c.trace(p) {
-		c.pdf.DrawPath("F")
-	}
+	c.withAlpha(func() {
+		if c.trace(p) {
+			c.pdf.DrawPath("F")
+		}
+	})
 }
 
 func (c *pdfCanvas) FillString(f font.Face, pt vg.Point, text string) {

@@ -3,42 +3,50 @@ package report
 import (
 	"fmt"
 	"math"
-	"slices"
 	"strings"
 
 	"liftfuse/fuse"
-	"liftfuse/methods/air"
-	"liftfuse/methods/campaign"
 )
 
-// cover writes the first pages: title, car, configurations, the summary in
-// words and the tables of the fused result.
+// cover writes page 1, which answers the customer: what each
+// configuration does at the report speeds, what changed against the
+// reference and how sure we are, which entries disagreed, and what to do
+// next. The configurations and the detailed tables follow.
 func (r *reporter) cover() {
 	c := r.in.Campaign
 	pg := r.pg
 	pg.pdf.AddPage()
-	pg.font("", 9)
 	pg.pdf.SetTextColor(grey, grey, grey)
-	pg.pdf.MultiCell(pg.w, 5, "Aerodynamic development report — on-road lift and downforce", "", "L", false)
+	pg.flow("Aerodynamic development report — on-road lift and downforce", "", 9, 5, margin, pg.w)
 	pg.pdf.SetTextColor(0, 0, 0)
-	pg.pdf.Ln(2)
-	pg.font("B", 20)
-	pg.pdf.MultiCell(pg.w, 9, c.Campaign.Title, "", "L", false)
-	pg.pdf.Ln(2)
-	pg.font("", 10.5)
-	lines := []string{"Car: " + c.Vehicle.Label + " (" + c.Vehicle.Body + " body, wheelbase " + fmt.Sprintf("%.3g m", c.Vehicle.WheelbaseM) + ")",
-		"Test date: " + c.Campaign.Date}
+	pg.pdf.Ln(1)
+	pg.flow(c.Campaign.Title, "B", 20, 9, margin, pg.w)
+	pg.pdf.Ln(1)
+	line := fmt.Sprintf("Car: %s (%s body, wheelbase %.3g m). Test date: %s.", c.Vehicle.Label, c.Vehicle.Body, c.Vehicle.WheelbaseM, c.Campaign.Date)
 	if c.Campaign.Site != "" {
-		lines = append(lines, "Site: "+c.Campaign.Site)
+		line += " Site: " + c.Campaign.Site + "."
 	}
-	for _, l := range lines {
-		pg.pdf.MultiCell(pg.w, 5.5, l, "", "L", false)
+	pg.flow(line, "", 10, 5, margin, pg.w)
+	pg.pdf.Ln(1)
+
+	pg.h2("What we found", 30)
+	for _, s := range r.findings() {
+		pg.para(s)
 	}
-	if c.Campaign.Notes != "" {
-		pg.pdf.Ln(1)
-		pg.para(c.Campaign.Notes)
+	r.speedTable()
+	r.changeTable()
+	pg.h2("Checks", 15)
+	pg.bullets(r.checks())
+	if rec := r.recommendation(); rec != "" {
+		pg.h2("What to do next", 15)
+		pg.para(rec)
 	}
-	pg.h2("Configurations", 20)
+}
+
+// configurationsTable lists the configurations with the reference marked.
+func (r *reporter) configurationsTable() {
+	c := r.in.Campaign
+	r.pg.h2("Configurations", 20)
 	var rows [][]string
 	for _, cf := range c.Configurations {
 		ref := ""
@@ -47,127 +55,164 @@ func (r *reporter) cover() {
 		}
 		rows = append(rows, []string{cf.ID, cf.Note, ref})
 	}
-	pg.table([]column{{"id", 1, "L"}, {"description", 3, "L"}, {"", 0.8, "L"}}, rows)
-
-	pg.h2("Summary", 40)
-	pg.para(r.summaryText())
-	r.liftTables()
-	r.claTables()
-	r.deltaTable()
+	r.pg.table([]column{{"id", 1, "L"}, {"description", 3, "L"}, {"", 0.8, "L"}}, rows)
 }
 
-// liftTables writes, per report speed, every configuration's axle forces
-// and the probability of downforce.
-func (r *reporter) liftTables() {
-	c := r.in.Campaign
-	pg := r.pg
-	unit := c.Report.ForceUnit
-	for _, v := range c.Report.SpeedsKmh {
-		pg.h2(fmt.Sprintf("Lift at %g km/h, %s (lift positive, downforce negative; %s credible intervals)", v, unit, r.level()), 25)
-		var rows [][]string
-		for _, cr := range r.res.Configs {
-			for _, s := range cr.AtSpeeds {
-				if s.SpeedKmh != v {
-					continue
-				}
-				rows = append(rows, []string{cr.ID, r.force(s.FrontN), r.force(s.RearN), r.force(s.TotalN),
-					percent(cr.Front.PDownforce) + " / " + percent(cr.Rear.PDownforce) + " / " + percent(cr.Total.PDownforce)})
-			}
-		}
-		pg.table([]column{{"configuration", 1.1, "L"}, {"front", 1.6, "R"}, {"rear", 1.6, "R"}, {"total", 1.6, "R"}, {"P(downforce) f / r / t", 1.6, "R"}}, rows)
-	}
-}
-
-// claTables writes C_L·A per axle with the balance and, when the frontal
-// area is known, the SAE J1594 coefficients.
-func (r *reporter) claTables() {
-	c := r.in.Campaign
-	pg := r.pg
-	pg.h2("C_L·A per axle (m²) and balance", 25)
-	var rows [][]string
-	for _, cr := range r.res.Configs {
-		bal := fmt.Sprintf("%.2f [%.2f, %.2f]", cr.FrontShare.Mean, cr.FrontShare.Lo, cr.FrontShare.Hi)
-		rows = append(rows, []string{cr.ID, cla(cr.Front.CLA), cla(cr.Rear.CLA), cla(cr.Total.CLA), bal})
-	}
-	pg.table([]column{{"configuration", 1.1, "L"}, {"front C_L·A", 1.6, "R"}, {"rear C_L·A", 1.6, "R"}, {"total C_L·A", 1.6, "R"}, {"front share of total", 1.4, "R"}}, rows)
-	if c.Vehicle.FrontalAreaM2 > 0 {
-		rows = nil
-		for _, cr := range r.res.Configs {
-			if s := cr.SAE; s != nil {
-				rows = append(rows, []string{cr.ID, cla(s.CLF), cla(s.CLR), cla(s.CL)})
-			}
-		}
-		pg.h2(fmt.Sprintf("SAE J1594 coefficients (frontal area %.3g m²)", c.Vehicle.FrontalAreaM2), 25)
-		pg.table([]column{{"configuration", 1.1, "L"}, {"C_LF", 1.6, "R"}, {"C_LR", 1.6, "R"}, {"C_L", 1.6, "R"}}, rows)
-	}
-}
-
-// deltaTable writes each configuration's change against the reference at
-// the top report speed, with the probability that it lowers lift.
-func (r *reporter) deltaTable() {
-	if len(r.res.Deltas) == 0 {
-		return
-	}
-	c := r.in.Campaign
-	pg := r.pg
-	unit := c.Report.ForceUnit
-	v := slices.Max(c.Report.SpeedsKmh)
-	q := air.DynamicPressure(c.Density(), air.KmhToMs(v))
-	pg.h2(fmt.Sprintf("Change against %s at %g km/h, %s", c.Report.ReferenceConfig, v, unit), 25)
-	var rows [][]string
-	for _, d := range r.res.Deltas {
-		rows = append(rows, []string{d.Config, r.force(d.Front.CLA.Scale(q)), r.force(d.Rear.CLA.Scale(q)), r.force(d.Total.CLA.Scale(q)),
-			percent(d.Front.PDownforce) + " / " + percent(d.Rear.PDownforce) + " / " + percent(d.Total.PDownforce)})
-	}
-	pg.table([]column{{"configuration", 1.1, "L"}, {"front", 1.6, "R"}, {"rear", 1.6, "R"}, {"total", 1.6, "R"}, {"P(less lift) f / r / t", 1.6, "R"}}, rows)
-	if c.Prior.SpeedModel == campaign.SpeedLinear {
-		pg.note("With the linear speed model, the changes above are those of C_L·A at 100 km/h scaled to the speed; the forces at each speed in the tables before include the speed dependence.")
-	}
-}
-
-// summaryText says in plain words what changed and how sure we are.
-func (r *reporter) summaryText() string {
+// findings says in words what the reference does at every report speed
+// and what each other configuration changes, with how sure we are. Every
+// figure is read from the result document at its speed.
+func (r *reporter) findings() []string {
 	c := r.in.Campaign
 	unit := c.Report.ForceUnit
-	v := slices.Max(c.Report.SpeedsKmh) // the summary speaks of the top report speed
-	q := air.DynamicPressure(c.Density(), air.KmhToMs(v))
-	var b strings.Builder
+	var out []string
 	for _, cr := range r.res.Configs {
 		if cr.ID != c.Report.ReferenceConfig {
 			continue
 		}
-		fmt.Fprintf(&b, "As tested, %s makes %s at the front and %s at the rear at %g km/h. ", cr.ID,
-			liftWord(cr.Front, q, r.unitN, unit), liftWord(cr.Rear, q, r.unitN, unit), v)
-	}
-	for _, d := range r.res.Deltas {
-		rear := d.Rear.CLA.Scale(q / r.unitN)
-		front := d.Front.CLA.Scale(q / r.unitN)
-		fmt.Fprintf(&b, "Against %s, %s changes rear lift by %+.1f %s (%s interval %+.1f to %+.1f) and front lift by %+.1f %s (%+.1f to %+.1f) at %g km/h; ",
-			d.Versus, d.Config, rear.Mean, unit, r.level(), rear.Lo, rear.Hi, front.Mean, unit, front.Lo, front.Hi, v)
-		fmt.Fprintf(&b, "the probability that it lowers rear lift is %s, and that it lowers front lift %s. ", percent(d.Rear.PDownforce), percent(d.Front.PDownforce))
-	}
-	flagged := 0
-	for _, m := range r.res.Methods {
-		if m.Agreement != nil && m.Agreement.Flag {
-			flagged++
+		var parts []string
+		for _, v := range c.Report.SpeedsKmh {
+			s, ok := speedOf(cr, v)
+			if !ok {
+				continue
+			}
+			parts = append(parts, fmt.Sprintf("%s at the front and %s at the rear at %g km/h", r.liftWord(s.N[0], unit), r.liftWord(s.N[1], unit), v))
+		}
+		if len(parts) > 0 {
+			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets).", cr.ID, join(parts, "; and "), r.level()))
 		}
 	}
-	switch {
-	case len(r.res.Methods) == 1:
-		b.WriteString("One method only was used, so there is no independent check of it.")
-	case flagged == 0:
-		fmt.Fprintf(&b, "The %d measurement methods agree with one another within their stated uncertainties.", len(r.res.Methods))
-	default:
-		fmt.Fprintf(&b, "%d of the %d measurement entries disagree with the rest (see Agreement); the fused figures weigh every entry by its stated uncertainty, so read them with that in mind.", flagged, len(r.res.Methods))
+	for _, d := range r.res.Deltas {
+		var chs []changeAt
+		for _, v := range c.Report.SpeedsKmh {
+			chs = append(chs, r.deltaAt(d, v))
+		}
+		var b strings.Builder
+		fmt.Fprintf(&b, "Against %s, %s changes ", d.Versus, d.Config)
+		for k, ax := range []string{"rear", "front"} {
+			i := map[string]int{"front": 0, "rear": 1}[ax]
+			var by, sure []string
+			for _, ch := range chs {
+				e := ch.N[i].Scale(1 / r.unitN)
+				by = append(by, fmt.Sprintf("%+.1f %s (%+.1f to %+.1f) at %g km/h", e.Mean, unit, e.Lo, e.Hi, ch.SpeedKmh))
+				sure = append(sure, percent(ch.PLess[i]))
+			}
+			if k > 0 {
+				b.WriteString(" It changes ")
+			}
+			fmt.Fprintf(&b, "%s lift by %s; the probability that it lowers %s lift is %s.", ax, join(by, " and "), ax, sameOrEach(sure, chs))
+		}
+		out = append(out, b.String())
 	}
-	return b.String()
+	return out
 }
 
-func liftWord(a fuse.AxleResult, q, unitN float64, unit string) string {
-	e := a.CLA.Scale(q / unitN)
+// sameOrEach is one probability when it is the same at every speed, or
+// each with its speed.
+func sameOrEach(ps []string, chs []changeAt) string {
+	same := true
+	for _, p := range ps {
+		same = same && p == ps[0]
+	}
+	if same {
+		if len(ps) > 1 {
+			return ps[0] + " at every report speed"
+		}
+		return ps[0]
+	}
+	var each []string
+	for i, p := range ps {
+		each = append(each, fmt.Sprintf("%s at %g km/h", p, chs[i].SpeedKmh))
+	}
+	return join(each, " and ")
+}
+
+// join joins with commas and a final word ("a, b and c").
+func join(parts []string, last string) string {
+	switch len(parts) {
+	case 0:
+		return ""
+	case 1:
+		return parts[0]
+	}
+	return strings.Join(parts[:len(parts)-1], ", ") + last + parts[len(parts)-1]
+}
+
+// liftWord says a force in newtons as lift or downforce in the display
+// unit, with its interval.
+func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
+	e := n.Scale(1 / r.unitN)
 	word := "lift"
 	if e.Mean < 0 {
 		word = "downforce"
 	}
-	return fmt.Sprintf("%.1f %s of %s (%.1f to %.1f)", math.Abs(e.Mean), unit, word, e.Lo, e.Hi)
+	return fmt.Sprintf("%.1f %s of %s (%+.1f to %+.1f)", math.Abs(e.Mean), unit, word, e.Lo, e.Hi)
+}
+
+// checks lists the entries that disagreed with the others and the
+// warnings of the run, or says that the methods agree.
+func (r *reporter) checks() []string {
+	kinds := map[string]bool{}
+	var flagged []string
+	for _, m := range r.res.Methods {
+		kinds[m.Kind] = true
+		if a := m.Agreement; a != nil && a.Flag {
+			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) = %s)", m.ID, m.Kind, a.PValue, percent(a.POff))
+			if w := a.Worst; w != nil {
+				s += fmt.Sprintf(", most on %s %s, by %+.3f m² of %s (%.1f sd)", w.Config, w.Axle, w.DiffM2, symCLA, w.Sigmas)
+			}
+			flagged = append(flagged, s+"; the fused figures down-weight it, see Agreement.")
+		}
+	}
+	var out []string
+	switch {
+	case len(r.res.Methods) == 1:
+		out = append(out, "One entry only was used, so there is no independent check of it.")
+	case len(flagged) == 0:
+		out = append(out, fmt.Sprintf("The %s (%s) agree with one another within their stated uncertainties.", count(len(kinds), "measurement method"), count(len(r.res.Methods), "entry")))
+	default:
+		out = append(out, flagged...)
+	}
+	for _, w := range r.otherWarnings() {
+		out = append(out, "Warning: "+w)
+	}
+	return out
+}
+
+// otherWarnings are the result's warnings other than the disagreements,
+// which checks already lists.
+func (r *reporter) otherWarnings() []string {
+	var out []string
+	for _, w := range r.res.Warnings {
+		if !strings.Contains(w, "disagrees with the others") {
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// count is "1 entry", "3 entries", "2 measurement methods".
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	if strings.HasSuffix(noun, "y") {
+		return fmt.Sprintf("%d %sies", n, strings.TrimSuffix(noun, "y"))
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}
+
+// recommendation is the plan's best repeat in one paragraph, and the
+// repeat that would tell whether a flagged entry is off.
+func (r *reporter) recommendation() string {
+	pl := r.in.Plan
+	if pl == nil || len(pl.Options) == 0 {
+		return ""
+	}
+	o := pl.Options[0]
+	t := pl.Target
+	s := fmt.Sprintf("To pin down %s (today %+.4f ± %.4f m² of %s), repeat the runs of %s first (%.1f h): it would remove %.0f %% of the variance, %.0f %% per hour — %s.", t.String(), t.Now.Mean, t.Now.SD, symCLA, o.Entry, o.CostH, o.RemovedPct, o.PerHour, o.Why)
+	for _, d := range pl.Discriminate {
+		s += " " + d.Flagged + " looks off: " + d.Why + "."
+	}
+	return s + " The full ranking is under What to repeat next."
 }

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"image/color"
 	"io"
-	"sort"
+	"math"
 	"text/tabwriter"
 
 	"gonum.org/v1/plot"
@@ -25,11 +25,25 @@ func heightReport() methodReport {
 		kind:     evidence.KindRideHeight,
 		sections: (*reporter).heightSections,
 		reduced:  heightReduced,
-		limits: []string{
-			"Ride height (potentiometers): needs the heave stiffness at the wheel; a spring rate or installation ratio known only roughly scales every figure, and suspension friction hides small deflections. Low-speed runs pin the static height.",
-			"Ride height (laser): also sees tyre growth with speed, which grows like aerodynamic load; absolute lift is loose, differences between configurations at matched speeds are sharp.",
-		},
+		limits:   heightLimits,
 	}
+}
+
+// heightLimits are the limits of the ride-height sensors the campaign used.
+func heightLimits(c *campaign.Campaign) []string {
+	var out []string
+	for _, s := range []struct{ sensor, limit string }{
+		{campaign.SensorPot, "Ride height (potentiometers): needs the heave stiffness at the wheel; a spring rate or installation ratio known only roughly scales every figure, and suspension friction hides small deflections. Low-speed runs pin the static height."},
+		{campaign.SensorLaser, "Ride height (laser): also sees tyre growth with speed, which grows like aerodynamic load; absolute lift is loose, differences between configurations at matched speeds are sharp."},
+	} {
+		for _, e := range c.Evidence.RideHeight {
+			if e.Sensor == s.sensor {
+				out = append(out, s.limit)
+				break
+			}
+		}
+	}
+	return out
 }
 
 // heightSections writes one sub-section per ride-height entry.
@@ -44,7 +58,7 @@ func (r *reporter) heightSections() {
 func (r *reporter) heightSection(h *height.Result) {
 	pg := r.pg
 	e := h.Entry
-	pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 70)
+	pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 100)
 	cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
 	stiff := fmt.Sprintf("heave stiffness %.1f N/mm from the %s ± %.1f %%", h.Stiffness.K, h.Stiffness.Source, 100*h.Stiffness.RelSD())
 	txt := fmt.Sprintf("%d steady windows from %d log(s); %s; %s.", len(h.Windows), len(e.Logs), cal, stiff)
@@ -63,13 +77,14 @@ func (r *reporter) heightSection(h *height.Result) {
 }
 
 // heightChart: each steady window's mean height against q with ±1 SE bars,
-// and the entry's fitted values (posterior mean) joined per configuration.
+// and per configuration the straight line through the entry's fitted
+// values (posterior mean): the fit's trend with q, the per-log offsets and
+// drifts that make the fitted values scatter about it averaged out.
 func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": ride height against dynamic pressure", "dynamic pressure q (Pa)", "height (mm)")
 	for ci, cfg := range configs {
-		var pts plotter.XYs
+		var pts, fit plotter.XYs
 		var errs plotter.YErrors
-		var line plotter.XYs
 		for i, w := range r.Windows {
 			if w.Config != cfg {
 				continue
@@ -77,7 +92,7 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 			pts = append(pts, plotter.XY{X: w.Q, Y: w.HeightMM})
 			errs = append(errs, struct{ Low, High float64 }{w.SE, w.SE})
 			if i < len(fitted) {
-				line = append(line, plotter.XY{X: w.Q, Y: fitted[i]})
+				fit = append(fit, plotter.XY{X: w.Q, Y: fitted[i]})
 			}
 		}
 		if len(pts) == 0 {
@@ -87,19 +102,46 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: shape}
 		eb := &plotter.YErrorBars{XYs: pts, YErrors: errs, LineStyle: draw.LineStyle{Color: col, Width: vg.Points(0.5)}, CapWidth: vg.Points(3)}
-		sort.Slice(line, func(a, b int) bool { return line[a].X < line[b].X })
-		l, _ := plotter.NewLine(line)
-		l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(3), vg.Points(2)}}
-		p.Add(eb, s, l)
-		p.Legend.Add(cfg+" (windows ± SE; dashed: fit)", s)
+		p.Add(eb, s)
+		if l := trendLine(fit); l != nil {
+			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
+			p.Add(l)
+			p.Legend.Add(cfg+": windows ± SE, line: fit", s, l)
+		} else {
+			p.Legend.Add(cfg+": windows ± SE", s)
+		}
 	}
+	pad(p, 0.2)
 	return p
+}
+
+// trendLine is the least-squares straight line through points, drawn
+// across their x range, or nil for fewer than two distinct x.
+func trendLine(pts plotter.XYs) *plotter.Line {
+	n := float64(len(pts))
+	var sx, sy, sxx, sxy float64
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range pts {
+		sx, sy, sxx, sxy = sx+p.X, sy+p.Y, sxx+p.X*p.X, sxy+p.X*p.Y
+		lo, hi = math.Min(lo, p.X), math.Max(hi, p.X)
+	}
+	den := n*sxx - sx*sx
+	if len(pts) < 2 || den <= 0 || hi <= lo {
+		return nil
+	}
+	b := (n*sxy - sx*sy) / den
+	a := (sy - b*sx) / n
+	l, err := plotter.NewLine(plotter.XYs{{X: lo, Y: a + b*lo}, {X: hi, Y: a + b*hi}})
+	if err != nil {
+		return nil
+	}
+	return l
 }
 
 // traceChart: an excerpt of the raw trace with its low-pass and moving
 // average, around the entry's fastest window.
 func traceChart(r *height.Result) *plot.Plot {
-	p := newPlot(r.Entry.ID+": smoothed trace, excerpt", "time (s)", "height (mm)")
+	p := newPlot(r.Entry.ID+": the fastest steady run as logged, and filtered", "time (s)", "height (mm)")
 	if len(r.Traces) == 0 || len(r.Windows) == 0 {
 		return p
 	}
@@ -132,6 +174,7 @@ func traceChart(r *height.Result) *plot.Plot {
 	p.Legend.Add("raw samples", lr)
 	p.Legend.Add("first-order low-pass", ll)
 	p.Legend.Add("moving average", lm)
+	pad(p, 0.3)
 	return p
 }
 

@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-	"unicode/utf8"
 
 	"codeberg.org/go-pdf/fpdf"
 )
@@ -59,27 +58,76 @@ func TestTableBreaksAcrossPages(t *testing.T) {
 	}
 }
 
-// TestFit: a cell too long for its column is cut at a character boundary
-// (the text is valid UTF-8 whatever the characters), marked with an
-// ellipsis, and no wider than the column.
-func TestFit(t *testing.T) {
-	// One unit a character; the expected cuts are worked by hand.
-	width := func(s string) float64 { return float64(utf8.RuneCountInString(s)) }
+// TestSpans: "_{…}" marks a subscript, as SAE J1594 sets C_L, C_LF, C_LR
+// (the letters after C subscript); an unclosed mark is text.
+func TestSpans(t *testing.T) {
 	tests := []struct {
 		name, in string
-		w        float64
-		want     string
+		want     []span
 	}{
-		{"fits", "C_L·A", 10, "C_L·A"},
-		{"cut at a multi-byte character", "ρρρρρρρρρρ", 6, "ρρρρρ…"},
-		{"trailing space dropped", "ab cd ef gh", 7, "ab cd…"},
+		{"lift coefficient times area", symCLA, []span{{"C", false}, {"L", true}, {"·A", false}}},
+		{"front coefficient", "C_{LF} = 0.06", []span{{"C", false}, {"LF", true}, {" = 0.06", false}}},
+		{"unclosed", "a_{b", []span{{"a_{b", false}}},
+		{"plain", "km/h", []span{{"km/h", false}}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			got := fit(tt.in, tt.w, width)
-			if got != tt.want || !utf8.ValidString(got) || width(got) > tt.w {
-				t.Errorf("fit(%q, %g) = %q, want %q", tt.in, tt.w, got, tt.want)
+			got := spans(tt.in)
+			if len(got) != len(tt.want) {
+				t.Fatalf("spans(%q) = %v, want %v", tt.in, got, tt.want)
+			}
+			for i := range got {
+				if got[i] != tt.want[i] {
+					t.Errorf("spans(%q)[%d] = %v, want %v", tt.in, i, got[i], tt.want[i])
+				}
 			}
 		})
+	}
+}
+
+// TestBind: a number keeps its unit on its line (SI Brochure, 9th ed.,
+// 5.4.3: a space separates number and unit, and the two are one
+// quantity), and plainly written symbols are marked up.
+func TestBind(t *testing.T) {
+	tests := []struct{ name, in, want string }{
+		{"percent", "± 6.5 %", "±\u00a06.5\u00a0%"},
+		{"speed", "at 150 km/h.", "at 150\u00a0km/h."},
+		{"force unit", "12.8 kgf of lift", "12.8\u00a0kgf of lift"},
+		{"not a unit", "3 measurement methods", "3 measurement methods"},
+		{"word starting like a unit", "2 mmHg", "2 mmHg"},
+		{"symbol from another package", "C_D·A·h/L and C_LF", "C_{D}·A·h/L and C_{LF}"},
+		{"already marked up", symCLF, symCLF},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := bind(tt.in); got != tt.want {
+				t.Errorf("bind(%q) = %q, want %q", tt.in, got, tt.want)
+			}
+		})
+	}
+}
+
+// TestWrap: lines break at ordinary spaces only, never between a number
+// and its unit, and no line is wider than asked unless one word is.
+func TestWrap(t *testing.T) {
+	pdf := fpdf.New("P", "mm", "A4", "")
+	registerFonts(pdf)
+	pdf.AddPage()
+	pg := &page{pdf: pdf, w: 100}
+	pg.font("", bodySize)
+	text := bind(strings.Repeat("the rear changes by 6.5 % at 150 km/h and ", 8))
+	for _, w := range []float64{30, 55, 90} {
+		lines := pg.wrap(text, w, bodySize)
+		if len(lines) < 2 {
+			t.Fatalf("width %g: %d line(s)", w, len(lines))
+		}
+		for _, l := range lines {
+			if pg.spanWidth(spans(l), bodySize) > w && strings.Contains(l, " ") {
+				t.Errorf("width %g: line %q too wide", w, l)
+			}
+			if strings.HasSuffix(l, "6.5") || strings.HasPrefix(l, "%") || strings.HasPrefix(l, "km/h") {
+				t.Errorf("width %g: a number left its unit: %q", w, l)
+			}
+		}
 	}
 }

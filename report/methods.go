@@ -4,6 +4,7 @@ import (
 	"io"
 
 	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 )
 
@@ -21,8 +22,9 @@ type methodReport struct {
 	// signOnly: an entry alone says only lift or downforce, so the
 	// agreement chart leaves it out.
 	signOnly bool
-	// limits are the method's bullets under "What each method cannot see".
-	limits []string
+	// limits are the method's bullets under "What each method cannot see",
+	// for what the campaign used of it (nothing when it used none).
+	limits func(c *campaign.Campaign) []string
 }
 
 // methodReports lists the measurement methods in report order. A new
@@ -49,7 +51,7 @@ func reportOf(kind string) (methodReport, bool) {
 // methods writes "What each method says": every method's sections in turn.
 func (r *reporter) methods() {
 	r.pg.h1("What each method says")
-	r.pg.para("Each entry below is reduced from its raw data and then fused on its own, with the same priors as the full campaign: its own verdict, before it is weighed against the others. Intervals are " + r.level() + " central credible intervals; C_L·A is per axle, lift positive (SAE J1594).")
+	r.pg.para("Each entry below is reduced from its raw data and then fused on its own, with the same priors as the full campaign: its own verdict, before it is weighed against the others. Intervals are " + r.level() + " central credible intervals; " + symCLA + " is per axle, lift positive (SAE J1594).")
 	for _, m := range methodReports() {
 		m.sections(r)
 	}
@@ -71,5 +73,5 @@ func (r *reporter) standaloneRows(id string) [][]string {
 
 // standaloneTable writes the table of what one entry says on its own.
 func (r *reporter) standaloneTable(id string) {
-	r.pg.table([]column{{"configuration", 1.2, "L"}, {"axle", 0.8, "L"}, {"C_L·A alone (m²)", 2, "R"}, {"P(downforce)", 1.1, "R"}}, r.standaloneRows(id))
+	r.pg.table([]column{{"configuration", 1.2, "L"}, {"axle", 0.8, "L"}, {symCLA + " alone (m²)", 2, "R"}, {"P(downforce)", 1.1, "R"}}, r.standaloneRows(id))
 }

@@ -47,16 +47,20 @@ func PDF(in Input) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	pg := newDocument(paper, date, c.Campaign.Title, in.Version)
-	r := &reporter{in: in, pg: pg, res: in.Fused.Result}
-	if r.unitN, err = air.NewtonsPer(c.Report.ForceUnit); err != nil {
+	r, err := newReporter(in)
+	if err != nil {
 		return nil, err
 	}
+	pg := newDocument(paper, date, c.Campaign.Title, in.Version)
+	r.pg = pg
 	r.cover()
+	r.overview()
+	r.details()
 	r.methods()
 	r.agreement()
 	r.plan()
 	r.notes()
+	r.runLog()
 	r.provenance()
 	if err := pg.pdf.Error(); err != nil {
 		return nil, fmt.Errorf("rendering the report: %w", err)
@@ -95,6 +99,16 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 		pdf.SetTextColor(0, 0, 0)
 	})
 	return pg
+}
+
+// newReporter starts a reporter of the input, with no document yet.
+func newReporter(in Input) (*reporter, error) {
+	r := &reporter{in: in, res: in.Fused.Result}
+	var err error
+	if r.unitN, err = air.NewtonsPer(in.Campaign.Report.ForceUnit); err != nil {
+		return nil, err
+	}
+	return r, nil
 }
 
 // reporter writes the report's sections, one method each, in the order

@@ -12,7 +12,7 @@ func (r *reporter) plan() {
 	pg := r.pg
 	pg.h1("What to repeat next")
 	t := pl.Target
-	pg.para(fmt.Sprintf("Target: %s, today %+.4f ± %.4f m² (C_L·A). For each entry, the expected uncertainty of the target if its runs were repeated once: errors a repeat shares with today's runs (the same springs, the same reference port, the same tyres) do not average down, so some repeats buy little. Ranked by variance removed per hour.", t.String(), t.Now.Mean, t.Now.SD))
+	pg.para(fmt.Sprintf("Target: %s, today %+.4f ± %.4f m² ("+symCLA+"). For each entry, the expected uncertainty of the target if its runs were repeated once: errors a repeat shares with today's runs (the same springs, the same reference port, the same tyres) do not average down, so some repeats buy little. Ranked by variance removed per hour.", t.String(), t.Now.Mean, t.Now.SD))
 	var rows [][]string
 	for i, o := range pl.Options {
 		rows = append(rows, []string{fmt.Sprintf("%d", i+1), o.Entry, fmt.Sprintf("%.1f", o.CostH), fmt.Sprintf("%.4f", o.SDAfter), fmt.Sprintf("%.1f %%", o.RemovedPct), fmt.Sprintf("%.1f %%/h", o.PerHour)})

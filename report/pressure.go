@@ -22,8 +22,11 @@ func pressureReport() methodReport {
 		kind:     evidence.KindPressure,
 		sections: (*reporter).pressureSections,
 		reduced:  pressureReduced,
-		limits: []string{
-			"Pressure taps: see only where there are taps; uncovered areas, the reference port's offset and the integration of a finite set of taps are modelled, and the axle split needs the pitch of drag. Figures are approximate.",
+		limits: func(c *campaign.Campaign) []string {
+			if len(c.Evidence.Pressure) == 0 {
+				return nil
+			}
+			return []string{"Pressure taps: see only where there are taps; uncovered areas, the reference port's offset and the integration of a finite set of taps are modelled, and the axle split needs the pitch of drag. Figures are approximate."}
 		},
 	}
 }
@@ -60,7 +63,6 @@ func (r *reporter) pressureSection(p *pressure.Result) {
 // one marker shape per configuration.
 func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": pressure coefficient along the car", "x from the front axle, rearward (m)", "Cp")
-	p.Legend.Top = false
 	for ci, cfg := range configs {
 		for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 			var pts plotter.XYs
@@ -80,13 +82,17 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 			col, shape := styleOf(ci)
 			s, _ := plotter.NewScatter(pts)
 			s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
-			if surface == campaign.SurfaceUpper {
-				s.GlyphStyle.Shape = filled(shape)
+			if surface == campaign.SurfaceLower {
+				s.GlyphStyle.Shape = hollow(shape)
 			}
 			p.Add(s)
 			p.Legend.Add(cfg+", "+surface+" surface", s)
 		}
 	}
+	p.Legend.Top = true
+	p.Legend.Left = true
+	p.Legend.XOffs = 0
+	pad(p, 0.32)
 	return p
 }
 

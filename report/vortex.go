@@ -24,8 +24,11 @@ func vortexReport() methodReport {
 		sections: (*reporter).vortexSections,
 		reduced:  vortexReduced,
 		signOnly: true,
-		limits: []string{
-			"Vortex sense: a sign only, and only for fastbacks and steeply raked notchbacks; most useful near zero lift.",
+		limits: func(c *campaign.Campaign) []string {
+			if len(c.Evidence.Vortex) == 0 {
+				return nil
+			}
+			return []string{"Vortex sense: a sign only, and only for fastbacks and steeply raked notchbacks; most useful near zero lift."}
 		},
 	}
 }
@@ -36,7 +39,7 @@ func (r *reporter) vortexSections() {
 	pg := r.pg
 	for _, v := range methods.Details[*vortex.Result](r.in.Reduced) {
 		e := v.Entry
-		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 60)
+		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 95)
 		pg.para(fmt.Sprintf("%d observations, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
 			len(v.Observations), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
 		r.standaloneTable(e.ID)
@@ -47,12 +50,18 @@ func (r *reporter) vortexSections() {
 // vortexChart: observed senses (1 = lift, 0 = downforce) against speed,
 // with the fused posterior probability of lift of the informed quantity.
 func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Plot {
-	p := newPlot(r.Entry.ID+": vortex sense and P(lift)", "speed (km/h)", "lift seen (1) / P(lift)")
-	p.Legend.Top, p.Legend.Left = false, false
-	maxV := 0.0
+	p := newPlot(r.Entry.ID+": vortex sense seen, and the fused P(lift)", "speed (km/h)", "P(lift)")
+	minV, maxV := math.Inf(1), math.Inf(-1)
+	var ticks []plot.Tick
+	seen := map[float64]bool{}
 	for _, o := range r.Observations {
-		maxV = math.Max(maxV, o.SpeedKmh)
+		minV, maxV = math.Min(minV, o.SpeedKmh), math.Max(maxV, o.SpeedKmh)
+		if !seen[o.SpeedKmh] {
+			seen[o.SpeedKmh] = true
+			ticks = append(ticks, plot.Tick{Value: o.SpeedKmh, Label: fmt.Sprintf("%g", o.SpeedKmh)})
+		}
 	}
+	lo, hi := math.Max(0, minV-20), maxV+20
 	for ci, cfg := range configs {
 		var pts plotter.XYs
 		for _, o := range r.Observations {
@@ -63,7 +72,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			if o.Lift {
 				y = 1
 			}
-			pts = append(pts, plotter.XY{X: o.SpeedKmh, Y: y + 0.02*float64(ci)})
+			pts = append(pts, plotter.XY{X: o.SpeedKmh + 3*(float64(ci)-float64(len(configs)-1)/2), Y: y})
 		}
 		if len(pts) == 0 {
 			continue
@@ -72,17 +81,21 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.5), Shape: shape}
 		var curve plotter.XYs
-		for v := 10.0; v <= math.Max(maxV*1.2, 60); v += 5 {
+		for k := range speedGrid + 1 {
+			v := lo + (hi-lo)*float64(k)/speedGrid
 			_, pDown := P.At(v, evidence.Term{Config: cfg, Axle: r.Entry.Informs, W: 1})
 			curve = append(curve, plotter.XY{X: v, Y: 1 - pDown})
 		}
 		l, _ := plotter.NewLine(curve)
 		l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
 		p.Add(s, l)
-		p.Legend.Add(cfg+": seen", s)
-		p.Legend.Add(cfg+": P(lift), fused", l)
+		p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", s, l)
 	}
-	p.Y.Min, p.Y.Max = -0.1, 1.1
+	p.X.Min, p.X.Max = lo, hi
+	p.X.Tick.Marker = plot.ConstantTicks(ticks)
+	p.Y.Min, p.Y.Max = -0.08, 1.45
+	p.Y.Tick.Marker = plot.ConstantTicks([]plot.Tick{{Value: 0, Label: "0"}, {Value: 0.5, Label: "0.5"}, {Value: 1, Label: "1"}})
+	p.Legend.Top, p.Legend.Left = true, true
 	return p
 }
 

@@ -32,15 +32,21 @@ func settings(c *campaign.Campaign) fuse.Settings {
 // load reads a campaign; the adapters stream the logs' bodies, so loading
 // checks only their headers.
 func load(file string) (*campaign.Campaign, error) {
-	return campaign.Load(file, campaign.Options{HeadersOnly: true})
+	return loadCampaign(file, campaign.Options{})
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
-// stderr when it is a terminal and not silenced.
-func reduce(file string, quiet bool, stderr io.Writer) (*campaign.Campaign, *methods.Reduced, error) {
+// stderr when it is a terminal and not silenced. check, if not nil, is
+// called on the loaded campaign before the (long) reduction.
+func reduce(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
 	c, err := load(file)
 	if err != nil {
 		return nil, nil, err
+	}
+	if check != nil {
+		if err := check(c); err != nil {
+			return nil, nil, err
+		}
 	}
 	opt := methods.Options{}
 	if !quiet && isTerminal(stderr) {
@@ -60,7 +66,13 @@ func reduce(file string, quiet bool, stderr io.Writer) (*campaign.Campaign, *met
 
 // analyse loads, reduces and fuses a campaign.
 func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
-	c, r, err := reduce(file, quiet, stderr)
+	return analyseChecked(file, quiet, stderr, nil)
+}
+
+// analyseChecked is analyse with a check of the loaded campaign before the
+// long work (see reduce).
+func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*analysis, error) {
+	c, r, err := reduce(file, quiet, stderr, check)
 	if err != nil {
 		return nil, err
 	}

@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
@@ -437,7 +436,7 @@ func (c *Campaign) addFile(name string) {
 func (c *Campaign) Hash() (string, error) {
 	h := sha256.New()
 	for _, name := range c.Files {
-		f, err := os.Open(name)
+		f, err := OpenRegular(name)
 		if err != nil {
 			return "", err
 		}

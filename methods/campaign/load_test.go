@@ -158,6 +158,46 @@ func TestLoadListsEveryProblem(t *testing.T) {
 	}
 }
 
+// TestLoadListsEveryKind: a key typo does not hide a rule the validator
+// checks elsewhere (issue: a configuration typo was hidden by a key typo).
+func TestLoadListsEveryKind(t *testing.T) {
+	path := fixture(t)
+	seg := "evidence.ride_height[0].logs[0].segments[1].config"
+	apply(t, path, rename("vehicle.wheelbase_m", "wheelbase_mm"), set(seg, "wingg"))
+	_, err := campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("want problems, got %v", err)
+	}
+	var key, ref bool
+	for _, p := range probs {
+		key = key || errors.Is(p, campaign.ErrUnknownKey) && p.Path == "vehicle.wheelbase_mm"
+		ref = ref || errors.Is(p, campaign.ErrReference) && p.Path == seg
+	}
+	if !key || !ref {
+		t.Errorf("want both the unknown key and the unknown configuration, got:\n%v", err)
+	}
+}
+
+func TestLoadNamesOtherDocuments(t *testing.T) {
+	tests := []struct {
+		name, text, want string
+	}{
+		{"simulation spec", "liftfuse_simulate: 1\nvehicle: {}\n", "simulation spec"},
+		{"result document", `{"format": "liftfuse.result/1", "configs": []}`, "output document"},
+		{"other format number", "liftfuse: 2\n", "format \"2\""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := campaign.Parse(strings.NewReader(tt.text), "x.yaml", ".", campaign.Options{})
+			var probs campaign.Problems
+			if !errors.As(err, &probs) || len(probs) != 1 || !errors.Is(probs[0], campaign.ErrFormat) || !strings.Contains(err.Error(), tt.want) {
+				t.Errorf("want one format problem saying %q, got %v", tt.want, err)
+			}
+		})
+	}
+}
+
 func TestLoadWarnings(t *testing.T) {
 	path := fixture(t)
 	apply(t, path, remove("evidence.ride_height[1].tyre_growth"), remove("evidence.pressure[0].uncovered"))
@@ -253,5 +293,33 @@ func TestLoadRefusesFIFO(t *testing.T) {
 	_, err = campaign.Load(fifo, campaign.Options{})
 	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
 		t.Fatalf("campaign: want a not-a-regular-file error, got %v", err)
+	}
+}
+
+// TestLoadDefaultTarget: without plan.target, the target is the rear of the
+// last configuration versus the reference (campaign-format.md, plan).
+func TestLoadDefaultTarget(t *testing.T) {
+	tests := []struct {
+		name  string
+		edits []edit
+		want  campaign.Target
+	}{
+		{"last versus the reference", []edit{remove("plan.target")}, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+		{"the last is the reference", []edit{remove("plan.target"), add("report", "reference_config", "wing")}, campaign.Target{Config: "wing", Axle: "rear"}},
+		{"given", nil, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			path := fixture(t)
+			apply(t, path, tt.edits...)
+			c, err := campaign.Load(path, campaign.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := c.Plan.Target
+			if got.Config != tt.want.Config || got.Axle != tt.want.Axle || got.Versus != tt.want.Versus {
+				t.Errorf("target = %+v, want %+v", got, tt.want)
+			}
+		})
 	}
 }

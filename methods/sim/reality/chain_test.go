@@ -10,18 +10,18 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/adapters"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/sim/reality"
 )
 
 // fuseDay loads, reduces and fuses a written campaign as the CLI does.
 func fuseDay(t *testing.T, dir string) *fuse.Result {
 	t.Helper()
-	c, err := methods.Load(filepath.Join(dir, reality.CampaignFile), methods.Options{HeadersOnly: true})
+	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{HeadersOnly: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := adapters.Reduce(c, adapters.Options{})
+	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -29,9 +29,9 @@ func fuseDay(t *testing.T, dir string) *fuse.Result {
 	for i, cf := range c.Configurations {
 		ids[i] = cf.ID
 	}
-	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence, Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh,
+	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence(), Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh,
 		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
-		Settings: fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == methods.SpeedLinear,
+		Settings: fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 			Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}})
 	if err != nil {
 		t.Fatal(err)

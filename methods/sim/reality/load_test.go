@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/sim/reality"
 )
 
@@ -56,7 +56,7 @@ func TestWrittenDayLoads(t *testing.T) {
 			if _, err := d.Write(dir, 7); err != nil {
 				t.Fatal(err)
 			}
-			c, err := methods.Load(filepath.Join(dir, reality.CampaignFile), methods.Options{})
+			c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -87,8 +87,8 @@ func TestV2KeysLoad(t *testing.T) {
 			t.Errorf("campaign lacks %q", key)
 		}
 	}
-	_, err = methods.Load(filepath.Join(dir, reality.CampaignFile), methods.Options{})
-	if err != nil && errors.Is(err, methods.ErrUnknownKey) {
+	_, err = campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{})
+	if err != nil && errors.Is(err, campaign.ErrUnknownKey) {
 		t.Skipf("the loader does not know the v2 keys yet: %v", err)
 	}
 	if err != nil {
