@@ -131,3 +131,35 @@ func TestProbe(t *testing.T) {
 		})
 	}
 }
+
+// TestGustShared: two sensors logged in one file name the same run-to-run
+// wind nuisances with the same prior, so fusion sees one deviation per
+// run; the nuisances are per run and each run has one.
+func TestGustShared(t *testing.T) {
+	c := simulate(t, 4, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
+	c.Air.GustSDMs = 1.5
+	rs, err := height.ReduceAll(c, []*campaign.RideHeightEntry{&c.Evidence.RideHeight[0], &c.Evidence.RideHeight[1]}, height.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	gusts := func(ev evidence.Evidence) map[string]evidence.Nuisance {
+		out := map[string]evidence.Nuisance{}
+		for _, n := range ev.Nuisances {
+			if strings.HasPrefix(n.Name, "gust/") {
+				out[n.Name] = n
+			}
+		}
+		return out
+	}
+	a, b := gusts(rs[0].Evidence), gusts(rs[1].Evidence)
+	// 2 configurations × 2 repeats × 3 speeds, each its own pass from a
+	// stop to a stop (methods/sim's plan): 12 runs.
+	if len(a) != 12 || len(b) != 12 {
+		t.Fatalf("%d and %d run nuisances, want 12 each", len(a), len(b))
+	}
+	for name, n := range a {
+		if m, ok := b[name]; !ok || m != n || !n.PerRun || n.SD <= 0 {
+			t.Errorf("run nuisance %q: %+v and %+v", name, n, m)
+		}
+	}
+}
