@@ -12,18 +12,6 @@ import (
 // equals 1 + k to first order.
 const ProbeName = "probe"
 
-// airspeedColumn returns the log's measured-airspeed column (q_pa,
-// airspeed_ms or airspeed_kmh, in that order of preference), or "".
-func airspeedColumn(l *campaign.LogSpec) string {
-	switch {
-	case l.QPa != "":
-		return l.QPa
-	case l.AirspeedMs != "":
-		return l.AirspeedMs
-	}
-	return l.AirspeedKmh
-}
-
 // airspeedQ converts a value x of the log's airspeed column to dynamic
 // pressure (Pa): q itself for q_pa, ½ρV² for a speed.
 func airspeedQ(l *campaign.LogSpec, x, rho float64) float64 {

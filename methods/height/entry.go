@@ -85,10 +85,6 @@ func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result,
 		only = c.Configurations[0].ID
 	}
 	rho := c.Density()
-	known := map[string]bool{}
-	for _, cf := range c.Configurations {
-		known[cf.ID] = true
-	}
 	var groups []*readGroup
 	byKey := map[[2]string]*readGroup{}
 	results := make([]*Result, len(es))
@@ -100,7 +96,7 @@ func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result,
 		res.Traces = make([][]TracePoint, len(e.Logs))
 		results[i] = res
 		for li := range e.Logs {
-			key := [2]string{c.Path(e.Logs[li].File), e.Logs[li].Time}
+			key := [2]string{c.Path(e.Logs[li].File), readKey(&e.Logs[li])}
 			g, ok := byKey[key]
 			if !ok {
 				g = &readGroup{path: key[0]}
@@ -108,7 +104,7 @@ func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result,
 				groups = append(groups, g)
 			}
 			p := newPass(e, li, res.Calibration, rho, only)
-			p.known = known
+			p.c = c
 			g.passes = append(g.passes, p)
 		}
 	}
@@ -227,4 +223,14 @@ func prepare(c *campaign.Campaign, e *campaign.RideHeightEntry) (*Result, error)
 		return nil, fmt.Errorf("%s: %w", e.ID, err)
 	}
 	return res, nil
+}
+
+// readKey tells which logs of one file can share a read: the same time
+// column, format and speed source.
+func readKey(l *campaign.LogSpec) string {
+	k := fmt.Sprintf("%s\x00%+v", l.Time, l.ReaderFormat())
+	if sf := l.SpeedFile; sf != nil {
+		k += fmt.Sprintf("\x00%s\x00%s\x00%s%s\x00%g", sf.File, sf.Time, sf.SpeedKmh, sf.SpeedMs, sf.OffsetS)
+	}
+	return k
 }

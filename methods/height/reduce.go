@@ -95,22 +95,17 @@ type pass struct {
 	keep    float64 // next trace time
 	prevT   float64
 	firstDT float64
-	configs map[string]string // interned configuration ids
-	known   map[string]bool   // the campaign's configuration ids
+	configs map[string]string  // interned configuration ids
+	c       *campaign.Campaign // checks the logged configuration ids; nil: none
 	err     error
 }
 
 func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
 	l := &e.Logs[li]
 	cols, ix := l.LogColumns()
-	airAt := -1
-	if name := airspeedColumn(l); name != "" {
-		airAt = len(cols)
-		cols = append(cols, logs.Column{Name: name})
-	}
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: airAt, rho: rho, segs: segs,
+	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), configs: map[string]string{}}
 }
@@ -133,15 +128,29 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 			p.at[k] = i
 		}
 	}
-	r, err := logs.NewReader(src, name, cols)
+	r, err := logs.NewReaderFormat(src, name, cols, ps[0].l.ReaderFormat())
 	if err != nil {
 		return nil, err
 	}
 	defer r.Close()
-	r.Increasing = ps[0].at[ps[0].ix.Time]
+	join, err := openSpeedFile(r, ps[0])
+	if err != nil {
+		return nil, err
+	}
+	if join != nil {
+		defer join.close()
+	}
 	for r.Next() {
+		speed := math.NaN() // km/h, from the speed file when there is one
+		if join != nil {
+			x, err := join.ip.Value()
+			if err != nil {
+				return nil, err
+			}
+			speed = join.toKmh(x)
+		}
 		for _, p := range ps {
-			p.row(r)
+			p.row(r, speed)
 			if p.err != nil {
 				return nil, p.err
 			}
@@ -156,15 +165,33 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 	return ps, nil
 }
 
-// row feeds the reader's current row to the pass.
-func (p *pass) row(r *logs.Reader) {
+// maxAverageLen bounds the moving average's window in samples, so that a
+// log with a tiny first time step cannot ask for a huge buffer.
+const maxAverageLen = 1 << 16
+
+// standstillKmh is how far below zero a logged speed may read before it is
+// an error: GPS speed at a standstill jitters around zero.
+const standstillKmh = 2.0
+
+// row feeds the reader's current row to the pass; joined is the speed
+// from a speed file (km/h), NaN when the log has its own speed column.
+func (p *pass) row(r *logs.Reader, joined float64) {
 	ix := p.ix
 	t := r.Float(p.at[ix.Time])
-	v := air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
+	v := joined
+	if ix.Speed >= 0 {
+		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
+		if v < -standstillKmh {
+			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Speed]), Field: p.l.SpeedColumn(),
+				Err: fmt.Errorf("%w: speed %g km/h is negative", campaign.ErrRange, v)}
+			return
+		}
+	}
+	v = math.Max(v, 0)
 	h := p.cal.MM(r.Float(p.at[ix.Signal]))
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
-		p.ma = NewMovingAverage(int(math.Round(p.e.FilterTauS / p.firstDT)))
+		p.ma = NewMovingAverage(int(math.Min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
 	}
 	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > math.Max(1, 10*p.firstDT)
 	p.prevT = t
@@ -177,10 +204,11 @@ func (p *pass) row(r *logs.Reader) {
 		id, ok := p.configs[string(b)]
 		if !ok {
 			id = string(b)
-			if p.known != nil && !p.known[id] {
-				p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Config]), Field: p.l.Config,
-					Err: fmt.Errorf("unknown configuration %q", id)}
-				return
+			if p.c != nil {
+				if err := p.c.RowConfig(id); err != nil {
+					p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Config]), Field: p.l.Config, Err: err}
+					return
+				}
 			}
 			p.configs[id] = id
 		}
@@ -197,9 +225,8 @@ func (p *pass) row(r *logs.Reader) {
 	}
 	if ix.Direction >= 0 {
 		d := r.Float(p.at[ix.Direction])
-		if d != 1 && d != -1 {
-			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Direction]), Field: p.l.Direction,
-				Err: fmt.Errorf("direction must be 1 or -1, got %g", d)}
+		if err := campaign.RowDirection(d); err != nil {
+			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Direction]), Field: p.l.Direction, Err: err}
 			return
 		}
 		dir = int(d)
@@ -317,9 +344,46 @@ func (f *finder) close() {
 	f.windows = append(f.windows, w)
 }
 
+// speedJoin reads speed from another device's file, joined to the log by
+// time.
+type speedJoin struct {
+	ip    *logs.Interp
+	file  *os.File
+	toKmh func(float64) float64
+}
+
+func (j *speedJoin) close() {
+	j.ip.Close()
+	j.file.Close()
+}
+
+// openSpeedFile opens the pass's speed file, if it has one, for the read r
+// of its log. Passes that share a read share the first pass's speed file.
+func openSpeedFile(r *logs.Reader, p *pass) (*speedJoin, error) {
+	sf := p.l.SpeedFile
+	if sf == nil {
+		return nil, nil
+	}
+	name := sf.File
+	if p.c != nil {
+		name = p.c.Path(sf.File)
+	}
+	f, err := campaign.OpenRegular(name)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
+	other, err := logs.NewReaderFormat(f, name, sf.SpeedFileColumns(), sf.ReaderFormat())
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	ip := logs.NewInterp(r, p.at[p.ix.Time], other, 0, 1, sf.OffsetS)
+	return &speedJoin{ip: ip, file: f, toKmh: func(x float64) float64 { return air.MsToKmh(sf.SpeedToMs(x)) }}, nil
+}
+
 // openLog opens a log and reports its size for progress.
 func openLog(name string) (*os.File, int64, error) {
-	f, err := os.Open(name)
+	f, err := campaign.OpenRegular(name)
 	if err != nil {
 		return nil, 0, fmt.Errorf("%s: %w", name, err)
 	}
