@@ -126,17 +126,6 @@ func sameOrEach(ps []string, chs []changeAt) string {
 	return join(each, " and ")
 }
 
-// join joins with commas and a final word ("a, b and c").
-func join(parts []string, last string) string {
-	switch len(parts) {
-	case 0:
-		return ""
-	case 1:
-		return parts[0]
-	}
-	return strings.Join(parts[:len(parts)-1], ", ") + last + parts[len(parts)-1]
-}
-
 // liftWord says a force in newtons as lift or downforce in the display
 // unit, with its interval.
 func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
@@ -188,17 +177,6 @@ func (r *reporter) otherWarnings() []string {
 		}
 	}
 	return out
-}
-
-// count is "1 entry", "3 entries", "2 measurement methods".
-func count(n int, noun string) string {
-	if n == 1 {
-		return "1 " + noun
-	}
-	if strings.HasSuffix(noun, "y") {
-		return fmt.Sprintf("%d %sies", n, strings.TrimSuffix(noun, "y"))
-	}
-	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 // recommendation is the plan's best repeat in one paragraph, and the

@@ -38,14 +38,23 @@ func PlanText(w io.Writer, pl *fuse.Plan, unit string) error {
 	return nil
 }
 
+// claimUnit is a claim's unit as the text prints it: a C_L·A ("m2" on the
+// command line and in the document) reads "m² (C_L·A)", a force its unit.
+func claimUnit(u string) string {
+	if t := unitText(u); t == "m²" {
+		return "m² (C_L·A)"
+	}
+	return u
+}
+
 // maxExplanations is how many explanations the text lists.
 const maxExplanations = 6
 
 // CrosscheckText writes a cross-check as readable text.
 func CrosscheckText(w io.Writer, cc *fuse.Crosscheck) {
 	c := cc.Claim
-	fmt.Fprintf(w, "claim: %s %s at %g km/h = %+.3g ± %.3g %s\n", c.Config, c.Axle, c.SpeedKmh, c.Value, c.SD, c.Unit)
-	fmt.Fprintf(w, "this campaign predicts %+.3g ± %.3g %s: z = %+.2f, two-sided p = %.3g\n\n", cc.Predictive.Mean, cc.Predictive.SD, cc.Predictive.Unit, cc.Z, cc.PValue)
+	fmt.Fprintf(w, "claim: %s %s at %g km/h = %+.3g ± %.3g %s\n", c.Config, c.Axle, c.SpeedKmh, c.Value, c.SD, claimUnit(c.Unit))
+	fmt.Fprintf(w, "this campaign predicts %+.3g ± %.3g %s: z = %+.2f, two-sided p = %.3g\n\n", cc.Predictive.Mean, cc.Predictive.SD, claimUnit(cc.Predictive.Unit), cc.Z, cc.PValue)
 	fmt.Fprintln(w, "what would have to be different, cheapest first (shift in prior standard deviations)")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	for i, e := range cc.Explanations {

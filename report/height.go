@@ -61,14 +61,14 @@ func (r *reporter) heightSection(h *height.Result) {
 	pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 100)
 	cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
 	stiff := fmt.Sprintf("heave stiffness %.1f N/mm from the %s ± %.1f %%", h.Stiffness.K, h.Stiffness.Source, 100*h.Stiffness.RelSD())
-	txt := fmt.Sprintf("%d steady windows from %d log(s); %s; %s.", len(h.Windows), len(e.Logs), cal, stiff)
+	txt := fmt.Sprintf("%s from %s; %s; %s.", count(len(h.Windows), "steady window"), count(len(e.Logs), "log"), cal, stiff)
 	if e.FrictionMm > 0 {
 		txt += fmt.Sprintf(" Suspension friction band ±%.2g mm.", e.FrictionMm)
 	}
 	if e.Sensor == campaign.SensorLaser {
 		txt += fmt.Sprintf(" Tyre growth prior %.2g ± %.2g mm at 100 km/h: a laser alone cannot tell growth from lift, so its absolute figures are loose and its differences between configurations sharp.", e.TyreGrowth.MmAt100kmh, e.TyreGrowth.SDMm)
 	}
-	txt += fmt.Sprintf(" It resolves about %.0f N (%.1f %s) of axle load at two standard deviations of one window.", h.Detect.ResolvableN, h.Detect.ResolvableN/r.unitN, r.in.Campaign.Report.ForceUnit)
+	txt += " It resolves about " + r.loadBoth(h.Detect.ResolvableN) + " of axle load at two standard deviations of one window."
 	pg.para(txt)
 	r.standaloneTable(e.ID)
 	fitted, _ := r.in.Fused.Standalone[e.ID].Fitted(e.ID)
@@ -180,10 +180,10 @@ func traceChart(r *height.Result) *plot.Plot {
 
 // heightReduced writes each ride-height entry's steady windows and its
 // detectability.
-func heightReduced(w io.Writer, r *methods.Reduced) {
+func heightReduced(w io.Writer, r *methods.Reduced, u forceUnit) {
 	for _, h := range methods.Details[*height.Result](r) {
 		e := h.Entry
-		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f%%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
+		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f %%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		fmt.Fprintln(tw, "  config\tdir\tspeed km/h\tq Pa\theight mm\tSE mm\tn_eff\ttime s")
 		for _, win := range h.Windows {
@@ -191,6 +191,6 @@ func heightReduced(w io.Writer, r *methods.Reduced) {
 		}
 		tw.Flush()
 		d := h.Detect
-		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.0f N at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, d.ResolvableN, d.ResolvableCLA100)
+		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.1f %s at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, u.of(d.ResolvableN), u.name, d.ResolvableCLA100)
 	}
 }

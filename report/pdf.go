@@ -131,6 +131,16 @@ func (r *reporter) configs() []string {
 // force formats an estimate in newtons in the display unit.
 func (r *reporter) force(e fuse.Estimate) string { return interval(e.Scale(1/r.unitN), 1) }
 
+// loadBoth writes a load in newtons and, when the display unit is another,
+// in it too: "12 N (1.2 kgf)".
+func (r *reporter) loadBoth(n float64) string {
+	unit := r.in.Campaign.Report.ForceUnit
+	if r.unitN == 1 {
+		return fmt.Sprintf("%.0f N", n)
+	}
+	return fmt.Sprintf("%.0f N (%.1f %s)", n, n/r.unitN, unit)
+}
+
 // cla formats a C_L·A estimate, m².
 func cla(e fuse.Estimate) string { return interval(e, 3) }
 

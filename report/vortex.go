@@ -40,8 +40,8 @@ func (r *reporter) vortexSections() {
 	for _, v := range methods.Details[*vortex.Result](r.in.Reduced) {
 		e := v.Entry
 		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 95)
-		pg.para(fmt.Sprintf("%d observations, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
-			len(v.Observations), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
+		pg.para(fmt.Sprintf("%s, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
+			upperFirst(count(len(v.Observations), "observation")), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
 		r.standaloneTable(e.ID)
 		pg.chart(vortexChart(v, r.in.Fused.Posterior, r.configs()), 55)
 	}
@@ -100,7 +100,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 }
 
 // vortexReduced writes each vortex entry's observations and what each says.
-func vortexReduced(w io.Writer, r *methods.Reduced) {
+func vortexReduced(w io.Writer, r *methods.Reduced, _ forceUnit) {
 	for _, v := range methods.Details[*vortex.Result](r) {
 		fmt.Fprintf(w, "%s: %s vortex, informs %s, misread %.2f\n", v.Entry.ID, v.Entry.Side, v.Entry.Informs, v.Entry.Misread)
 		for _, o := range v.Observations {
