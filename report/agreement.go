@@ -128,6 +128,7 @@ func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 // per configuration and axle, as horizontal bars.
 func agreementChart(rows []bar) *plot.Plot {
 	p := newPlot("what each method says, and the fused result", "axle lift coefficient × area (m²), central interval", "")
+	var d dropped
 	names := make([]string, len(rows))
 	for i, r := range rows {
 		names[len(rows)-1-i] = r.label
@@ -139,21 +140,28 @@ func agreementChart(rows []bar) *plot.Plot {
 		} else {
 			shape = hollow(shape)
 		}
-		seg, _ := plotter.NewLine(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}})
-		seg.LineStyle = draw.LineStyle{Color: col, Width: width}
-		if r.flagged {
-			seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
+		if seg := d.line(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}}); seg != nil {
+			seg.LineStyle = draw.LineStyle{Color: col, Width: width}
+			if r.flagged {
+				seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
+			}
+			p.Add(seg)
 		}
-		dot, _ := plotter.NewScatter(plotter.XYs{{X: r.est.Mean, Y: y}})
-		dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
-		p.Add(seg, dot)
+		if dot := d.scatter(plotter.XYs{{X: r.est.Mean, Y: y}}); dot != nil {
+			dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
+			p.Add(dot)
+		}
 	}
-	zero, _ := plotter.NewLine(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}})
-	zero.LineStyle = draw.LineStyle{Color: color.Gray{150}, Width: vg.Points(0.6), Dashes: []vg.Length{vg.Points(1), vg.Points(2)}}
-	p.Add(zero)
+	if zero := d.line(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}}); zero != nil {
+		zero.LineStyle = draw.LineStyle{Color: color.Gray{150}, Width: vg.Points(0.6), Dashes: []vg.Length{vg.Points(1), vg.Points(2)}}
+		p.Add(zero)
+	}
 	p.NominalY(names...)
 	p.Y.Tick.Label.Font.Size = 6.5
-	dx := 0.04 * (p.X.Max - p.X.Min)
-	p.X.Min, p.X.Max = p.X.Min-dx, p.X.Max+dx
+	if drawable(p) {
+		dx := 0.04 * (p.X.Max - p.X.Min)
+		p.X.Min, p.X.Max = p.X.Min-dx, p.X.Max+dx
+	}
+	d.note(p)
 	return p
 }

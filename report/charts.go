@@ -1,7 +1,9 @@
 package report
 
 import (
+	"fmt"
 	"image/color"
+	"math"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -70,6 +72,9 @@ func newPlot(title, x, y string) *plot.Plot {
 // above the data (or below it, for a legend at the bottom) left free for
 // the legend.
 func pad(p *plot.Plot, legend float64) {
+	if !drawable(p) || math.IsInf(p.X.Min, 0) || math.IsInf(p.Y.Min, 0) {
+		return // nothing to pad, or a chart page.chart leaves out
+	}
 	dx := 0.04 * (p.X.Max - p.X.Min)
 	if dx == 0 {
 		dx = 1
@@ -103,3 +108,25 @@ func hollow(g draw.GlyphDrawer) draw.GlyphDrawer {
 
 // grayOf is a grey of the given level (0 black, 255 white).
 func grayOf(l uint8) color.Color { return color.Gray{l} }
+
+// maxLegend is how many configurations a chart's legend names; a legend
+// of more would cover the chart. The rest are counted in one line.
+const maxLegend = 8
+
+// legendMore adds the line that counts the configurations a legend of
+// n leaves unnamed, if any.
+func legendMore(p *plot.Plot, n int) {
+	if n > maxLegend {
+		p.Legend.Add(fmt.Sprintf("and %d more, in the order of the configurations table", n-maxLegend))
+	}
+}
+
+// legendShare is the share of a chart's height kept free for a legend of
+// n configurations whose legend takes base with up to four lines.
+func legendShare(n int, base float64) float64 {
+	lines := min(n, maxLegend+1)
+	if lines <= 4 {
+		return base
+	}
+	return math.Min(0.6, base*float64(lines)/4)
+}

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"liftfuse/fuse"
@@ -20,7 +21,7 @@ func (r *reporter) cover() {
 	pg.flow("Aerodynamic development report — on-road lift and downforce", "", 9, 5, margin, pg.w)
 	pg.pdf.SetTextColor(0, 0, 0)
 	pg.pdf.Ln(1)
-	pg.flow(c.Campaign.Title, "B", 20, 9, margin, pg.w)
+	r.title()
 	pg.pdf.Ln(1)
 	line := fmt.Sprintf("Car: %s (%s body, wheelbase %.3g m). Test date: %s.", c.Vehicle.Label, c.Vehicle.Body, c.Vehicle.WheelbaseM, c.Campaign.Date)
 	if c.Campaign.Site != "" {
@@ -41,6 +42,20 @@ func (r *reporter) cover() {
 		pg.h2("What to do next", 15)
 		pg.para(rec)
 	}
+}
+
+// maxTitleLines is how many lines the title may take on page 1; a longer
+// title (the campaign allows 2000 characters) is shortened there and
+// given in full under Provenance.
+const maxTitleLines = 3
+
+// title sets the campaign's title on page 1, at most maxTitleLines lines.
+func (r *reporter) title() {
+	pg := r.pg
+	pg.font("B", 20)
+	lines, cut := pg.clamp(bind(r.in.Campaign.Campaign.Title), pg.w, 20, maxTitleLines)
+	pg.setLines(lines, 20, 9, margin)
+	r.titleCut = cut
 }
 
 // configurationsTable lists the configurations with the reference marked.
@@ -70,7 +85,7 @@ func (r *reporter) findings() []string {
 			continue
 		}
 		var parts []string
-		for _, v := range c.Report.SpeedsKmh {
+		for _, v := range proseSpeeds(c.Report.SpeedsKmh) {
 			s, ok := speedOf(cr, v)
 			if !ok {
 				continue
@@ -78,12 +93,12 @@ func (r *reporter) findings() []string {
 			parts = append(parts, fmt.Sprintf("%s at the front and %s at the rear at %g km/h", r.liftWord(s.N[0], unit), r.liftWord(s.N[1], unit), v))
 		}
 		if len(parts) > 0 {
-			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets).", cr.ID, join(parts, "; and "), r.level()))
+			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets%s).", cr.ID, join(parts, "; and "), r.level(), r.speedsShown()))
 		}
 	}
 	for _, d := range r.res.Deltas {
 		var chs []changeAt
-		for _, v := range c.Report.SpeedsKmh {
+		for _, v := range proseSpeeds(c.Report.SpeedsKmh) {
 			chs = append(chs, r.deltaAt(d, v))
 		}
 		var b strings.Builder
@@ -104,6 +119,42 @@ func (r *reporter) findings() []string {
 		out = append(out, b.String())
 	}
 	return out
+}
+
+// maxProseSpeeds is how many report speeds page 1's sentences speak of;
+// with more, they speak of the lowest, a middle and the highest, and the
+// tables under them give every one.
+const maxProseSpeeds = 4
+
+// proseSpeeds are the report speeds page 1's sentences speak of, in the
+// campaign's order: all of them up to maxProseSpeeds, else the lowest, the
+// median and the highest.
+func proseSpeeds(vs []float64) []float64 {
+	if len(vs) <= maxProseSpeeds {
+		return vs
+	}
+	sorted := slices.Clone(vs)
+	slices.Sort(sorted)
+	pick := map[float64]bool{sorted[0]: true, sorted[len(sorted)/2]: true, sorted[len(sorted)-1]: true}
+	var out []float64
+	for _, v := range vs {
+		if pick[v] {
+			out = append(out, v)
+			delete(pick, v)
+		}
+	}
+	return out
+}
+
+// speedsShown says, when page 1's sentences leave report speeds out, how
+// many they speak of and where the rest are.
+func (r *reporter) speedsShown() string {
+	vs := r.in.Campaign.Report.SpeedsKmh
+	n := len(proseSpeeds(vs))
+	if n == len(vs) {
+		return ""
+	}
+	return fmt.Sprintf("; %d of the %d report speeds, every one in the tables below", n, len(vs))
 }
 
 // sameOrEach is one probability when it is the same at every speed, or

@@ -9,3 +9,11 @@ func Findings(in Input) ([]string, error) {
 	}
 	return r.findings(), nil
 }
+
+// PDFUncompressed renders the report with its streams left uncompressed,
+// so that a test can read the drawing operators.
+func PDFUncompressed(in Input) ([]byte, error) {
+	compress = false
+	defer func() { compress = true }()
+	return PDF(in)
+}

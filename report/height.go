@@ -82,6 +82,7 @@ func (r *reporter) heightSection(h *height.Result) {
 // drifts that make the fitted values scatter about it averaged out.
 func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": ride height against dynamic pressure", "dynamic pressure q (Pa)", "height (mm)")
+	var d dropped
 	for ci, cfg := range configs {
 		var pts, fit plotter.XYs
 		var errs plotter.YErrors
@@ -95,15 +96,16 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 				fit = append(fit, plotter.XY{X: w.Q, Y: fitted[i]})
 			}
 		}
-		if len(pts) == 0 {
+		pts, errs = d.keepBars(pts, errs)
+		s := d.scatter(pts)
+		if s == nil {
 			continue
 		}
 		col, shape := styleOf(ci)
-		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: shape}
 		eb := &plotter.YErrorBars{XYs: pts, YErrors: errs, LineStyle: draw.LineStyle{Color: col, Width: vg.Points(0.5)}, CapWidth: vg.Points(3)}
 		p.Add(eb, s)
-		if l := trendLine(fit); l != nil {
+		if l := trendLine(d.keep(fit)); l != nil {
 			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
 			p.Add(l)
 			p.Legend.Add(cfg+": windows ± SE, line: fit", s, l)
@@ -112,11 +114,13 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 		}
 	}
 	pad(p, 0.2)
+	d.note(p)
 	return p
 }
 
-// trendLine is the least-squares straight line through points, drawn
-// across their x range, or nil for fewer than two distinct x.
+// trendLine is the least-squares straight line through chartable points,
+// drawn across their x range, or nil for fewer than two distinct x or a
+// line that cannot be drawn.
 func trendLine(pts plotter.XYs) *plotter.Line {
 	n := float64(len(pts))
 	var sx, sy, sxx, sxy float64
@@ -126,13 +130,14 @@ func trendLine(pts plotter.XYs) *plotter.Line {
 		lo, hi = math.Min(lo, p.X), math.Max(hi, p.X)
 	}
 	den := n*sxx - sx*sx
-	if len(pts) < 2 || den <= 0 || hi <= lo {
+	if len(pts) < 2 || !(den > 0) || !(hi > lo) {
 		return nil
 	}
 	b := (n*sxy - sx*sy) / den
 	a := (sy - b*sx) / n
-	l, err := plotter.NewLine(plotter.XYs{{X: lo, Y: a + b*lo}, {X: hi, Y: a + b*hi}})
-	if err != nil {
+	var d dropped
+	l := d.line(plotter.XYs{{X: lo, Y: a + b*lo}, {X: hi, Y: a + b*hi}})
+	if d > 0 {
 		return nil
 	}
 	return l
@@ -151,6 +156,9 @@ func traceChart(r *height.Result) *plot.Plot {
 			best = w
 		}
 	}
+	if best.Log < 0 || best.Log >= len(r.Traces) {
+		return p
+	}
 	from, to := best.From-20, best.To+20
 	var raw, lp, ma plotter.XYs
 	for _, t := range r.Traces[best.Log] {
@@ -161,20 +169,24 @@ func traceChart(r *height.Result) *plot.Plot {
 		lp = append(lp, plotter.XY{X: t.T, Y: t.LowPass})
 		ma = append(ma, plotter.XY{X: t.T, Y: t.MovingAverage})
 	}
-	if len(raw) < 2 {
-		return p
+	var d dropped
+	for _, s := range []struct {
+		pts   plotter.XYs
+		label string
+		style draw.LineStyle
+	}{
+		{raw, "raw samples", draw.LineStyle{Color: color.Gray{190}, Width: vg.Points(0.5)}},
+		{lp, "first-order low-pass", draw.LineStyle{Color: color.Gray{0}, Width: vg.Points(1)}},
+		{ma, "moving average", draw.LineStyle{Color: color.Gray{90}, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+	} {
+		if l := d.line(s.pts); l != nil {
+			l.LineStyle = s.style
+			p.Add(l)
+			p.Legend.Add(s.label, l)
+		}
 	}
-	lr, _ := plotter.NewLine(raw)
-	lr.LineStyle = draw.LineStyle{Color: color.Gray{190}, Width: vg.Points(0.5)}
-	ll, _ := plotter.NewLine(lp)
-	ll.LineStyle = draw.LineStyle{Color: color.Gray{0}, Width: vg.Points(1)}
-	lm, _ := plotter.NewLine(ma)
-	lm.LineStyle = draw.LineStyle{Color: color.Gray{90}, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}
-	p.Add(lr, ll, lm)
-	p.Legend.Add("raw samples", lr)
-	p.Legend.Add("first-order low-pass", ll)
-	p.Legend.Add("moving average", lm)
 	pad(p, 0.3)
+	d.note(p)
 	return p
 }
 

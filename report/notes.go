@@ -90,6 +90,9 @@ func (r *reporter) provenance() {
 	for i, f := range c.Files {
 		rows = append(rows, []string{fmt.Sprintf("input %d", i+1), f})
 	}
+	if r.titleCut {
+		rows = append([][]string{{"title", c.Campaign.Title}}, rows...)
+	}
 	pg.table([]column{{"item", 1, "L"}, {"value", 4, "L"}}, rows)
 	if len(r.res.Warnings) > 0 {
 		pg.h2("Warnings", 15)

@@ -72,6 +72,10 @@ func PDF(in Input) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
+// compress turns on the compression of the PDF's streams; the tests turn
+// it off to read the page content.
+var compress = true
+
 // newDocument sets up the PDF: dated by the test, not the clock, with the
 // Go fonts embedded and a footer of title and page number on every page.
 func newDocument(paper string, date time.Time, title, version string) *page {
@@ -79,7 +83,7 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 	pdf.SetCreationDate(date)
 	pdf.SetModificationDate(date)
 	pdf.SetCatalogSort(true)
-	pdf.SetCompression(true)
+	pdf.SetCompression(compress)
 	pdf.SetProducer("liftfuse "+version, true)
 	pdf.SetCreator("liftfuse "+version, true)
 	pdf.SetTitle(title, true)
@@ -89,12 +93,15 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 	pdf.AliasNbPages("{nb}")
 	w, _ := pdf.GetPageSize()
 	pg := &page{pdf: pdf, w: w - 2*margin}
+	pg.font("", 7.5)
+	short, _ := pg.clamp(title, pg.w/2-2, 7.5, 1)
+	footer := plain(short[0])
 	pdf.SetFooterFunc(func() {
 		_, h := pdf.GetPageSize()
 		pdf.SetY(h - margin + 4)
 		pg.font("", 7.5)
 		pdf.SetTextColor(grey, grey, grey)
-		pdf.CellFormat(pg.w/2, 4, title, "", 0, "L", false, 0, "")
+		pdf.CellFormat(pg.w/2, 4, footer, "", 0, "L", false, 0, "")
 		pdf.CellFormat(pg.w/2, 4, fmt.Sprintf("page %d of {nb}", pdf.PageNo()), "", 0, "R", false, 0, "")
 		pdf.SetTextColor(0, 0, 0)
 	})
@@ -118,6 +125,9 @@ type reporter struct {
 	pg    *page
 	res   *fuse.Result
 	unitN float64 // newtons per display unit
+	// titleCut is set when page 1 shortened the title; Provenance then
+	// gives it in full.
+	titleCut bool
 }
 
 func (r *reporter) configs() []string {

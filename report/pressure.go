@@ -75,6 +75,7 @@ func uncoveredCarry(n int) string {
 // one marker shape per configuration.
 func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": pressure coefficient along the car", "x from the front axle, rearward (m)", "Cp")
+	var d dropped
 	for ci, cfg := range configs {
 		for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 			var pts plotter.XYs
@@ -88,23 +89,27 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 					}
 				}
 			}
-			if len(pts) == 0 {
+			s := d.scatter(pts)
+			if s == nil {
 				continue
 			}
 			col, shape := styleOf(ci)
-			s, _ := plotter.NewScatter(pts)
 			s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
 			if surface == campaign.SurfaceLower {
 				s.GlyphStyle.Shape = hollow(shape)
 			}
 			p.Add(s)
-			p.Legend.Add(cfg+", "+surface+" surface", s)
+			if ci < maxLegend {
+				p.Legend.Add(cfg+", "+surface+" surface", s)
+			}
 		}
 	}
 	p.Legend.Top = true
 	p.Legend.Left = true
 	p.Legend.XOffs = 0
-	pad(p, 0.32)
+	legendMore(p, len(configs))
+	pad(p, legendShare(2*min(len(configs), maxLegend), 0.32))
+	d.note(p)
 	return p
 }
 

@@ -62,6 +62,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 		}
 	}
 	lo, hi := math.Max(0, minV-20), maxV+20
+	var d dropped
 	for ci, cfg := range configs {
 		var pts plotter.XYs
 		for _, o := range r.Observations {
@@ -74,11 +75,11 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			}
 			pts = append(pts, plotter.XY{X: o.SpeedKmh + 3*(float64(ci)-float64(len(configs)-1)/2), Y: y})
 		}
-		if len(pts) == 0 {
+		s := d.scatter(pts)
+		if s == nil {
 			continue
 		}
 		col, shape := styleOf(ci)
-		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.5), Shape: shape}
 		var curve plotter.XYs
 		for k := range speedGrid + 1 {
@@ -86,10 +87,21 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			_, pDown := P.At(v, evidence.Term{Config: cfg, Axle: r.Entry.Informs, W: 1})
 			curve = append(curve, plotter.XY{X: v, Y: 1 - pDown})
 		}
-		l, _ := plotter.NewLine(curve)
-		l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
-		p.Add(s, l)
-		p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", s, l)
+		p.Add(s)
+		thumbs := []plot.Thumbnailer{s}
+		if l := d.line(curve); l != nil {
+			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
+			p.Add(l)
+			thumbs = append(thumbs, l)
+		}
+		if ci < maxLegend {
+			p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", thumbs...)
+		}
+	}
+	legendMore(p, len(configs))
+	d.note(p)
+	if !chartable(lo) || !chartable(hi) {
+		return p
 	}
 	p.X.Min, p.X.Max = lo, hi
 	p.X.Tick.Marker = plot.ConstantTicks(ticks)
