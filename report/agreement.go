@@ -3,7 +3,6 @@ package report
 import (
 	"fmt"
 	"image/color"
-	"math"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -23,8 +22,14 @@ func (r *reporter) agreement() {
 	pg.h1("Agreement between methods")
 	pg.para("Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5.")
 	if bars := r.agreementBars(); len(bars) > 0 {
-		pg.chart(agreementChart(bars), math.Min(30+4.2*float64(len(bars)), 200))
-		pg.note("Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table.")
+		for _, part := range barGroups(bars, maxBars) {
+			pg.chart(agreementChart(part), 30+4.2*float64(len(part)))
+		}
+		note := "Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table."
+		if n := len(r.configs()); n > maxCharted {
+			note += fmt.Sprintf(" The chart shows the first %d of the %d configurations.", maxCharted, n)
+		}
+		pg.note(note)
 	}
 	r.agreementTable()
 	for _, m := range r.res.Methods {
@@ -43,6 +48,32 @@ type bar struct {
 	flagged bool
 }
 
+// maxBars is how many intervals one agreement chart holds: 30 mm of
+// frame and 4.2 mm a bar make 198 mm, what a page takes under a heading.
+const maxBars = 40
+
+// barGroups cuts the bars into charts of at most max bars, keeping each
+// configuration-and-axle group (its fused bar and its entries) in one
+// chart unless the group alone is longer.
+func barGroups(bars []bar, n int) [][]bar {
+	var out [][]bar
+	start := 0
+	for start < len(bars) {
+		end := min(start+n, len(bars))
+		if end < len(bars) {
+			for k := end; k > start+1; k-- {
+				if bars[k].fused { // bars[k] starts a group: cut before it
+					end = k
+					break
+				}
+			}
+		}
+		out = append(out, bars[start:end])
+		start = end
+	}
+	return out
+}
+
 // agreementBars lists, per configuration and axle, the fused interval
 // followed by each entry's own; sign-only entries are left out.
 func (r *reporter) agreementBars() []bar {
@@ -54,7 +85,8 @@ func (r *reporter) agreementBars() []bar {
 		mr, _ := reportOf(m.Kind)
 		signOnly[m.ID] = mr.signOnly
 	}
-	for ci, cfg := range r.configs() {
+	cfgs := r.configs()
+	for ci, cfg := range cfgs[:charted(len(cfgs))] {
 		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
 			var entries []bar
 			for _, m := range r.res.Methods {

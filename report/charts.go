@@ -109,24 +109,36 @@ func hollow(g draw.GlyphDrawer) draw.GlyphDrawer {
 // grayOf is a grey of the given level (0 black, 255 white).
 func grayOf(l uint8) color.Color { return color.Gray{l} }
 
-// maxLegend is how many configurations a chart's legend names; a legend
-// of more would cover the chart. The rest are counted in one line.
-const maxLegend = 8
+// maxCharted is how many configurations a chart shows: more would make
+// its curves and legend unreadable, and every configuration is in the
+// tables. Each chart shows the first ones, in campaign order, and says so.
+const maxCharted = 8
 
-// legendMore adds the line that counts the configurations a legend of
-// n leaves unnamed, if any.
-func legendMore(p *plot.Plot, n int) {
-	if n > maxLegend {
-		p.Legend.Add(fmt.Sprintf("and %d more, in the order of the configurations table", n-maxLegend))
+// charted is how many of n configurations a chart shows.
+func charted(n int) int { return min(n, maxCharted) }
+
+// chartedNote says in a chart's legend that it shows only the first
+// configurations, when it does.
+func chartedNote(p *plot.Plot, n int) {
+	if n > maxCharted {
+		p.Legend.Add(fmt.Sprintf("the first %d of %d configurations; all are in the tables", maxCharted, n))
 	}
 }
 
+// moreLine is the legend line chartedNote adds for n configurations: one
+// or none.
+func moreLine(n int) int {
+	if n > maxCharted {
+		return 1
+	}
+	return 0
+}
+
 // legendShare is the share of a chart's height kept free for a legend of
-// n configurations whose legend takes base with up to four lines.
+// n lines whose legend takes base with up to four lines.
 func legendShare(n int, base float64) float64 {
-	lines := min(n, maxLegend+1)
-	if lines <= 4 {
+	if n <= 4 {
 		return base
 	}
-	return math.Min(0.6, base*float64(lines)/4)
+	return math.Min(0.6, base*float64(n)/4)
 }

@@ -96,7 +96,11 @@ func (r *reporter) findings() []string {
 			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets%s).", cr.ID, join(parts, "; and "), r.level(), r.speedsShown()))
 		}
 	}
-	for _, d := range r.res.Deltas {
+	for i, d := range r.res.Deltas {
+		if i == maxProseChanges {
+			out = append(out, fmt.Sprintf("The changes of the other %s are in the table below.", count(len(r.res.Deltas)-i, "configuration")))
+			break
+		}
 		var chs []changeAt
 		for _, v := range proseSpeeds(c.Report.SpeedsKmh) {
 			chs = append(chs, r.deltaAt(d, v))
@@ -120,6 +124,10 @@ func (r *reporter) findings() []string {
 	}
 	return out
 }
+
+// maxProseChanges is how many configurations' changes page 1 says in
+// sentences; the table under them gives every one.
+const maxProseChanges = 6
 
 // maxProseSpeeds is how many report speeds page 1's sentences speak of;
 // with more, they speak of the lowest, a middle and the highest, and the

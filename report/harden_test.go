@@ -1,8 +1,10 @@
 package report_test
 
 import (
+	"fmt"
 	"math"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -149,5 +151,70 @@ func checkTitle(t *testing.T, in report.Input, text string) {
 	flat := strings.Join(strings.Fields(text), "")
 	if !strings.Contains(flat, strings.Join(strings.Fields(in.Campaign.Campaign.Title), "")) {
 		t.Error("the full title is nowhere in the report")
+	}
+}
+
+// manyConfigs widens the demo's result to n configurations for layout
+// tests: the demo's two and n−2 variants, each a copy of one of them under
+// a new name (in the result, its deltas and every entry's standalone
+// figures). Fusing 200 configurations takes minutes; laying them out must
+// not. The fused posterior knows only the demo's two, so the variants'
+// curves read zero.
+func manyConfigs(in report.Input, n int) report.Input {
+	c, res := in.Campaign, in.Fused.Result
+	base := slices.Clone(res.Configs)
+	delta := res.Deltas[0]
+	for i := len(c.Configurations); i < n; i++ {
+		id := fmt.Sprintf("variant-%03d", i)
+		c.Configurations = append(c.Configurations, campaign.Configuration{ID: id, Note: "a variant of " + base[i%2].ID})
+		cr := base[i%2]
+		cr.ID = id
+		res.Configs = append(res.Configs, cr)
+		d := delta
+		d.Config = id
+		res.Deltas = append(res.Deltas, d)
+		for m := range res.Methods {
+			for _, s := range slices.Clone(res.Methods[m].Standalone) {
+				if s.Config == base[i%2].ID {
+					s.Config = id
+					res.Methods[m].Standalone = append(res.Methods[m].Standalone, s)
+				}
+			}
+		}
+	}
+	return in
+}
+
+// TestReportManyConfigurations (issue 16): 200 configurations (the most the
+// campaign takes) lay out: each chart shows the first eight and says so,
+// page 1 says the first six changes in words and counts the rest, and
+// every configuration is in the speed table. The time it takes is
+// BenchmarkReportManyConfigurations's, not asserted here.
+func TestReportManyConfigurations(t *testing.T) {
+	if testing.Short() {
+		t.Skip("lays out about 100 pages")
+	}
+	in := manyConfigs(demoInput(t, nil), 200)
+	text := pdfText(t, mustPDF(t, in))
+	flat := strings.Join(strings.Fields(text), " ")
+	for _, want := range []string{"the first 8 of 200 configurations; all are in the tables", "The changes of the other 193 configurations are in the table below.",
+		"The chart shows the first 8 of the 200 configurations.", "variant-199"} {
+		if !strings.Contains(flat, want) {
+			t.Errorf("no %q", want)
+		}
+	}
+	if n := strings.Count(flat, "variant-150 "); n < 3 {
+		t.Errorf("variant-150 appears %d times; want it in the configurations, speed and change tables", n)
+	}
+}
+
+// BenchmarkReportManyConfigurations: the PDF of 200 configurations (the
+// fusion is done once, outside the timer).
+func BenchmarkReportManyConfigurations(b *testing.B) {
+	in := manyConfigs(demoInput(b, nil), 200)
+	for b.Loop() {
+		if _, err := report.PDF(in); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

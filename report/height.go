@@ -83,7 +83,8 @@ func (r *reporter) heightSection(h *height.Result) {
 func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": ride height against dynamic pressure", "dynamic pressure q (Pa)", "height (mm)")
 	var d dropped
-	for ci, cfg := range configs {
+	shown := charted(len(configs))
+	for ci, cfg := range configs[:shown] {
 		var pts, fit plotter.XYs
 		var errs plotter.YErrors
 		for i, w := range r.Windows {
@@ -113,7 +114,8 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 			p.Legend.Add(cfg+": windows ± SE", s)
 		}
 	}
-	pad(p, 0.2)
+	chartedNote(p, len(configs))
+	pad(p, legendShare(shown+moreLine(len(configs)), 0.2))
 	d.note(p)
 	return p
 }

@@ -128,6 +128,8 @@ type reporter struct {
 	// titleCut is set when page 1 shortened the title; Provenance then
 	// gives it in full.
 	titleCut bool
+	// deltas caches deltaAt.
+	deltas map[deltaKey]changeAt
 }
 
 func (r *reporter) configs() []string {

@@ -76,7 +76,8 @@ func uncoveredCarry(n int) string {
 func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": pressure coefficient along the car", "x from the front axle, rearward (m)", "Cp")
 	var d dropped
-	for ci, cfg := range configs {
+	shown := charted(len(configs))
+	for ci, cfg := range configs[:shown] {
 		for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 			var pts plotter.XYs
 			for _, rd := range r.Readings {
@@ -99,16 +100,14 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 				s.GlyphStyle.Shape = hollow(shape)
 			}
 			p.Add(s)
-			if ci < maxLegend {
-				p.Legend.Add(cfg+", "+surface+" surface", s)
-			}
+			p.Legend.Add(cfg+", "+surface+" surface", s)
 		}
 	}
 	p.Legend.Top = true
 	p.Legend.Left = true
 	p.Legend.XOffs = 0
-	legendMore(p, len(configs))
-	pad(p, legendShare(2*min(len(configs), maxLegend), 0.32))
+	chartedNote(p, len(configs))
+	pad(p, legendShare(2*shown+moreLine(len(configs)), 0.32))
 	d.note(p)
 	return p
 }

@@ -73,7 +73,8 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 	p := newPlot(ax+" axle", "speed (km/h)", fmt.Sprintf("%s axle lift (%s)", ax, unit))
 	rho := r.res.Air.DensityKgM3
 	var d dropped
-	for ci, cr := range r.res.Configs {
+	shown := charted(len(r.res.Configs))
+	for ci, cr := range r.res.Configs[:shown] {
 		col, shape := styleOf(ci)
 		var mean, band plotter.XYs
 		var upper plotter.XYs
@@ -114,7 +115,7 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 			p.Add(eb, sc)
 			thumbs = append(thumbs, sc)
 		}
-		if len(thumbs) > 0 && ci < maxLegend {
+		if len(thumbs) > 0 {
 			p.Legend.Add(cr.ID, thumbs...)
 		}
 	}
@@ -122,8 +123,8 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 		zero.LineStyle = draw.LineStyle{Color: grayOf(120), Width: vg.Points(0.5)}
 		p.Add(zero)
 	}
-	legendMore(p, len(r.res.Configs))
-	pad(p, legendShare(len(r.res.Configs), 0.22))
+	chartedNote(p, len(r.res.Configs))
+	pad(p, legendShare(shown+moreLine(len(r.res.Configs)), 0.22))
 	d.note(p)
 	return p
 }

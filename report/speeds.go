@@ -60,6 +60,26 @@ type changeAt struct {
 // configurations have), read them here instead; with the constant speed
 // model this equals the delta's C_L·A times q(V) exactly.
 func (r *reporter) deltaAt(d fuse.DeltaResult, v float64) changeAt {
+	key := deltaKey{d.Config, d.Versus, v}
+	if ch, ok := r.deltas[key]; ok {
+		return ch
+	}
+	if r.deltas == nil {
+		r.deltas = map[deltaKey]changeAt{}
+	}
+	r.deltas[key] = r.computeDeltaAt(d, v)
+	return r.deltas[key]
+}
+
+// deltaKey names a change at a speed, for the reporter's cache: page 1's
+// sentences and its table read the same changes.
+type deltaKey struct {
+	config, versus string
+	speedKmh       float64
+}
+
+// computeDeltaAt is deltaAt without the cache.
+func (r *reporter) computeDeltaAt(d fuse.DeltaResult, v float64) changeAt {
 	q := air.DynamicPressure(r.res.Air.DensityKgM3, air.KmhToMs(v))
 	ch := changeAt{SpeedKmh: v}
 	for i, ax := range axles {

@@ -63,7 +63,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 	}
 	lo, hi := math.Max(0, minV-20), maxV+20
 	var d dropped
-	for ci, cfg := range configs {
+	for ci, cfg := range configs[:charted(len(configs))] {
 		var pts plotter.XYs
 		for _, o := range r.Observations {
 			if o.Config != cfg {
@@ -94,11 +94,9 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			p.Add(l)
 			thumbs = append(thumbs, l)
 		}
-		if ci < maxLegend {
-			p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", thumbs...)
-		}
+		p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", thumbs...)
 	}
-	legendMore(p, len(configs))
+	chartedNote(p, len(configs))
 	d.note(p)
 	if !chartable(lo) || !chartable(hi) {
 		return p
