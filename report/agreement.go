@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"image/color"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -20,7 +21,11 @@ import (
 func (r *reporter) agreement() {
 	pg := r.pg
 	pg.h1("Agreement between methods")
-	pg.para("Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5.")
+	intro := "Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5."
+	if h := headlineOf(r.res); h.known && h.robust {
+		intro += fmt.Sprintf(" The fused result here is the robust fusion's, with the errors of %s widened; the plain fusion's figures are in the result document (plain).", List(h.downWeighted))
+	}
+	pg.para(intro)
 	if bars := r.agreementBars(); len(bars) > 0 {
 		for _, part := range barGroups(bars, maxBars) {
 			pg.chart(agreementChart(part), 30+4.2*float64(len(part)))
@@ -32,6 +37,7 @@ func (r *reporter) agreement() {
 		pg.note(note)
 	}
 	r.agreementTable()
+	r.checksTable()
 	for _, m := range r.res.Methods {
 		if cc, ok := r.in.Explain[m.ID]; ok {
 			r.explain(m.ID, cc)
@@ -130,6 +136,23 @@ func (r *reporter) agreementTable() {
 		}
 	}
 	r.pg.table([]column{{"entry", 1.1, "L"}, {"kind", 1, "L"}, {"distance", 0.8, "R"}, {"p-value", 0.8, "R"}, {"P(off)", 0.7, "R"}, {"largest difference (m²)", 2, "L"}, {"", 0.9, "L"}}, rows)
+}
+
+// checksTable writes the model checks that tripped: where, what, how
+// sure, the likely cause and what to do. Nothing when none did.
+func (r *reporter) checksTable() {
+	cs := checksOf(r.res)
+	if len(cs) == 0 {
+		return
+	}
+	r.pg.h2("Model checks that tripped", 25)
+	r.pg.para("Each entry's data are also checked against what its own model assumes (heights linear in q, residuals of the windows, taps that read like a blocked or leaking line, plausible speeds and sizes). A check that trips does not change the figures; it says where to look.")
+	var rows [][]string
+	for _, c := range cs {
+		where := strings.Join(slices.DeleteFunc([]string{c.config, c.where}, func(s string) bool { return s == "" }), ", ")
+		rows = append(rows, []string{c.entry, where, checkName(c.check), fmt.Sprintf("%.2g", c.pValue), c.cause, c.action})
+	}
+	r.pg.table([]column{{"entry", 1, "L"}, {"where", 1.2, "L"}, {"check", 1.1, "L"}, {"p", 0.5, "R"}, {"likely cause", 1.6, "L"}, {"what to do", 1.6, "L"}}, rows)
 }
 
 // explain writes what could reconcile a flagged entry with the others: the

@@ -196,9 +196,11 @@ func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
 	return fmt.Sprintf("%.1f %s of %s (%+.1f to %+.1f)", math.Abs(e.Mean), unit, word, e.Lo, e.Hi)
 }
 
-// checks lists the entries that disagreed with the others and the
+// checks lists the entries that disagreed with the others, which fusion
+// the headline figures are, the model checks that tripped and the other
 // warnings of the run, or says that the methods agree.
 func (r *reporter) checks() []string {
+	h := headlineOf(r.res)
 	kinds := map[string]bool{}
 	var flagged []string
 	for _, m := range r.res.Methods {
@@ -208,7 +210,7 @@ func (r *reporter) checks() []string {
 			if w := a.Worst; w != nil {
 				s += fmt.Sprintf(", most on %s %s, by %+.3f m² of %s (%.1f sd)", w.Config, w.Axle, w.DiffM2, symCLA, w.Sigmas)
 			}
-			flagged = append(flagged, s+"; the fused figures down-weight it, see Agreement.")
+			flagged = append(flagged, s+"; "+h.flaggedEffect(m.ID))
 		}
 	}
 	var out []string
@@ -220,18 +222,28 @@ func (r *reporter) checks() []string {
 	default:
 		out = append(out, flagged...)
 	}
+	if s := h.robustNote(r.res.Deltas); s != "" {
+		out = append(out, s)
+	}
+	for _, c := range checksOf(r.res) {
+		out = append(out, "Model check: "+c.sentence())
+	}
 	for _, w := range r.otherWarnings() {
 		out = append(out, "Warning: "+w)
 	}
 	return out
 }
 
-// otherWarnings are the result's warnings other than the disagreements,
-// which checks already lists.
+// otherWarnings are the result's warnings other than the disagreements
+// and the model checks, which checks already says.
 func (r *reporter) otherWarnings() []string {
+	said := map[string]bool{}
+	for _, c := range checksOf(r.res) {
+		said[c.line] = true
+	}
 	var out []string
 	for _, w := range r.res.Warnings {
-		if !strings.Contains(w, "disagrees with the others") {
+		if !strings.Contains(w, "disagrees with the others") && !said[w] {
 			out = append(out, w)
 		}
 	}

@@ -70,6 +70,9 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 		}
 	}
 	tw.Flush()
+	if l := headlineOf(res).headlineLine(); l != "" {
+		fmt.Fprintf(w, "\n%s\n", l)
+	}
 	writeWarnings(w, res.Warnings)
 	if d := res.Diagnostics; d != nil {
 		fmt.Fprintf(w, "\nsampler: %s; %s, seed %d", d.Sampler, count(d.Draws, "draw"), d.Seed)
