@@ -44,7 +44,7 @@ func (r *reporter) pressureSection(p *pressure.Result) {
 	pg := r.pg
 	e := p.Entry
 	pg.h2(fmt.Sprintf("%s — pressure taps (%s, %s)", e.ID, e.Mode, count(len(p.Panels), "tap")), 70)
-	pg.para(fmt.Sprintf("Sensor noise %.3g Pa per tap, reference port ±%.3g Pa, integration scale ±%.0f %% for what a finite set of taps misses; %s a prior on their Cp. Pressure integration sees the vertical pressure force only: the pitch of drag is added as a modelled nuisance, and the figures are approximate.",
+	pg.para(fmt.Sprintf("Sensor noise %.3g Pa per tap, reference port ±%.3g Pa, integration scale ±%.0f %% for what a finite set of taps misses; %s. Pressure integration sees the vertical pressure force only: the pitch of drag is added as a modelled nuisance, and the figures are approximate.",
 		e.SensorSDPa, e.ReferenceSDPa, e.ModelSDPct, uncoveredCarry(len(e.Uncovered))))
 	var rows [][]string
 	for _, rd := range p.Readings {
@@ -59,16 +59,16 @@ func (r *reporter) pressureSection(p *pressure.Result) {
 	pg.chart(cpChart(p, r.configs()), 62)
 }
 
-// uncoveredCarry is "no uncovered patch carries", "1 uncovered patch
-// carries", "2 uncovered patches carry".
+// uncoveredCarry says how many uncovered patches carry a prior on their
+// Cp, in words.
 func uncoveredCarry(n int) string {
 	switch n {
 	case 0:
-		return "no uncovered patch carries"
+		return "no uncovered patch is declared"
 	case 1:
-		return "1 uncovered patch carries"
+		return "1 uncovered patch carries a prior on its Cp"
 	}
-	return count(n, "uncovered patch") + " carry"
+	return count(n, "uncovered patch") + " carry a prior on their Cp"
 }
 
 // cpChart: Cp of every tap along x, upper surface filled and lower hollow,
