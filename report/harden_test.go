@@ -218,3 +218,22 @@ func BenchmarkReportManyConfigurations(b *testing.B) {
 		}
 	}
 }
+
+// TestReportIncompleteInput: an input without its campaign, reduction or
+// fusion is an error, not a nil dereference.
+func TestReportIncompleteInput(t *testing.T) {
+	tests := []struct {
+		name string
+		in   report.Input
+	}{
+		{"empty", report.Input{}},
+		{"no fusion", report.Input{Campaign: &campaign.Campaign{}, Reduced: &methods.Reduced{}}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if _, err := report.PDF(tt.in); err == nil {
+				t.Error("no error")
+			}
+		})
+	}
+}

@@ -71,7 +71,10 @@ func (r *reporter) heightSection(h *height.Result) {
 	txt += " It resolves about " + r.loadBoth(h.Detect.ResolvableN) + " of axle load at two standard deviations of one window."
 	pg.para(txt)
 	r.standaloneTable(e.ID)
-	fitted, _ := r.in.Fused.Standalone[e.ID].Fitted(e.ID)
+	var fitted []float64
+	if alone := r.in.Fused.Standalone[e.ID]; alone != nil {
+		fitted, _ = alone.Fitted(e.ID)
+	}
 	pg.chart(heightChart(h, fitted, r.configs()), 62)
 	pg.chart(traceChart(h), 48)
 }

@@ -74,18 +74,17 @@ func (r *reporter) provenance() {
 	pg := r.pg
 	c := r.in.Campaign
 	pg.h2("Provenance", 45)
-	d := r.res.Diagnostics
 	rows := [][]string{
 		{"tool", "liftfuse " + r.in.Version},
 		{"campaign file", c.File},
 		{"inputs SHA-256", r.res.Campaign.SHA256},
 		{"air density", fmt.Sprintf("%.4f kg/m³ (%s; %g °C, %g hPa, %g %% RH, %g ppm CO₂)", r.res.Air.DensityKgM3, r.res.Air.Method, c.Air.TemperatureC, c.Air.PressureHPa, c.Air.HumidityPct, c.Air.CO2ppm)},
-		{"seed", fmt.Sprintf("%d", d.Seed)},
-		{"sampler", d.Sampler},
-		{"draws", fmt.Sprintf("%d", d.Draws)},
 	}
-	if d.RhatMax != nil {
-		rows = append(rows, []string{"convergence", fmt.Sprintf("rank-normalised split R-hat ≤ %.3f, bulk ESS ≥ %.0f (Vehtari et al. 2021)", *d.RhatMax, *d.ESSMin)})
+	if d := r.res.Diagnostics; d != nil {
+		rows = append(rows, []string{"seed", fmt.Sprintf("%d", d.Seed)}, []string{"sampler", d.Sampler}, []string{"draws", fmt.Sprintf("%d", d.Draws)})
+		if d.RhatMax != nil && d.ESSMin != nil {
+			rows = append(rows, []string{"convergence", fmt.Sprintf("rank-normalised split R-hat ≤ %.3f, bulk ESS ≥ %.0f (Vehtari et al. 2021)", *d.RhatMax, *d.ESSMin)})
+		}
 	}
 	for i, f := range c.Files {
 		rows = append(rows, []string{fmt.Sprintf("input %d", i+1), f})

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"slices"
 	"time"
@@ -42,12 +43,12 @@ func PDF(in Input) ([]byte, error) {
 	if !slices.Contains(Papers(), paper) {
 		return nil, fmt.Errorf("unknown paper %q (want A4 or Letter)", paper)
 	}
-	c := in.Campaign
-	date, err := time.Parse("2006-01-02", c.Campaign.Date)
+	r, err := newReporter(in)
 	if err != nil {
 		return nil, err
 	}
-	r, err := newReporter(in)
+	c := in.Campaign
+	date, err := time.Parse("2006-01-02", c.Campaign.Date)
 	if err != nil {
 		return nil, err
 	}
@@ -110,6 +111,9 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 
 // newReporter starts a reporter of the input, with no document yet.
 func newReporter(in Input) (*reporter, error) {
+	if in.Campaign == nil || in.Reduced == nil || in.Fused == nil || in.Fused.Result == nil || in.Fused.Posterior == nil {
+		return nil, errors.New("report: the input lacks the campaign, its reduction or its fusion")
+	}
 	r := &reporter{in: in, res: in.Fused.Result}
 	var err error
 	if r.unitN, err = air.NewtonsPer(in.Campaign.Report.ForceUnit); err != nil {

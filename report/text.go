@@ -76,7 +76,7 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 	writeWarnings(w, res.Warnings)
 	if d := res.Diagnostics; d != nil {
 		fmt.Fprintf(w, "\nsampler: %s; %s, seed %d", d.Sampler, count(d.Draws, "draw"), d.Seed)
-		if d.RhatMax != nil {
+		if d.RhatMax != nil && d.ESSMin != nil {
 			fmt.Fprintf(w, ", R̂ ≤ %.3f, bulk ESS ≥ %.0f", *d.RhatMax, *d.ESSMin)
 		}
 		fmt.Fprintln(w)
