@@ -106,9 +106,9 @@ func TestPlantedErrorIsFlagged(t *testing.T) {
 }
 
 // TestCleanCampaignsFalseFlags: with nothing planted, each entry's
-// agreement test is at the 5 % level (plus P(off) > ½), so over a few days
+// agreement test is at the 1 % level (plus P(off) > ½), so over a few days
 // only a few flags should appear; more than one in five is a miscalibrated
-// check.
+// check (TestCleanFalseAlarms holds the 1 % to account over 50 days).
 func TestCleanCampaignsFalseFlags(t *testing.T) {
 	days := 6
 	if testing.Short() {

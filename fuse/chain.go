@@ -21,11 +21,17 @@ type proposal struct {
 	mode  []float64
 	lower mat.TriDense // L
 	d, p  int
+	comps []component // the blocks of θ refreshed after every joint step
+	// ownSigns: every sign involves one component only
+	ownSigns bool
 }
 
 // newProposal builds the proposal around a Laplace fit.
 func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error) {
-	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin)}
+	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin), comps: m.components(), ownSigns: true}
+	for _, comps := range m.signComps {
+		pr.ownSigns = pr.ownSigns && len(comps) == 1
+	}
 	if pr.d > 0 {
 		sc := mat.NewSymDense(pr.d, nil)
 		sc.ScaleSym(tScale*tScale, cov)
@@ -40,8 +46,22 @@ func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error
 
 // chainState is one independence Metropolis–Hastings chain.
 type chainState struct {
-	rng  *rand.Rand
-	cond cond
+	rng *rand.Rand
+	// conds[cur] is the conditional posterior at the current φ, the other
+	// one that at the proposed φ (without φ, one conditioning serves all).
+	conds [2]cond
+	cur   int
+	ready bool
+	// layout-order buffers of the component steps
+	x, saved []float64
+	// zc are the standardised draws z of the current θ = m + L⁻ᵀz (layout
+	// order), zp those of the proposal
+	zc, zp []float64
+	// lp[k] is Σ log P(sign | θ) of component k's signs, valid when
+	// lpGen[k] equals accept (no joint step has moved θ since)
+	lp     []float64
+	lpGen  []int
+	lpProp []float64 // the proposal's sums, by component
 	// proposal buffers, swapped with theta and phi on acceptance
 	propTheta, propPhi, z []float64
 	lw                    float64 // log weight of the current state
@@ -60,14 +80,22 @@ func (pr *proposal) newChains() []*chainState {
 	chains := make([]*chainState, nChains)
 	for c := range chains {
 		chains[c] = &chainState{rng: rand.New(rand.NewPCG(pr.m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
-			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d))}
+			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d)), x: make([]float64, p), saved: make([]float64, p),
+			zc: make([]float64, p), zp: make([]float64, p)}
 	}
 	return chains
 }
 
 // propose draws φ from the Student-t proposal and θ from its conditional
 // Gaussian into the chain's proposal buffers, and returns the log
-// importance weight (−∞ where the conditioning fails)
+// importance weight (−∞ where the conditioning fails). In the coordinates
+// (φ, z) with θ = m(φ) + L(φ)⁻ᵀz, where the Gaussian part of the target is
+// N(z; 0, I), the step proposes φ and the shared nuisances' z afresh and
+// holds the components' z (which the component steps renew): a
+// Metropolis–Hastings update of (φ, z_S) given z_K, whose ratio is that of
+// the weights below. Holding z_K keeps each configuration's lift at the
+// same standardised place as φ moves, so the signs' probabilities, and
+// the acceptance, do not degrade as configurations multiply.
 //
 //	log w = log p(y | φ) + log p(φ) − log q(φ) + Σ_signs log P(sign | θ),
 //	log q(φ) = −½(ν + d)·log(1 + ‖z‖²/u)  (+ const).
@@ -95,24 +123,48 @@ func (pr *proposal) propose(ch *chainState) float64 {
 		}
 	}
 	logq := -0.5 * (tNu + float64(d)) * math.Log1p(maha/tNu)
-	c := &ch.cond
-	if err := m.condition(phi, c); err != nil {
-		return math.Inf(-1)
+	c := ch.proposed(d)
+	if !ch.ready || d > 0 {
+		if err := m.condition(phi, c); err != nil {
+			return math.Inf(-1)
+		}
+		ch.ready = d == 0
 	}
 	for i := range p {
-		z[i] = ch.rng.NormFloat64()
+		if ch.begun && m.lay.comp[i] >= 0 {
+			ch.zp[i] = ch.zc[i] // the components' standardised draws held
+		} else {
+			ch.zp[i] = ch.rng.NormFloat64()
+		}
 	}
+	copy(z, ch.zp)
 	c.draw(z[:p], theta)
 	lw := c.logML + m.logPhiPrior(phi) - logq
-	for si := range m.signs {
-		s := &m.signs[si]
-		lw += math.Log(math.Max(m.signProb(s, s.value(theta)), 1e-300))
+	if !pr.ownSigns {
+		return lw + m.signLogProb(m.allSigns, theta)
+	}
+	// Each sign in one component: sum by component, and keep the sums for
+	// the component steps should the proposal be accepted.
+	ch.lpProp = grow(ch.lpProp, len(pr.comps))
+	for k := range pr.comps {
+		ch.lpProp[k] = m.signLogProb(pr.comps[k].signs, theta)
+		lw += ch.lpProp[k]
 	}
 	return lw
 }
 
+// proposed returns the conditioning buffer of a proposal: the one not
+// holding the current state's, or the only one when there is no φ.
+func (ch *chainState) proposed(d int) *cond {
+	if d == 0 {
+		return &ch.conds[0]
+	}
+	return &ch.conds[1-ch.cur]
+}
+
 // step advances a chain by n proposals, accepting with probability
-// min(1, w'/w) (the first finite proposal always), and records its state
+// min(1, w'/w) (the first finite proposal always), refreshes each
+// component of θ given the rest (see component), and records the state
 // from the first acceptance on.
 func (pr *proposal) step(ch *chainState, n int) {
 	ch.draws = slices.Grow(ch.draws, n*pr.p)
@@ -124,10 +176,18 @@ func (pr *proposal) step(ch *chainState, n int) {
 			ch.phi, ch.propPhi = ch.propPhi, ch.phi
 			ch.theta, ch.propTheta = ch.propTheta, ch.theta
 			ch.lw, ch.begun = lw, true
+			ch.zc, ch.zp = ch.zp, ch.zc
 			ch.accept++
+			ch.keepSignSums(pr)
+			if pr.d > 0 {
+				ch.cur = 1 - ch.cur
+			}
 		}
 		if !ch.begun {
 			continue
+		}
+		for k := range pr.comps {
+			pr.refresh(ch, &pr.comps[k])
 		}
 		ch.draws = append(ch.draws, ch.theta...)
 		ch.phis = append(ch.phis, ch.phi...)

@@ -2,59 +2,64 @@ package fuse
 
 import "math"
 
-// A small dense Cholesky factorisation for the conditional posterior's
-// precision matrix (tens of parameters): Λ = L·Lᵀ with L lower triangular,
-// stored row-major in a p×p slice. Hand-written because the general
-// factorisation also estimates a condition number, which costs more than
-// the factorisation at this size and is not needed here.
+// A small envelope (profile) Cholesky factorisation for the conditional
+// posterior's precision matrix: Λ = L·Lᵀ with L lower triangular, stored
+// row-major in a p×p slice, in the order of the model's layout. Row i of
+// Λ, and of L, is zero left of first[i] (the envelope keeps the fill:
+// George & Liu 1981, ch. 4 — from memory), so each row is worked only from
+// there; with the arrowhead layout (see layout) the cost is linear in the
+// number of configurations. Hand-written because the general
+// factorisation also estimates a condition number and ignores the
+// envelope. Entries of l outside the envelope are never written nor read.
 
 // cholesky factorises the symmetric positive-definite a (row-major p×p, the
-// lower triangle read) into l. It reports false if a is not positive
-// definite.
-func cholesky(a, l []float64, p int) bool {
-	for j := range p {
-		s := a[j*p+j]
-		for k := range j {
-			s -= l[j*p+k] * l[j*p+k]
+// lower triangle read within the envelope) into l. It reports false if a
+// is not positive definite.
+func cholesky(a, l []float64, p int, first []int) bool {
+	for i := range p {
+		fi := first[i]
+		li := l[i*p : i*p+i+1]
+		for j := fi; j < i; j++ {
+			lj := l[j*p : j*p+j+1]
+			s := a[i*p+j]
+			for k := max(fi, first[j]); k < j; k++ {
+				s -= li[k] * lj[k]
+			}
+			li[j] = s / lj[j]
+		}
+		s := a[i*p+i]
+		for k := fi; k < i; k++ {
+			s -= li[k] * li[k]
 		}
 		if !(s > 0) {
 			return false
 		}
-		d := math.Sqrt(s)
-		l[j*p+j] = d
-		for i := j + 1; i < p; i++ {
-			s := a[i*p+j]
-			for k := range j {
-				s -= l[i*p+k] * l[j*p+k]
-			}
-			l[i*p+j] = s / d
-		}
-		for i := range j {
-			l[i*p+j] = 0
-		}
+		li[i] = math.Sqrt(s)
 	}
 	return true
 }
 
 // forward solves L·x = b in place.
-func forward(l, x []float64, p int) {
+func forward(l, x []float64, p int, first []int) {
 	for i := range p {
 		s := x[i]
-		for k := range i {
-			s -= l[i*p+k] * x[k]
+		li := l[i*p : i*p+i+1]
+		for k := first[i]; k < i; k++ {
+			s -= li[k] * x[k]
 		}
-		x[i] = s / l[i*p+i]
+		x[i] = s / li[i]
 	}
 }
 
-// backward solves Lᵀ·x = b in place.
-func backward(l, x []float64, p int) {
+// backward solves Lᵀ·x = b in place, column by column of L.
+func backward(l, x []float64, p int, first []int) {
 	for i := p - 1; i >= 0; i-- {
-		s := x[i]
-		for k := i + 1; k < p; k++ {
-			s -= l[k*p+i] * x[k]
+		li := l[i*p : i*p+i+1]
+		x[i] /= li[i]
+		xi := x[i]
+		for k := first[i]; k < i; k++ {
+			x[k] -= li[k] * xi
 		}
-		x[i] = s / l[i*p+i]
 	}
 }
 

@@ -37,38 +37,98 @@ type Predictive struct {
 
 // Explanation is how far one modelled error would have to move, in its own
 // prior standard deviations, to put the claim at the centre of the
-// predictive.
+// predictive, and where that would put it in physical units.
 type Explanation struct {
 	Nuisance  string  `json:"nuisance"`
 	Entry     string  `json:"entry"`
 	ShiftSD   float64 `json:"shift_sd"`
+	Value     float64 `json:"value"` // the error's value that would explain the claim, in Unit
+	Unit      string  `json:"unit"`  // "×" for a scale factor
 	Plausible bool    `json:"plausible"`
 	Note      string  `json:"note"`
 }
 
+// Verdicts of a cross-check.
+const (
+	// VerdictConsistent: the campaign agrees with the claim (p > 0.1); no
+	// explanation is needed or listed.
+	VerdictConsistent = "consistent"
+	// VerdictExplained: some single modelled error within its physical
+	// bounds and 4 prior sd would reconcile the claim.
+	VerdictExplained = "explained"
+	// VerdictUnexplained: no single modelled error explains it.
+	VerdictUnexplained = "unexplained"
+)
+
+// consistentP is the p-value above which a claim is called consistent
+// with the campaign (model.md, "Agreement and fault localisation").
+const consistentP = 0.1
+
 // Crosscheck is the cross-check document, format liftfuse.crosscheck/1.
 type Crosscheck struct {
-	Format       string        `json:"format"`
-	Claim        Claim         `json:"claim"`
-	Predictive   Predictive    `json:"predictive"`
-	Z            float64       `json:"z"`
-	PValue       float64       `json:"p_value"`
+	Format     string     `json:"format"`
+	Claim      Claim      `json:"claim"`
+	Predictive Predictive `json:"predictive"`
+	Z          float64    `json:"z"`
+	PValue     float64    `json:"p_value"`
+	// Verdict is VerdictConsistent, VerdictExplained or
+	// VerdictUnexplained; Summary says it in one line.
+	Verdict string `json:"verdict"`
+	Summary string `json:"summary"`
+	// Explanations are the plausible single errors (within physical
+	// bounds and 4 prior sd), cheapest first; empty when consistent.
 	Explanations []Explanation `json:"explanations"`
-	// Checks are things of the trade to look at when no modelled error
-	// plausibly explains the claim.
+	// Checks are things of the trade to look at, for the kinds of entry
+	// involved, when no modelled error plausibly (within 2 prior sd)
+	// explains the claim.
 	Checks []string `json:"checks,omitempty"`
+	// Headline and DownWeighted say which fusion the prediction is from
+	// (see Result.Headline); empty for a standalone posterior.
+	Headline     string   `json:"headline,omitempty"`
+	DownWeighted []string `json:"down_weighted,omitempty"`
 }
 
-// tradeChecks are what an engineer looks at when the numbers cannot be
-// reconciled by the modelled errors (common practice, no source).
-var tradeChecks = []string{
-	"speeds not matched between the A and B runs (compare the windows' speeds per configuration)",
-	"a sensor bracket or mount that flexes under load or vibration",
-	"a change of fuel load or driver between runs (static height moves)",
-	"a tyre pressure change (hot versus cold, a slow puncture)",
-	"a configuration change not logged, or logged on the wrong segment",
-	"a different ride height or rake set-up between the claim's test and this one",
-}
+// Physical bounds of a single explanation (model.md): an along-road wind
+// of at most 15 m/s (a strong gale, Beaufort 7 — from memory), a scale
+// factor within [0.5, 2], a shift of at most 4 prior sd, and a Cp within
+// [−3, 1.05] (above 1 is impossible outside stagnation; below −3 is beyond
+// any road car's surface — common practice, no source).
+const (
+	maxWindMs  = 15
+	minScale   = 0.5
+	maxScale   = 2
+	maxShiftSD = 4
+	minCp      = -3
+	maxCp      = 1.05
+)
+
+// tradeChecks are what an engineer looks at, by kind of entry, when the
+// numbers cannot be reconciled by the modelled errors (common practice,
+// no source); commonChecks apply whatever the kind.
+var (
+	tradeChecks = map[evidence.Kind][]string{
+		evidence.KindRideHeight: {
+			"a sensor's calibration gain wrong or copied from another sensor (re-check it against gauge blocks)",
+			"a sensor bracket or mount that flexes under load or vibration",
+			"a change of fuel load or driver between runs (static height moves)",
+			"a tyre pressure change (hot versus cold, a slow puncture)",
+		},
+		evidence.KindPressure: {
+			"a tap tube pinched, blocked or leaking (Cp near zero among non-zero neighbours, or changing with speed)",
+			"the reference port moved, or exposed to the car's own flow",
+			"taps zeroed with a fan or the engine running, or not zeroed at standstill",
+		},
+		evidence.KindVortex: {
+			"senses read in crossing traffic or a gust",
+			"a tuft or vane fouled or stuck",
+		},
+	}
+	commonChecks = []string{
+		"speeds not matched between the A and B runs (compare the windows' speeds per configuration)",
+		"a configuration change not logged, or logged on the wrong segment",
+		"a different ride height or rake set-up between the claim's test and this one",
+	}
+)
 
 // Crosscheck compares a claim with the campaign's posterior predictive and
 // asks each modelled error how far it would have to move to explain it.
@@ -85,14 +145,47 @@ var tradeChecks = []string{
 // so an error the data already pin down (small posterior covariance with
 // T) is an expensive explanation, as it should be. Scale factors are read
 // on their log scale, where their prior is normal.
+//
+// The prediction is the headline fusion's: the robust one when some entry
+// looks off (Result.Headline), which the document records.
 func (f *Fused) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
-	return f.Posterior.Crosscheck(cl, rho)
+	cc, err := f.Posterior.Crosscheck(cl, rho)
+	if err != nil {
+		return nil, err
+	}
+	if f.Result != nil {
+		cc.Headline, cc.DownWeighted = f.Result.Headline, f.Result.DownWeighted
+	}
+	return cc, nil
+}
+
+// sharedKeys names (by paramKey) the errors that more than one entry
+// declares.
+func (m *model) sharedKeys() map[string]bool {
+	out := map[string]bool{}
+	for i, lp := range m.lin {
+		if lp.kind == kindNuisance && len(lp.owners) > 1 {
+			out[m.paramKey(i)] = true
+		}
+	}
+	for j, ph := range m.phi {
+		if len(ph.owners) > 1 {
+			out[m.paramKey(len(m.lin)+j)] = true
+		}
+	}
+	return out
 }
 
 // Crosscheck is Fused.Crosscheck against any posterior: with an entry's
 // standalone posterior and the other entries' estimate as the claim, it asks
 // which of the entry's own errors would have to move to reach the others.
 func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
+	return P.crosscheck(cl, rho, nil)
+}
+
+// crosscheck is Crosscheck with the errors named in shared (by paramKey)
+// left out of the explanations.
+func (P *Posterior) crosscheck(cl Claim, rho float64, shared map[string]bool) (*Crosscheck, error) {
 	m := P.p.m
 	if _, ok := m.beta[[2]string{cl.Config, evidence.AxleFront}]; !ok {
 		return nil, fmt.Errorf("unknown configuration %q", cl.Config)
@@ -106,15 +199,41 @@ func (P *Posterior) Crosscheck(cl Claim, rho float64) (*Crosscheck, error) {
 	out := &Crosscheck{Format: CrosscheckFormat, Claim: cl, Predictive: Predictive{Mean: tm, SD: math.Sqrt(tv), Unit: cl.Unit}}
 	out.Z = (cl.Value - tm) / math.Sqrt(tv+cl.SD*cl.SD)
 	out.PValue = 2 * distuv.UnitNormal.CDF(-math.Abs(out.Z))
-	out.Explanations = m.explanations(cl.Value, T, vals)
+	out.Explanations = []Explanation{}
+	if out.PValue > consistentP {
+		out.Verdict = VerdictConsistent
+		out.Summary = fmt.Sprintf("consistent: the campaign agrees with the claim (p = %.2g)", out.PValue)
+		return out, nil
+	}
+	out.Explanations = m.explanations(cl.Value, T, vals, shared)
 	plausible := false
 	for _, e := range out.Explanations {
 		plausible = plausible || e.Plausible
 	}
-	if !plausible && math.Abs(out.Z) > 2 {
-		out.Checks = tradeChecks
+	if len(out.Explanations) == 0 {
+		out.Verdict, out.Summary = VerdictUnexplained, "no single modelled error explains it"
+	} else {
+		out.Verdict = VerdictExplained
+		out.Summary = fmt.Sprintf("the cheapest single explanation: %s (%+.1f prior sd)", out.Explanations[0].Note, out.Explanations[0].ShiftSD)
+	}
+	if !plausible {
+		out.Checks = m.tradeChecks()
 	}
 	return out, nil
+}
+
+// tradeChecks lists the trade's checks for the kinds of entry in the
+// model, then those common to every kind.
+func (m *model) tradeChecks() []string {
+	var out []string
+	seen := map[evidence.Kind]bool{}
+	for _, k := range m.kinds {
+		if !seen[k] {
+			seen[k] = true
+			out = append(out, tradeChecks[k]...)
+		}
+	}
+	return append(out, commonChecks...)
 }
 
 // claimFactor returns k with the claimed quantity T = k·β(V) in the
@@ -151,13 +270,26 @@ func (P *Posterior) claimDraws(w []entryRef) (T []float64, vals [][]float64) {
 	return T, vals
 }
 
+// errorTerm is one modelled error that might explain a claim: its prior
+// N(Mean, SD²) (on the log scale for a scale factor) and what it is.
+type errorTerm struct {
+	label, unit string
+	mean, sd    float64
+	logScale    bool // a scale factor: the value is exp of the parameter
+	wind        bool
+}
+
 // explanations asks every modelled error with a proper prior how far it
-// would have to move to explain the claimed value (see Crosscheck), the
+// would have to move to explain the claimed value (see Crosscheck) and
+// keeps the single errors that stay within their physical bounds, the
 // cheapest explanation first.
-func (m *model) explanations(claim float64, T []float64, vals [][]float64) []Explanation {
+func (m *model) explanations(claim float64, T []float64, vals [][]float64, skip map[string]bool) []Explanation {
 	out := []Explanation{}
-	add := func(i int, label, unit string, owners map[int]bool, priorMean, priorSD float64, logScale bool) {
-		if ex, ok := explain(claim, T, vals[i], label, unit, priorMean, priorSD, logScale); ok {
+	add := func(i int, et errorTerm, owners map[int]bool) {
+		if skip[m.paramKey(i)] {
+			return
+		}
+		if ex, ok := explain(claim, T, vals[i], et); ok {
 			ex.Entry = m.ownerNames(owners)
 			out = append(out, ex)
 		}
@@ -166,11 +298,11 @@ func (m *model) explanations(claim float64, T []float64, vals [][]float64) []Exp
 		if lp.kind != kindNuisance || lp.prec == 0 {
 			continue
 		}
-		add(i, lp.nuis.Label, lp.nuis.Unit, lp.owners, lp.nuis.Mean, lp.nuis.SD, false)
+		add(i, errorTerm{label: lp.nuis.Label, unit: lp.nuis.Unit, mean: lp.nuis.Mean, sd: lp.nuis.SD}, lp.owners)
 	}
 	p := len(m.lin)
 	for j, ph := range m.phi {
-		add(p+j, ph.label, ph.unit, ph.owners, 0, ph.sd, !ph.wind)
+		add(p+j, errorTerm{label: ph.label, unit: ph.unit, sd: ph.sd, logScale: !ph.wind, wind: ph.wind}, ph.owners)
 	}
 	sort.SliceStable(out, func(a, b int) bool { return math.Abs(out[a].ShiftSD) < math.Abs(out[b].ShiftSD) })
 	return out
@@ -178,10 +310,12 @@ func (m *model) explanations(claim float64, T []float64, vals [][]float64) []Exp
 
 // explain is one error's explanation of the claim from the draws of T and
 // of the error ν: shift = (claim − E[T|y])·σ / Cov(T, ν | y), plausible
-// within 2 prior sds. ok is false when ν has no prior spread or does not
-// move T.
-func explain(claim float64, T, nu []float64, label, unit string, priorMean, priorSD float64, logScale bool) (Explanation, bool) {
-	if len(nu) < 2 || priorSD <= 0 {
+// within 2 prior sds. ok is false when ν has no prior spread, does not move
+// T, or would have to leave its physical bounds (more than 4 prior sd, a
+// wind above 15 m/s, a scale factor outside [0.5, 2], a Cp outside
+// [−3, 1.05]).
+func explain(claim float64, T, nu []float64, et errorTerm) (Explanation, bool) {
+	if len(nu) < 2 || et.sd <= 0 {
 		return Explanation{}, false
 	}
 	tm, tv := meanVar(T)
@@ -190,15 +324,28 @@ func explain(claim float64, T, nu []float64, label, unit string, priorMean, prio
 	if vv <= 0 || math.Abs(c) < 1e-12*math.Sqrt(vv*tv) {
 		return Explanation{}, false
 	}
-	shift := (claim - tm) * priorSD / c
-	target := priorMean + shift*priorSD
-	ex := Explanation{Nuisance: label, ShiftSD: shift, Plausible: math.Abs(shift) <= 2}
-	if logScale {
-		ex.Note = fmt.Sprintf("the %s factor would have to be ×%.3g instead of ×1 (prior ±%.1f %%)", label, math.Exp(target), 100*priorSD)
-	} else {
-		ex.Note = strings.Replace(fmt.Sprintf("the %s would have to be %.3g %s instead of %.3g ± %.3g", label, target, unit, priorMean, priorSD), "  ", " ", 1)
+	shift := (claim - tm) * et.sd / c
+	target := et.mean + shift*et.sd
+	if !et.within(shift, target) {
+		return Explanation{}, false
 	}
-	return ex, true
+	return et.explanation("", shift, target), true
+}
+
+// within reports whether a shift of an error, in prior sd, and the value
+// it leads to stay within the physical bounds of a single explanation.
+func (et errorTerm) within(shift, target float64) bool {
+	switch {
+	case math.Abs(shift) > maxShiftSD || math.IsNaN(shift):
+		return false
+	case et.wind:
+		return math.Abs(target) <= maxWindMs
+	case et.logScale:
+		return math.Exp(target) >= minScale && math.Exp(target) <= maxScale
+	case strings.HasSuffix(et.label, "(Cp)"):
+		return target >= minCp && target <= maxCp
+	}
+	return true
 }
 
 // ownerNames lists the entries that share a parameter.

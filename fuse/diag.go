@@ -29,8 +29,11 @@ func splitChains(chains [][]float64) [][]float64 {
 // sampler diagnoses several quantities after every batch.
 type scratch struct {
 	vals, z, fz, folded []float64
-	keys, k2            []uint64
-	idx, i2, order      []int32
+	// scores[r−1] is the normal score of rank r among scoresN values
+	scores         []float64
+	scoresN        int
+	keys, k2       []uint64
+	idx, i2, order []int32
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -95,17 +98,31 @@ func (sc *scratch) argsort(vals []float64) []int32 {
 }
 
 // normalScores gives each value the normal score of its average rank,
-// given the values' ascending order, into *dst.
+// given the values' ascending order, into *dst. The scores of whole ranks
+// are tabulated once per number of values (every quantity of a diagnosis
+// has as many draws).
 func (sc *scratch) normalScores(vals []float64, idx []int32, dst *[]float64) []float64 {
 	S := float64(len(vals))
+	if sc.scoresN != len(vals) {
+		sc.scores = grow(sc.scores, len(vals))
+		for i := range sc.scores {
+			sc.scores[i] = distuv.UnitNormal.Quantile((float64(i+1) - 0.375) / (S + 0.25))
+		}
+		sc.scoresN = len(vals)
+	}
 	z := grow(*dst, len(vals))
 	for lo := 0; lo < len(idx); {
 		hi := lo
 		for hi+1 < len(idx) && vals[idx[hi+1]] == vals[idx[lo]] {
 			hi++
 		}
-		r := float64(lo+hi)/2 + 1
-		q := distuv.UnitNormal.Quantile((r - 0.375) / (S + 0.25))
+		var q float64
+		if (lo+hi)%2 == 0 {
+			q = sc.scores[(lo+hi)/2]
+		} else {
+			r := float64(lo+hi)/2 + 1
+			q = distuv.UnitNormal.Quantile((r - 0.375) / (S + 0.25))
+		}
 		for k := lo; k <= hi; k++ {
 			z[idx[k]] = q
 		}
@@ -324,4 +341,65 @@ func quantileSorted(x []float64, p float64) float64 {
 		return x[len(x)-1]
 	}
 	return x[i] + (h-lo)*(x[i+1]-x[i])
+}
+
+// quantileSelect is quantileSorted of x sorted, found by selecting the two
+// order statistics it interpolates between; x is reordered.
+func quantileSelect(x []float64, p float64) float64 {
+	if len(x) == 0 {
+		return math.NaN()
+	}
+	h := (float64(len(x)) - 1) * p
+	lo := math.Floor(h)
+	i := int(lo)
+	xi := selectKth(x, i)
+	if i+1 >= len(x) {
+		return xi
+	}
+	next := slices.Min(x[i+1:]) // after selection, the larger values
+	return xi + (h-lo)*(next-xi)
+}
+
+// selectKth reorders x so that x[k] is its k-th smallest value (0-based),
+// with nothing larger before it and nothing smaller after (Hoare's
+// selection, "FIND", CACM 4 (1961) 321 — from memory; median-of-three
+// pivots), and returns x[k]. x holds no NaN.
+func selectKth(x []float64, k int) float64 {
+	lo, hi := 0, len(x)-1
+	for hi > lo {
+		mid := lo + (hi-lo)/2
+		if x[mid] < x[lo] {
+			x[mid], x[lo] = x[lo], x[mid]
+		}
+		if x[hi] < x[lo] {
+			x[hi], x[lo] = x[lo], x[hi]
+		}
+		if x[hi] < x[mid] {
+			x[hi], x[mid] = x[mid], x[hi]
+		}
+		pivot := x[mid]
+		i, j := lo, hi
+		for i <= j {
+			for x[i] < pivot {
+				i++
+			}
+			for x[j] > pivot {
+				j--
+			}
+			if i <= j {
+				x[i], x[j] = x[j], x[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return x[k]
+		}
+	}
+	return x[k]
 }

@@ -17,34 +17,87 @@ import (
 //
 // where |Λ₀|₊ is the product of the proper prior precisions (flat priors
 // add the same constant to every φ).
+//
+// Λ is factorised in the order of the model's layout (see layout), so l,
+// lam and b are in that order; mean is in the order of the columns of θ.
 type cond struct {
-	l     []float64 // Cholesky factor of Λ, row-major lower triangle
+	l     []float64 // Cholesky factor of Λ, row-major lower triangle, layout order
 	p     int
+	lay   *layout
 	mean  []float64
 	logML float64
 
 	lam, b []float64 // buffers, reused between calls
+	fs     []float64 // s(φ) of the model's scale sets
 	a, x   []float64
 	xs     [][]entryRef
 }
 
+// toLayout writes a (in column order) into x in layout order.
+func (c *cond) toLayout(a, x []float64) {
+	for col, v := range a {
+		x[c.lay.pos[col]] = v
+	}
+}
+
 // solve returns Λ⁻¹a.
 func (c *cond) solve(a []float64) []float64 {
-	x := append([]float64(nil), a...)
-	forward(c.l, x, c.p)
-	backward(c.l, x, c.p)
-	return x
+	x := make([]float64, c.p)
+	c.toLayout(a, x)
+	forward(c.l, x, c.p, c.lay.first)
+	backward(c.l, x, c.p, c.lay.first)
+	out := make([]float64, c.p)
+	for i, v := range x {
+		out[c.lay.col[i]] = v
+	}
+	return out
 }
 
 // quad returns aᵀΛ⁻¹a = ‖L⁻¹a‖².
 func (c *cond) quad(a []float64) float64 {
-	x := append([]float64(nil), a...)
-	forward(c.l, x, c.p)
+	return c.quadInto(a, make([]float64, c.p))
+}
+
+// quadInto is quad with a buffer x of length p.
+func (c *cond) quadInto(a, x []float64) float64 {
+	c.toLayout(a, x)
+	forward(c.l, x, c.p, c.lay.first)
 	var s float64
 	for _, v := range x {
 		s += v * v
 	}
 	return s
+}
+
+// signVar returns aᵀΛ⁻¹a = ‖L⁻¹a‖² for a sign's weights a. They lie in one
+// component of the layout (or a few), so L⁻¹a is non-zero only on the
+// positions of the touched components and of the shared nuisances; the
+// rest are skipped.
+func (m *model) signVar(si int, c *cond) float64 {
+	s, lay, p, x, l := &m.signs[si], c.lay, c.p, c.x, c.l
+	spans := m.signSpans[si] // ascending, the shared positions last
+	for _, sp := range spans {
+		clear(x[sp[0]:sp[1]])
+	}
+	for _, t := range s.all {
+		x[lay.pos[t.col]] += t.v
+	}
+	var sum float64
+	for si, sp := range spans {
+		for i := sp[0]; i < sp[1]; i++ {
+			v := x[i]
+			li := l[i*p:]
+			for _, sq := range spans[:si+1] {
+				for q := max(lay.first[i], sq[0]); q < min(sq[1], i); q++ {
+					v -= li[q] * x[q]
+				}
+			}
+			v /= li[i]
+			x[i] = v
+			sum += v * v
+		}
+	}
+	return sum
 }
 
 // liftFactor returns the factors s(φ)·q(w) and q(w) of a row.
@@ -59,6 +112,17 @@ func (m *model) liftFactor(r *row, phi []float64) (float64, float64) {
 		q += r.a*w + r.c*w*w
 	}
 	return math.Exp(s) * q, q
+}
+
+// factorAt is liftFactor with the scale factors fs of the model's scale
+// sets at φ given.
+func (m *model) factorAt(r *row, phi, fs []float64) (float64, float64) {
+	q := r.q0
+	if r.wind >= 0 {
+		w := phi[r.wind]
+		q += r.a*w + r.c*w*w
+	}
+	return fs[r.scaleSet] * q, q
 }
 
 // inflation returns how much an entry-owned prior is widened: κ when every
@@ -120,23 +184,26 @@ func (m *model) priorTerms() *prior {
 // condition computes the conditional posterior at φ into c, reusing c's
 // buffers.
 func (m *model) condition(phi []float64, c *cond) error {
-	p := len(m.lin)
+	p, lay := len(m.lin), m.lay
 	if len(c.lam) != p*p {
 		c.lam, c.l = make([]float64, p*p), make([]float64, p*p)
 		c.b, c.mean = make([]float64, p), make([]float64, p)
 		c.p = p
 	}
+	c.lay = lay
 	lam, b := c.lam, c.b
 	clear(lam)
 	pr := m.priorTerms()
 	for i := range p {
-		lam[i*p+i] = pr.prec[i]
-		b[i] = pr.prec[i] * m.lin[i].mean
+		at := lay.pos[i]
+		lam[at*p+at] = pr.prec[i]
+		b[at] = pr.prec[i] * m.lin[i].mean
 	}
 	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
+	c.fs = m.scaleFactors(phi, c.fs)
 	// Diagonal blocks through their grouped sufficient statistics.
 	for gi := range m.groups {
-		yWy += m.groups[gi].accumulate(m, phi, lam, b, p)
+		yWy += m.groups[gi].accumulate(m, phi, c.fs, lam, b, p)
 	}
 	// Full blocks row by row.
 	for _, bi := range m.fullBlocks {
@@ -146,11 +213,11 @@ func (m *model) condition(phi []float64, c *cond) error {
 		for len(c.xs) < len(bl.rows) {
 			c.xs = append(c.xs, nil)
 		}
-		f, q := m.liftFactor(&m.rows[bl.rows[0]], phi)
+		f, q := m.factorAt(&m.rows[bl.rows[0]], phi, c.fs)
 		for i, ri := range bl.rows {
 			r := &m.rows[ri]
 			if i > 0 && !bl.uniform {
-				f, q = m.liftFactor(r, phi)
+				f, q = m.factorAt(r, phi, c.fs)
 			}
 			c.xs[i] = designAt(r, f, q, c.xs[i][:0])
 		}
@@ -160,29 +227,34 @@ func (m *model) condition(phi []float64, c *cond) error {
 				yj := m.rows[rj].y
 				yWy += wt * m.rows[ri].y * yj
 				for _, a := range c.xs[i] {
-					b[a.col] += wt * a.v * yj
+					at := lay.pos[a.col]
+					b[at] += wt * a.v * yj
 					for _, bb := range c.xs[j] {
-						lam[a.col*p+bb.col] += wt * a.v * bb.v
+						lam[at*p+lay.pos[bb.col]] += wt * a.v * bb.v
 					}
 				}
 			}
 		}
 	}
 	for i := range p {
-		for j := range i {
-			v := 0.5 * (lam[i*p+j] + lam[j*p+i])
-			lam[i*p+j], lam[j*p+i] = v, v
+		for j := lay.first[i]; j < i; j++ {
+			lam[i*p+j] = 0.5 * (lam[i*p+j] + lam[j*p+i])
 		}
 	}
-	if !cholesky(lam, c.l, p) {
+	if !cholesky(lam, c.l, p, lay.first) {
 		return m.unidentified(lam)
 	}
-	copy(c.mean, b)
-	forward(c.l, c.mean, p)
-	backward(c.l, c.mean, p)
+	if len(c.x) != p {
+		c.a, c.x = make([]float64, p), make([]float64, p)
+	}
+	mp := c.x
+	copy(mp, b)
+	forward(c.l, mp, p, lay.first)
+	backward(c.l, mp, p, lay.first)
 	var bm float64
 	for i := range p {
-		bm += b[i] * c.mean[i]
+		bm += b[i] * mp[i]
+		c.mean[lay.col[i]] = mp[i]
 	}
 	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*bm - 0.5*logDetChol(c.l, p) + 0.5*logDetPrior -
 		0.5*logDetSigma - 0.5*float64(n)*math.Log(2*math.Pi)
@@ -214,7 +286,8 @@ func designAt(r *row, f, q float64, dst []entryRef) []entryRef {
 func (m *model) unidentified(lam []float64) error {
 	p := len(m.lin)
 	for i := range m.lin {
-		if lam[i*p+i] == 0 {
+		at := m.lay.pos[i]
+		if lam[at*p+at] == 0 {
 			return fmt.Errorf("fuse: %s is not identified by the evidence", m.linName(i))
 		}
 	}
@@ -222,10 +295,11 @@ func (m *model) unidentified(lam []float64) error {
 }
 
 // draw samples the linear parameters from the conditional posterior:
-// θ = m + L⁻ᵀz with Λ = L·Lᵀ, so Cov θ = L⁻ᵀL⁻¹ = Λ⁻¹. z is overwritten.
+// θ = m + L⁻ᵀz with Λ = L·Lᵀ (in layout order), so Cov θ = L⁻ᵀL⁻¹ = Λ⁻¹.
+// z is overwritten.
 func (c *cond) draw(z []float64, dst []float64) {
-	backward(c.l, z, c.p)
-	for i := range dst {
-		dst[i] = c.mean[i] + z[i]
+	backward(c.l, z, c.p, c.lay.first)
+	for col := range dst {
+		dst[col] = c.mean[col] + z[c.lay.pos[col]]
 	}
 }

@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 )
 
@@ -23,6 +24,7 @@ const (
 type gcol struct {
 	col  int
 	kind int
+	at   int // position of col in the model's layout
 }
 
 func (g gcol) qpow() int { return min(g.kind, 1) }
@@ -32,6 +34,7 @@ func (g gcol) fpow() int { return g.kind / 2 }
 type group struct {
 	entry  int
 	scales []phiRef
+	set    int // index of scales in the model's scaleSets
 	wind   int
 	cols   []gcol
 	lam    [][5]float64 // per pair j ≤ k: coefficients of w⁰…w⁴
@@ -66,16 +69,16 @@ func rowValues(r *row) ([]gcol, []float64) {
 	var cols []gcol
 	var vals []float64
 	for _, c := range r.lift {
-		cols, vals = append(cols, gcol{c.col, colLift}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colLift}), append(vals, c.v)
 	}
 	for _, c := range r.gamma {
-		cols, vals = append(cols, gcol{c.col, colLift}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colLift}), append(vals, c.v)
 	}
 	for _, c := range r.nuisPerQ {
-		cols, vals = append(cols, gcol{c.col, colPerQ}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colPerQ}), append(vals, c.v)
 	}
 	for _, c := range r.nuis {
-		cols, vals = append(cols, gcol{c.col, colFixed}), append(vals, c.v)
+		cols, vals = append(cols, gcol{col: c.col, kind: colFixed}), append(vals, c.v)
 	}
 	return cols, vals
 }
@@ -83,11 +86,14 @@ func rowValues(r *row) ([]gcol, []float64) {
 // buildGroups sorts the rows of diagonal blocks into groups and the other
 // blocks into fullBlocks.
 func (m *model) buildGroups() {
+	m.indexScaleSets()
 	index := map[string]int{}
 	for bi := range m.blocks {
 		bl := &m.blocks[bi]
 		if bl.diag == nil {
-			m.fullBlocks = append(m.fullBlocks, bi)
+			if !m.groupFullBlock(bl, index) {
+				m.fullBlocks = append(m.fullBlocks, bi)
+			}
 			continue
 		}
 		for i, ri := range bl.rows {
@@ -99,7 +105,7 @@ func (m *model) buildGroups() {
 				gi = len(m.groups)
 				index[key] = gi
 				nc := len(cols)
-				m.groups = append(m.groups, group{entry: bl.entry, scales: r.scales, wind: r.wind, cols: cols,
+				m.groups = append(m.groups, group{entry: bl.entry, scales: r.scales, set: r.scaleSet, wind: r.wind, cols: cols,
 					lam: make([][5]float64, nc*nc), b: make([][5]float64, nc)})
 			}
 			g := &m.groups[gi]
@@ -131,18 +137,152 @@ func (m *model) buildGroups() {
 			g.yWy += wt * r.y * r.y
 		}
 	}
+	m.buildLayout()
+	for gi := range m.groups {
+		for j := range m.groups[gi].cols {
+			c := &m.groups[gi].cols[j]
+			c.at = m.lay.pos[c.col]
+		}
+	}
 }
 
-// accumulate adds the group's contribution at φ to Λ and b and returns its
-// share of yᵀΣ⁻¹y.
-func (g *group) accumulate(m *model, phi, lam, b []float64, p int) float64 {
+// qPoly returns the coefficients in w of q(w)^pw for a row, pw ≤ 2.
+func qPoly(r *row, pw int) [5]float64 {
+	q := [3]float64{r.q0, r.a, r.c}
+	switch pw {
+	case 0:
+		return [5]float64{1}
+	case 1:
+		return [5]float64{q[0], q[1], q[2]}
+	}
+	return [5]float64{q[0] * q[0], 2 * q[0] * q[1], 2*q[0]*q[2] + q[1]*q[1], 2 * q[1] * q[2], q[2] * q[2]}
+}
+
+// polyMul returns the product of two polynomials in w of degrees whose sum
+// is at most 4.
+func polyMul(a, b [5]float64) [5]float64 {
+	var out [5]float64
+	for i, x := range a {
+		if x == 0 {
+			continue
+		}
+		for j := 0; i+j < 5; j++ {
+			out[i+j] += x * b[j]
+		}
+	}
+	return out
+}
+
+// groupFullBlock adds a block with a full error covariance to a group,
+// when its rows share their wind and scales: then every element of its
+// contribution Σ_ij P_ij x_i x_jᵀ is again a polynomial in w times a
+// power of F, the rows' columns taken together. It reports false for a
+// block whose rows differ in wind or scales (conditioned row by row).
+func (m *model) groupFullBlock(bl *block, index map[string]int) bool {
+	r0 := &m.rows[bl.rows[0]]
+	var cols []gcol
+	at := map[int]int{}
+	for _, ri := range bl.rows {
+		r := &m.rows[ri]
+		if r.wind != r0.wind || r.scaleSet != r0.scaleSet {
+			return false
+		}
+		rc, _ := rowValues(r)
+		for _, c := range rc {
+			if j, ok := at[c.col]; ok {
+				if cols[j].kind != c.kind {
+					return false
+				}
+				continue
+			}
+			at[c.col] = len(cols)
+			cols = append(cols, c)
+		}
+	}
+	var sig strings.Builder
+	fmt.Fprintf(&sig, "e%d|full|w%d|s%d|", bl.entry, r0.wind, r0.scaleSet)
+	for _, c := range cols {
+		fmt.Fprintf(&sig, "%d:%d,", c.col, c.kind)
+	}
+	gi, ok := index[sig.String()]
+	nc := len(cols)
+	if !ok {
+		gi = len(m.groups)
+		index[sig.String()] = gi
+		m.groups = append(m.groups, group{entry: bl.entry, scales: r0.scales, set: r0.scaleSet, wind: r0.wind, cols: cols,
+			lam: make([][5]float64, nc*nc), b: make([][5]float64, nc)})
+	}
+	m.addFullBlock(&m.groups[gi], bl, at)
+	return true
+}
+
+// addFullBlock adds Σ_ij P_ij x_i x_jᵀ, Σ_ij P_ij x_i y_j and Σ_ij P_ij y_i y_j
+// of a block to a group's coefficients; at maps a column of θ to its
+// index among the group's columns.
+func (m *model) addFullBlock(g *group, bl *block, at map[int]int) {
+	n, nc := len(bl.rows), len(g.cols)
+	vals := make([][]float64, n)
+	for i, ri := range bl.rows {
+		vals[i] = make([]float64, nc)
+		rc, rv := rowValues(&m.rows[ri])
+		for k, c := range rc {
+			vals[i][at[c.col]] += rv[k]
+		}
+	}
+	for i, ri := range bl.rows {
+		for j, rj := range bl.rows {
+			w := bl.precD[i*n+j]
+			yi, yj := m.rows[ri].y, m.rows[rj].y
+			g.yWy += w * yi * yj
+			for a, ca := range g.cols {
+				pa := qPoly(&m.rows[ri], ca.qpow())
+				for d := range 5 {
+					g.b[a][d] += w * vals[i][a] * yj * pa[d]
+				}
+				for b := a; b < nc; b++ {
+					pab := polyMul(pa, qPoly(&m.rows[rj], g.cols[b].qpow()))
+					for d := range 5 {
+						g.lam[a*nc+b][d] += w * vals[i][a] * vals[j][b] * pab[d]
+					}
+				}
+			}
+		}
+	}
+}
+
+// indexScaleSets numbers the distinct scales of the rows.
+func (m *model) indexScaleSets() {
+	m.scaleSets = m.scaleSets[:0]
+	for i := range m.rows {
+		r := &m.rows[i]
+		r.scaleSet = slices.IndexFunc(m.scaleSets, func(s []phiRef) bool { return slices.Equal(s, r.scales) })
+		if r.scaleSet < 0 {
+			r.scaleSet = len(m.scaleSets)
+			m.scaleSets = append(m.scaleSets, r.scales)
+		}
+	}
+}
+
+// scaleFactors returns s(φ) = exp(Σ pow·φ) of every scale set into dst.
+func (m *model) scaleFactors(phi, dst []float64) []float64 {
+	dst = dst[:0]
+	for _, set := range m.scaleSets {
+		var s float64
+		for _, sc := range set {
+			s += sc.pow * phi[sc.idx]
+		}
+		dst = append(dst, math.Exp(s))
+	}
+	return dst
+}
+
+// accumulate adds the group's contribution at φ to Λ and b (in layout
+// order) and returns its share of yᵀΣ⁻¹y; fs are the scale factors of the
+// model's scale sets at φ.
+func (g *group) accumulate(m *model, phi, fs, lam, b []float64, p int) float64 {
 	k := m.inflate[g.entry]
 	iw := 1 / (k * k)
-	var s float64
-	for _, sc := range g.scales {
-		s += sc.pow * phi[sc.idx]
-	}
-	F := math.Exp(s)
+	F := fs[g.set]
 	w := 0.0
 	if g.wind >= 0 {
 		w = phi[g.wind]
@@ -155,15 +295,15 @@ func (g *group) accumulate(m *model, phi, lam, b []float64, p int) float64 {
 		for d := range 5 {
 			v += g.b[j][d] * pw[d]
 		}
-		b[cj.col] += iw * fpow[cj.fpow()] * v
+		b[cj.at] += iw * fpow[cj.fpow()] * v
 		for kk := j; kk < nc; kk++ {
 			ck := g.cols[kk]
 			c := &g.lam[j*nc+kk]
 			v := c[0] + c[1]*pw[1] + c[2]*pw[2] + c[3]*pw[3] + c[4]*pw[4]
 			v *= iw * fpow[cj.fpow()+ck.fpow()]
-			lam[cj.col*p+ck.col] += v
+			lam[cj.at*p+ck.at] += v
 			if kk != j {
-				lam[ck.col*p+cj.col] += v
+				lam[ck.at*p+cj.at] += v
 			}
 		}
 	}

@@ -109,6 +109,7 @@ type row struct {
 	scales   []phiRef
 	nuis     []entryRef
 	nuisPerQ []entryRef // nuisances proportional to q: coefficient·q(w)/q0
+	scaleSet int        // index of its scales among the model's distinct sets
 	entry    int
 	label    string
 }
@@ -158,9 +159,19 @@ type data struct {
 	// other blocks, conditioned row by row.
 	groups     []group
 	fullBlocks []int
-	informed   map[string]bool   // configurations some evidence speaks of
-	beta       map[[2]string]int // (config, axle) → column of β
-	gamma      map[[2]string]int
+	lay        *layout // the order Λ is factorised in
+	// scaleSets are the distinct scales of the rows, so that a
+	// conditioning computes each s(φ) once
+	scaleSets [][]phiRef
+	signComps [][]int // per sign: the layout components of its columns
+	// per sign: the position ranges [lo, hi) of its components, then
+	// that of the shared nuisances
+	signSpans [][][2]int
+	compSigns [][]int           // per layout component: the signs that involve it
+	allSigns  []int             // 0 … len(signs)−1
+	informed  map[string]bool   // configurations some evidence speaks of
+	beta      map[[2]string]int // (config, axle) → column of β
+	gamma     map[[2]string]int
 }
 
 // undirected widens the error of observations whose travel direction was

@@ -70,6 +70,10 @@ type Plan struct {
 	Options       []PlanOption    `json:"options"`
 	Detectability []Detectability `json:"detectability"`
 	Discriminate  []Discriminator `json:"discriminate,omitempty"`
+	// Headline and DownWeighted say which fusion the plan starts from
+	// (see Result.Headline).
+	Headline     string   `json:"headline,omitempty"`
+	DownWeighted []string `json:"down_weighted,omitempty"`
 }
 
 // PlanRepeats ranks every entry by the variance of the target it would
@@ -91,11 +95,18 @@ type Plan struct {
 // copies. For a linear-Gaussian campaign this is exact (Chaloner &
 // Verdinelli, "Bayesian experimental design: a review", Statistical Science
 // 10 (1995) 273 — from memory, for the form of the expected information).
+//
+// Planning starts from the headline posterior: the robust fusion's when
+// some entry looks off, so that a repeat's worth is judged against figures
+// that entry does not drag.
 func (f *Fused) PlanRepeats(t Target, cost func(entry string) float64) (*Plan, error) {
 	P := f.Posterior
 	now, _ := P.Linear(t.terms()...)
 	t.Now = now
 	pl := &Plan{Format: PlanFormat, Target: t, Options: []PlanOption{}, Detectability: []Detectability{}}
+	if f.Result != nil {
+		pl.Headline, pl.DownWeighted = f.Result.Headline, f.Result.DownWeighted
+	}
 	w := P.weights(t.terms())
 	m := P.p.m
 	for e, id := range m.entries {

@@ -122,6 +122,12 @@ func TestCrosscheck(t *testing.T) {
 	if err != nil || math.Abs(cc.Z) >= 0.1 {
 		t.Fatalf("a claim at the predictive mean has z = %v (%v)", cc.Z, err)
 	}
+	if cc.Verdict != fuse.VerdictConsistent || len(cc.Explanations) != 0 || len(cc.Checks) != 0 {
+		t.Errorf("a claim at the predictive mean: verdict %q, %d explanations, %d checks; want consistent, none, none", cc.Verdict, len(cc.Explanations), len(cc.Checks))
+	}
+	// 15 sd away: no single error within 4 prior sd explains it; the
+	// trade's checks are those of ride-height entries (this campaign has
+	// no other kind) and the common ones.
 	far := at.Mean - 15*at.SD
 	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: far, Unit: air.UnitN, NewtonsPerUnit: 1}, rho)
 	if err != nil {
@@ -130,8 +136,25 @@ func TestCrosscheck(t *testing.T) {
 	if cc.PValue >= 1e-3 {
 		t.Errorf("a claim 15 sd away has p = %v", cc.PValue)
 	}
-	if len(cc.Explanations) == 0 || !strings.Contains(cc.Explanations[0].Nuisance, "tyre growth") || cc.Explanations[0].ShiftSD <= 0 {
-		t.Errorf("first explanation %+v, want the rear tyre growth, upward", cc.Explanations)
+	if cc.Verdict != fuse.VerdictUnexplained || cc.Summary != "no single modelled error explains it" || len(cc.Explanations) != 0 {
+		t.Errorf("15 sd away: verdict %q, summary %q, explanations %+v; want unexplained, none", cc.Verdict, cc.Summary, cc.Explanations)
+	}
+	if !containsText(cc.Checks, "tyre pressure") || containsText(cc.Checks, "tap tube") {
+		t.Errorf("checks for a ride-height campaign: %q", cc.Checks)
+	}
+	// 2.5 sd below: the laser's tyres growing more than assumed explains it.
+	near := at.Mean - 2.5*at.SD
+	cc, err = f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 120, Value: near, Unit: air.UnitN, NewtonsPerUnit: 1}, rho)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if cc.Verdict != fuse.VerdictExplained || len(cc.Explanations) == 0 || !strings.Contains(cc.Explanations[0].Nuisance, "tyre growth") || cc.Explanations[0].ShiftSD <= 0 {
+		t.Errorf("2.5 sd below: verdict %q, explanations %+v; want the rear tyre growth, upward, first", cc.Verdict, cc.Explanations)
+	}
+	for _, e := range cc.Explanations {
+		if math.Abs(e.ShiftSD) > 4 || (e.Unit == "×" && (e.Value < 0.5 || e.Value > 2)) {
+			t.Errorf("explanation beyond the physical bounds: %+v", e)
+		}
 	}
 	// In m², at any speed: the C_L·A itself.
 	cm, err := f.Crosscheck(fuse.Claim{Config: "wing", Axle: "rear", SpeedKmh: 100, Unit: "m2"}, rho)

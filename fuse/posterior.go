@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"sort"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -101,7 +100,8 @@ func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 		}
 		return Estimate{Mean: mean, SD: sd, Lo: mean - z*sd, Hi: mean + z*sd}, pneg
 	}
-	return summarize(flatten(P.p.series(w)), P.level)
+	_, pooled := P.p.seriesInto(w, nil) // the chains one after another
+	return summarizeOwned(pooled, P.level)
 }
 
 // Quantity returns the estimate of an axle (front, rear or total) of a
@@ -127,7 +127,7 @@ func (P *Posterior) Ratio(num, den []evidence.Term) Estimate {
 			r = append(r, a[i]/b[i])
 		}
 	}
-	e, _ := summarize(r, P.level)
+	e, _ := summarizeOwned(r, P.level)
 	return e
 }
 
@@ -180,25 +180,39 @@ func (p *posterior) gaussMoments(w []entryRef) (float64, float64) {
 }
 
 func flatten(chains [][]float64) []float64 {
-	var out []float64
+	n := 0
+	for _, c := range chains {
+		n += len(c)
+	}
+	out := make([]float64, 0, n)
 	for _, c := range chains {
 		out = append(out, c...)
 	}
 	return out
 }
 
-// summarize returns mean, sd, central interval and P(x < 0) of draws.
+// summarize returns mean, sd, central interval and P(x < 0) of draws. The
+// two quantiles are found by selection rather than a full sort (the same
+// order statistics, in linear time).
 func summarize(x []float64, level float64) (Estimate, float64) {
+	return summarizeOwned(append([]float64(nil), x...), level)
+}
+
+// summarizeOwned is summarize on draws it may reorder.
+func summarizeOwned(x []float64, level float64) (Estimate, float64) {
 	if len(x) == 0 {
 		nan := math.NaN()
 		return Estimate{nan, nan, nan, nan}, nan
 	}
 	m, v := meanVar(x)
-	s := append([]float64(nil), x...)
-	sort.Float64s(s)
-	neg := sort.SearchFloat64s(s, 0)
-	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSorted(s, 0.5-level/2), Hi: quantileSorted(s, 0.5+level/2)},
-		float64(neg) / float64(len(s))
+	neg := 0
+	for _, xi := range x {
+		if xi < 0 {
+			neg++
+		}
+	}
+	return Estimate{Mean: m, SD: math.Sqrt(v), Lo: quantileSelect(x, 0.5-level/2), Hi: quantileSelect(x, 0.5+level/2)},
+		float64(neg) / float64(len(x))
 }
 
 // Fitted returns, for each Gaussian observation of an entry in evidence

@@ -18,6 +18,31 @@ type Result struct {
 	Methods     []MethodResult  `json:"methods"`
 	Warnings    []string        `json:"warnings"`
 	Diagnostics *DiagnosticsDoc `json:"diagnostics,omitempty"`
+
+	// Headline says which fusion Configs and Deltas are: HeadlinePlain,
+	// or HeadlineRobust when some entry looks off (P(off) > 0.5) and the
+	// robust fusion, with that entry's errors widened by κ, is reported.
+	Headline string `json:"headline"`
+	// DownWeighted names the entries whose errors the robust fusion
+	// widened (empty with a plain headline).
+	DownWeighted []string `json:"down_weighted"`
+	// Plain holds the plain fusion's figures when the headline is robust.
+	Plain *PlainFusion `json:"plain,omitempty"`
+	// Checks are the tripped model checks, each also one line of Warnings.
+	Checks []Check `json:"checks"`
+}
+
+// Headline values of Result.Headline.
+const (
+	HeadlinePlain  = "plain"
+	HeadlineRobust = "robust"
+)
+
+// PlainFusion is the plain fusion's configurations and deltas, kept beside
+// a robust headline so that a reader can see what the down-weighting moved.
+type PlainFusion struct {
+	Configs []ConfigResult `json:"configs"`
+	Deltas  []DeltaResult  `json:"deltas"`
 }
 
 // CampaignInfo names the campaign and fingerprints its inputs.
@@ -61,12 +86,24 @@ type SAECoefficients struct {
 	CL            Estimate `json:"c_l"`
 }
 
-// SpeedResult holds axle forces at a report speed, in newtons.
+// SpeedResult holds axle forces at a report speed, in newtons, and
+// P(downforce) there. With the linear speed model every figure uses β(V) at
+// that speed, β(V) = β + γ·(V − V_ref)/V_ref: the force is q(V)·β(V) and
+// P(downforce) = P(β(V) < 0), which may differ from the configuration's
+// P(downforce) at V_ref.
 type SpeedResult struct {
-	SpeedKmh float64  `json:"speed_kmh"`
-	FrontN   Estimate `json:"front_n"`
-	RearN    Estimate `json:"rear_n"`
-	TotalN   Estimate `json:"total_n"`
+	SpeedKmh   float64   `json:"speed_kmh"`
+	FrontN     Estimate  `json:"front_n"`
+	RearN      Estimate  `json:"rear_n"`
+	TotalN     Estimate  `json:"total_n"`
+	PDownforce AxleProbs `json:"p_downforce"`
+}
+
+// AxleProbs is a probability per axle and for the total.
+type AxleProbs struct {
+	Front float64 `json:"front"`
+	Rear  float64 `json:"rear"`
+	Total float64 `json:"total"`
 }
 
 // DeltaResult is a configuration's difference to the reference one.
@@ -94,18 +131,24 @@ type StandaloneResult struct {
 	PDownforce float64  `json:"p_downforce"`
 }
 
-// Agreement compares an entry with all the others. Distance is the
-// Mahalanobis distance between its standalone posterior and the others'
-// fused posterior on the quantities it informs (for sign evidence, the
-// normal quantile of the posterior predictive p-value); POff is the
-// posterior probability that its errors are inflated.
+// Agreement compares an entry with all the others by the leave-one-out
+// predictive of its data (predictive.go): the errors it shares with the
+// others (springs, wind, pitch of drag, probe) are counted once. Distance
+// is √d², d² = tᵀV⁻¹t with t what the entry's data say of the quantities
+// it informs minus what the others predict they would say; PValue is
+// P(χ²_r > d²), r the rank of V (for sign evidence, the posterior
+// predictive p-value of the observed senses, and Distance its two-sided
+// normal quantile). POff is the posterior probability that its errors are
+// inflated by κ, computed as a sequential diagnosis (robust.go). Flag is
+// PValue < 0.01 or POff > 0.5.
 type Agreement struct {
 	Distance float64 `json:"distance"`
 	PValue   float64 `json:"p_value"`
 	POff     float64 `json:"p_off"`
 	Flag     bool    `json:"flag"`
 	// Worst names the quantity where the entry disagrees most, with the
-	// difference (entry minus others) in m² and in standard deviations.
+	// difference (what its data say minus what the others predict) in m²
+	// and in standard deviations of the prediction.
 	Worst *Disagreement `json:"worst,omitempty"`
 	Note  string        `json:"note,omitempty"`
 }

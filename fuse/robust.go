@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"liftfuse/methods/evidence"
 )
@@ -18,7 +19,11 @@ const (
 // some other entry looks off (P(off) > flagOff): such an entry would drag
 // the others' posterior along and make the good entries disagree with it,
 // so the others are fused with that entry's random errors and own
-// systematic priors inflated by κ.
+// systematic priors inflated by κ. An entry that looks off itself is
+// checked against the plain fusion of the others: two entries in conflict
+// (two pots on one axle, one with a wrong gain, and nothing else as
+// precise) both look off, and each must then meet the other at full
+// weight, not a prediction from which its rival was removed.
 func (lo *looFits) robustOthers(evs []evidence.Evidence) error {
 	if len(evs) == 1 {
 		return nil
@@ -40,9 +45,13 @@ func (lo *looFits) robustOthers(evs []evidence.Evidence) error {
 }
 
 // offAmongOthers returns the entries that look off (P(off) > flagOff), by
-// their index in the model of every entry but ei.
+// their index in the model of every entry but ei; none when ei looks off
+// itself.
 func (lo *looFits) offAmongOthers(ei int) map[int]bool {
 	off := map[int]bool{}
+	if lo.pOff[ei] > flagOff {
+		return off
+	}
 	k := 0
 	for j := range lo.pOff {
 		if j == ei {
@@ -64,6 +73,12 @@ func (lo *looFits) offAmongOthers(ei int) map[int]bool {
 //
 //	P(off) = π·Z_off / (π·Z_off + (1 − π)·Z),  Z_off = ½(Z_noise + Z_sys),  π = 0.05
 func (m *model) pOff(e int, logZ float64) float64 {
+	return logistic(m.logOddsOff(e, logZ))
+}
+
+// logOddsOff is log(π·Z_off / ((1 − π)·Z)), the log posterior odds that
+// entry e is off (see pOff); −Inf when neither alternative can be fitted.
+func (m *model) logOddsOff(e int, logZ float64) float64 {
 	var logZs []float64
 	for _, sys := range []bool{false, true} {
 		alt := m.variant(map[int]bool{e: true}, !sys, sys)
@@ -74,7 +89,7 @@ func (m *model) pOff(e int, logZ float64) float64 {
 		logZs = append(logZs, lz)
 	}
 	if len(logZs) == 0 {
-		return 0
+		return math.Inf(-1)
 	}
 	// log Z_off = log ½ Σ Z_k, computed stably.
 	mx := math.Inf(-1)
@@ -86,7 +101,71 @@ func (m *model) pOff(e int, logZ float64) float64 {
 		s += math.Exp(l - mx)
 	}
 	logZoff := mx + math.Log(s/2)
-	return 1 / (1 + (1-offPrior)/offPrior*math.Exp(logZ-logZoff))
+	return math.Log(offPrior/(1-offPrior)) + logZoff - logZ
+}
+
+func logistic(x float64) float64 { return 1 / (1 + math.Exp(-x)) }
+
+// tieOdds is the factor of evidence below which two entries that both look
+// off cannot be told apart: the data favour one over the other by less
+// than 3 : 1 ("barely worth mentioning" on Jeffreys's scale — Kass &
+// Raftery 1995, from memory).
+const tieOdds = 3.0
+
+// refinePOff makes P(off) a sequential diagnosis when some entry looks off.
+// P(off) of one entry, computed with every other entry at full weight,
+// also runs high for a correct entry whose rival is faulty: with a pot
+// reading 12 % high, a correct pot on the same axle disagrees with the
+// fused figure the faulty one drags along. So: the entry most likely off
+// is taken to be off (its errors widened ×κ, both alternatives at once),
+// together with any entry the data cannot tell from it (odds within
+// tieOdds), and P(off) of every other entry is computed again given that;
+// repeated until no remaining entry looks off. Entries taken to be off
+// keep the P(off) with which they were taken.
+func (lo *looFits) refinePOff(logZ float64) error {
+	full := lo.full
+	worst := 0.0
+	for _, p := range lo.pOff {
+		worst = math.Max(worst, p)
+	}
+	if worst <= flagOff || len(lo.pOff) < 3 {
+		return nil
+	}
+	off := map[int]bool{}
+	for len(off) < len(lo.pOff) {
+		base := full
+		if len(off) > 0 {
+			base = full.variant(off, true, true)
+			_, _, lz, err := base.laplace()
+			if err != nil {
+				return fmt.Errorf("P(off) with %d entries down-weighted: %w", len(off), err)
+			}
+			logZ = lz
+		}
+		odds := map[int]float64{}
+		top := -1
+		for e := range lo.pOff {
+			if off[e] {
+				continue
+			}
+			odds[e] = base.logOddsOff(e, logZ)
+			if top < 0 || odds[e] > odds[top] {
+				top = e
+			}
+		}
+		for e, o := range odds {
+			lo.pOff[e] = logistic(o)
+		}
+		if top < 0 || odds[top] <= 0 {
+			return nil
+		}
+		for e, o := range odds {
+			if o > 0 && o >= odds[top]-math.Log(tieOdds) {
+				off[e] = true
+			}
+		}
+	}
+	return nil
 }
 
 // variant returns a copy of the model (sharing its data) with the entries
@@ -105,4 +184,57 @@ func (m *model) variant(off map[int]bool, noise, sys bool) *model {
 		}
 	}
 	return alt
+}
+
+// robustHeadline makes the robust fusion the headline when some entry looks
+// off (P(off) > flagOff): the joint posterior is refitted with those
+// entries' random errors and own systematic priors widened by κ (the "off"
+// alternatives of pOff, both at once), its configurations and deltas become
+// the result's, the plain fusion's move to Result.Plain, and Fused.Posterior
+// becomes the robust one, so that plan and crosscheck use it too.
+func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits) error {
+	res := out.Result
+	off := map[int]bool{}
+	for e, p := range lo.pOff {
+		if p > flagOff {
+			off[e] = true
+			res.DownWeighted = append(res.DownWeighted, full.entries[e])
+		}
+	}
+	if len(off) == 0 || len(full.entries) < 2 {
+		return nil
+	}
+	R, err := full.variant(off, true, true).fit()
+	if err != nil {
+		return fmt.Errorf("the robust fusion (down-weighting %s): %w", joinMax(res.DownWeighted, 4), err)
+	}
+	res.Plain = &PlainFusion{Configs: res.Configs, Deltas: res.Deltas}
+	scratch := &Result{}
+	configResults(scratch, R, in, set)
+	deltaResults(scratch, R, in.Reference, set.Configs)
+	res.Configs, res.Deltas = scratch.Configs, scratch.Deltas
+	res.Headline = HeadlineRobust
+	out.Posterior = R
+	verb := "looks"
+	if len(res.DownWeighted) > 1 {
+		verb = "look"
+	}
+	res.Warnings = append(res.Warnings, fmt.Sprintf("the headline figures are the robust fusion's: the errors of %s are widened ×%g because %s off; the plain fusion is shown beside them",
+		quoteJoin(res.DownWeighted), kappa, verb))
+	return nil
+}
+
+// quoteJoin lists ids in quotes: "a", "b" and "c".
+func quoteJoin(ids []string) string {
+	q := make([]string, len(ids))
+	for i, id := range ids {
+		q[i] = fmt.Sprintf("%q", id)
+	}
+	switch len(q) {
+	case 0:
+		return ""
+	case 1:
+		return q[0]
+	}
+	return strings.Join(q[:len(q)-1], ", ") + " and " + q[len(q)-1]
 }

@@ -16,14 +16,23 @@ type Input struct {
 	Rho           float64   // air density for forces at the report speeds
 	FrontalAreaM2 float64   // 0: no SAE coefficients
 	Warnings      []string  // carried into the result
+	// Checks are the adapters' tripped model checks, carried into
+	// Result.Checks and, one line each, into Result.Warnings.
+	Checks []Check
 }
 
 // Fused holds the posteriors behind a Result, for charts and planning.
+// Posterior is the headline's: the robust fusion's when the result's
+// headline is robust, else the plain one's, which Plain always holds.
 type Fused struct {
 	Posterior  *Posterior
+	Plain      *Posterior
 	Standalone map[string]*Posterior
 	Others     map[string]*Posterior
 	Result     *Result
+
+	full *model              // the plain joint model
+	loo  map[string]*looStat // each entry's leave-one-out statistic, for Diagnose
 }
 
 // Run fuses every entry, computes each entry's standalone posterior and its
@@ -32,7 +41,10 @@ type Fused struct {
 // steps, in order: the joint fit; the configurations' results; the deltas
 // to the reference; the leave-one-out fits; the robust refit of the others
 // where some entry looks off; the entries' results and agreement; the
-// sampler's diagnostics. Warnings are appended in that order.
+// robust headline where some entry looks off; the headline posterior's
+// sampler diagnostics.
+// Warnings are appended in that order, after the caller's warnings and
+// checks.
 func Run(in Input) (*Fused, error) {
 	set := in.Settings.withDefaults()
 	full, err := newModel(in.Evidence, set)
@@ -44,8 +56,11 @@ func Run(in Input) (*Fused, error) {
 		return nil, err
 	}
 	res := &Result{Format: ResultFormat, Credible: set.Credible, Air: AirInfo{DensityKgM3: in.Rho, Method: "CIPM-2007"},
-		Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Methods: []MethodResult{}, Warnings: append([]string{}, in.Warnings...)}
-	out := &Fused{Posterior: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res}
+		Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Methods: []MethodResult{}, Warnings: append([]string{}, in.Warnings...),
+		Headline: HeadlinePlain, DownWeighted: []string{}}
+	res.AddChecks(in.Checks)
+	out := &Fused{Posterior: P, Plain: P, Standalone: map[string]*Posterior{}, Others: map[string]*Posterior{}, Result: res,
+		full: full, loo: map[string]*looStat{}}
 
 	configResults(res, P, in, set)
 	deltaResults(res, P, in.Reference, set.Configs)
@@ -53,11 +68,17 @@ func Run(in Input) (*Fused, error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := lo.refinePOff(P.p.logZ); err != nil {
+		return nil, err
+	}
 	if err := lo.robustOthers(in.Evidence); err != nil {
 		return nil, err
 	}
 	methodResults(res, out, full, in.Evidence, lo)
-	res.Diagnostics = diagnostics(res, P)
+	if err := robustHeadline(out, full, in, set, lo); err != nil {
+		return nil, err
+	}
+	res.Diagnostics = diagnostics(res, out.Posterior)
 	return out, nil
 }
 
@@ -77,15 +98,29 @@ func configResults(res *Result, P *Posterior, in Input, set Settings) {
 		cr.Total = axle(P, c, evidence.AxleTotal)
 		cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
 		for _, v := range in.SpeedsKmh {
-			q := dynamicPressure(in.Rho, v)
-			at := func(ax string) Estimate { e, _ := P.At(v, evidence.Term{Config: c, Axle: ax, W: q}); return e }
-			cr.AtSpeeds = append(cr.AtSpeeds, SpeedResult{SpeedKmh: v, FrontN: at(evidence.AxleFront), RearN: at(evidence.AxleRear), TotalN: at(evidence.AxleTotal)})
+			cr.AtSpeeds = append(cr.AtSpeeds, atSpeed(P, c, v, in.Rho))
 		}
 		if A := in.FrontalAreaM2; A > 0 {
 			cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
 		}
 		res.Configs = append(res.Configs, cr)
 	}
+}
+
+// atSpeed returns a configuration's axle forces q(V)·β(V) at a speed V in
+// km/h (q = ½ρV²) and P(β(V) < 0): with the linear speed model both use
+// β(V) = β + γ·(V − V_ref)/V_ref at that speed, never β at V_ref.
+func atSpeed(P *Posterior, config string, v, rho float64) SpeedResult {
+	q := dynamicPressure(rho, v)
+	sr := SpeedResult{SpeedKmh: v}
+	for _, ax := range []struct {
+		name string
+		n    *Estimate
+		p    *float64
+	}{{evidence.AxleFront, &sr.FrontN, &sr.PDownforce.Front}, {evidence.AxleRear, &sr.RearN, &sr.PDownforce.Rear}, {evidence.AxleTotal, &sr.TotalN, &sr.PDownforce.Total}} {
+		*ax.n, *ax.p = P.At(v, evidence.Term{Config: config, Axle: ax.name, W: q})
+	}
+	return sr
 }
 
 // deltaResults appends every configuration's difference to the reference,
@@ -123,7 +158,8 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 		if len(evs) > 1 {
 			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag := agreement(full, ei, ev, lo.alone[ei], O)
+			ag, st := agreement(full, ei, ev, O)
+			out.loo[ev.Entry] = st
 			ag.POff = lo.pOff[ei]
 			ag.Flag = ag.flagged()
 			if ag.Flag {
@@ -163,7 +199,8 @@ func axle(P *Posterior, config, ax string) AxleResult {
 // estimates filled (what `reduce --json` prints).
 func Standalone(evs []evidence.Evidence, set Settings) (*Result, error) {
 	set = set.withDefaults()
-	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{}}
+	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{},
+		DownWeighted: []string{}, Checks: []Check{}}
 	for _, ev := range evs {
 		alone, err := Fit([]evidence.Evidence{ev}, set)
 		if err != nil {

@@ -9,6 +9,7 @@ import (
 	"liftfuse/fuse"
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/checks"
 	"liftfuse/methods/height"
 )
 
@@ -21,26 +22,28 @@ type analysis struct {
 
 // settings returns the fusion settings of a campaign.
 func settings(c *campaign.Campaign) fuse.Settings {
-	ids := make([]string, len(c.Configurations))
-	for i, cf := range c.Configurations {
-		ids[i] = cf.ID
-	}
-	return fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
+	return fuse.Settings{Configs: c.ConfigIDs(), PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 		Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}
 }
 
 // load reads a campaign; the adapters stream the logs' bodies, so loading
 // checks only their headers.
 func load(file string) (*campaign.Campaign, error) {
-	return campaign.Load(file, campaign.Options{HeadersOnly: true})
+	return loadCampaign(file, campaign.Options{})
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
-// stderr when it is a terminal and not silenced.
-func reduce(file string, quiet bool, stderr io.Writer) (*campaign.Campaign, *methods.Reduced, error) {
+// stderr when it is a terminal and not silenced. check, if not nil, is
+// called on the loaded campaign before the (long) reduction.
+func reduce(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
 	c, err := load(file)
 	if err != nil {
 		return nil, nil, err
+	}
+	if check != nil {
+		if err := check(c); err != nil {
+			return nil, nil, err
+		}
 	}
 	opt := methods.Options{}
 	if !quiet && isTerminal(stderr) {
@@ -60,13 +63,20 @@ func reduce(file string, quiet bool, stderr io.Writer) (*campaign.Campaign, *met
 
 // analyse loads, reduces and fuses a campaign.
 func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
-	c, r, err := reduce(file, quiet, stderr)
+	return analyseChecked(file, quiet, stderr, nil)
+}
+
+// analyseChecked is analyse with a check of the loaded campaign before the
+// long work (see reduce).
+func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*analysis, error) {
+	c, r, err := reduce(file, quiet, stderr, check)
 	if err != nil {
 		return nil, err
 	}
 	f, err := fuse.Run(fuse.Input{
 		Evidence: r.Evidence(), Settings: settings(c), Reference: c.Report.ReferenceConfig,
 		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
+		Checks: modelChecks(c, r),
 	})
 	if err != nil {
 		return nil, err
@@ -75,6 +85,17 @@ func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
 		return nil, err
 	}
 	return &analysis{campaign: c, reduced: r, fused: f}, nil
+}
+
+// modelChecks runs the model checks on the adapters' results and hands
+// them over in the result document's type (the same fields).
+func modelChecks(c *campaign.Campaign, r *methods.Reduced) []fuse.Check {
+	cs := checks.Run(c, r)
+	out := make([]fuse.Check, len(cs))
+	for i, k := range cs {
+		out[i] = fuse.Check(k)
+	}
+	return out
 }
 
 // stamp fills the result's campaign title, input hash and tool version.

@@ -25,7 +25,7 @@ type airResult struct {
 	DynamicPressurePa *float64 `json:"dynamic_pressure_pa,omitempty"`
 }
 
-func newAirCmd() *cobra.Command {
+func newAirCmd(runF func(*airOptions) error) *cobra.Command {
 	var o airOptions
 	cmd := &cobra.Command{
 		Use:   "air",
@@ -36,24 +36,25 @@ q = ½ρV² at that airspeed.`,
 		Example: "  liftfuse air --temperature-c 19.5 --pressure-hpa 1011 --humidity-pct 62 --speed-kmh 120",
 		Args:    argsExactly(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			for _, name := range []string{"temperature-c", "pressure-hpa", "humidity-pct"} {
-				if !cmd.Flags().Changed(name) {
-					return badInput("--%s is required", name)
-				}
+			if err := requireFlags(cmd, "temperature-c", "pressure-hpa", "humidity-pct"); err != nil {
+				return err
 			}
 			if !cmd.Flags().Changed("speed-kmh") {
 				o.speedKmh = math.NaN()
+			}
+			if runF != nil {
+				return runF(&o)
 			}
 			return runAir(o, cmd.OutOrStdout())
 		},
 	}
 	f := cmd.Flags()
-	f.Float64Var(&o.temperatureC, "temperature-c", 0, "air temperature, °C")
-	f.Float64Var(&o.pressureHPa, "pressure-hpa", 0, "barometric pressure (station, not sea-level), hPa")
-	f.Float64Var(&o.humidityPct, "humidity-pct", 0, "relative humidity, %")
+	f.Float64Var(&o.temperatureC, "temperature-c", 0, "air temperature, °C (required)")
+	f.Float64Var(&o.pressureHPa, "pressure-hpa", 0, "barometric pressure (station, not sea-level), hPa (required)")
+	f.Float64Var(&o.humidityPct, "humidity-pct", 0, "relative humidity, % (required)")
 	f.Float64Var(&o.co2ppm, "co2-ppm", campaign.DefaultCO2ppm, "CO₂ mole fraction, ppm")
 	f.Float64Var(&o.speedKmh, "speed-kmh", 0, "airspeed for the dynamic pressure, km/h")
-	f.BoolVar(&o.json, "json", false, "print JSON")
+	f.BoolVar(&o.json, "json", false, "print the result as JSON on stdout")
 	return cmd
 }
 
@@ -64,11 +65,11 @@ func runAir(o airOptions, out io.Writer) error {
 	case !(o.pressureHPa >= 500 && o.pressureHPa <= 1100):
 		return badInput("--pressure-hpa must lie in [500, 1100] hPa, got %g", o.pressureHPa)
 	case !(o.humidityPct >= 0 && o.humidityPct <= 100):
-		return badInput("--humidity-pct must lie in [0, 100], got %g", o.humidityPct)
+		return badInput("--humidity-pct must lie in [0, 100] %%, got %g", o.humidityPct)
 	case !(o.co2ppm >= 0 && o.co2ppm <= 10000):
-		return badInput("--co2-ppm must lie in [0, 10000], got %g", o.co2ppm)
+		return badInput("--co2-ppm must lie in [0, 10000] ppm, got %g", o.co2ppm)
 	case !math.IsNaN(o.speedKmh) && !(o.speedKmh >= 0 && o.speedKmh < 1000):
-		return badInput("--speed-kmh must lie in [0, 1000), got %g", o.speedKmh)
+		return badInput("--speed-kmh must lie in [0, 1000) km/h, got %g", o.speedKmh)
 	}
 	rho := air.Density(o.temperatureC, o.pressureHPa*100, o.humidityPct/100, o.co2ppm*1e-6)
 	res := airResult{DensityKgM3: rho, Method: "CIPM-2007"}

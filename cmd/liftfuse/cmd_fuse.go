@@ -14,7 +14,7 @@ type fuseOptions struct {
 	quiet bool
 }
 
-func newFuseCmd() *cobra.Command {
+func newFuseCmd(runF func(*fuseOptions) error) *cobra.Command {
 	var o fuseOptions
 	cmd := &cobra.Command{
 		Use:   "fuse FILE",
@@ -27,10 +27,13 @@ result document (format liftfuse.result/1).`,
 		Args:    argsExactly(1, "one campaign file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.file = args[0]
+			if runF != nil {
+				return runF(&o)
+			}
 			return runFuse(o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
-	cmd.Flags().BoolVar(&o.json, "json", false, "print the result document as JSON")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the result document as JSON on stdout")
 	cmd.Flags().BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
 }

@@ -18,7 +18,7 @@ type initOptions struct {
 	dir string
 }
 
-func newInitCmd() *cobra.Command {
+func newInitCmd(runF func(*initOptions) error) *cobra.Command {
 	var o initOptions
 	return &cobra.Command{
 		Use:   "init DIR",
@@ -30,6 +30,9 @@ refuses to write into a folder that already exists.`,
 		Args:    argsExactly(1, "one folder"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.dir = args[0]
+			if runF != nil {
+				return runF(&o)
+			}
 			return runInit(o, cmd.OutOrStdout())
 		},
 	}

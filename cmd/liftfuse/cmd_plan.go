@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"slices"
 
 	"github.com/spf13/cobra"
 
@@ -19,7 +20,7 @@ type planOptions struct {
 	json, quiet          bool
 }
 
-func newPlanCmd() *cobra.Command {
+func newPlanCmd(runF func(*planOptions) error) *cobra.Command {
 	var o planOptions
 	cmd := &cobra.Command{
 		Use:   "plan FILE",
@@ -29,13 +30,24 @@ or its difference to another — and, for every evidence entry, the expected
 posterior sd if its runs were repeated once: errors a repeat shares (the same
 springs, the same reference port, the same tyre growth) do not average down.
 Entries are ranked by variance removed per hour of plan.cost_h. For each
-ride-height entry it gives the load it can resolve and the speed the target
-needs. The target defaults to the campaign's plan.target, else the rear of the
-last configuration versus the reference.`,
+ride-height entry it gives the load it can resolve, in the campaign's
+report.force_unit, and the speed the target needs. The target defaults to the
+campaign's plan.target, else the rear of the last configuration versus the
+reference. --target-axle takes its word in any case.`,
 		Example: "  liftfuse plan examples/ducktail-fastback/campaign.yaml\n  liftfuse plan FILE --target-config ducktail --target-axle front --versus baseline --json",
 		Args:    argsExactly(1, "one campaign file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.file = args[0]
+			if o.axle != "" {
+				axle, err := enum("target-axle", o.axle, evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal)
+				if err != nil {
+					return err
+				}
+				o.axle = axle
+			}
+			if runF != nil {
+				return runF(&o)
+			}
 			return runPlan(o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
@@ -43,21 +55,22 @@ last configuration versus the reference.`,
 	f.StringVar(&o.config, "target-config", "", "configuration of the target")
 	f.StringVar(&o.axle, "target-axle", "", "axle of the target: front, rear or total")
 	f.StringVar(&o.versus, "versus", "", "make the target a difference to this configuration")
-	f.BoolVar(&o.json, "json", false, "print the plan document as JSON")
+	f.BoolVar(&o.json, "json", false, "print the plan document as JSON on stdout")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
 }
 
-// planTarget resolves the target from flags, the campaign and defaults.
+// defaultTarget is the campaign's plan.target, with the campaign's default
+// (methods/campaign, defaults.go: the one owner of that rule) applied.
+func defaultTarget(c *campaign.Campaign) fuse.Target {
+	t := c.Plan.Target
+	return fuse.Target{Config: t.Config, Axle: t.Axle, Versus: t.Versus}
+}
+
+// planTarget resolves the target from flags over the default. A
+// --target-config alone drops the default's difference.
 func planTarget(o planOptions, c *campaign.Campaign) (fuse.Target, error) {
-	t := fuse.Target{Config: c.Plan.Target.Config, Axle: c.Plan.Target.Axle, Versus: c.Plan.Target.Versus}
-	if t.Config == "" {
-		last := c.Configurations[len(c.Configurations)-1].ID
-		t = fuse.Target{Config: last, Axle: evidence.AxleRear}
-		if last != c.Report.ReferenceConfig {
-			t.Versus = c.Report.ReferenceConfig
-		}
-	}
+	t := defaultTarget(c)
 	if o.config != "" {
 		t.Config, t.Versus = o.config, ""
 	}
@@ -67,19 +80,14 @@ func planTarget(o planOptions, c *campaign.Campaign) (fuse.Target, error) {
 	if o.versus != "" {
 		t.Versus = o.versus
 	}
-	known := map[string]bool{}
-	for _, cf := range c.Configurations {
-		known[cf.ID] = true
-	}
+	ids := c.ConfigIDs()
 	switch {
-	case !known[t.Config]:
-		return t, badInput("unknown target configuration %q", t.Config)
-	case t.Versus != "" && !known[t.Versus]:
-		return t, badInput("unknown configuration %q for --versus", t.Versus)
+	case !slices.Contains(ids, t.Config):
+		return t, badInput("unknown target configuration %q (known: %s)", t.Config, words(ids, "and"))
+	case t.Versus != "" && !slices.Contains(ids, t.Versus):
+		return t, badInput("unknown configuration %q for --versus (known: %s)", t.Versus, words(ids, "and"))
 	case t.Versus == t.Config:
-		return t, badInput("a difference needs two different configurations")
-	case t.Axle != evidence.AxleFront && t.Axle != evidence.AxleRear && t.Axle != evidence.AxleTotal:
-		return t, badInput("--target-axle must be front, rear or total, got %q", t.Axle)
+		return t, badInput("a difference needs two different configurations, got %q twice", t.Config)
 	}
 	return t, nil
 }

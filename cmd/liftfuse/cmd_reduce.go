@@ -15,7 +15,7 @@ type reduceOptions struct {
 	quiet bool
 }
 
-func newReduceCmd() *cobra.Command {
+func newReduceCmd(runF func(*reduceOptions) error) *cobra.Command {
 	var o reduceOptions
 	cmd := &cobra.Command{
 		Use:   "reduce FILE",
@@ -28,16 +28,19 @@ each entry says on its own. --json prints a result document with only
 		Args:    argsExactly(1, "one campaign file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.file = args[0]
+			if runF != nil {
+				return runF(&o)
+			}
 			return runReduce(o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
-	cmd.Flags().BoolVar(&o.json, "json", false, "print JSON")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the result document (methods and warnings only) as JSON on stdout")
 	cmd.Flags().BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
 }
 
 func runReduce(o reduceOptions, out, stderr io.Writer) error {
-	c, r, err := reduce(o.file, o.quiet, stderr)
+	c, r, err := reduce(o.file, o.quiet, stderr, nil)
 	if err != nil {
 		return err
 	}
@@ -46,6 +49,7 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 		return err
 	}
 	res.Warnings = append(r.Warnings, res.Warnings...)
+	res.AddChecks(modelChecks(c, r))
 	if err := stamp(res, c); err != nil {
 		return err
 	}

@@ -1,56 +1,92 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
-	"slices"
 
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
-	"liftfuse/methods/evidence"
+	"liftfuse/methods/campaign"
 	"liftfuse/report"
 )
 
 type reportOptions struct {
-	file, out, json, paper string
-	quiet                  bool
+	file, out, jsonOut, paper string
+	json, quiet               bool
 }
 
-func newReportCmd() *cobra.Command {
+// outputs are the files the report writes, with their flags.
+func (o reportOptions) outputs() []output {
+	outs := []output{{"-o", o.out}}
+	if o.jsonOut != "" {
+		outs = append(outs, output{"--json-out", o.jsonOut})
+	}
+	return outs
+}
+
+func newReportCmd(runF func(*reportOptions) error) *cobra.Command {
 	var o reportOptions
 	cmd := &cobra.Command{
-		Use:   "report FILE -o OUT.pdf",
+		Use:   "report FILE -o OUT.pdf [--json-out OUT.json]",
 		Short: "Write the customer development report (PDF), and the result document (JSON)",
 		Long: `report runs the whole job — adapters, fusion, agreement, planning — and lays it
 out as a development report: summary of front and rear lift per configuration,
 what each method says with its charts, where the methods disagree and what
 could explain it, what to repeat next, method notes and safety cautions, and
-provenance. --json writes the result document beside it. Files are written to
-a temporary file and renamed, so a failed run leaves nothing behind.`,
-		Example: "  liftfuse report examples/ducktail-fastback/campaign.yaml -o report.pdf --json report.json",
-		Args:    argsExactly(1, "one campaign file"),
+provenance. --json-out writes the result document (the one fuse --json prints)
+beside it; --json prints it on stdout instead of the "wrote" line.
+
+Outputs are safe: an output that is the campaign or any file it reads is
+refused before the run, as are a missing folder, a folder, a FIFO or a device.
+The PDF and the JSON are written to temporary files beside them and renamed
+into place only when both were written, so a failed or interrupted run
+(SIGINT, SIGTERM) leaves the previous files as they were and no temporary
+file. An existing output keeps its permissions. An output that is a symbolic
+link stays a link: the file it points to is replaced.`,
+		Example: "  liftfuse report examples/ducktail-fastback/campaign.yaml -o report.pdf --json-out report.json",
+		Args:    reportArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.file = args[0]
-			if o.out == "" {
-				return badInput("-o OUT.pdf is required")
+			if err := requireFlags(cmd, "out"); err != nil {
+				return err
 			}
-			if !slices.Contains(report.Papers(), o.paper) {
-				return badInput("--paper must be A4 or Letter, got %q", o.paper)
+			paper, err := enum("paper", o.paper, report.Papers()...)
+			if err != nil {
+				return err
 			}
-			return runReport(o, cmd.OutOrStdout(), cmd.ErrOrStderr())
+			o.paper = paper
+			if runF != nil {
+				return runF(&o)
+			}
+			return runReport(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
 	f := cmd.Flags()
-	f.StringVarP(&o.out, "out", "o", "", "PDF file to write")
-	f.StringVar(&o.json, "json", "", "also write the result document to this file")
-	f.StringVar(&o.paper, "paper", "A4", "paper size: A4 or Letter")
+	f.StringVarP(&o.out, "out", "o", "", "the PDF `FILE` to write (required)")
+	f.StringVar(&o.jsonOut, "json-out", "", "also write the result document to `FILE`")
+	f.BoolVar(&o.json, "json", false, "print the result document as JSON on stdout")
+	f.StringVar(&o.paper, "paper", "A4", "paper `SIZE`: A4 or Letter (any case)")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "no progress bar")
 	return cmd
 }
 
-func runReport(o reportOptions, out, stderr io.Writer) error {
-	a, err := analyse(o.file, o.quiet, stderr)
+// reportArgs wants one campaign file, and recognises the older
+// `--json FILE` (a file after the switch) with a hint.
+func reportArgs(cmd *cobra.Command, args []string) error {
+	if len(args) == 2 && cmd.Flags().Changed("json") {
+		return badInput("--json is a switch (print the result document on stdout); to write it to a file use --json-out %s", args[1])
+	}
+	return argsExactly(1, "one campaign file")(cmd, args)
+}
+
+func runReport(ctx context.Context, o reportOptions, out, stderr io.Writer) error {
+	outs := o.outputs()
+	if err := checkOutputs(o.file, nil, outs...); err != nil {
+		return err
+	}
+	a, err := analyseChecked(o.file, o.quiet, stderr, func(c *campaign.Campaign) error { return checkOutputs(o.file, c, outs...) })
 	if err != nil {
 		return err
 	}
@@ -66,43 +102,38 @@ func runReport(o reportOptions, out, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var js []byte
-	if o.json != "" {
-		if js, err = report.JSON(a.fused.Result); err != nil {
-			return err
-		}
-	}
-	if err := report.WriteFile(o.out, pdf, 0o644); err != nil {
+	js, err := report.JSON(a.fused.Result)
+	if err != nil {
 		return err
 	}
-	if o.json != "" {
-		if err := report.WriteFile(o.json, js, 0o644); err != nil {
-			return err
+	files, names := []report.Output{report.Bytes(o.out, pdf)}, []string{o.out}
+	if o.jsonOut != "" {
+		files, names = append(files, report.Bytes(o.jsonOut, js)), append(names, o.jsonOut)
+	}
+	if err := report.WriteFiles(ctx, files...); err != nil {
+		return err
+	}
+	if o.json {
+		if !o.quiet {
+			fmt.Fprintf(stderr, "wrote %s\n", words(names, "and"))
 		}
+		_, err := out.Write(js)
+		return err
 	}
-	fmt.Fprintf(out, "wrote %s", o.out)
-	if o.json != "" {
-		fmt.Fprintf(out, " and %s", o.json)
-	}
-	fmt.Fprintln(out)
+	fmt.Fprintf(out, "wrote %s\n", words(names, "and"))
 	return nil
 }
 
-// explanations asks, for each flagged entry, which of its own modelled
-// errors would have to move least for it to agree with the other entries on
-// the quantity where it disagrees most: the others' estimate is the claim,
-// the entry's standalone posterior the prediction.
+// explanations asks, for each flagged entry, which single one of its own
+// modelled errors, within physical bounds, explains its disagreement with
+// the other entries (fuse.Fused.Diagnose), if any.
 func explanations(a *analysis) (map[string]*fuse.Crosscheck, error) {
 	out := map[string]*fuse.Crosscheck{}
 	for _, m := range a.fused.Result.Methods {
-		ag := m.Agreement
-		alone, others := a.fused.Standalone[m.ID], a.fused.Others[m.ID]
-		if ag == nil || !ag.Flag || ag.Worst == nil || alone == nil || others == nil {
+		if ag := m.Agreement; ag == nil || !ag.Flag {
 			continue
 		}
-		w := ag.Worst
-		e, _ := others.Quantity(evidence.Quantity{Config: w.Config, Axle: w.Axle})
-		cc, err := alone.Crosscheck(fuse.Claim{Config: w.Config, Axle: w.Axle, SpeedKmh: evidence.RefSpeedKmh, Value: e.Mean, SD: e.SD, Unit: "m2"}, a.campaign.Density())
+		cc, err := a.fused.Diagnose(m.ID)
 		if err != nil {
 			return nil, err
 		}

@@ -21,7 +21,7 @@ type simulateOptions struct {
 	force bool
 }
 
-func newSimulateCmd() *cobra.Command {
+func newSimulateCmd(runF func(*simulateOptions) error) *cobra.Command {
 	var o simulateOptions
 	cmd := &cobra.Command{
 		Use:   "simulate SPEC -o DIR",
@@ -35,13 +35,16 @@ shows up. The spec format is in examples/ducktail-fastback/spec.yaml.`,
 		Args:    argsExactly(1, "one spec file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.spec = args[0]
-			if o.out == "" {
-				return badInput("-o DIR is required")
+			if err := requireFlags(cmd, "out"); err != nil {
+				return err
+			}
+			if runF != nil {
+				return runF(&o)
 			}
 			return runSimulate(o, cmd.OutOrStdout())
 		},
 	}
-	cmd.Flags().StringVarP(&o.out, "out", "o", "", "folder to write the campaign into")
+	cmd.Flags().StringVarP(&o.out, "out", "o", "", "`DIR` to write the campaign into (required)")
 	cmd.Flags().BoolVar(&o.force, "force", false, "write into a folder that already exists, replacing the campaign's files")
 	return cmd
 }
@@ -49,6 +52,9 @@ shows up. The spec format is in examples/ducktail-fastback/spec.yaml.`,
 // runSimulate writes through a temporary folder and moves the files into
 // place only once everything has been written and the campaign validates.
 func runSimulate(o simulateOptions, out io.Writer) error {
+	if err := regularFile(o.spec); err != nil {
+		return inputError{err}
+	}
 	s, err := sim.Load(o.spec)
 	if err != nil {
 		return err

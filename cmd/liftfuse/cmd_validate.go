@@ -14,7 +14,7 @@ type validateOptions struct {
 	file string
 }
 
-func newValidateCmd() *cobra.Command {
+func newValidateCmd(runF func(*validateOptions) error) *cobra.Command {
 	var o validateOptions
 	return &cobra.Command{
 		Use:   "validate FILE",
@@ -29,13 +29,16 @@ sensor that scatters ±3 mm) are printed but do not fail.`,
 		Args:    argsExactly(1, "one campaign file"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o.file = args[0]
+			if runF != nil {
+				return runF(&o)
+			}
 			return runValidate(o, cmd.OutOrStdout())
 		},
 	}
 }
 
 func runValidate(o validateOptions, out io.Writer) error {
-	c, err := campaign.Load(o.file, campaign.Options{})
+	c, err := loadCampaign(o.file, campaign.Options{})
 	if err != nil {
 		return err
 	}
@@ -46,8 +49,12 @@ func runValidate(o validateOptions, out io.Writer) error {
 	for _, w := range r.Warnings {
 		fmt.Fprintf(out, "warning: %s\n", w)
 	}
+	for _, d := range c.DetectedFormats() {
+		fmt.Fprintf(out, "read %s\n", d)
+	}
 	n := len(c.Evidence.RideHeight) + len(c.Evidence.Pressure) + len(c.Evidence.Vortex)
-	fmt.Fprintf(out, "%s: valid campaign %q: %d configurations, %d evidence entries, %d files read, %d warnings\n",
-		o.file, c.Campaign.Title, len(c.Configurations), n, len(c.Files), len(r.Warnings))
+	fmt.Fprintf(out, "%s: valid campaign %q: %s, %s, %s read, %s\n", o.file, c.Campaign.Title,
+		count(len(c.Configurations), "configuration", "configurations"), count(n, "evidence entry", "evidence entries"),
+		count(len(c.Files), "file", "files"), count(len(r.Warnings), "warning", "warnings"))
 	return nil
 }

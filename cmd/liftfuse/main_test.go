@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"os"
@@ -16,7 +17,7 @@ const demo = "../../examples/ducktail-fastback/campaign.yaml"
 func liftfuse(t *testing.T, args ...string) (int, string, string) {
 	t.Helper()
 	var out, errOut bytes.Buffer
-	code := run(args, &out, &errOut)
+	code := run(context.Background(), args, &out, &errOut)
 	return code, out.String(), errOut.String()
 }
 
@@ -37,7 +38,7 @@ func TestExitCodes(t *testing.T) {
 		{"no argument", []string{"validate"}, 2, "want one campaign file"},
 		{"unknown flag", []string{"air", "--temp", "3"}, 2, "unknown flag"},
 		{"unknown command", []string{"frobnicate"}, 2, "unknown command"},
-		{"air without pressure", []string{"air", "--temperature-c", "20", "--humidity-pct", "50"}, 2, "--pressure-hpa is required"},
+		{"air without pressure", []string{"air", "--temperature-c", "20", "--humidity-pct", "50"}, 2, "missing required flag --pressure-hpa"},
 		{"air out of range", []string{"air", "--temperature-c", "20", "--pressure-hpa", "10", "--humidity-pct", "50"}, 2, "pressure-hpa"},
 	}
 	for _, tt := range tests {

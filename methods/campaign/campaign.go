@@ -230,6 +230,10 @@ type LogSpec struct {
 	Direction   string     `yaml:"direction"`
 	Config      string     `yaml:"config"`
 	Segments    []Segment  `yaml:"segments"`
+	// Detected is what the log reader found of the file's format
+	// (delimiter, decimal mark, header line, units row, time), filled by
+	// Load for a person to confirm.
+	Detected string `yaml:"-"`
 }
 
 // Airspeed reports whether the log carries a measured airspeed (a probe's

@@ -276,8 +276,19 @@ func (vs Values) Get(key string) (float64, bool) {
 }
 
 func (vs *Values) decodeNode(d *decoder, n *yaml.Node, path string) {
+	d.eachEntry(n, path, "numbers", func(k, val *yaml.Node, p string) {
+		if x, ok := d.number(val, p); ok {
+			*vs = append(*vs, Value{Key: k.Value, V: x, At: d.where(val)})
+		}
+	})
+}
+
+// eachEntry calls f for each key of a mapping of plain words to values
+// (what), after refusing a non-mapping, a key that is not a plain word and
+// a key given twice; aliases are followed.
+func (d *decoder) eachEntry(n *yaml.Node, path, what string, f func(k, val *yaml.Node, p string)) {
 	if n.Kind != yaml.MappingNode {
-		d.fail(n, path, wrapf(ErrType, "want a mapping of names to numbers, got %s", describe(n)))
+		d.fail(n, path, wrapf(ErrType, "want a mapping of names to %s, got %s", what, describe(n)))
 		return
 	}
 	seen := map[string]bool{}
@@ -287,17 +298,14 @@ func (vs *Values) decodeNode(d *decoder, n *yaml.Node, path string) {
 			val = val.Alias
 		}
 		p := join(path, k.Value)
-		if k.Kind != yaml.ScalarNode {
+		switch {
+		case k.Kind != yaml.ScalarNode:
 			d.fail(k, path, wrapf(ErrType, "a key must be a plain word, got %s", describe(k)))
-			continue
-		}
-		if seen[k.Value] {
+		case seen[k.Value]:
 			d.fail(k, p, wrapf(ErrDuplicate, "key %q given twice", k.Value))
-			continue
-		}
-		seen[k.Value] = true
-		if x, ok := d.number(val, p); ok {
-			*vs = append(*vs, Value{Key: k.Value, V: x, At: d.where(val)})
+		default:
+			seen[k.Value] = true
+			f(k, val, p)
 		}
 	}
 }
@@ -313,29 +321,13 @@ type Name struct {
 }
 
 func (ns *Names) decodeNode(d *decoder, n *yaml.Node, path string) {
-	if n.Kind != yaml.MappingNode {
-		d.fail(n, path, wrapf(ErrType, "want a mapping of names to column names, got %s", describe(n)))
-		return
-	}
-	seen := map[string]bool{}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		k, val := n.Content[i], n.Content[i+1]
-		for val.Kind == yaml.AliasNode {
-			val = val.Alias
-		}
-		p := join(path, k.Value)
-		switch {
-		case k.Kind != yaml.ScalarNode:
-			d.fail(k, path, wrapf(ErrType, "a key must be a plain word, got %s", describe(k)))
-		case seen[k.Value]:
-			d.fail(k, p, wrapf(ErrDuplicate, "key %q given twice", k.Value))
-		case val.Kind != yaml.ScalarNode || val.ShortTag() == "!!null":
+	d.eachEntry(n, path, "column names", func(k, val *yaml.Node, p string) {
+		if val.Kind != yaml.ScalarNode || val.ShortTag() == "!!null" {
 			d.fail(val, p, wrapf(ErrType, "want a column name, got %s", describe(val)))
-		default:
-			seen[k.Value] = true
-			*ns = append(*ns, Name{Key: k.Value, V: val.Value, At: d.where(val)})
+			return
 		}
-	}
+		*ns = append(*ns, Name{Key: k.Value, V: val.Value, At: d.where(val)})
+	})
 }
 
 // Pair is a two-number list such as a calibration point [signal, mm].

@@ -120,6 +120,32 @@ func applyDefaults(c *Campaign) {
 	if !r.At.Has("seed") {
 		r.Seed = DefaultSeed
 	}
+	targetDefaults(c)
+}
+
+// targetDefaults: without plan.target, the target is the rear axle of the
+// last configuration, as a difference to the reference configuration (the
+// change a trial is usually about).
+func targetDefaults(c *Campaign) {
+	t := &c.Plan.Target
+	if t.Config != "" || len(c.Configurations) == 0 {
+		return
+	}
+	t.Config = c.Configurations[len(c.Configurations)-1].ID
+	if t.Axle == "" {
+		t.Axle = AxleRear
+	}
+	if t.Config != c.Report.ReferenceConfig {
+		t.Versus = c.Report.ReferenceConfig
+	}
+}
+
+// VortexApplies reports whether the vortex-sense method may be used on the
+// campaign's body: on fastbacks and raked notchbacks, or anywhere the entry
+// sets its misread probability.
+func (c *Campaign) VortexApplies(e *VortexEntry) bool {
+	_, applies := DefaultMisread(c.Vehicle.Body)
+	return applies || e.At.Has("misread")
 }
 
 // CostH returns the hours it takes to repeat an evidence entry (plan.cost_h,

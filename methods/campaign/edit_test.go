@@ -97,16 +97,9 @@ func parseValue(t *testing.T, text string) *yaml.Node {
 // apply makes the edits to the campaign file.
 func apply(t *testing.T, file string, edits ...edit) {
 	t.Helper()
-	data, err := os.ReadFile(file)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var doc yaml.Node
-	if err := yaml.Unmarshal(data, &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := readTree(t, file)
 	for _, e := range edits {
-		val, key, parent, at := lookup(t, &doc, e.path)
+		val, key, parent, at := lookup(t, doc, e.path)
 		switch e.op {
 		case "set":
 			*val = *parseValue(t, e.value)
@@ -125,7 +118,7 @@ func apply(t *testing.T, file string, edits ...edit) {
 	var buf bytes.Buffer
 	enc := yaml.NewEncoder(&buf)
 	enc.SetIndent(2)
-	if err := enc.Encode(&doc); err != nil {
+	if err := enc.Encode(doc); err != nil {
 		t.Fatal(err)
 	}
 	if err := os.WriteFile(file, buf.Bytes(), 0o644); err != nil {
@@ -137,6 +130,13 @@ func apply(t *testing.T, file string, edits ...edit) {
 // the (edited) campaign file.
 func lineOf(t *testing.T, file, path string) int {
 	t.Helper()
+	val, _, _, _ := lookup(t, readTree(t, file), path)
+	return val.Line
+}
+
+// readTree parses a YAML file into its document node.
+func readTree(t *testing.T, file string) *yaml.Node {
+	t.Helper()
 	data, err := os.ReadFile(file)
 	if err != nil {
 		t.Fatal(err)
@@ -145,8 +145,7 @@ func lineOf(t *testing.T, file, path string) int {
 	if err := yaml.Unmarshal(data, &doc); err != nil {
 		t.Fatal(err)
 	}
-	val, _, _, _ := lookup(t, &doc, path)
-	return val.Line
+	return &doc
 }
 
 // change makes a text change to a file and returns the line it is on.

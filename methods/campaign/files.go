@@ -8,7 +8,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -17,26 +17,38 @@ import (
 )
 
 // LogColumns returns the columns a log spec asks for, in a fixed order:
-// time, speed, signal, then direction and config when named. The indices
-// are returned as a LogIndex.
+// time, speed (unless it comes from a speed_file), signal (ride height),
+// measured airspeed, direction and config when named, then one column per
+// tap (pressure logs). The indices are returned as a LogIndex.
 func (l *LogSpec) LogColumns() ([]logs.Column, LogIndex) {
-	cols := []logs.Column{{Name: l.Time}, {Name: l.SpeedColumn()}, {Name: l.Signal}}
-	ix := LogIndex{Time: 0, Speed: 1, Signal: 2, Direction: -1, Config: -1}
-	if l.Direction != "" {
-		ix.Direction = len(cols)
-		cols = append(cols, logs.Column{Name: l.Direction})
+	ix := LogIndex{Time: 0, Speed: -1, Signal: -1, Airspeed: -1, Direction: -1, Config: -1}
+	cols := []logs.Column{{Name: l.Time, Time: true}}
+	add := func(at *int, c logs.Column) {
+		if c.Name != "" {
+			*at = len(cols)
+			cols = append(cols, c)
+		}
 	}
-	if l.Config != "" {
-		ix.Config = len(cols)
-		cols = append(cols, logs.Column{Name: l.Config, Text: true})
+	if l.SpeedFile == nil {
+		add(&ix.Speed, logs.Column{Name: l.SpeedColumn()})
+	}
+	add(&ix.Signal, logs.Column{Name: l.Signal})
+	add(&ix.Airspeed, logs.Column{Name: l.AirspeedColumn()})
+	add(&ix.Direction, logs.Column{Name: l.Direction})
+	add(&ix.Config, logs.Column{Name: l.Config, Text: true})
+	for _, t := range l.Taps {
+		k := -1
+		add(&k, logs.Column{Name: t.V})
+		ix.Taps = append(ix.Taps, k)
 	}
 	return cols, ix
 }
 
 // LogIndex places each named column among those LogColumns asks for; -1
-// means not named.
+// means not named. Taps follow the order of LogSpec.Taps.
 type LogIndex struct {
-	Time, Speed, Signal, Direction, Config int
+	Time, Speed, Signal, Airspeed, Direction, Config int
+	Taps                                             []int
 }
 
 // SpeedColumn is the name of the speed column, in km/h or m/s.
@@ -55,19 +67,90 @@ func (l *LogSpec) SpeedToMs(x float64) float64 {
 	return air.KmhToMs(x)
 }
 
-// logKeys names the spec key of each asked-for column, for messages.
+// AirspeedColumn is the name of the measured airspeed column (airspeed_kmh,
+// airspeed_ms or the probe's q_pa), or "".
+func (l *LogSpec) AirspeedColumn() string {
+	switch {
+	case l.AirspeedKmh != "":
+		return l.AirspeedKmh
+	case l.AirspeedMs != "":
+		return l.AirspeedMs
+	}
+	return l.QPa
+}
+
+// ReaderFormat is how the log reader should read the file: the keys the
+// campaign gives, everything else detected. An explicit skip_lines: 0
+// skips nothing and detects no units row.
+func (l *LogSpec) ReaderFormat() logs.Format { return readerFormat(l.Format) }
+
+// ReaderFormat is how the log reader should read the speed file.
+func (sf *SpeedFile) ReaderFormat() logs.Format { return readerFormat(sf.Format) }
+
+// readerFormat converts the campaign's format keys; validation has already
+// refused values the reader does not take.
+func readerFormat(f *LogFormat) logs.Format {
+	var out logs.Format
+	if f == nil {
+		return out
+	}
+	out.Delimiter, _ = logs.ParseDelimiter(f.Delimiter)
+	out.Decimal, _ = logs.ParseDecimal(f.Decimal)
+	out.HeaderLine = f.HeaderLine
+	out.SkipLines = f.SkipLines
+	if f.At.Has("skip_lines") && f.SkipLines == 0 {
+		out.SkipLines = logs.NoSkip
+	}
+	out.Time, _ = logs.ParseTimeFormat(f.Time)
+	out.Empty, _ = logs.ParseEmptyPolicy(f.Empty)
+	return out
+}
+
+// SpeedFileColumns are the columns read from a speed file: time, speed.
+func (sf *SpeedFile) SpeedFileColumns() []logs.Column {
+	name := sf.SpeedKmh
+	if sf.SpeedMs != "" {
+		name = sf.SpeedMs
+	}
+	return []logs.Column{{Name: sf.Time, Time: true}, {Name: name}}
+}
+
+// SpeedToMs converts a value of the speed file's speed column to m/s.
+func (sf *SpeedFile) SpeedToMs(x float64) float64 {
+	if sf.SpeedMs != "" {
+		return x
+	}
+	return air.KmhToMs(x)
+}
+
+// logKeys names the spec key of each asked-for column, in LogColumns'
+// order, for messages.
 func (l *LogSpec) logKeys() []string {
-	keys := []string{"time", "speed_kmh", "signal"}
-	if l.SpeedMs != "" {
-		keys[1] = "speed_ms"
+	keys := []string{"time"}
+	if l.SpeedFile == nil {
+		keys = append(keys, map[bool]string{true: "speed_ms", false: "speed_kmh"}[l.SpeedMs != ""])
 	}
-	if l.Direction != "" {
-		keys = append(keys, "direction")
+	for _, k := range []struct{ key, col string }{
+		{"signal", l.Signal}, {l.airspeedKey(), l.AirspeedColumn()}, {"direction", l.Direction}, {"config", l.Config},
+	} {
+		if k.col != "" {
+			keys = append(keys, k.key)
+		}
 	}
-	if l.Config != "" {
-		keys = append(keys, "config")
+	for _, t := range l.Taps {
+		keys = append(keys, "taps."+t.Key)
 	}
 	return keys
+}
+
+func (l *LogSpec) airspeedKey() string {
+	switch {
+	case l.AirspeedKmh != "":
+		return "airspeed_kmh"
+	case l.AirspeedMs != "":
+		return "airspeed_ms"
+	}
+	return "q_pa"
 }
 
 // maxTableBytes bounds a taps or readings table.
@@ -89,18 +172,19 @@ func logProblem(err error, path string) *Problem {
 // scanLog checks a log: the file opens, the named columns exist, and (unless
 // HeadersOnly) every used cell is a finite number, time increases, direction
 // is ±1, configuration ids are known and segments lie inside the log's span.
-// A log named by several entries with the same columns is read once.
+// A log named by several entries with the same columns is read once. What
+// the reader detected of the file's format is kept for validate to show.
 func (v *validator) scanLog(l *LogSpec, path string) {
 	if l.File == "" {
 		v.errf(l.At.Of("file"), path+".file", ErrFile, "the log's file name is empty")
 		return
 	}
-	if l.Format != nil || l.SpeedFile != nil || len(l.Taps) > 0 || l.Airspeed() {
-		return // TODO(v2 reader): formats, joins, airspeed and tap columns
+	if sf := l.SpeedFile; sf != nil {
+		v.scanSpeedFile(sf, path+".speed_file")
 	}
 	name := v.c.Path(l.File)
 	cols, ix := l.LogColumns()
-	key := scanKey(name, cols)
+	key := scanKey(name, cols, l.ReaderFormat())
 	res, seen := v.scanned[key]
 	if !seen {
 		res = v.scanBody(l, path, name, cols, ix)
@@ -112,6 +196,7 @@ func (v *validator) scanLog(l *LogSpec, path string) {
 	if res == nil {
 		return
 	}
+	l.Detected = res.detected
 	for id := range res.configs {
 		v.informed[id] = true
 	}
@@ -123,16 +208,18 @@ func (v *validator) scanLog(l *LogSpec, path string) {
 	}
 }
 
-// scanResult is what a read of a log's body found: its time span and the
-// configuration ids it holds. nil: the log could not be read through.
+// scanResult is what a read of a log's body found: its time span, the
+// configuration ids it holds and its detected format. nil: the log could
+// not be read through.
 type scanResult struct {
-	t0, t1  float64
-	configs map[string]bool
+	t0, t1   float64
+	configs  map[string]bool
+	detected string
 }
 
-func scanKey(name string, cols []logs.Column) string {
+func scanKey(name string, cols []logs.Column, f logs.Format) string {
 	var b strings.Builder
-	b.WriteString(name)
+	fmt.Fprintf(&b, "%s\x00%+v", name, f)
 	for _, c := range cols {
 		fmt.Fprintf(&b, "\x00%s\x00%t", c.Name, c.Text)
 	}
@@ -149,43 +236,78 @@ func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, 
 	}
 	defer f.Close()
 	v.c.addFile(name)
-	if !v.header(f, l, path, name, cols) || v.opt.HeadersOnly || l.At.Has("speed_kmh") == l.At.Has("speed_ms") {
-		return nil
-	}
-	if _, err := f.Seek(0, io.SeekStart); err != nil {
-		v.errf(l.At.Of("file"), path+".file", ErrFile, "cannot re-read log %q: %v", l.File, err)
-		return nil
-	}
-	r, err := logs.NewReader(f, name, cols)
+	r, err := logs.NewReaderFormat(f, name, cols, l.ReaderFormat())
 	if err != nil {
-		v.errs = append(v.errs, logProblem(err, path))
+		v.headerProblems(err, l, path, cols)
 		return nil
 	}
 	defer r.Close()
-	r.Increasing = ix.Time
-	return v.rows(r, l, path, ix)
+	if v.opt.HeadersOnly {
+		return nil
+	}
+	res := v.rows(r, l, path, ix)
+	if res != nil {
+		res.detected = r.Detected().String()
+	}
+	return res
 }
 
-// header checks that every named column is in the log's header.
-func (v *validator) header(f io.Reader, l *LogSpec, path, name string, cols []logs.Column) bool {
-	hr, err := logs.NewReader(f, name, nil)
-	if err != nil {
+// headerProblems turns the reader's header errors into problems: each
+// missing column at the key that names it (with the header's columns and
+// the closest name), anything else at the file.
+func (v *validator) headerProblems(err error, l *LogSpec, path string, cols []logs.Column) {
+	pes := logs.ParseErrors(err)
+	if len(pes) == 0 {
 		v.errs = append(v.errs, logProblem(err, path+".file"))
-		return false
+		return
 	}
-	have := map[string]bool{}
-	for _, n := range hr.Names() {
-		have[n] = true
-	}
-	ok := true
-	for k, c := range cols {
-		if c.Name != "" && !have[c.Name] {
-			key := l.logKeys()[k]
-			v.errf(l.At.Of(key), path+"."+key, ErrColumn, "column %q is not in the header of %s", c.Name, l.File)
-			ok = false
+	keys := l.logKeys()
+	for _, pe := range pes {
+		k := slices.IndexFunc(cols, func(c logs.Column) bool { return c.Name == pe.Field })
+		if !errors.Is(pe, logs.ErrNoColumn) || k < 0 {
+			v.errs = append(v.errs, logProblem(pe, path+".file"))
+			continue
 		}
+		at := l.At.Of(keys[k])
+		if t, ok := strings.CutPrefix(keys[k], "taps."); ok {
+			at = l.At.Of("taps")
+			for _, n := range l.Taps {
+				if n.Key == t {
+					at = n.At
+				}
+			}
+		}
+		v.errf(at, path+"."+keys[k], ErrColumn, "column %q of %s: %v", pe.Field, l.File, pe.Err)
 	}
-	return ok
+}
+
+// scanSpeedFile checks a speed file's header and cells.
+func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
+	name := v.c.Path(sf.File)
+	f, err := OpenRegular(name)
+	if err != nil {
+		v.errf(sf.At.Of("file"), path+".file", ErrFile, "cannot read speed file %q: %v", sf.File, err)
+		return
+	}
+	defer f.Close()
+	v.c.addFile(name)
+	r, err := logs.NewReaderFormat(f, name, sf.SpeedFileColumns(), sf.ReaderFormat())
+	if err != nil {
+		pes := logs.ParseErrors(err)
+		if len(pes) == 0 {
+			v.errs = append(v.errs, logProblem(err, path))
+		}
+		for _, pe := range pes {
+			v.errs = append(v.errs, logProblem(pe, path))
+		}
+		return
+	}
+	defer r.Close()
+	for !v.opt.HeadersOnly && r.Next() {
+	}
+	if err := r.Err(); err != nil {
+		v.errs = append(v.errs, logProblem(err, path))
+	}
 }
 
 // rows reads a log's body: cells, time order, directions, configuration ids.
@@ -437,7 +559,7 @@ func (c *Campaign) addFile(name string) {
 func (c *Campaign) Hash() (string, error) {
 	h := sha256.New()
 	for _, name := range c.Files {
-		f, err := os.Open(name)
+		f, err := OpenRegular(name)
 		if err != nil {
 			return "", err
 		}
@@ -472,4 +594,27 @@ func (c *Campaign) RowConfig(id string) error {
 		return wrapf(ErrReference, "unknown configuration %q (known: %s)", id, WordList(c.ConfigIDs()))
 	}
 	return nil
+}
+
+// DetectedFormats lists, once per log file, how the reader read it — the
+// format keys given and what it detected — for a person to confirm:
+// `logs/day1.csv: delimiter ";", decimal ",", header on line 3, …`.
+func (c *Campaign) DetectedFormats() []string {
+	var out []string
+	seen := map[string]bool{}
+	add := func(ls []LogSpec) {
+		for _, l := range ls {
+			if l.Detected != "" && !seen[l.File] {
+				seen[l.File] = true
+				out = append(out, l.File+": "+l.Detected)
+			}
+		}
+	}
+	for _, e := range c.Evidence.RideHeight {
+		add(e.Logs)
+	}
+	for _, e := range c.Evidence.Pressure {
+		add(e.Logs)
+	}
+	return out
 }

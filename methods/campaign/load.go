@@ -43,30 +43,63 @@ func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
 	}
 	c := &Campaign{File: name, Dir: dir, Files: []string{name}}
 	d := &decoder{file: name}
-	if root.Kind == yaml.MappingNode {
-		// Check the format number first: a file of another format gets one
-		// clear message instead of a list of unknown keys.
-		for i := 0; i+1 < len(root.Content); i += 2 {
-			if k, v := root.Content[i], root.Content[i+1]; k.Value == "liftfuse" && v.Value != "1" {
-				return nil, Problems{{Where: d.where(v), Path: "liftfuse",
-					Err: wrapf(ErrFormat, "campaign format %q is not supported (this liftfuse reads format 1)", v.Value)}}
-			}
-		}
+	if p := otherDocument(d, root); p != nil {
+		return nil, Problems{p}
 	}
 	d.decode(root, reflectValue(c), "")
-	if len(d.probs) > 0 {
-		sortProblems(d.probs)
-		return nil, Problems(d.probs)
-	}
 	applyDefaults(c)
 	v := &validator{c: c, opt: opt}
 	v.run()
-	if len(v.errs) > 0 {
-		sortProblems(v.errs)
-		return nil, Problems(v.errs)
+	// Every problem of every kind at once: the validator's, except where a
+	// key it checks already failed to decode (it would only repeat that).
+	probs := append([]*Problem(nil), d.probs...)
+	for _, p := range v.errs {
+		if !underAny(p.Path, d.probs) {
+			probs = append(probs, p)
+		}
+	}
+	if len(probs) > 0 {
+		sortProblems(probs)
+		return nil, Problems(probs)
 	}
 	c.Warnings = v.warns
 	return c, nil
+}
+
+// underAny reports whether path is at, above or below the path of one of
+// the problems.
+func underAny(path string, probs []*Problem) bool {
+	for _, p := range probs {
+		if p.Path == "" || path == p.Path || strings.HasPrefix(path, p.Path+".") || strings.HasPrefix(path, p.Path+"[") ||
+			strings.HasPrefix(p.Path, path+".") || strings.HasPrefix(p.Path, path+"[") {
+			return true
+		}
+	}
+	return false
+}
+
+// otherDocument recognises a document that is not a campaign of format 1 —
+// another format number, a simulation spec, a result document — and
+// returns one clear problem for it instead of a list of unknown keys.
+func otherDocument(d *decoder, root *yaml.Node) *Problem {
+	if root.Kind != yaml.MappingNode {
+		return nil
+	}
+	for i := 0; i+1 < len(root.Content); i += 2 {
+		k, v := root.Content[i], root.Content[i+1]
+		switch {
+		case k.Value == "liftfuse" && v.Value != "1":
+			return &Problem{Where: d.where(v), Path: "liftfuse",
+				Err: wrapf(ErrFormat, "campaign format %q is not supported (this liftfuse reads format 1)", v.Value)}
+		case k.Value == "liftfuse_simulate":
+			return &Problem{Where: d.where(k), Path: k.Value,
+				Err: wrapf(ErrFormat, "this is a simulation spec, not a campaign: run `liftfuse simulate` on it to make a campaign")}
+		case k.Value == "format" && strings.HasPrefix(v.Value, "liftfuse."):
+			return &Problem{Where: d.where(v), Path: k.Value,
+				Err: wrapf(ErrFormat, "this is a liftfuse output document (%s), not a campaign", v.Value)}
+		}
+	}
+	return nil
 }
 
 // MaxDocumentBytes is the largest campaign (or other YAML document of ours)

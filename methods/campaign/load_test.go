@@ -158,6 +158,46 @@ func TestLoadListsEveryProblem(t *testing.T) {
 	}
 }
 
+// TestLoadListsEveryKind: a key typo does not hide a rule the validator
+// checks elsewhere (issue: a configuration typo was hidden by a key typo).
+func TestLoadListsEveryKind(t *testing.T) {
+	path := fixture(t)
+	seg := "evidence.ride_height[0].logs[0].segments[1].config"
+	apply(t, path, rename("vehicle.wheelbase_m", "wheelbase_mm"), set(seg, "wingg"))
+	_, err := campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("want problems, got %v", err)
+	}
+	var key, ref bool
+	for _, p := range probs {
+		key = key || errors.Is(p, campaign.ErrUnknownKey) && p.Path == "vehicle.wheelbase_mm"
+		ref = ref || errors.Is(p, campaign.ErrReference) && p.Path == seg
+	}
+	if !key || !ref {
+		t.Errorf("want both the unknown key and the unknown configuration, got:\n%v", err)
+	}
+}
+
+func TestLoadNamesOtherDocuments(t *testing.T) {
+	tests := []struct {
+		name, text, want string
+	}{
+		{"simulation spec", "liftfuse_simulate: 1\nvehicle: {}\n", "simulation spec"},
+		{"result document", `{"format": "liftfuse.result/1", "configs": []}`, "output document"},
+		{"other format number", "liftfuse: 2\n", "format \"2\""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := campaign.Parse(strings.NewReader(tt.text), "x.yaml", ".", campaign.Options{})
+			var probs campaign.Problems
+			if !errors.As(err, &probs) || len(probs) != 1 || !errors.Is(probs[0], campaign.ErrFormat) || !strings.Contains(err.Error(), tt.want) {
+				t.Errorf("want one format problem saying %q, got %v", tt.want, err)
+			}
+		})
+	}
+}
+
 func TestLoadWarnings(t *testing.T) {
 	path := fixture(t)
 	apply(t, path, remove("evidence.ride_height[1].tyre_growth"), remove("evidence.pressure[0].uncovered"))
@@ -253,5 +293,106 @@ func TestLoadRefusesFIFO(t *testing.T) {
 	_, err = campaign.Load(fifo, campaign.Options{})
 	if !errors.Is(err, campaign.ErrFile) || !strings.Contains(err.Error(), "named pipe") {
 		t.Fatalf("campaign: want a not-a-regular-file error, got %v", err)
+	}
+}
+
+// TestLoadDefaultTarget: without plan.target, the target is the rear of the
+// last configuration versus the reference (campaign-format.md, plan).
+func TestLoadDefaultTarget(t *testing.T) {
+	tests := []struct {
+		name  string
+		edits []edit
+		want  campaign.Target
+	}{
+		{"last versus the reference", []edit{remove("plan.target")}, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+		{"the last is the reference", []edit{remove("plan.target"), add("report", "reference_config", "wing")}, campaign.Target{Config: "wing", Axle: "rear"}},
+		{"given", nil, campaign.Target{Config: "wing", Axle: "rear", Versus: "base"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			path := fixture(t)
+			apply(t, path, tt.edits...)
+			c, err := campaign.Load(path, campaign.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := c.Plan.Target
+			if got.Config != tt.want.Config || got.Axle != tt.want.Axle || got.Versus != tt.want.Versus {
+				t.Errorf("target = %+v, want %+v", got, tt.want)
+			}
+		})
+	}
+}
+
+// europeanLog rewrites the fixture's log as many European loggers export:
+// a byte-order mark, a preamble, ';' between cells, decimal commas and a
+// units row under the header.
+func europeanLog(t *testing.T, campaignPath string) {
+	t.Helper()
+	name := filepath.Join(filepath.Dir(campaignPath), "logs", "run.csv")
+	data, err := os.ReadFile(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	var b strings.Builder
+	b.WriteString("\ufeffLogger X2 export\nsession;7\n")
+	for i, l := range lines {
+		cells := strings.Split(l, ",")
+		for k := range cells {
+			cells[k] = strings.ReplaceAll(cells[k], ".", ",")
+		}
+		b.WriteString(strings.Join(cells, ";") + "\n")
+		if i == 0 {
+			b.WriteString("s;km/h;m/s;-;V;V;-\n")
+		}
+	}
+	if err := os.WriteFile(name, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestLoadDetectsLoggerFormat: the same log written the European way loads
+// without format keys, and what was detected is told.
+func TestLoadDetectsLoggerFormat(t *testing.T) {
+	path := fixture(t)
+	europeanLog(t, path)
+	c, err := campaign.Load(path, campaign.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := strings.Join(c.DetectedFormats(), "\n")
+	for _, want := range []string{`delimiter ";"`, `decimal ","`, "header on line 3", "units row"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("detected %q lacks %q", got, want)
+		}
+	}
+}
+
+// TestLoadMissingColumnsHelp: every missing column once, at its key, with
+// the header's columns and the closest name.
+func TestLoadMissingColumnsHelp(t *testing.T) {
+	path := fixture(t)
+	log0 := "evidence.ride_height[0].logs[0]"
+	apply(t, path, set(log0+".signal", "FP"), set(log0+".direction", "dir"))
+	_, err := campaign.Load(path, campaign.Options{})
+	var probs campaign.Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("want problems, got %v", err)
+	}
+	var signal, direction int
+	for _, p := range probs {
+		switch p.Path {
+		case log0 + ".signal":
+			signal++
+			if !strings.Contains(p.Error(), `did you mean "fp"`) || !strings.Contains(p.Error(), "columns: t, v") || p.Line != lineOf(t, path, log0+".signal") {
+				t.Errorf("signal problem %q lacks the header or the closest name, or stands elsewhere", p.Error())
+			}
+		case log0 + ".direction":
+			direction++
+		}
+	}
+	if signal != 1 || direction != 1 {
+		t.Errorf("want one problem per missing column, got:\n%v", err)
 	}
 }

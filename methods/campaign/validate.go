@@ -96,7 +96,7 @@ func (v *validator) oneOf(p Place, path, key, s string, words ...string) bool {
 			return true
 		}
 	}
-	v.errf(p.Of(key), join(path, key), ErrRange, "%s must be one of %v, got %q", key, words, s)
+	v.errf(p.Of(key), join(path, key), ErrRange, "%s must be %s, got %q", key, WordList(words), s)
 	return false
 }
 
@@ -501,7 +501,7 @@ func (v *validator) pressure(e *PressureEntry, path string) {
 func (v *validator) vortex(e *VortexEntry, path string) {
 	v.oneOf(e.At, path, "side", e.Side, SideLeft, SideRight)
 	v.oneOf(e.At, path, "informs", e.Informs, AxleTotal, AxleRear)
-	if _, applies := DefaultMisread(v.c.Vehicle.Body); !applies && !e.At.Has("misread") {
+	if !v.c.VortexApplies(e) {
 		v.errf(e.At.Where, path, ErrNotApply,
 			"the vortex-sense method applies to fastbacks and raked notchbacks, not to a %s body; set misread to use it anyway", v.c.Vehicle.Body)
 	}

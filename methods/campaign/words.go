@@ -5,18 +5,23 @@ import (
 	"strings"
 )
 
-// WordList writes names as a person would: "a", "a and b", "a, b and c",
-// each quoted.
+// Words writes a list as in a sentence: "a", "a and b", "a, b and c" (conj
+// "and" or "or"); "none" for an empty list.
+func Words(list []string, conj string) string {
+	switch len(list) {
+	case 0:
+		return "none"
+	case 1:
+		return list[0]
+	}
+	return strings.Join(list[:len(list)-1], ", ") + " " + conj + " " + list[len(list)-1]
+}
+
+// WordList is Words with each name quoted: `"a", "b" and "c"`.
 func WordList(names []string) string {
 	q := make([]string, len(names))
 	for i, n := range names {
 		q[i] = strconv.Quote(n)
 	}
-	switch len(q) {
-	case 0:
-		return "none"
-	case 1:
-		return q[0]
-	}
-	return strings.Join(q[:len(q)-1], ", ") + " and " + q[len(q)-1]
+	return Words(q, "and")
 }

@@ -28,6 +28,15 @@ type Window struct {
 	HeightMM  float64 // mean height, mm
 	SE        float64 // standard error of the mean height, mm (friction not included)
 	Scatter   float64 // standard deviation of the samples within the window, mm
+	// AccelMs2 is the window's mean longitudinal acceleration (m/s²),
+	// the change of ground speed over its span, and AccelSE its standard
+	// error (see speedEnds.accel).
+	AccelMs2, AccelSE float64
+	// Probe is true when the log carries a measured airspeed: Q is then
+	// the mean of ½ρV_air² (or of the logged q) and AirKmh the mean
+	// airspeed; otherwise AirKmh is the ground speed.
+	Probe  bool
+	AirKmh float64
 }
 
 // TracePoint is one sample of the decimated trace kept for plots.
@@ -74,6 +83,8 @@ type pass struct {
 	cols []logs.Column
 	ix   campaign.LogIndex // into cols
 	at   []int             // cols[k] → index in the shared reader
+	air  int               // index in cols of the airspeed column, or -1
+	rho  float64
 
 	segs    []campaign.Segment
 	seg     int
@@ -92,9 +103,14 @@ type pass struct {
 func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
 	l := &e.Logs[li]
 	cols, ix := l.LogColumns()
+	airAt := -1
+	if name := airspeedColumn(l); name != "" {
+		airAt = len(cols)
+		cols = append(cols, logs.Column{Name: name})
+	}
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, segs: segs,
+	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: airAt, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), configs: map[string]string{}}
 }
@@ -191,7 +207,11 @@ func (p *pass) row(r *logs.Reader) {
 	if gap {
 		p.f.close()
 	}
-	p.f.add(t, v, h, config, dir)
+	qa := math.NaN()
+	if p.air >= 0 {
+		qa = airspeedQ(p.l, r.Float(p.at[p.air]), p.rho)
+	}
+	p.f.add(sample{t: t, v: v, h: h, qa: qa}, config, dir)
 
 	// Smoothed trace for plots; the estimates use the raw samples.
 	y := p.lp.Step(t, h)
@@ -205,6 +225,11 @@ func (p *pass) row(r *logs.Reader) {
 	}
 }
 
+// sample is one row of a log as the finder sees it: time (s), ground speed
+// (km/h), height (mm) and the measured dynamic pressure qa (Pa; NaN when
+// the log has no airspeed).
+type sample struct{ t, v, h, qa float64 }
+
 // finder splits a stream of samples into steady windows.
 type finder struct {
 	tol, minDur, rho float64
@@ -217,12 +242,15 @@ type finder struct {
 		from, to         float64
 		sumV, minV, maxV float64
 		sumV2            float64 // Σ V², (km/h)²
+		ends             speedEnds
+		sumQA, sumVA     float64 // Σ q_air (Pa), Σ V_air (m/s)
+		probe            bool
 		h                windowStats
 	}
 	open bool
 }
 
-func (f *finder) add(t, v, h float64, config string, dir int) {
+func (f *finder) add(s sample, config string, dir int) {
 	c := &f.cur
 	if f.open && (config != c.config || dir != c.dir) {
 		f.close()
@@ -230,27 +258,36 @@ func (f *finder) add(t, v, h float64, config string, dir int) {
 	if config == "" {
 		return
 	}
+	v := s.v
 	if f.open {
 		// Every sample within ±tol of the mean with v added: with n samples
 		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
 		n := float64(c.h.n + 1)
-		s := c.sumV + v
+		sum := c.sumV + v
 		hi, lo := max(c.maxV, v), min(c.minV, v)
-		if n*hi-s > n*f.tol || s-n*lo > n*f.tol {
+		if n*hi-sum > n*f.tol || sum-n*lo > n*f.tol {
 			f.close()
 		}
 	}
 	if !f.open {
 		f.open = true
-		c.config, c.dir, c.from = config, dir, t
+		c.config, c.dir, c.from = config, dir, s.t
 		c.sumV, c.minV, c.maxV, c.sumV2 = 0, v, v, 0
+		c.ends = speedEnds{}
+		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
 		c.h = windowStats{}
 	}
-	c.to = t
+	c.to = s.t
 	c.sumV += v
 	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
 	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
-	c.h.add(h)
+	c.ends.add(v)
+	if c.probe {
+		qa := math.Max(s.qa, 0)
+		c.sumQA += qa
+		c.sumVA += math.Sqrt(2 * qa / f.rho)
+	}
+	c.h.add(s.h)
 }
 
 func (f *finder) close() {
@@ -264,13 +301,20 @@ func (f *finder) close() {
 	}
 	n := float64(c.h.n)
 	se, neff := c.h.standardError()
-	f.windows = append(f.windows, Window{
+	slope, slopeSE := c.ends.accel(c.to - c.from)
+	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
 		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n,
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.mean(), SE: se, Scatter: math.Sqrt(c.h.variance()),
-	})
+		AccelMs2: air.KmhToMs(slope), AccelSE: air.KmhToMs(slopeSE),
+	}
+	w.AirKmh = w.SpeedKmh
+	if c.probe {
+		w.Probe, w.Q, w.AirKmh = true, c.sumQA/n, air.MsToKmh(c.sumVA/n)
+	}
+	f.windows = append(f.windows, w)
 }
 
 // openLog opens a log and reports its size for progress.

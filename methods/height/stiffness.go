@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
@@ -36,6 +38,9 @@ type Stiffness struct {
 	// GainCancels is true for a ballast stiffness: it is measured in the
 	// sensor's own calibration, so a gain error cancels from the lift term.
 	GainCancels bool
+	// Warning, when set, is something a person should look at (a ballast
+	// fit with no scatter).
+	Warning string
 }
 
 // RelSD returns the first-order relative uncertainty of the compliance.
@@ -76,10 +81,39 @@ func SpringStiffness(axle string, a campaign.Axle, laser bool) Stiffness {
 		{Name: groups[0].Name, Pow: -cw}, {Name: groups[1].Name, Pow: -2 * cw}, {Name: groups[2].Name, Pow: -ct}}}
 }
 
+// DefaultBallastSDPct is the relative sd of a ballast stiffness from two
+// points, which carry no scatter of their own (model v2; common practice,
+// no source).
+const DefaultBallastSDPct = 5
+
+// ballastLevel is the one-sided tail probability at which the Student-t and
+// normal quantiles are matched: 0.95, the edge of a 90 % interval (the
+// report's default credible level).
+const ballastLevel = 0.95
+
+// TInflation returns t_{p,ν}/z_p, the factor by which a normal interval of
+// a least-squares slope from n points widens into its Student-t interval
+// with ν = n − 2 degrees of freedom (Student 1908; any statistics table,
+// e.g. t_{0.95,1} = 6.314). It is 1 for n ≤ 2 (no degrees of freedom: the
+// caller uses a stated sd instead).
+func TInflation(n int, p float64) float64 {
+	if n <= 2 {
+		return 1
+	}
+	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(p)
+	return t / distuv.UnitNormal.Quantile(p)
+}
+
 // BallastStiffness fits static sensor height (mm, through cal) against the
 // load each added mass puts on the axle, F = m·g·x/L for the rear and
 // m·g·(1 − x/L) for the front, and returns K = −1/slope with the slope's
-// standard error carried as a log-normal scale group of the entry.
+// uncertainty carried as a log-normal scale group of the entry:
+//
+//	sd(log K) = (s_b/|b|)·t_{0.95,n−2}/z_{0.95}
+//
+// so that the group's 90 % interval is the Student-t interval of the slope.
+// Two points (or points on an exact line) carry no scatter: the sd is then
+// DefaultBallastSDPct and the Stiffness carries a warning.
 func BallastStiffness(entry, axle string, pts []campaign.BallastPoint, wheelbase float64, cal Calibration) (Stiffness, error) {
 	xs := make([]float64, len(pts))
 	ys := make([]float64, len(pts))
@@ -99,7 +133,14 @@ func BallastStiffness(entry, axle string, pts []campaign.BallastPoint, wheelbase
 		return Stiffness{}, fmt.Errorf("ballast: the body does not sink under added mass (slope %.4g mm/N): check the sensor's sign, the calibration or x_m", slope)
 	}
 	K := -1 / slope
-	g := evidence.ScaleGroup{Name: entry + "/ballast-stiffness", Label: entry + " ballast stiffness", SD: se / -slope}
+	sd := se / -slope * TInflation(len(pts), ballastLevel)
+	var warn string
+	if sd < 1e-9 { // round-off of an exact line
+		sd = DefaultBallastSDPct / 100
+		warn = fmt.Sprintf("%s: the ballast stiffness rests on %d points with no scatter between them: its uncertainty is taken as %g %%; add a third mass to measure it",
+			entry, len(pts), float64(DefaultBallastSDPct))
+	}
+	g := evidence.ScaleGroup{Name: entry + "/ballast-stiffness", Label: entry + " ballast stiffness", SD: sd}
 	return Stiffness{K: K, SE: K * g.SD, Groups: []evidence.ScaleGroup{g}, Source: campaign.FromBallast,
-		Refs: []ScaleRef{{Name: g.Name, Pow: 1}}, GainCancels: true}, nil
+		Refs: []ScaleRef{{Name: g.Name, Pow: 1}}, GainCancels: true, Warning: warn}, nil
 }

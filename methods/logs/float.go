@@ -130,34 +130,34 @@ func smallExp(b []byte) (int, bool) {
 }
 
 // prefixFloat parses the plain decimal number at the start of b (sign,
-// digits, optional fraction; no exponent) and returns it with the bytes it
-// took. ok is false when the prefix is not such a number or carries more
-// than 15 significant digits; the caller then takes the general path. The
-// result is exact by the same argument as fastFloat's.
-func prefixFloat(b []byte) (x float64, n int, ok bool) {
+// digits, optional fraction after the decimal mark dec; no exponent) and
+// returns it with the bytes it took. ok is false when the prefix is not
+// such a number or its digits, read as an integer m, exceed 2^53 (or
+// there are more than 22 fraction digits); the caller then takes the
+// general path. Otherwise m and 10^f are exact doubles and the one
+// correctly rounded quotient m/10^f is the correctly rounded value of the
+// decimal (Clinger's fast path, as in fastFloat). Counting no significant
+// digits keeps the digit loops to one compare each; at most 19 digits fit
+// a uint64 without overflow.
+func prefixFloat(b []byte, dec byte) (x float64, n int, ok bool) {
 	i := 0
 	neg := false
-	if i < len(b) && (b[i] == '-' || b[i] == '+') {
-		neg = b[i] == '-'
+	if len(b) > 0 && (b[0] == '-' || b[0] == '+') {
+		neg = b[0] == '-'
 		i++
 	}
 	var mant uint64
-	digits, exp := 0, 0
 	start := i
 	for ; i < len(b); i++ {
 		c := b[i] - '0'
 		if c > 9 {
 			break
 		}
-		if mant == 0 && c == 0 {
-			continue
-		}
 		mant = mant*10 + uint64(c)
-		digits++
 	}
-	intDigits := i - start
+	nd := i - start
 	frac := 0
-	if i < len(b) && b[i] == '.' {
+	if i < len(b) && b[i] == dec {
 		i++
 		fs := i
 		for ; i < len(b); i++ {
@@ -165,22 +165,17 @@ func prefixFloat(b []byte) (x float64, n int, ok bool) {
 			if c > 9 {
 				break
 			}
-			if mant == 0 && c == 0 {
-				exp--
-				continue
-			}
 			mant = mant*10 + uint64(c)
-			digits++
-			exp--
 		}
 		frac = i - fs
+		nd += frac
 	}
-	if intDigits+frac == 0 || digits > 15 || -exp > 22 {
+	if nd == 0 || nd > 19 || mant > 1<<53 || frac > 22 {
 		return 0, i, false
 	}
 	x = float64(mant)
-	if exp < 0 {
-		x /= pow10[-exp]
+	if frac > 0 {
+		x /= pow10[frac]
 	}
 	if neg {
 		x = math.Copysign(x, -1)

@@ -8,18 +8,21 @@ import (
 	"math"
 	"runtime"
 	"sync"
+	"unicode/utf8"
 )
 
 // Sentinel errors wrapped by ParseError.
 var (
 	ErrEmpty         = errors.New("empty file: no header row")
-	ErrNoColumn      = errors.New("no such column in the header")
+	ErrNoColumn      = errors.New("not in the header")
 	ErrMissingCell   = errors.New("missing value")
 	ErrNotNumber     = errors.New("not a number")
 	ErrNotFinite     = errors.New("not a finite number")
 	ErrNotIncreasing = errors.New("time is not strictly increasing")
 	ErrBlankLine     = errors.New("blank line inside the data")
 	ErrLongLine      = errors.New("line longer than 1 MiB")
+	ErrNoHeader      = errors.New("no header line")
+	ErrNotTime       = errors.New("not a time")
 )
 
 // ParseError is a fault at a place in a log. Column is the 1-based character
@@ -47,11 +50,22 @@ func (e *ParseError) Unwrap() error { return e.Err }
 
 // Column asks for one column by its header name. A Text column is handed
 // over as bytes (a configuration id, say); the others are parsed as finite
-// numbers.
+// numbers. The Time column (at most one) is read by Format.Time and must
+// increase strictly; clock and ISO times are yielded as seconds from the
+// log's first sample.
 type Column struct {
 	Name string
 	Text bool
+	Time bool
 }
+
+// column kinds, by how a cell is read
+const (
+	kindNum uint8 = iota
+	kindText
+	kindClock // int64 nanoseconds of the day, stored in the float's bits until Next
+	kindISO   // int64 Unix nanoseconds, likewise
+)
 
 const (
 	chunkSize   = 256 << 10 // bytes of log per block
@@ -61,13 +75,14 @@ const (
 
 // Reader streams the rows of a log, keeping only the asked-for columns.
 //
-// The file is cut into blocks of about 1 MiB at line ends; with Workers > 1
+// The file is cut into blocks of about 256 KiB at line ends; with Workers > 1
 // the blocks are parsed in parallel while the caller consumes earlier ones
 // in order, so parsing overlaps the caller's own work. Memory is a few
 // blocks, whatever the file's length. Call Close when stopping early.
 type Reader struct {
 	// Increasing, when ≥ 0, is the index (into the asked-for columns) of a
-	// column that must grow strictly from row to row, such as time.
+	// column that must grow strictly from row to row, such as time. A
+	// column marked Time sets it; set it before the first call to Next.
 	Increasing int
 	// Workers is the number of goroutines that parse blocks (default
 	// GOMAXPROCS); set it before the first call to Next.
@@ -79,7 +94,22 @@ type Reader struct {
 	want  []int // file column → asked index, or −1
 	names []string
 	rest  []byte // bytes after the header, read while finding it
-	line  int    // line number of the header
+	line  int    // line number of the last line before the data
+
+	format  Format  // as settled on: given keys, then detected ones
+	delim   byte    // format.Delimiter
+	dec     byte    // format.Decimal
+	kind    []uint8 // per asked column
+	timeK   int     // asked index of the time column, or −1
+	post    bool    // rows need the consumer's pass (hold, clock or ISO time)
+	hold    []bool  // per asked column: holds its last value (EmptyHold)
+	last    []float64
+	lastTxt [][]byte
+	has     []bool
+	t0      int64 // nanoseconds of the first sample (clock, ISO)
+	haveT0  bool
+	day     int64 // nanoseconds added for midnights passed (clock)
+	prevNs  int64
 
 	started bool
 	order   chan chan *block
@@ -89,6 +119,7 @@ type Reader struct {
 
 	cur      *block
 	i        int
+	base     int // index of the current row's first cell in cur.vals
 	prev     float64
 	havePrev bool
 	blank    int // first line of trailing blank lines of the previous block
@@ -97,94 +128,115 @@ type Reader struct {
 
 // block is one parsed piece of the log.
 type block struct {
-	data  []byte
-	rows  int
-	line  []int32     // line number of each row
-	start []int32     // offset of each row in data
-	vals  [][]float64 // per asked column (numeric)
-	text  [][][2]int32
+	data []byte
+	rows int
+	// first is the line of the first row; the rows are the lines that
+	// follow it, unless rows may be dropped (EmptySkip): then line holds
+	// each row's line.
+	first int
+	line  []int32
+	// vals holds the asked-for cells row by row (row i, column k at
+	// i·len(cols)+k): numbers (NaN: an empty cell to hold), clock and ISO
+	// times as int64 nanoseconds in the float's bits until Next converts
+	// them, text as a span of data packed in the bits (see span).
+	vals []float64
 	// trailing is the line of the first blank line after the last row, or 0
 	trailing int
 	err      error
 }
 
-// NewReader reads the header row of src and finds the columns. file names
-// the source in errors.
+// NewReader reads the header row of src and finds the columns, detecting
+// the format (see Format). file names the source in errors.
 func NewReader(src io.Reader, file string, cols []Column) (*Reader, error) {
-	r := &Reader{Increasing: -1, Workers: runtime.GOMAXPROCS(0), src: src, file: file, cols: cols}
-	buf := make([]byte, 0, 64<<10)
-	// Read until the first non-blank line is complete.
-	for {
-		if i := headerEnd(buf); i >= 0 {
-			header := buf[:i]
-			r.rest = append([]byte(nil), buf[i+1:]...)
-			r.line += bytes.Count(header, []byte{'\n'}) + 1
-			header = lastLine(header)
-			return r, r.setHeader(header)
-		}
-		if len(buf) >= maxLineSize {
-			return nil, &ParseError{File: file, Line: 1, Err: ErrLongLine}
-		}
-		tmp := make([]byte, 64<<10)
-		n, err := src.Read(tmp)
-		buf = append(buf, tmp[:n]...)
-		if err == io.EOF {
-			if len(bytes.TrimSpace(buf)) == 0 {
-				return nil, &ParseError{File: file, Line: 1, Err: ErrEmpty}
-			}
-			r.line += bytes.Count(buf, []byte{'\n'}) + 1
-			return r, r.setHeader(lastLine(bytes.TrimRight(buf, "\r\n\t ")))
-		}
-		if err != nil {
-			return nil, &ParseError{File: file, Line: 1, Err: err}
-		}
-	}
+	return NewReaderFormat(src, file, cols, Format{})
 }
 
-// headerEnd returns the index of the newline ending the first non-blank
-// line of buf, or −1.
-func headerEnd(buf []byte) int {
-	off := 0
-	for {
-		i := bytes.IndexByte(buf[off:], '\n')
-		if i < 0 {
-			return -1
-		}
-		if len(bytes.TrimSpace(buf[off:off+i])) > 0 {
-			return off + i
-		}
-		off += i + 1
+// NewReaderFormat is NewReader with the format keys a campaign gives; zero
+// keys are detected. Every asked-for column missing from the header is
+// reported at once: the error is then an errors.Join of *ParseError values
+// (see ParseErrors), each listing the header's columns and the closest name.
+func NewReaderFormat(src io.Reader, file string, cols []Column, f Format) (*Reader, error) {
+	if err := f.Check(); err != nil {
+		return nil, &ParseError{File: file, Line: 1, Err: err}
 	}
+	r := &Reader{Increasing: -1, Workers: runtime.GOMAXPROCS(0), src: src, file: file, cols: cols, format: f, timeK: -1}
+	r.kind = make([]uint8, len(cols))
+	for k, c := range cols {
+		if c.Text {
+			r.kind[k] = kindText
+		}
+		if c.Time && r.timeK < 0 {
+			r.timeK, r.Increasing = k, k
+		}
+	}
+	if err := r.readHead(); err != nil {
+		return nil, err
+	}
+	return r, nil
 }
 
-func lastLine(b []byte) []byte {
-	if i := bytes.LastIndexByte(b, '\n'); i >= 0 {
-		b = b[i+1:]
-	}
-	return bytes.TrimSuffix(b, []byte{'\r'})
-}
+// Detected returns the format the reader settled on: the keys it was
+// given and the ones it detected. Time is TimeDetect until it is known
+// (at NewReader when a column is marked Time, else at the first Next).
+func (r *Reader) Detected() Format { return r.format }
 
+// setHeader splits the header line with the settled delimiter and finds
+// the asked-for columns; a missing one is an error (all of them at once).
 func (r *Reader) setHeader(header []byte) error {
-	index := map[string]int{}
-	for i, name := range splitCells(header, nil) {
-		name = bytes.Trim(bytes.TrimSpace(name), `"`)
-		if _, dup := index[string(name)]; !dup {
-			index[string(name)] = i
+	r.names = headerNames(header, r.delim)
+	index := make(map[string]int, len(r.names))
+	for i, name := range r.names {
+		if _, dup := index[name]; !dup {
+			index[name] = i
 		}
-		r.names = append(r.names, string(name))
 	}
 	r.want = make([]int, len(r.names))
 	for i := range r.want {
 		r.want[i] = -1
 	}
+	var errs []error
 	for k, c := range r.cols {
 		i, ok := index[c.Name]
 		if !ok {
-			return &ParseError{File: r.file, Line: r.line, Field: c.Name, Err: ErrNoColumn}
+			col := 1
+			if near, ok := ClosestName(c.Name, r.names); ok {
+				col = cellColumn(header, r.delim, index[near])
+			}
+			errs = append(errs, &ParseError{File: r.file, Line: r.line, Column: col, Field: c.Name, Err: missingColumn(c.Name, r.names)})
+			continue
 		}
 		r.want[i] = k
 	}
-	return nil
+	switch len(errs) {
+	case 0:
+		return nil
+	case 1:
+		return errs[0]
+	}
+	return errors.Join(errs...)
+}
+
+// headerNames splits a header line into names, spaces and quotes dropped.
+func headerNames(header []byte, delim byte) []string {
+	var names []string
+	for _, name := range splitCells(header, delim, nil) {
+		names = append(names, string(bytes.Trim(bytes.TrimSpace(name), `"`)))
+	}
+	return names
+}
+
+// cellColumn returns the 1-based character column where cell i of line
+// starts.
+func cellColumn(line []byte, delim byte, i int) int {
+	at := 0
+	for ; i > 0; i-- {
+		j := bytes.IndexByte(line[at:], delim)
+		if j < 0 {
+			return 0
+		}
+		at += j + 1
+	}
+	return utf8.RuneCount(line[:at]) + 1
 }
 
 // Names returns the header's column names, in file order.
@@ -197,8 +249,40 @@ func (r *Reader) Next() bool {
 		return false
 	}
 	if !r.started {
-		r.start()
+		if r.err = r.start(); r.err != nil {
+			return false
+		}
 	}
+	for {
+		if r.cur != nil && r.i+1 < r.cur.rows {
+			r.i++ // the common case, kept inline
+			r.base += len(r.cols)
+		} else if !r.advance() {
+			return false
+		}
+		if r.post && !r.postRow() {
+			if r.err != nil {
+				return false
+			}
+			continue // a row dropped while a held column has no value yet
+		}
+		break
+	}
+	if k := r.Increasing; k >= 0 {
+		x := r.cur.vals[r.base+k]
+		if r.havePrev && !(x > r.prev) {
+			r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
+				Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
+			return false
+		}
+		r.prev, r.havePrev = x, true
+	}
+	return true
+}
+
+// advance moves to the next parsed row, taking the next block when the
+// current one is used up.
+func (r *Reader) advance() bool {
 	for r.cur == nil || r.i+1 >= r.cur.rows {
 		if r.cur != nil && r.cur.err != nil {
 			r.err = r.cur.err
@@ -226,38 +310,105 @@ func (r *Reader) Next() bool {
 		}
 	}
 	r.i++
-	if k := r.Increasing; k >= 0 {
-		x := r.cur.vals[k][r.i]
-		if r.havePrev && !(x > r.prev) {
-			r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
-				Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
-			return false
+	r.base = r.i * len(r.cols)
+	return true
+}
+
+// postRow finishes the current row in order: held cells take their
+// column's last value, clock and ISO times become seconds from the first
+// sample. It returns false when the row is dropped because a held column
+// has had no value yet.
+func (r *Reader) postRow() bool {
+	row, keep := r.cur.vals[r.base:r.base+len(r.cols)], true
+	for k, h := range r.hold {
+		if !h {
+			continue
 		}
-		r.prev, r.havePrev = x, true
+		if r.kind[k] == kindText {
+			if s, e, ok := unspan(row[k]); ok {
+				r.lastTxt[k] = append(r.lastTxt[k][:0], r.cur.data[s:e]...)
+				r.has[k] = true
+			}
+			keep = keep && r.has[k]
+			continue
+		}
+		if x := row[k]; x == x {
+			r.last[k], r.has[k] = x, true
+		} else {
+			row[k] = r.last[k]
+			keep = keep && r.has[k]
+		}
+	}
+	if !keep {
+		return false
+	}
+	if k := r.timeK; k >= 0 && r.kind[k] >= kindClock {
+		ns := int64(math.Float64bits(row[k]))
+		if !r.haveT0 {
+			r.t0, r.prevNs, r.haveT0 = ns, ns, true
+		}
+		if r.kind[k] == kindClock && ns+r.day < r.prevNs-nsPerDay/2 {
+			r.day += nsPerDay // the clock passed midnight
+		}
+		ns += r.day
+		r.prevNs = ns
+		row[k] = float64(ns-r.t0) / float64(nsPerSec)
 	}
 	return true
 }
 
+// Origin returns the time of the log's first sample for clock time (in
+// seconds after midnight) and ISO time (Unix seconds); 0 for time in
+// seconds or before the first row.
+func (r *Reader) Origin() float64 {
+	if !r.haveT0 {
+		return 0
+	}
+	return float64(r.t0) / float64(nsPerSec)
+}
+
 // Float returns the value of asked-for column k in the current row.
-func (r *Reader) Float(k int) float64 { return r.cur.vals[k][r.i] }
+func (r *Reader) Float(k int) float64 { return r.cur.vals[r.base+k] }
 
 // Text returns the bytes of asked-for text column k in the current row;
 // they are valid until the next call to Next.
 func (r *Reader) Text(k int) []byte {
-	s := r.cur.text[k][r.i]
-	return r.cur.data[s[0]:s[1]]
+	s, e, ok := unspan(r.cur.vals[r.base+k])
+	if !ok {
+		return r.lastTxt[k] // an empty cell, held
+	}
+	return r.cur.data[s:e]
+}
+
+// span packs the offsets of a text cell in data into a float's bits;
+// noSpan (all ones) marks an empty cell to hold.
+func span(s, e int) float64 { return math.Float64frombits(uint64(s)<<32 | uint64(e)) }
+
+const noSpan = ^uint64(0)
+
+func unspan(x float64) (s, e int, ok bool) {
+	u := math.Float64bits(x)
+	return int(u >> 32), int(uint32(u)), u != noSpan
 }
 
 // File returns the name the reader gives its source in errors.
 func (r *Reader) File() string { return r.file }
 
 // Line returns the 1-based line number of the current row.
-func (r *Reader) Line() int { return int(r.cur.line[r.i]) }
+func (r *Reader) Line() int {
+	if r.format.Empty == EmptySkip {
+		return int(r.cur.line[r.i])
+	}
+	return r.cur.first + r.i
+}
 
 // Column returns the 1-based character column where asked-for column k's
 // cell starts in the current row.
 func (r *Reader) Column(k int) int {
-	row := r.cur.data[r.cur.start[r.i]:]
+	row := r.cur.data
+	for n := r.Line() - r.cur.first; n > 0; n-- { // the row's start: a slow path for messages
+		row = row[bytes.IndexByte(row, '\n')+1:]
+	}
 	if e := bytes.IndexByte(row, '\n'); e >= 0 {
 		row = row[:e]
 	}
@@ -266,7 +417,7 @@ func (r *Reader) Column(k int) int {
 		if col < len(r.want) && r.want[col] == k {
 			return at + 1
 		}
-		i := bytes.IndexByte(row[at:], ',')
+		i := bytes.IndexByte(row[at:], r.delim)
 		if i < 0 {
 			return 0
 		}
@@ -292,8 +443,15 @@ func (r *Reader) Close() {
 
 // start launches the block pipeline: one goroutine cuts the input into
 // blocks at line ends and hands them to the parsers in order.
-func (r *Reader) start() {
+func (r *Reader) start() error {
 	r.started = true
+	if r.timeK < 0 && r.Increasing >= 0 && r.Increasing < len(r.cols) && r.kind[r.Increasing] == kindNum {
+		r.timeK = r.Increasing
+		if err := r.settleTime(); err != nil {
+			return err
+		}
+	}
+	r.setupPost()
 	r.spare = make(chan *block, 2*inFlight+4)
 	r.order = make(chan chan *block, inFlight)
 	r.done = make(chan struct{})
@@ -354,6 +512,25 @@ func (r *Reader) start() {
 			}
 		}
 	}()
+	return nil
+}
+
+// setupPost readies the consumer's pass over each row: which columns hold
+// their last value, and whether time needs converting.
+func (r *Reader) setupPost() {
+	if r.format.Empty == EmptyHold {
+		r.hold = make([]bool, len(r.cols))
+		for k := range r.cols {
+			r.hold[k] = k != r.timeK
+		}
+		r.last = make([]float64, len(r.cols))
+		r.lastTxt = make([][]byte, len(r.cols))
+		r.has = make([]bool, len(r.cols))
+		r.post = len(r.cols) > 1 || r.timeK < 0
+	}
+	if r.timeK >= 0 && r.kind[r.timeK] >= kindClock {
+		r.post = true
+	}
 }
 
 // send queues a result slot (or a ready block) for the consumer, in order.
@@ -376,12 +553,13 @@ func (r *Reader) send(b *block, res chan *block) bool {
 func (r *Reader) buffer(n int) []byte {
 	const slack = 64 << 10
 	if b, ok := r.pool.Get().(*block); ok {
+		data := b.data // before a parser may take b and reset it
 		select {
 		case r.spare <- b: // its arrays, for newBlock
 		default:
 		}
-		if cap(b.data) >= chunkSize+n {
-			return b.data[:n]
+		if cap(data) >= chunkSize+n {
+			return data[:n]
 		}
 	}
 	return make([]byte, n, chunkSize+max(n, slack))
@@ -400,23 +578,17 @@ func (r *Reader) newBlock(data []byte) *block {
 	select {
 	case b = <-r.spare:
 	default:
-		b = &block{vals: make([][]float64, len(r.cols)), text: make([][][2]int32, len(r.cols))}
+		b = &block{}
 	}
 	b.data, b.rows, b.trailing, b.err = data, 0, 0, nil
-	b.line, b.start = b.line[:0], b.start[:0]
-	for k, c := range r.cols {
-		if c.Text {
-			b.text[k] = b.text[k][:0]
-		} else {
-			b.vals[k] = b.vals[k][:0]
-		}
-	}
+	b.line, b.vals = b.line[:0], b.vals[:0]
 	return b
 }
 
 // parse parses the lines of data, the first of which is line first.
 func (r *Reader) parse(data []byte, first int) *block {
 	b := r.newBlock(data)
+	b.first = first
 	line := first - 1
 	blank := 0
 	for off := 0; off < len(data); {
@@ -427,10 +599,14 @@ func (r *Reader) parse(data []byte, first int) *block {
 		}
 		row := data[off : off+e]
 		line++
+		if e > maxLineSize {
+			b.err = &ParseError{File: r.file, Line: line, Err: ErrLongLine}
+			return b
+		}
 		if len(row) > 0 && row[len(row)-1] == '\r' {
 			row = row[:len(row)-1]
 		}
-		if isBlank(row) {
+		if (len(row) == 0 || row[0] == ' ' || row[0] == '\t') && isBlank(row) {
 			if blank == 0 {
 				blank = line
 			}
@@ -442,8 +618,11 @@ func (r *Reader) parse(data []byte, first int) *block {
 			return b
 		}
 		if err := r.parseRow(b, row, off, line); err != nil {
-			b.err = err
-			return b
+			if err != errSkipRow {
+				b.err = err
+				return b
+			}
+			r.dropRow(b)
 		}
 		off = next
 	}
@@ -460,17 +639,29 @@ func isBlank(row []byte) bool {
 	return true
 }
 
+// errSkipRow drops a row with an empty cell (EmptySkip).
+var errSkipRow = errors.New("row skipped")
+
 // parseRow appends one row's asked-for cells to b. Numbers are parsed in
-// the same pass that finds the commas; an unusual cell (spaces, quotes, an
-// exponent, many digits) takes the general path.
+// the same pass that finds the delimiters; an unusual cell (spaces, quotes,
+// an exponent, many digits, an empty cell, a time) takes the general path.
 func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
-	at, found := 0, 0
-	for _, k := range r.want {
-		if at > len(row) || found == len(r.cols) {
-			break // the row has no more cells, or none that we want
+	nc := len(r.cols)
+	base := len(b.vals)
+	if base+nc > cap(b.vals) {
+		b.vals = append(b.vals, make([]float64, nc)...)
+	}
+	b.vals = b.vals[:base+nc]
+	out := b.vals[base : base+nc]
+	at, found, j := 0, 0, 0
+	d, dec, want, kind := r.delim, r.dec, r.want, r.kind
+	for ; j < len(want) && found < nc; j++ {
+		if at > len(row) {
+			break // the row has no more cells
 		}
+		k := want[j]
 		if k < 0 {
-			if i := bytes.IndexByte(row[at:], ','); i >= 0 {
+			if i := bytes.IndexByte(row[at:], d); i >= 0 {
 				at += i + 1
 			} else {
 				at = len(row) + 1
@@ -478,74 +669,126 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 			continue
 		}
 		found++
-		if !r.cols[k].Text {
-			if x, n, ok := prefixFloat(row[at:]); ok && (at+n == len(row) || row[at+n] == ',') {
-				b.vals[k] = append(b.vals[k], x)
+		if kind[k] == kindNum {
+			if x, n, ok := prefixFloat(row[at:], dec); ok && (at+n == len(row) || row[at+n] == d) {
+				out[k] = x
 				at += n + 1
 				continue
 			}
 		}
 		end := len(row)
-		if i := bytes.IndexByte(row[at:], ','); i >= 0 {
+		if i := bytes.IndexByte(row[at:], d); i >= 0 {
 			end = at + i
 		}
-		if err := r.cell(b, k, row, at, end, line, off); err != nil {
+		if err := r.cell(out, k, row, at, end, line, off); err != nil {
 			return err
 		}
 		at = end + 1
 	}
-	if found < len(r.cols) {
-		for k := range r.cols {
-			if r.count(b, k) <= b.rows {
-				return &ParseError{File: r.file, Line: line, Column: len(row) + 1, Field: r.cols[k].Name, Err: ErrMissingCell}
+	if found < nc { // the row ended before these asked-for cells
+		for ; j < len(r.want); j++ {
+			if k := r.want[j]; k >= 0 {
+				if err := r.empty(out, k, line, len(row)+1); err != nil {
+					return err
+				}
 			}
 		}
 	}
-	b.line = append(b.line, int32(line))
-	b.start = append(b.start, int32(off))
+	if r.format.Empty == EmptySkip {
+		b.line = append(b.line, int32(line))
+	}
 	b.rows++
 	return nil
 }
 
-// count returns how many cells of asked-for column k the block holds.
-func (r *Reader) count(b *block, k int) int {
-	if r.cols[k].Text {
-		return len(b.text[k])
+// dropRow takes back the cells of a row that parseRow did not finish.
+func (r *Reader) dropRow(b *block) { b.vals = b.vals[:b.rows*len(r.cols)] }
+
+// empty deals with an empty (or absent) cell of asked-for column k, at
+// character column col, by the format's policy.
+func (r *Reader) empty(out []float64, k, line, col int) error {
+	switch {
+	case r.format.Empty == EmptySkip:
+		return errSkipRow
+	case r.format.Empty == EmptyHold && k != r.timeK:
+		out[k] = math.Float64frombits(noSpan) // a NaN, and no text span
+		return nil
 	}
-	return len(b.vals[k])
+	return &ParseError{File: r.file, Line: line, Column: col, Field: r.cols[k].Name, Err: ErrMissingCell}
 }
 
 // cell parses one asked-for cell, row[at:end], by the general rules: spaces
 // and double quotes around it are dropped, text is kept as a span, a number
-// must parse exactly as strconv.ParseFloat would and be finite.
-func (r *Reader) cell(b *block, k int, row []byte, at, end, line, off int) error {
+// must parse exactly as strconv.ParseFloat would (after the decimal comma
+// becomes a point) and be finite, a time must read by its format.
+func (r *Reader) cell(out []float64, k int, row []byte, at, end, line, off int) error {
 	cell := bytes.TrimSpace(row[at:end])
 	if len(cell) >= 2 && cell[0] == '"' && cell[len(cell)-1] == '"' {
 		cell = cell[1 : len(cell)-1]
 	}
 	if len(cell) == 0 {
-		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: ErrMissingCell}
+		return r.empty(out, k, line, at+1)
 	}
-	if r.cols[k].Text {
-		s := int32(off + cap(row) - cap(cell)) // cell is a sub-slice of row
-		b.text[k] = append(b.text[k], [2]int32{s, s + int32(len(cell))})
+	fail := func(sentinel error) error {
+		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q", sentinel, cell)}
+	}
+	switch r.kind[k] {
+	case kindText:
+		s := off + cap(row) - cap(cell) // cell is a sub-slice of row
+		out[k] = span(s, s+len(cell))
+		return nil
+	case kindClock, kindISO:
+		ns, ok := r.timeNanos(k, cell)
+		if !ok {
+			want := "clock time h:mm:ss[.fff]"
+			if r.kind[k] == kindISO {
+				want = "RFC 3339 time such as 2026-05-01T12:00:00.25+02:00"
+			}
+			return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q (want %s)", ErrNotTime, cell, want)}
+		}
+		out[k] = math.Float64frombits(uint64(ns))
 		return nil
 	}
-	x, err := ParseFloat(cell)
+	x, err := parseDecimal(cell, r.dec)
 	if err != nil {
-		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q", ErrNotNumber, cell)}
+		return fail(ErrNotNumber)
 	}
 	if math.IsInf(x, 0) || math.IsNaN(x) {
-		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q", ErrNotFinite, cell)}
+		return fail(ErrNotFinite)
 	}
-	b.vals[k] = append(b.vals[k], x)
+	out[k] = x
 	return nil
 }
 
-// splitCells appends the comma-separated cells of line to dst.
-func splitCells(line []byte, dst [][]byte) [][]byte {
+// timeNanos reads a clock or ISO cell of column k.
+func (r *Reader) timeNanos(k int, cell []byte) (int64, bool) {
+	if r.kind[k] == kindClock {
+		return clockNanos(cell, r.dec)
+	}
+	return isoNanos(cell)
+}
+
+// parseDecimal is ParseFloat for a number written with the decimal mark
+// dec: with ',' the number may hold no '.', and its ',' reads as a point.
+func parseDecimal(cell []byte, dec byte) (float64, error) {
+	if dec != ',' {
+		return ParseFloat(cell)
+	}
+	if bytes.IndexByte(cell, '.') >= 0 || len(cell) > 64 {
+		return 0, ErrNotNumber
+	}
+	var buf [64]byte
+	n := copy(buf[:], cell)
+	if i := bytes.IndexByte(buf[:n], ','); i >= 0 {
+		buf[i] = '.'
+	}
+	return ParseFloat(buf[:n])
+}
+
+// splitCells appends the cells of line, cut at delim, to dst.
+func splitCells(line []byte, delim byte, dst [][]byte) [][]byte {
 	for {
-		i := bytes.IndexByte(line, ',')
+		i := bytes.IndexByte(line, delim)
 		if i < 0 {
 			return append(dst, line)
 		}

@@ -45,7 +45,7 @@ func TestReaderErrors(t *testing.T) {
 	}{
 		{"empty file", "", 1, 0, "", logs.ErrEmpty, true},
 		{"header only blank", "\n\n", 1, 0, "", logs.ErrEmpty, true},
-		{"missing column", "t,v\n0,1\n", 1, 0, "cfg", logs.ErrNoColumn, true},
+		{"missing column", "t,v\n0,1\n", 1, 1, "cfg", logs.ErrNoColumn, true},
 		{"non-numeric cell", "t,v,cfg\n0,1,a\n1,x1,a\n", 3, 3, "v", logs.ErrNotNumber, false},
 		{"missing cell", "t,v,cfg\n0,1,a\n1,,a\n", 3, 3, "v", logs.ErrMissingCell, false},
 		{"short row", "t,v,cfg\n0,1,a\n1,2\n", 3, 4, "cfg", logs.ErrMissingCell, false},
@@ -147,7 +147,7 @@ func FuzzReader(f *testing.F) {
 
 // readOne parses s as the single cell of a one-column log.
 func readOne(s string) (float64, error) {
-	r, err := logs.NewReader(strings.NewReader("x\n"+s+"\n"), "one.csv", []logs.Column{{Name: "x"}})
+	r, err := logs.NewReaderFormat(strings.NewReader("x\n"+s+"\n"), "one.csv", []logs.Column{{Name: "x"}}, logs.Format{SkipLines: logs.NoSkip})
 	if err != nil {
 		return 0, err
 	}
@@ -223,4 +223,55 @@ func TestLongLines(t *testing.T) {
 	if !errors.Is(r.Err(), logs.ErrLongLine) {
 		t.Errorf("err = %v, want a line too long", r.Err())
 	}
+}
+
+// FuzzReaderFormat: no log text under any format keys may panic the
+// reader or the join, and every failure is positioned ParseErrors (all of
+// them, when several columns are missing).
+func FuzzReaderFormat(f *testing.F) {
+	f.Add("\xEF\xBB\xBFpre\nt;v;cfg\ns;V;\n12:00:00,5;1,5;a\n12:00:01;;b\n", byte(0), byte(0), 0, 0, uint8(0), uint8(1))
+	f.Add("t,v,cfg\n2026-05-01T12:00:00Z,1,a\n2026-05-01T12:00:00.1Z,2,\n", byte(','), byte('.'), 1, 0, uint8(3), uint8(2))
+	f.Add("x\tt\tv\tcfg\n1\t2\t3,5\tq\n", byte('\t'), byte(','), 1, 1, uint8(1), uint8(0))
+	f.Add("T,V\n0,1\n", byte(0), byte(0), 0, 0, uint8(0), uint8(0))
+	f.Fuzz(func(t *testing.T, src string, delim, dec byte, header, skip int, tf, empty uint8) {
+		fm := logs.Format{Delimiter: delim, Decimal: dec, HeaderLine: header % 8, SkipLines: skip%4 - 1, Time: logs.TimeFormat(tf % 5), Empty: logs.EmptyPolicy(empty % 4)}
+		cols := []logs.Column{{Name: "t", Time: true}, {Name: "v"}, {Name: "cfg", Text: true}}
+		r, err := logs.NewReaderFormat(strings.NewReader(src), "f.csv", cols, fm)
+		if err == nil {
+			_ = r.Detected().String()
+			g, gerr := logs.NewReaderFormat(strings.NewReader(src), "g.csv", cols[:2], fm)
+			var ip *logs.Interp
+			if gerr == nil {
+				ip = logs.NewInterp(r, 0, g, 0, 1, 0.5)
+			}
+			for r.Next() {
+				_ = r.Float(0) + r.Float(1)
+				_ = r.Text(2)
+				_ = r.Column(1)
+				if ip != nil {
+					if _, err := ip.Value(); err != nil {
+						ip.Close()
+						ip = nil
+					}
+				}
+			}
+			if ip != nil {
+				ip.Close()
+			}
+			err = r.Err()
+			r.Close()
+		}
+		if err == nil {
+			return
+		}
+		pes := logs.ParseErrors(err)
+		if len(pes) == 0 {
+			t.Fatalf("error %v is not a ParseError", err)
+		}
+		for _, pe := range pes {
+			if pe.Line < 1 {
+				t.Fatalf("error %v has no line", pe)
+			}
+		}
+	})
 }

@@ -6,11 +6,17 @@
 // from moments about the front axle, F_r = Σ F_k·x_k/L, F_f = F − F_r.
 // SAE J1594 axle lift also contains the pitch of drag, which the taps do not
 // see: drag D = q·C_D·A at height h_D moves D·h_D/L of load from the front
-// axle to the rear, so the taps measure
+// axle to the rear. The integration scale s says how far the taps'
+// integral F_a is from the covered force they stand for, s·F_a; the
+// uncovered patches and the drag pitch are added outside it:
 //
-//	y_f = s·q·β_f − q·m − (uncovered, front) + ε_f
-//	y_r = s·q·β_r + q·m − (uncovered, rear) + ε_r,    m = C_D·A·h_D/L
+//	β_f·q = s·F_f + U_f + q·m,    β_r·q = s·F_r + U_r − q·m,    m = C_D·A·h_D/L
 //
-// with s the integration's log-normal scale factor (what a finite set of
-// taps misses) and ε the sensor noise plus the reference port's offset.
+// so with s = 1 + σ the taps measure (see builder for the linearisation)
+//
+//	y_a = F_a = β_a·q − U_a ∓ q·m − σ·b̂_a·q + ε_a
+//
+// with ε the sensor noise plus the reference port's offset, the session
+// wind's error when the direction is unknown (common to the reading's two
+// rows), and the run-to-run wind (common to the readings of one pass).
 package pressure

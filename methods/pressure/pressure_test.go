@@ -170,10 +170,7 @@ func TestConjugatePosterior(t *testing.T) {
 	taps := closedBody()
 	taps = append(taps, campaign.Tap{ID: "extra", XM: 1.6, Surface: campaign.SurfaceUpper, AreaM2: 0.7, Nz: 1})
 	e := campaign.PressureEntry{ID: "taps", Mode: campaign.ModePanels, SensorSDPa: sigP, ReferenceSDPa: sigRef, ModelSDPct: 0, Taps: taps}
-	readings := []struct {
-		config string
-		kmh    float64
-	}{{"a", 100}, {"a", 130}, {"b", 100}, {"b", 120}}
+	readings := []conjReading{{"a", 100}, {"a", 130}, {"b", 100}, {"b", 120}}
 	for i, r := range readings {
 		var pa campaign.Values
 		for j, tp := range taps {
@@ -195,7 +192,27 @@ func TestConjugatePosterior(t *testing.T) {
 		t.Fatal(err)
 	}
 
-	// The closed form, from scratch. Parameters: βf(a), βr(a), βf(b), βr(b).
+	mean, cov := conjugate(t, &e, readings, L, sigP, sigRef, priorSD)
+	const rel = 1e-6
+	for i, q := range []evidence.Quantity{{Config: "a", Axle: "front"}, {Config: "a", Axle: "rear"}, {Config: "b", Axle: "front"}, {Config: "b", Axle: "rear"}} {
+		got, _ := P.Quantity(q)
+		if math.Abs(got.Mean-mean.AtVec(i)) > rel*math.Abs(mean.AtVec(i)) || math.Abs(got.SD-math.Sqrt(cov.At(i, i))) > rel*math.Sqrt(cov.At(i, i)) {
+			t.Errorf("%v: %v ± %v, closed form %v ± %v", q, got.Mean, got.SD, mean.AtVec(i), math.Sqrt(cov.At(i, i)))
+		}
+	}
+}
+
+func ExampleTrapezoidWeights() {
+	// Centreline stations at x = 0, 0.4 and 1.4 m: each stands for half of
+	// the gaps beside it.
+	fmt.Printf("%.2f\n", pressure.TrapezoidWeights([]float64{0, 0.4, 1.4}))
+	// Output: [0.20 0.70 0.50]
+}
+
+// conjugate is the closed-form posterior of TestConjugatePosterior, from
+// scratch. Parameters: βf(a), βr(a), βf(b), βr(b).
+func conjugate(t *testing.T, e *campaign.PressureEntry, readings []conjReading, L, sigP, sigRef, priorSD float64) (mat.VecDense, mat.SymDense) {
+	taps := e.Taps
 	rho := air.Density(20, 101325, 0.5, 0.0004)
 	prec := mat.NewSymDense(4, nil)
 	for i := range 4 {
@@ -258,18 +275,11 @@ func TestConjugatePosterior(t *testing.T) {
 	ch.SolveVecTo(&mean, rhs)
 	var cov mat.SymDense
 	ch.InverseTo(&cov)
-	const rel = 1e-6
-	for i, q := range []evidence.Quantity{{Config: "a", Axle: "front"}, {Config: "a", Axle: "rear"}, {Config: "b", Axle: "front"}, {Config: "b", Axle: "rear"}} {
-		got, _ := P.Quantity(q)
-		if math.Abs(got.Mean-mean.AtVec(i)) > rel*math.Abs(mean.AtVec(i)) || math.Abs(got.SD-math.Sqrt(cov.At(i, i))) > rel*math.Sqrt(cov.At(i, i)) {
-			t.Errorf("%v: %v ± %v, closed form %v ± %v", q, got.Mean, got.SD, mean.AtVec(i), math.Sqrt(cov.At(i, i)))
-		}
-	}
+	return mean, cov
 }
 
-func ExampleTrapezoidWeights() {
-	// Centreline stations at x = 0, 0.4 and 1.4 m: each stands for half of
-	// the gaps beside it.
-	fmt.Printf("%.2f\n", pressure.TrapezoidWeights([]float64{0, 0.4, 1.4}))
-	// Output: [0.20 0.70 0.50]
+// conjReading is a reading of TestConjugatePosterior.
+type conjReading struct {
+	config string
+	kmh    float64
 }

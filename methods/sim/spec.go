@@ -3,7 +3,6 @@ package sim
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 
 	"liftfuse/methods/campaign"
@@ -142,7 +141,7 @@ type Vortex struct {
 
 // Load reads a spec file strictly.
 func Load(path string) (*Spec, error) {
-	f, err := os.Open(path)
+	f, err := campaign.OpenRegular(path)
 	if err != nil {
 		return nil, campaign.Problems{campaign.Errorf(campaign.Where{File: path}, "", campaign.ErrFile, "cannot read spec: %v", err)}
 	}

@@ -40,7 +40,7 @@ type Result struct {
 // Reduce maps each observation to a sign observation on β_total (or β_rear
 // with informs: rear) of its configuration.
 func Reduce(c *campaign.Campaign, e *campaign.VortexEntry) (*Result, error) {
-	if _, applies := campaign.DefaultMisread(c.Vehicle.Body); !applies && !e.At.Has("misread") {
+	if !c.VortexApplies(e) {
 		return nil, fmt.Errorf("%s: the vortex-sense method does not apply to a %s body; set misread to use it anyway", e.ID, c.Vehicle.Body)
 	}
 	res := &Result{Entry: e}

@@ -1,0 +1,222 @@
+package fuse
+
+import "slices"
+
+// layout orders the linear parameters for the factorisation of the
+// conditional precision Λ. Given φ, configurations are independent but for
+// the nuisances they share (a sensor's offset, the tyre growth, the drag
+// pitch…), so with each configuration's columns together and the shared
+// nuisances last, Λ is an arrowhead:
+//
+//	Λ = ⎡A₁        B₁⎤
+//	    ⎢   ⋱      ⋮ ⎥
+//	    ⎢      A_K B_K⎥
+//	    ⎣B₁ᵀ … B_Kᵀ C ⎦
+//
+// and so is its Cholesky factor: fill stays inside the envelope of the
+// rows (George & Liu, Computer Solution of Large Sparse Positive Definite
+// Systems, 1981, ch. 4 — from memory). Factorising within the envelope is
+// the block elimination with the Schur complement C − Σ Bₖᵀ Aₖ⁻¹ Bₖ on the
+// shared nuisances, at a cost linear in the number of configurations.
+type layout struct {
+	pos   []int // column of θ → position in the factorisation
+	col   []int // position → column
+	first []int // position i → first position of row i's envelope
+	// comp is each position's component: positions of one component are
+	// contiguous and share no observation with another component's; the
+	// shared nuisances (comp −1) come last.
+	comp []int
+}
+
+// cliques returns the sets of columns of θ that appear together in Λ: the
+// columns of a group, and every column of a full block's rows.
+func (m *model) cliques() [][]int {
+	var out [][]int
+	for gi := range m.groups {
+		var c []int
+		for _, g := range m.groups[gi].cols {
+			c = append(c, g.col)
+		}
+		out = append(out, c)
+	}
+	for _, bi := range m.fullBlocks {
+		var c []int
+		for _, ri := range m.blocks[bi].rows {
+			for _, e := range designAt(&m.rows[ri], 1, 1, nil) {
+				c = append(c, e.col)
+			}
+		}
+		out = append(out, c)
+	}
+	return out
+}
+
+// unionFind is a disjoint-set forest over 0…n−1.
+type unionFind []int
+
+func newUnionFind(n int) unionFind {
+	u := make(unionFind, n)
+	for i := range u {
+		u[i] = i
+	}
+	return u
+}
+
+func (u unionFind) find(i int) int {
+	for u[i] != i {
+		u[i] = u[u[i]]
+		i = u[i]
+	}
+	return i
+}
+
+func (u unionFind) union(i, j int) { u[u.find(i)] = u.find(j) }
+
+// buildLayout finds the components and the shared nuisances: lift columns
+// (β, γ) that share an observation are one component; a nuisance that
+// shares observations with the lift columns of two or more components is
+// shared; the rest join the component they meet.
+func (m *model) buildLayout() {
+	p := len(m.lin)
+	cl := m.cliques()
+	isLift := func(c int) bool { return m.lin[c].kind != kindNuisance }
+	joinWithin := func(u unionFind, keep func(int) bool) {
+		for _, c := range cl {
+			prev := -1
+			for _, col := range c {
+				if !keep(col) {
+					continue
+				}
+				if prev >= 0 {
+					u.union(prev, col)
+				}
+				prev = col
+			}
+		}
+	}
+	lift := newUnionFind(p)
+	joinWithin(lift, isLift)
+	meets := make([]map[int]bool, p)
+	for _, c := range cl {
+		for _, a := range c {
+			for _, b := range c {
+				if !isLift(a) && isLift(b) {
+					if meets[a] == nil {
+						meets[a] = map[int]bool{}
+					}
+					meets[a][lift.find(b)] = true
+				}
+			}
+		}
+	}
+	shared := func(c int) bool { return !isLift(c) && len(meets[c]) >= 2 }
+	u := newUnionFind(p)
+	joinWithin(u, func(c int) bool { return !shared(c) })
+	m.lay = orderLayout(p, cl, u, shared)
+	m.compSigns = m.componentSigns()
+	m.allSigns = make([]int, len(m.signs))
+	for i := range m.allSigns {
+		m.allSigns[i] = i
+	}
+	m.signSpans = make([][][2]int, len(m.signs))
+	for si, comps := range m.signComps {
+		for _, k := range slices.Sorted(slices.Values(comps)) {
+			lo, hi := m.lay.span(k)
+			m.signSpans[si] = append(m.signSpans[si], [2]int{lo, hi})
+		}
+		m.signSpans[si] = append(m.signSpans[si], [2]int{m.lay.shared(), p})
+	}
+}
+
+// shared returns the first position of the shared nuisances (p if none).
+func (l *layout) shared() int {
+	for i, k := range l.comp {
+		if k < 0 {
+			return i
+		}
+	}
+	return len(l.comp)
+}
+
+// orderLayout places the components in the order of their first column,
+// then the shared columns, and computes the envelope.
+func orderLayout(p int, cl [][]int, u unionFind, shared func(int) bool) *layout {
+	lay := &layout{pos: make([]int, p), comp: make([]int, 0, p)}
+	byRoot := map[int]int{}
+	var comps [][]int
+	var tail []int
+	for c := range p {
+		if shared(c) {
+			tail = append(tail, c)
+			continue
+		}
+		r := u.find(c)
+		k, ok := byRoot[r]
+		if !ok {
+			k = len(comps)
+			byRoot[r] = k
+			comps = append(comps, nil)
+		}
+		comps[k] = append(comps[k], c)
+	}
+	for k, cs := range comps {
+		for _, c := range cs {
+			lay.col = append(lay.col, c)
+			lay.comp = append(lay.comp, k)
+		}
+	}
+	for _, c := range tail {
+		lay.col = append(lay.col, c)
+		lay.comp = append(lay.comp, -1)
+	}
+	for i, c := range lay.col {
+		lay.pos[c] = i
+	}
+	lay.first = make([]int, p)
+	for i := range p {
+		lay.first[i] = i
+	}
+	for _, c := range cl {
+		lo := p
+		for _, col := range c {
+			lo = min(lo, lay.pos[col])
+		}
+		for _, col := range c {
+			i := lay.pos[col]
+			lay.first[i] = min(lay.first[i], lo)
+		}
+	}
+	return lay
+}
+
+// span returns the positions [lo, hi) of component k.
+func (l *layout) span(k int) (int, int) {
+	lo := slices.Index(l.comp, k)
+	hi := lo
+	for hi < len(l.comp) && l.comp[hi] == k {
+		hi++
+	}
+	return lo, hi
+}
+
+// componentSigns lists, for each component of the layout, the signs whose
+// quantity involves one of its columns, and records each sign's
+// components in m.signComps.
+func (m *model) componentSigns() [][]int {
+	n := 0
+	for _, k := range m.lay.comp {
+		n = max(n, k+1)
+	}
+	out := make([][]int, n)
+	m.signComps = make([][]int, len(m.signs))
+	for si := range m.signs {
+		for _, t := range m.signs[si].refs() {
+			k := m.lay.comp[m.lay.pos[t.col]]
+			if k >= 0 && !slices.Contains(m.signComps[si], k) {
+				m.signComps[si] = append(m.signComps[si], k)
+				out[k] = append(out[k], si)
+			}
+		}
+	}
+	return out
+}

@@ -1,0 +1,379 @@
+package fuse
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+
+	"liftfuse/methods/evidence"
+)
+
+// The leave-one-out predictive check of an entry's data (model.md,
+// "Agreement and fault localisation"). Entry e's data y_e are predicted from
+// every other entry's posterior p(θ, φ | y_−e): the parameters e shares with
+// the others (lift, speed slopes, springs, wind, drag pitch, probe — the
+// same names) take the others' joint posterior, e's own errors (gain,
+// offsets, its own tyre growth) their prior. So an error e shares with the
+// others is counted once, in one joint distribution, instead of once in
+// each of two posteriors that are then compared as if independent.
+//
+// Linearised at the predictive mean x̄ of (θ, φ), with J = ∂μ_e/∂(θ, φ) and
+// C the predictive covariance,
+//
+//	y_e ~ N(μ_e(x̄), Σ_e + J C Jᵀ).
+//
+// The test statistic is what the entry's data say about the parameters
+// they touch, relative to that prediction: one Gauss–Newton step of the
+// entry's data alone from x̄, the standalone generalised least squares map
+// A = W H⁻¹ JᵀΣ_e⁻¹ with H = P₀ + JᵀΣ_e⁻¹J (P₀ the prior precision, zero
+// for a flat offset) applied to the residual,
+//
+//	t = A (y_e − μ_e(x̄)),   V = Cov t = W H⁻¹ F H⁻¹ Wᵀ + (W H⁻¹ F) C (W H⁻¹ F)ᵀ,  F = JᵀΣ_e⁻¹J,
+//
+// and d² = tᵀ V⁺ t is χ² with rank(V) degrees of freedom when the entry
+// agrees with the others (Gelman, Meng & Stern 1996 for predictive checks;
+// Vehtari, Gelman & Gabry 2017 for leave-one-out predictive densities —
+// from memory). W picks every touched parameter with a proper prior (see
+// weights); a flat offset drops out of t exactly (A J e_f = W e_f = 0), so
+// its improper prior does no harm. The rank of V is the number of
+// directions the entry's data can tell apart, so the degrees of freedom
+// follow what the data say, not how many parameters are named.
+
+// paramKey names parameter i of (θ, φ) so that the same parameter can be
+// found in a model of a subset of the entries.
+func (m *model) paramKey(i int) string {
+	p := len(m.lin)
+	if i >= p {
+		return "φ " + m.phi[i-p].name
+	}
+	switch lp := m.lin[i]; lp.kind {
+	case kindBeta:
+		return "β " + lp.config + " " + lp.axle
+	case kindGamma:
+		return "γ " + lp.config + " " + lp.axle
+	default:
+		return "ν " + lp.nuis.Name
+	}
+}
+
+// priorPrecision is P₀ of parameter i of (θ, φ), unweighted by any
+// inflation: 0 for a flat prior.
+func (m *model) priorPrecision(i int) float64 {
+	p := len(m.lin)
+	if i < p {
+		return m.lin[i].prec
+	}
+	sd := m.phi[i-p].sd
+	return 1 / (sd * sd)
+}
+
+// predictiveMoments returns the mean and covariance over the full model's
+// (θ, φ) of the others' posterior of entry e, with e's own parameters (those
+// no other entry declares) at their priors, independent of the rest; a flat
+// prior gets variance 0 (it drops out of the test, see above).
+func predictiveMoments(full *model, others *Posterior) ([]float64, *mat.SymDense) {
+	om := others.p.m
+	oMean, oCov := others.joint()
+	where := map[string]int{}
+	for i := range om.dim() {
+		where[om.paramKey(i)] = i
+	}
+	D := full.dim()
+	p := len(full.lin)
+	mean := make([]float64, D)
+	cov := mat.NewSymDense(D, nil)
+	src := make([]int, D)
+	for i := range D {
+		j, ok := where[full.paramKey(i)]
+		src[i] = -1
+		if ok {
+			src[i], mean[i] = j, oMean[j]
+			continue
+		}
+		switch {
+		case i >= p:
+			sd := full.phi[i-p].sd
+			cov.SetSym(i, i, sd*sd)
+		case full.lin[i].prec > 0:
+			mean[i] = full.lin[i].mean
+			cov.SetSym(i, i, 1/full.lin[i].prec)
+		}
+	}
+	for i := range D {
+		for j := i; j < D; j++ {
+			if src[i] >= 0 && src[j] >= 0 {
+				cov.SetSym(i, j, oCov.At(src[i], src[j]))
+			}
+		}
+	}
+	return mean, cov
+}
+
+// looStat is the predictive check's statistic of one entry: t and V over
+// the rows of W (see weights).
+type looStat struct {
+	t     []float64
+	V     *mat.SymDense
+	names []evidence.Quantity // the lift parameter of a row, where it is one
+	lift  []bool              // the row is a lift parameter β at V_ref
+
+	// For the diagnosis: AJ = A·J, how t moves when a touched parameter
+	// moves (k×nc), cols the full index of each of its columns, Vp = V⁺
+	// and d2 = tᵀV⁺t.
+	AJ   *mat.Dense
+	cols []int
+	Vp   *mat.SymDense
+	d2   float64
+}
+
+// looPredictive computes the statistic of entry e's Gaussian data under the
+// others' posterior; ok is false when the entry has no Gaussian data or the
+// computation is singular.
+func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
+	mean, C := predictiveMoments(full, others)
+	p := len(full.lin)
+	theta, phi := mean[:p], mean[p:]
+	sp := repeatSpace{D: full.dim(), newIdx: map[int]int{}}
+	D := sp.D
+	var Js []*mat.Dense
+	st := &looStat{}
+	var buf []entryRef
+	var res []float64
+	n := 0
+	for bi := range full.blocks {
+		bl := &full.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		Js = append(Js, full.repeatJacobian(bl, sp, theta, phi))
+		for _, ri := range bl.rows {
+			r := &full.rows[ri]
+			res = append(res, r.y-full.rowMean(r, theta, phi, buf))
+		}
+		n += len(bl.rows)
+	}
+	if n == 0 {
+		return nil, false
+	}
+	// G = Σ⁻¹J (n×D), block by block.
+	J := mat.NewDense(n, D, nil)
+	G := mat.NewDense(n, D, nil)
+	k := 0
+	for bi := range full.blocks {
+		bl := &full.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		Jb := Js[0]
+		Js = Js[1:]
+		nb := len(bl.rows)
+		for a := range nb {
+			J.SetRow(k+a, Jb.RawRowView(a))
+			for b := range nb {
+				var w float64
+				switch {
+				case bl.diag != nil && a == b:
+					w = bl.diag[a]
+				case bl.diag == nil:
+					w = bl.precD[a*nb+b]
+				}
+				if w == 0 {
+					continue
+				}
+				ga, jb := G.RawRowView(k+a), Jb.RawRowView(b)
+				for i := range D {
+					ga[i] += w * jb[i]
+				}
+			}
+		}
+		k += nb
+	}
+	if !st.finish(full, J, G, C, res) {
+		return nil, false
+	}
+	return st, true
+}
+
+// finish computes t, V and A·J over the parameters the entry's data touch
+// (the others do not enter H⁻¹ restricted to them, the prior being
+// independent between parameters).
+func (st *looStat) finish(full *model, J, G *mat.Dense, C *mat.SymDense, res []float64) bool {
+	n, D := J.Dims()
+	var F mat.Dense
+	F.Mul(J.T(), G)
+	var cols []int
+	pos := map[int]int{}
+	for i := range D {
+		if F.At(i, i) > 0 {
+			pos[i] = len(cols)
+			cols = append(cols, i)
+		}
+	}
+	W := st.weights(full, pos, len(cols))
+	if len(W) == 0 {
+		return false
+	}
+	nc := len(cols)
+	H := mat.NewSymDense(nc, nil)
+	Fs := mat.NewDense(nc, nc, nil)
+	Cs := mat.NewDense(nc, nc, nil)
+	Gs := mat.NewDense(n, nc, nil)
+	for a, i := range cols {
+		for r := range n {
+			Gs.Set(r, a, G.At(r, i))
+		}
+		for b, j := range cols {
+			Fs.Set(a, b, F.At(i, j))
+			Cs.Set(a, b, C.At(i, j))
+			if b >= a {
+				H.SetSym(a, b, 0.5*(F.At(i, j)+F.At(j, i)))
+			}
+		}
+		H.SetSym(a, a, H.At(a, a)+full.priorPrecision(i))
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(H) {
+		return false
+	}
+	k := len(W)
+	Wm := mat.NewDense(k, nc, nil)
+	for r, w := range W {
+		Wm.SetRow(r, w)
+	}
+	// B = W H⁻¹ (k×nc), A = B Gᵀ (k×n), AJ = B F.
+	var HinvWt mat.Dense
+	if err := ch.SolveTo(&HinvWt, Wm.T()); err != nil {
+		return false
+	}
+	B := mat.DenseCopyOf(HinvWt.T())
+	var M mat.Dense
+	M.Mul(B, Gs.T())
+	var t mat.VecDense
+	t.MulVec(&M, mat.NewVecDense(n, res))
+	var AJ, V1, tmp, V2 mat.Dense
+	AJ.Mul(B, Fs)
+	V1.Mul(&AJ, B.T())
+	tmp.Mul(&AJ, Cs)
+	V2.Mul(&tmp, AJ.T())
+	st.AJ, st.cols = &AJ, cols
+	st.V = mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+0.5*(V2.At(i, j)+V2.At(j, i)))
+		}
+	}
+	st.t = t.RawVector().Data
+	return true
+}
+
+// weights returns the rows of W over the touched parameters (pos maps a
+// full column to its place among nc): one row for the lift β and speed
+// slope γ the entry's data touch, and one for each of its own errors with
+// a proper prior (tyre growth, gain, an integration scale), so that a
+// discrepancy the entry's data put into one of its own errors (a laser
+// whose tyres grow 3 mm against a prior of 0.5 ± 0.5) is seen as well as
+// one in its lift. Left out: a flat offset (its prior says nothing to
+// compare with) and the errors shared with other entries (springs of an
+// axle, the wind, the pitch of drag) — they are conditioned on the others
+// in the prediction, and a disagreement about them is not this entry's
+// alone (the wind's direction-dependent part is also where unmodelled
+// direction effects — gusts, a gradient, acceleration — show; the model
+// checks look for those).
+func (st *looStat) weights(full *model, pos map[int]int, nc int) [][]float64 {
+	var W [][]float64
+	for i, k := range sortedCols(pos) {
+		if full.priorPrecision(k) == 0 || full.sharedParam(k) {
+			continue
+		}
+		w := make([]float64, nc)
+		w[i] = 1
+		W = append(W, w)
+		q, lift := evidence.Quantity{}, false
+		if k < len(full.lin) && full.lin[k].kind != kindNuisance {
+			q = evidence.Quantity{Config: full.lin[k].config, Axle: full.lin[k].axle}
+			lift = full.lin[k].kind == kindBeta
+		}
+		st.names = append(st.names, q)
+		st.lift = append(st.lift, lift)
+	}
+	return W
+}
+
+// sharedParam reports whether parameter k of (θ, φ) is an error that more
+// than one entry declares.
+func (m *model) sharedParam(k int) bool {
+	p := len(m.lin)
+	if k >= p {
+		return len(m.phi[k-p].owners) > 1
+	}
+	return m.lin[k].kind == kindNuisance && len(m.lin[k].owners) > 1
+}
+
+// sortedCols returns the full columns of pos in the order of their places.
+func sortedCols(pos map[int]int) []int {
+	cols := make([]int, len(pos))
+	for c, i := range pos {
+		cols[i] = c
+	}
+	return cols
+}
+
+// metric returns the pseudo-inverse V⁺ of the statistic's covariance and
+// its rank. The rows of t are dependent where the entry's data cannot
+// tell two parameters apart (a pot's spring rate and its gain both scale
+// its lift), so V is singular there: its eigen-directions below 10⁻⁶ of
+// the largest, on the correlation scale (the rows are in m², mm and log
+// units), are dropped — a loose cut, because the φ columns of J come from
+// finite differences and a direction the data cannot see keeps an
+// eigenvalue of their rounding, about 10⁻¹⁰.
+func (st *looStat) metric() (*mat.SymDense, int) {
+	k := len(st.t)
+	sd := make([]float64, k)
+	R := mat.NewSymDense(k, nil)
+	for i := range k {
+		sd[i] = math.Sqrt(st.V.At(i, i))
+	}
+	for i := range k {
+		for j := i; j < k; j++ {
+			if sd[i] > 0 && sd[j] > 0 {
+				R.SetSym(i, j, st.V.At(i, j)/(sd[i]*sd[j]))
+			}
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(R, true) {
+		return nil, 0
+	}
+	vals := eig.Values(nil)
+	var U mat.Dense
+	eig.VectorsTo(&U)
+	top := 0.0
+	for _, v := range vals {
+		top = math.Max(top, v)
+	}
+	Rp := mat.NewSymDense(k, nil)
+	rank := 0
+	for i, v := range vals {
+		if v <= 1e-6*top || v <= 0 {
+			continue
+		}
+		rank++
+		Rp.SymRankOne(Rp, 1/v, U.ColView(i))
+	}
+	// V⁺ = D⁻¹ R⁺ D⁻¹ with D the diagonal of sds.
+	Vp := mat.NewSymDense(k, nil)
+	for i := range k {
+		for j := i; j < k; j++ {
+			if sd[i] > 0 && sd[j] > 0 {
+				Vp.SetSym(i, j, Rp.At(i, j)/(sd[i]*sd[j]))
+			}
+		}
+	}
+	return Vp, rank
+}
+
+// quadForm returns xᵀ A x.
+func quadForm(A *mat.SymDense, x []float64) float64 {
+	v := mat.NewVecDense(len(x), x)
+	return mat.Inner(v, A, v)
+}

@@ -1,0 +1,104 @@
+package checks
+
+import (
+	"fmt"
+	"sort"
+
+	"liftfuse/methods"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/height"
+	"liftfuse/methods/pressure"
+)
+
+// Check is one tripped model check: which entry and configuration, where
+// (a time span, windows above a speed, a tap), the p-value of the test
+// (0 for a rule), a likely cause in the trade's words and what to do.
+type Check struct {
+	Check  string  `json:"check"`
+	Entry  string  `json:"entry"`
+	Config string  `json:"config,omitempty"`
+	Where  string  `json:"where,omitempty"`
+	PValue float64 `json:"p_value"`
+	Cause  string  `json:"cause"`
+	Action string  `json:"action"`
+}
+
+// String is the check as one readable warning line.
+func (c Check) String() string {
+	s := c.Entry
+	if c.Config != "" {
+		s += " (" + c.Config + ")"
+	}
+	if c.Where != "" {
+		s += ", " + c.Where
+	}
+	p := ""
+	if c.PValue > 0 {
+		p = fmt.Sprintf(" (p = %.2g)", c.PValue)
+	}
+	return fmt.Sprintf("%s: %s: %s%s; %s", c.Check, s, c.Cause, p, c.Action)
+}
+
+// Check ids.
+const (
+	IDHeightNotLinear = "height-not-linear"
+	IDWindowResidual  = "window-residual"
+	IDTapBlocked      = "tap-blocked"
+	IDTapSpeed        = "tap-cp-speed"
+	IDTapCpHigh       = "tap-cp-high"
+	IDSpeedUnits      = "speed-units"
+	IDCLATooLarge     = "cla-too-large"
+	IDGainNegative    = "gain-negative"
+	IDMirror          = "entry-mirrored"
+)
+
+// Per-entry false-alarm budget of each test (see doc.go): the sum over one
+// entry's tests is at most 1 %.
+const (
+	alphaNotLinear = 0.002
+	alphaResidual  = 0.002
+	alphaTapSpeed  = 0.003
+	alphaCpHigh    = 0.002
+	alphaBlocked   = 0.001
+	alphaMirror    = 0.002
+	alphaCLA       = 0.002
+)
+
+// Run returns every tripped model check of a reduced campaign, entry by
+// entry in the order of r.Entries, then the cross-entry checks.
+func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
+	if c == nil || r == nil {
+		return nil
+	}
+	var out []Check
+	var est []estimate
+	for _, e := range r.Entries {
+		switch d := e.Detail.(type) {
+		case *height.Result:
+			fits := heightFits(c, d)
+			out = append(out, notLinear(c, d, fits)...)
+			out = append(out, residuals(c, d, fits)...)
+			out = append(out, negativeGain(d)...)
+			est = append(est, heightEstimates(c, d, fits)...)
+		case *pressure.Result:
+			out = append(out, tapChecks(c, d)...)
+			est = append(est, pressureEstimates(c, d)...)
+		}
+	}
+	out = append(out, speedUnits(c, r)...)
+	out = append(out, claTooLarge(est)...)
+	out = append(out, mirrored(est)...)
+	out = confirmGain(out, est)
+	sort.SliceStable(out, func(i, j int) bool { return entryRank(r, out[i].Entry) < entryRank(r, out[j].Entry) })
+	return out
+}
+
+// entryRank is an entry's place in r.Entries.
+func entryRank(r *methods.Reduced, id string) int {
+	for i, e := range r.Entries {
+		if e.ID == id {
+			return i
+		}
+	}
+	return len(r.Entries)
+}

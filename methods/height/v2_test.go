@@ -1,0 +1,165 @@
+package height_test
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"liftfuse/methods/air"
+	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
+	"liftfuse/methods/height"
+)
+
+// TestMaxSpeed: windows above an entry's max_speed_kmh are not used, and a
+// warning says how many were dropped.
+func TestMaxSpeed(t *testing.T) {
+	c := simulate(t, 5, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
+	e := &c.Evidence.RideHeight[0]
+	all, err := height.Reduce(c, e, height.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e.MaxSpeedKmh = 140
+	r, err := height.Reduce(c, e, height.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fast := 0
+	for _, w := range all.Windows {
+		if w.SpeedKmh > 140 {
+			fast++
+		}
+	}
+	if fast < 4 || r.Dropped != fast || len(r.Windows) != len(all.Windows)-fast {
+		t.Errorf("dropped %d of %d windows above 140 km/h, kept %d of %d", r.Dropped, fast, len(r.Windows), len(all.Windows))
+	}
+	for _, w := range r.Windows {
+		if w.SpeedKmh > 140 {
+			t.Errorf("window at %.1f km/h kept", w.SpeedKmh)
+		}
+	}
+	if !strings.Contains(strings.Join(r.Warnings, "\n"), fmt.Sprintf("%d steady windows above max_speed_kmh", fast)) {
+		t.Errorf("no warning of the dropped windows: %v", r.Warnings)
+	}
+}
+
+// probeLog writes a clean log with a steady stand and a steady 100 km/h
+// hold into a 10 km/h headwind, measured by an airspeed probe (column
+// air_kmh) or as its dynamic pressure (column q_pa).
+func probeLog(t *testing.T, rho float64) string {
+	t.Helper()
+	var b strings.Builder
+	b.WriteString("t_s,v_kmh,dir,fpot,air_kmh,q_pa\n")
+	for i := range 400 {
+		tt := 0.1 * float64(i)
+		v := 0.0
+		if tt >= 12 && tt < 28 {
+			v = 100
+		}
+		va := v
+		if v > 0 {
+			va = v + 10 + 2*math.Sin(tt) // a headwind with a little gust
+		}
+		q := air.DynamicPressure(rho, air.KmhToMs(va))
+		fmt.Fprintf(&b, "%.1f,%g,1,%.4f,%.6f,%.6f\n", tt, v, 2+0.001*math.Sin(7*tt), va, q)
+	}
+	name := filepath.Join(t.TempDir(), "probe.csv")
+	if err := os.WriteFile(name, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return name
+}
+
+// TestProbe: windows of a log with a measured airspeed use the mean of
+// ½ρV_air² (or of the logged q), name no wind and carry the probe's scale
+// group with sd probe_sd_pct.
+func TestProbe(t *testing.T) {
+	c := simulate(t, 3, truth{fs: 1, rs: 1, growSD: 0.5})
+	c.Air.ProbeSDPct = 3
+	name := probeLog(t, c.Density())
+	// The mean of ½ρV² over the hold, worked here from the same samples.
+	var sum float64
+	n := 0
+	for i := range 400 {
+		tt := 0.1 * float64(i)
+		if tt >= 12 && tt < 28 {
+			sum += air.DynamicPressure(c.Density(), air.KmhToMs(110+2*math.Sin(tt)))
+			n++
+		}
+	}
+	wantQ := sum / float64(n)
+	for _, col := range []string{"airspeed_kmh", "q_pa"} {
+		t.Run(col, func(t *testing.T) {
+			e := c.Evidence.RideHeight[0]
+			l := campaign.LogSpec{File: name, Time: "t_s", SpeedKmh: "v_kmh", Direction: "dir", Signal: "fpot",
+				Segments: []campaign.Segment{{Config: "base", FromS: 0, ToS: 40}}}
+			if col == "q_pa" {
+				l.QPa = "q_pa"
+			} else {
+				l.AirspeedKmh = "air_kmh"
+			}
+			e.Logs = []campaign.LogSpec{l}
+			r, err := height.Reduce(c, &e, height.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var hold *height.Window
+			for i := range r.Windows {
+				if r.Windows[i].SpeedKmh > 50 {
+					hold = &r.Windows[i]
+				}
+			}
+			if hold == nil || !hold.Probe || math.Abs(hold.Q-wantQ) > 1e-6*wantQ {
+				t.Fatalf("hold window %+v, want q %.4f from the probe", hold, wantQ)
+			}
+			for _, o := range r.Evidence.Blocks[0].Obs {
+				if o.Air.Wind != "" || !slices.ContainsFunc(o.Scales, func(s evidence.ScaleRef) bool { return s.Name == height.ProbeName && s.Pow == 1 }) {
+					t.Errorf("%s: wind %q, scales %v", o.Label, o.Air.Wind, o.Scales)
+				}
+			}
+			if !slices.ContainsFunc(r.Evidence.Scales, func(s evidence.ScaleGroup) bool { return s.Name == height.ProbeName && s.SD == 0.03 }) {
+				t.Errorf("no probe group of sd 0.03 in %v", r.Evidence.Scales)
+			}
+			if slices.ContainsFunc(r.Evidence.Nuisances, func(n evidence.Nuisance) bool { return n.Name == evidence.WindName }) {
+				t.Error("a probe-only entry declares the wind")
+			}
+		})
+	}
+}
+
+// TestGustShared: two sensors logged in one file name the same run-to-run
+// wind nuisances with the same prior, so fusion sees one deviation per
+// run; the nuisances are per run and each run has one.
+func TestGustShared(t *testing.T) {
+	c := simulate(t, 4, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
+	c.Air.GustSDMs = 1.5
+	rs, err := height.ReduceAll(c, []*campaign.RideHeightEntry{&c.Evidence.RideHeight[0], &c.Evidence.RideHeight[1]}, height.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	gusts := func(ev evidence.Evidence) map[string]evidence.Nuisance {
+		out := map[string]evidence.Nuisance{}
+		for _, n := range ev.Nuisances {
+			if strings.HasPrefix(n.Name, "gust/") {
+				out[n.Name] = n
+			}
+		}
+		return out
+	}
+	a, b := gusts(rs[0].Evidence), gusts(rs[1].Evidence)
+	// 2 configurations × 2 repeats × 3 speeds, each its own pass from a
+	// stop to a stop (methods/sim's plan): 12 runs.
+	if len(a) != 12 || len(b) != 12 {
+		t.Fatalf("%d and %d run nuisances, want 12 each", len(a), len(b))
+	}
+	for name, n := range a {
+		if m, ok := b[name]; !ok || m != n || !n.PerRun || n.SD <= 0 {
+			t.Errorf("run nuisance %q: %+v and %+v", name, n, m)
+		}
+	}
+}
