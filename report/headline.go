@@ -41,33 +41,24 @@ type modelCheck struct {
 	line string
 }
 
-// headlineOf reads which fusion the headline figures are.
-//
-// For the lead, when fuse.Result gains Headline, DownWeighted and Plain
-// (result document v2), replace the body with:
-//
-//	h := headline{known: res.Headline != "", robust: res.Headline == fuse.HeadlineRobust, downWeighted: res.DownWeighted}
-//	if res.Plain != nil {
-//		h.plainDeltas = res.Plain.Deltas
-//	}
-//	return h
+// headlineOf reads which fusion the headline figures are (result
+// document: headline, down_weighted, plain). A document without a
+// headline (format 1 before these fields) is not known.
 func headlineOf(res *fuse.Result) headline {
-	_ = res
-	return headline{}
+	h := headline{known: res.Headline != "", robust: res.Headline == fuse.HeadlineRobust, downWeighted: res.DownWeighted}
+	if res.Plain != nil {
+		h.plainDeltas = res.Plain.Deltas
+	}
+	return h
 }
 
-// checksOf reads the model checks that tripped.
-//
-// For the lead, when fuse.Result gains Checks, replace the body with:
-//
-//	var out []modelCheck
-//	for _, c := range res.Checks {
-//		out = append(out, modelCheck{check: c.Check, entry: c.Entry, config: c.Config, where: c.Where, pValue: c.PValue, cause: c.Cause, action: c.Action, line: c.Line()})
-//	}
-//	return out
+// checksOf reads the model checks that tripped (result document: checks).
 func checksOf(res *fuse.Result) []modelCheck {
-	_ = res
-	return nil
+	var out []modelCheck
+	for _, c := range res.Checks {
+		out = append(out, modelCheck{check: c.Check, entry: c.Entry, config: c.Config, where: c.Where, pValue: c.PValue, cause: c.Cause, action: c.Action, line: c.Line()})
+	}
+	return out
 }
 
 // checkName is a check's name in words: "height-not-linear" reads
