@@ -206,7 +206,7 @@ func (r *reporter) checks() []string {
 	for _, m := range r.res.Methods {
 		kinds[m.Kind] = true
 		if a := m.Agreement; a != nil && a.Flag {
-			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) = %s)", m.ID, m.Kind, a.PValue, percent(a.POff))
+			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) %s)", m.ID, m.Kind, a.PValue, isPercent(a.POff))
 			if w := a.Worst; w != nil {
 				s += fmt.Sprintf(", most on %s %s, by %+.3f m² of %s (%.1f sd)", w.Config, w.Axle, w.DiffM2, symCLA, w.Sigmas)
 			}
@@ -234,8 +234,8 @@ func (r *reporter) checks() []string {
 	return out
 }
 
-// otherWarnings are the result's warnings other than the disagreements
-// and the model checks, which checks already says.
+// otherWarnings are the result's warnings other than the disagreements,
+// the robust headline and the model checks, which checks already says.
 func (r *reporter) otherWarnings() []string {
 	said := map[string]bool{}
 	for _, c := range checksOf(r.res) {
@@ -243,12 +243,17 @@ func (r *reporter) otherWarnings() []string {
 	}
 	var out []string
 	for _, w := range r.res.Warnings {
-		if !strings.Contains(w, "disagrees with the others") && !said[w] {
+		if !strings.Contains(w, "disagrees with the others") && !said[w] && !saysRobust(w) {
 			out = append(out, w)
 		}
 	}
 	return out
 }
+
+// saysRobust reports whether a warning of the result is fuse's line on a
+// robust headline (fuse/run.go words it "the headline figures are the
+// robust fusion's: …"), which page 1 says in its own words.
+func saysRobust(w string) bool { return strings.Contains(w, "robust fusion") }
 
 // recommendation is the plan's best repeat in one paragraph, and the
 // repeat that would tell whether a flagged entry is off.

@@ -17,3 +17,13 @@ func PDFUncompressed(in Input) ([]byte, error) {
 	defer func() { compress = true }()
 	return PDF(in)
 }
+
+// Checks returns the bullets of page 1's "Checks", for the tests of
+// package report_test.
+func Checks(in Input) ([]string, error) {
+	r, err := newReporter(in)
+	if err != nil {
+		return nil, err
+	}
+	return r.checks(), nil
+}

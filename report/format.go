@@ -30,6 +30,16 @@ func percent(p float64) string {
 	return fmt.Sprintf("%.0f %%", 100*p)
 }
 
+// isPercent is a probability after its symbol: "= 42 %", or "<1 %" and
+// ">99 %" with no equals sign before them.
+func isPercent(p float64) string {
+	s := percent(p)
+	if s[0] == '<' || s[0] == '>' {
+		return s
+	}
+	return "= " + s
+}
+
 // forceUnit is the campaign's display unit of force (report.force_unit):
 // every force the report and the terminal tables print is in it.
 type forceUnit struct {

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"slices"
 	"text/tabwriter"
 
 	"liftfuse/fuse"
@@ -70,7 +71,7 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 		}
 	}
 	tw.Flush()
-	if l := headlineOf(res).headlineLine(); l != "" {
+	if l := headlineOf(res).headlineLine(); l != "" && !slices.ContainsFunc(res.Warnings, saysRobust) {
 		fmt.Fprintf(w, "\n%s\n", l)
 	}
 	writeWarnings(w, res.Warnings)
