@@ -155,27 +155,38 @@ func (r *reporter) checksTable() {
 	r.pg.table([]column{{"entry", 1, "L"}, {"where", 1.2, "L"}, {"check", 1.1, "L"}, {"p", 0.5, "R"}, {"likely cause", 1.6, "L"}, {"what to do", 1.6, "L"}}, rows)
 }
 
-// explain writes what could reconcile a flagged entry with the others: the
-// errors of its own model that would have to move least.
+// explain writes what could reconcile a flagged entry with the others:
+// the errors of its own model that would have to move least, or, when no
+// single one within its physical bounds would, what to look at.
 func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 	pg := r.pg
 	pg.h2("What could explain "+id, 30)
-	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
-		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, id))
-	var items []string
-	for i, e := range cc.Explanations {
-		if i == 4 {
-			break
+	s := fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f).",
+		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z)
+	if len(cc.Explanations) == 0 {
+		s += fmt.Sprintf(" No single error of %s's own model, within its physical bounds, would make it agree.", id)
+		pg.para(s)
+	} else {
+		pg.para(s + fmt.Sprintf(" The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:", id))
+		var items []string
+		for i, e := range cc.Explanations {
+			if i == 4 {
+				break
+			}
+			mark := ""
+			if e.Plausible {
+				mark = " (plausible)"
+			}
+			items = append(items, fmt.Sprintf("%+.1f sd%s: %s", e.ShiftSD, mark, e.Note))
 		}
-		mark := ""
-		if e.Plausible {
-			mark = " (plausible)"
-		}
-		items = append(items, fmt.Sprintf("%+.1f sd%s: %s", e.ShiftSD, mark, e.Note))
+		pg.bullets(items)
 	}
-	pg.bullets(items)
 	if len(cc.Checks) > 0 {
-		pg.para("None of these is plausible; look also at: " + strings.Join(cc.Checks, "; ") + ".")
+		lead := "None of these is plausible; look also at: "
+		if len(cc.Explanations) == 0 {
+			lead = "Look at: "
+		}
+		pg.para(lead + strings.Join(cc.Checks, "; ") + ".")
 	}
 }
 

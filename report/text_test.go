@@ -105,3 +105,41 @@ func TestDetectabilitySameInReduceAndPlan(t *testing.T) {
 		t.Error("plan's detectability is not headed in kgf")
 	}
 }
+
+// TestCrosscheckVerdicts: the cross-check's text follows its verdict
+// (fuse.Crosscheck: consistent, explained, unexplained): no heading over
+// an empty list, the explanations when there are some, the things to look
+// at when no single error explains the claim. Wording: common practice
+// (no source).
+func TestCrosscheckVerdicts(t *testing.T) {
+	claim := fuse.Claim{Config: "ducktail", Axle: "rear", SpeedKmh: 150, Value: -12, SD: 1, Unit: "kgf"}
+	tests := []struct {
+		name        string
+		cc          fuse.Crosscheck
+		want, avoid []string
+	}{
+		{"consistent", fuse.Crosscheck{Claim: claim, Verdict: fuse.VerdictConsistent, Summary: "consistent: the campaign agrees with the claim (p = 0.5)"},
+			[]string{"verdict: consistent"}, []string{"what would have to be different", "look at"}},
+		{"explained", fuse.Crosscheck{Claim: claim, Verdict: fuse.VerdictExplained, Summary: "explained",
+			Explanations: []fuse.Explanation{{Entry: "rear-pot", ShiftSD: 2.5, Plausible: true, Note: "the rear spring rate would be ×0.9"}}},
+			[]string{"what would have to be different", "+2.5 sd", "plausible", "the rear spring rate would be ×0.9"}, []string{"look at"}},
+		{"unexplained", fuse.Crosscheck{Claim: claim, Verdict: fuse.VerdictUnexplained, Summary: "no single modelled error explains it", Checks: []string{"a tyre pressure change"}},
+			[]string{"verdict: no single modelled error explains it", "look at:\n  - a tyre pressure change"}, []string{"what would have to be different", "explains it;"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var b bytes.Buffer
+			report.CrosscheckText(&b, &tt.cc)
+			for _, w := range tt.want {
+				if !strings.Contains(b.String(), w) {
+					t.Errorf("no %q in:\n%s", w, b.String())
+				}
+			}
+			for _, a := range tt.avoid {
+				if strings.Contains(b.String(), a) {
+					t.Errorf("%q in:\n%s", a, b.String())
+				}
+			}
+		})
+	}
+}
