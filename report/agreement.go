@@ -21,7 +21,7 @@ import (
 func (r *reporter) agreement() {
 	pg := r.pg
 	pg.h1("Agreement between methods")
-	intro := "Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5."
+	intro := "Each entry's data are compared with what all the other entries predict they would say (a leave-one-out check; the errors it shares with them, such as the springs or the wind, are counted once): the distance between the two, in standard deviations of their difference, and its p-value; and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.01 or P(off) > 0.5."
 	if h := headlineOf(r.res); h.known && h.robust {
 		intro += fmt.Sprintf(" The fused result here is the robust fusion's, with the errors of %s widened; the plain fusion's figures are in the result document (plain).", List(h.downWeighted))
 	}
