@@ -3,7 +3,7 @@ package report
 import (
 	"fmt"
 	"image/color"
-	"math"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -21,12 +21,23 @@ import (
 func (r *reporter) agreement() {
 	pg := r.pg
 	pg.h1("Agreement between methods")
-	pg.para("Each entry's own estimate is compared with the fused estimate of all the other entries on the quantities it informs: the Mahalanobis distance and its p-value, and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.05 or P(off) > 0.5.")
+	intro := "Each entry's data are compared with what all the other entries predict they would say (a leave-one-out check; the errors it shares with them, such as the springs or the wind, are counted once): the distance between the two, in standard deviations of their difference, and its p-value; and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.01 or P(off) > 0.5."
+	if h := headlineOf(r.res); h.known && h.robust {
+		intro += fmt.Sprintf(" The fused result here is the robust fusion's, with the errors of %s widened; the plain fusion's figures are in the result document (plain).", List(h.downWeighted))
+	}
+	pg.para(intro)
 	if bars := r.agreementBars(); len(bars) > 0 {
-		pg.chart(agreementChart(bars), math.Min(30+4.2*float64(len(bars)), 200))
-		pg.note("Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table.")
+		for _, part := range barGroups(bars, maxBars) {
+			pg.chart(agreementChart(part), 30+4.2*float64(len(part)))
+		}
+		note := "Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table."
+		if n := len(r.configs()); n > maxCharted {
+			note += fmt.Sprintf(" The chart shows the first %d of the %d configurations.", maxCharted, n)
+		}
+		pg.note(note)
 	}
 	r.agreementTable()
+	r.checksTable()
 	for _, m := range r.res.Methods {
 		if cc, ok := r.in.Explain[m.ID]; ok {
 			r.explain(m.ID, cc)
@@ -43,6 +54,32 @@ type bar struct {
 	flagged bool
 }
 
+// maxBars is how many intervals one agreement chart holds: 30 mm of
+// frame and 4.2 mm a bar make 198 mm, what a page takes under a heading.
+const maxBars = 40
+
+// barGroups cuts the bars into charts of at most max bars, keeping each
+// configuration-and-axle group (its fused bar and its entries) in one
+// chart unless the group alone is longer.
+func barGroups(bars []bar, n int) [][]bar {
+	var out [][]bar
+	start := 0
+	for start < len(bars) {
+		end := min(start+n, len(bars))
+		if end < len(bars) {
+			for k := end; k > start+1; k-- {
+				if bars[k].fused { // bars[k] starts a group: cut before it
+					end = k
+					break
+				}
+			}
+		}
+		out = append(out, bars[start:end])
+		start = end
+	}
+	return out
+}
+
 // agreementBars lists, per configuration and axle, the fused interval
 // followed by each entry's own; sign-only entries are left out.
 func (r *reporter) agreementBars() []bar {
@@ -54,7 +91,8 @@ func (r *reporter) agreementBars() []bar {
 		mr, _ := reportOf(m.Kind)
 		signOnly[m.ID] = mr.signOnly
 	}
-	for ci, cfg := range r.configs() {
+	cfgs := r.configs()
+	for ci, cfg := range cfgs[:charted(len(cfgs))] {
 		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
 			var entries []bar
 			for _, m := range r.res.Methods {
@@ -100,27 +138,55 @@ func (r *reporter) agreementTable() {
 	r.pg.table([]column{{"entry", 1.1, "L"}, {"kind", 1, "L"}, {"distance", 0.8, "R"}, {"p-value", 0.8, "R"}, {"P(off)", 0.7, "R"}, {"largest difference (m²)", 2, "L"}, {"", 0.9, "L"}}, rows)
 }
 
-// explain writes what could reconcile a flagged entry with the others: the
-// errors of its own model that would have to move least.
+// checksTable writes the model checks that tripped: where, what, how
+// sure, the likely cause and what to do. Nothing when none did.
+func (r *reporter) checksTable() {
+	cs := checksOf(r.res)
+	if len(cs) == 0 {
+		return
+	}
+	r.pg.h2("Model checks that tripped", 25)
+	r.pg.para("Each entry's data are also checked against what its own model assumes (heights linear in q, residuals of the windows, taps that read like a blocked or leaking line, plausible speeds and sizes). A check that trips does not change the figures; it says where to look.")
+	var rows [][]string
+	for _, c := range cs {
+		where := strings.Join(slices.DeleteFunc([]string{c.config, c.where}, func(s string) bool { return s == "" }), ", ")
+		rows = append(rows, []string{c.entry, where, checkName(c.check), fmt.Sprintf("%.2g", c.pValue), c.cause, c.action})
+	}
+	r.pg.table([]column{{"entry", 1, "L"}, {"where", 1.2, "L"}, {"check", 1.1, "L"}, {"p", 0.5, "R"}, {"likely cause", 1.6, "L"}, {"what to do", 1.6, "L"}}, rows)
+}
+
+// explain writes what could reconcile a flagged entry with the others:
+// the errors of its own model that would have to move least, or, when no
+// single one within its physical bounds would, what to look at.
 func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 	pg := r.pg
 	pg.h2("What could explain "+id, 30)
-	pg.para(fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f). The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:",
-		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z, id))
-	var items []string
-	for i, e := range cc.Explanations {
-		if i == 4 {
-			break
+	s := fmt.Sprintf("On %s %s, %s alone says %+.3f ± %.3f m² ("+symCLA+") where the other entries together say %+.3f ± %.3f m² (z = %+.1f).",
+		cc.Claim.Config, cc.Claim.Axle, id, cc.Predictive.Mean, cc.Predictive.SD, cc.Claim.Value, cc.Claim.SD, -cc.Z)
+	if len(cc.Explanations) == 0 {
+		s += fmt.Sprintf(" No single error of %s's own model, within its physical bounds, would make it agree.", id)
+		pg.para(s)
+	} else {
+		pg.para(s + fmt.Sprintf(" The errors in %s's own model that would have to move least for it to agree, in their own prior standard deviations:", id))
+		var items []string
+		for i, e := range cc.Explanations {
+			if i == 4 {
+				break
+			}
+			mark := ""
+			if e.Plausible {
+				mark = " (plausible)"
+			}
+			items = append(items, fmt.Sprintf("%+.1f sd%s: %s", e.ShiftSD, mark, e.Note))
 		}
-		mark := ""
-		if e.Plausible {
-			mark = " (plausible)"
-		}
-		items = append(items, fmt.Sprintf("%+.1f sd%s: %s", e.ShiftSD, mark, e.Note))
+		pg.bullets(items)
 	}
-	pg.bullets(items)
 	if len(cc.Checks) > 0 {
-		pg.para("None of these is plausible; look also at: " + strings.Join(cc.Checks, "; ") + ".")
+		lead := "None of these is plausible; look also at: "
+		if len(cc.Explanations) == 0 {
+			lead = "Look at: "
+		}
+		pg.para(lead + strings.Join(cc.Checks, "; ") + ".")
 	}
 }
 
@@ -128,6 +194,7 @@ func (r *reporter) explain(id string, cc *fuse.Crosscheck) {
 // per configuration and axle, as horizontal bars.
 func agreementChart(rows []bar) *plot.Plot {
 	p := newPlot("what each method says, and the fused result", "axle lift coefficient × area (m²), central interval", "")
+	var d dropped
 	names := make([]string, len(rows))
 	for i, r := range rows {
 		names[len(rows)-1-i] = r.label
@@ -139,21 +206,28 @@ func agreementChart(rows []bar) *plot.Plot {
 		} else {
 			shape = hollow(shape)
 		}
-		seg, _ := plotter.NewLine(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}})
-		seg.LineStyle = draw.LineStyle{Color: col, Width: width}
-		if r.flagged {
-			seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
+		if seg := d.line(plotter.XYs{{X: r.est.Lo, Y: y}, {X: r.est.Hi, Y: y}}); seg != nil {
+			seg.LineStyle = draw.LineStyle{Color: col, Width: width}
+			if r.flagged {
+				seg.LineStyle.Dashes = []vg.Length{vg.Points(2), vg.Points(1.5)}
+			}
+			p.Add(seg)
 		}
-		dot, _ := plotter.NewScatter(plotter.XYs{{X: r.est.Mean, Y: y}})
-		dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
-		p.Add(seg, dot)
+		if dot := d.scatter(plotter.XYs{{X: r.est.Mean, Y: y}}); dot != nil {
+			dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
+			p.Add(dot)
+		}
 	}
-	zero, _ := plotter.NewLine(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}})
-	zero.LineStyle = draw.LineStyle{Color: color.Gray{150}, Width: vg.Points(0.6), Dashes: []vg.Length{vg.Points(1), vg.Points(2)}}
-	p.Add(zero)
+	if zero := d.line(plotter.XYs{{X: 0, Y: -0.5}, {X: 0, Y: float64(len(rows)) - 0.5}}); zero != nil {
+		zero.LineStyle = draw.LineStyle{Color: color.Gray{150}, Width: vg.Points(0.6), Dashes: []vg.Length{vg.Points(1), vg.Points(2)}}
+		p.Add(zero)
+	}
 	p.NominalY(names...)
 	p.Y.Tick.Label.Font.Size = 6.5
-	dx := 0.04 * (p.X.Max - p.X.Min)
-	p.X.Min, p.X.Max = p.X.Min-dx, p.X.Max+dx
+	if drawable(p) {
+		dx := 0.04 * (p.X.Max - p.X.Min)
+		p.X.Min, p.X.Max = p.X.Min-dx, p.X.Max+dx
+	}
+	d.note(p)
 	return p
 }

@@ -116,6 +116,28 @@ func rgb(col color.Color) (int, int, int) {
 	return int(n.R), int(n.G), int(n.B)
 }
 
+// finite reports whether every point of a path lands at a finite place on
+// the page: a path that does not is left out, never written as "NaN" into
+// the PDF.
+func (c *pdfCanvas) finite(p vg.Path) bool {
+	ok := func(pt vg.Point) bool {
+		x, y := c.page(pt)
+		return !math.IsNaN(x) && !math.IsNaN(y) && !math.IsInf(x, 0) && !math.IsInf(y, 0)
+	}
+	for _, comp := range p {
+		if !ok(comp.Pos) || math.IsNaN(float64(comp.Radius)) || math.IsInf(float64(comp.Radius), 0) ||
+			math.IsNaN(comp.Start) || math.IsNaN(comp.Angle) || math.IsInf(comp.Angle, 0) {
+			return false
+		}
+		for _, ctl := range comp.Control {
+			if !ok(ctl) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
 // trace emits a path; arcs become short line segments.
 func (c *pdfCanvas) trace(p vg.Path) bool {
 	drawn := false
@@ -157,7 +179,7 @@ func (c *pdfCanvas) trace(p vg.Path) bool {
 }
 
 func (c *pdfCanvas) Stroke(p vg.Path) {
-	if c.state.width <= 0 || len(p) == 0 {
+	if c.state.width <= 0 || len(p) == 0 || !c.finite(p) {
 		return
 	}
 	c.pdf.SetDrawColor(rgb(c.state.color))
@@ -180,7 +202,7 @@ func (c *pdfCanvas) Stroke(p vg.Path) {
 }
 
 func (c *pdfCanvas) Fill(p vg.Path) {
-	if len(p) == 0 {
+	if len(p) == 0 || !c.finite(p) {
 		return
 	}
 	c.pdf.SetFillColor(rgb(c.state.color))
@@ -192,7 +214,7 @@ func (c *pdfCanvas) Fill(p vg.Path) {
 }
 
 func (c *pdfCanvas) FillString(f font.Face, pt vg.Point, text string) {
-	if f.Font.Size == 0 || text == "" {
+	if f.Font.Size == 0 || text == "" || !c.finite(vg.Path{{Type: vg.MoveComp, Pos: pt}}) {
 		return
 	}
 	style := ""

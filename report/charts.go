@@ -1,7 +1,9 @@
 package report
 
 import (
+	"fmt"
 	"image/color"
+	"math"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -70,6 +72,9 @@ func newPlot(title, x, y string) *plot.Plot {
 // above the data (or below it, for a legend at the bottom) left free for
 // the legend.
 func pad(p *plot.Plot, legend float64) {
+	if !drawable(p) || math.IsInf(p.X.Min, 0) || math.IsInf(p.Y.Min, 0) {
+		return // nothing to pad, or a chart page.chart leaves out
+	}
 	dx := 0.04 * (p.X.Max - p.X.Min)
 	if dx == 0 {
 		dx = 1
@@ -103,3 +108,37 @@ func hollow(g draw.GlyphDrawer) draw.GlyphDrawer {
 
 // grayOf is a grey of the given level (0 black, 255 white).
 func grayOf(l uint8) color.Color { return color.Gray{l} }
+
+// maxCharted is how many configurations a chart shows: more would make
+// its curves and legend unreadable, and every configuration is in the
+// tables. Each chart shows the first ones, in campaign order, and says so.
+const maxCharted = 8
+
+// charted is how many of n configurations a chart shows.
+func charted(n int) int { return min(n, maxCharted) }
+
+// chartedNote says in a chart's legend that it shows only the first
+// configurations, when it does.
+func chartedNote(p *plot.Plot, n int) {
+	if n > maxCharted {
+		p.Legend.Add(fmt.Sprintf("the first %d of %d configurations; all are in the tables", maxCharted, n))
+	}
+}
+
+// moreLine is the legend line chartedNote adds for n configurations: one
+// or none.
+func moreLine(n int) int {
+	if n > maxCharted {
+		return 1
+	}
+	return 0
+}
+
+// legendShare is the share of a chart's height kept free for a legend of
+// n lines whose legend takes base with up to four lines.
+func legendShare(n int, base float64) float64 {
+	if n <= 4 {
+		return base
+	}
+	return math.Min(0.6, base*float64(n)/4)
+}

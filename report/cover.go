@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"liftfuse/fuse"
@@ -20,7 +21,7 @@ func (r *reporter) cover() {
 	pg.flow("Aerodynamic development report — on-road lift and downforce", "", 9, 5, margin, pg.w)
 	pg.pdf.SetTextColor(0, 0, 0)
 	pg.pdf.Ln(1)
-	pg.flow(c.Campaign.Title, "B", 20, 9, margin, pg.w)
+	r.title()
 	pg.pdf.Ln(1)
 	line := fmt.Sprintf("Car: %s (%s body, wheelbase %.3g m). Test date: %s.", c.Vehicle.Label, c.Vehicle.Body, c.Vehicle.WheelbaseM, c.Campaign.Date)
 	if c.Campaign.Site != "" {
@@ -41,6 +42,20 @@ func (r *reporter) cover() {
 		pg.h2("What to do next", 15)
 		pg.para(rec)
 	}
+}
+
+// maxTitleLines is how many lines the title may take on page 1; a longer
+// title (the campaign allows 2000 characters) is shortened there and
+// given in full under Provenance.
+const maxTitleLines = 3
+
+// title sets the campaign's title on page 1, at most maxTitleLines lines.
+func (r *reporter) title() {
+	pg := r.pg
+	pg.font("B", 20)
+	lines, cut := pg.clamp(bind(r.in.Campaign.Campaign.Title), pg.w, 20, maxTitleLines)
+	pg.setLines(lines, 20, 9, margin)
+	r.titleCut = cut
 }
 
 // configurationsTable lists the configurations with the reference marked.
@@ -70,7 +85,7 @@ func (r *reporter) findings() []string {
 			continue
 		}
 		var parts []string
-		for _, v := range c.Report.SpeedsKmh {
+		for _, v := range proseSpeeds(c.Report.SpeedsKmh) {
 			s, ok := speedOf(cr, v)
 			if !ok {
 				continue
@@ -78,12 +93,16 @@ func (r *reporter) findings() []string {
 			parts = append(parts, fmt.Sprintf("%s at the front and %s at the rear at %g km/h", r.liftWord(s.N[0], unit), r.liftWord(s.N[1], unit), v))
 		}
 		if len(parts) > 0 {
-			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets).", cr.ID, join(parts, "; and "), r.level()))
+			out = append(out, fmt.Sprintf("As tested, %s makes %s (%s credible intervals in brackets%s).", cr.ID, join(parts, "; and "), r.level(), r.speedsShown()))
 		}
 	}
-	for _, d := range r.res.Deltas {
+	for i, d := range r.res.Deltas {
+		if i == maxProseChanges {
+			out = append(out, fmt.Sprintf("The changes of the other %s are in the table below.", count(len(r.res.Deltas)-i, "configuration")))
+			break
+		}
 		var chs []changeAt
-		for _, v := range c.Report.SpeedsKmh {
+		for _, v := range proseSpeeds(c.Report.SpeedsKmh) {
 			chs = append(chs, r.deltaAt(d, v))
 		}
 		var b strings.Builder
@@ -106,6 +125,46 @@ func (r *reporter) findings() []string {
 	return out
 }
 
+// maxProseChanges is how many configurations' changes page 1 says in
+// sentences; the table under them gives every one.
+const maxProseChanges = 6
+
+// maxProseSpeeds is how many report speeds page 1's sentences speak of;
+// with more, they speak of the lowest, a middle and the highest, and the
+// tables under them give every one.
+const maxProseSpeeds = 4
+
+// proseSpeeds are the report speeds page 1's sentences speak of, in the
+// campaign's order: all of them up to maxProseSpeeds, else the lowest, the
+// median and the highest.
+func proseSpeeds(vs []float64) []float64 {
+	if len(vs) <= maxProseSpeeds {
+		return vs
+	}
+	sorted := slices.Clone(vs)
+	slices.Sort(sorted)
+	pick := map[float64]bool{sorted[0]: true, sorted[len(sorted)/2]: true, sorted[len(sorted)-1]: true}
+	var out []float64
+	for _, v := range vs {
+		if pick[v] {
+			out = append(out, v)
+			delete(pick, v)
+		}
+	}
+	return out
+}
+
+// speedsShown says, when page 1's sentences leave report speeds out, how
+// many they speak of and where the rest are.
+func (r *reporter) speedsShown() string {
+	vs := r.in.Campaign.Report.SpeedsKmh
+	n := len(proseSpeeds(vs))
+	if n == len(vs) {
+		return ""
+	}
+	return fmt.Sprintf("; %d of the %d report speeds, every one in the tables below", n, len(vs))
+}
+
 // sameOrEach is one probability when it is the same at every speed, or
 // each with its speed.
 func sameOrEach(ps []string, chs []changeAt) string {
@@ -126,17 +185,6 @@ func sameOrEach(ps []string, chs []changeAt) string {
 	return join(each, " and ")
 }
 
-// join joins with commas and a final word ("a, b and c").
-func join(parts []string, last string) string {
-	switch len(parts) {
-	case 0:
-		return ""
-	case 1:
-		return parts[0]
-	}
-	return strings.Join(parts[:len(parts)-1], ", ") + last + parts[len(parts)-1]
-}
-
 // liftWord says a force in newtons as lift or downforce in the display
 // unit, with its interval.
 func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
@@ -148,19 +196,21 @@ func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
 	return fmt.Sprintf("%.1f %s of %s (%+.1f to %+.1f)", math.Abs(e.Mean), unit, word, e.Lo, e.Hi)
 }
 
-// checks lists the entries that disagreed with the others and the
+// checks lists the entries that disagreed with the others, which fusion
+// the headline figures are, the model checks that tripped and the other
 // warnings of the run, or says that the methods agree.
 func (r *reporter) checks() []string {
+	h := headlineOf(r.res)
 	kinds := map[string]bool{}
 	var flagged []string
 	for _, m := range r.res.Methods {
 		kinds[m.Kind] = true
 		if a := m.Agreement; a != nil && a.Flag {
-			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) = %s)", m.ID, m.Kind, a.PValue, percent(a.POff))
+			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) %s)", m.ID, m.Kind, a.PValue, isPercent(a.POff))
 			if w := a.Worst; w != nil {
 				s += fmt.Sprintf(", most on %s %s, by %+.3f m² of %s (%.1f sd)", w.Config, w.Axle, w.DiffM2, symCLA, w.Sigmas)
 			}
-			flagged = append(flagged, s+"; the fused figures down-weight it, see Agreement.")
+			flagged = append(flagged, s+"; "+h.flaggedEffect(m.ID))
 		}
 	}
 	var out []string
@@ -172,6 +222,12 @@ func (r *reporter) checks() []string {
 	default:
 		out = append(out, flagged...)
 	}
+	if s := h.robustNote(r.res.Deltas); s != "" {
+		out = append(out, s)
+	}
+	for _, c := range checksOf(r.res) {
+		out = append(out, "Model check: "+c.sentence())
+	}
 	for _, w := range r.otherWarnings() {
 		out = append(out, "Warning: "+w)
 	}
@@ -179,27 +235,25 @@ func (r *reporter) checks() []string {
 }
 
 // otherWarnings are the result's warnings other than the disagreements,
-// which checks already lists.
+// the robust headline and the model checks, which checks already says.
 func (r *reporter) otherWarnings() []string {
+	said := map[string]bool{}
+	for _, c := range checksOf(r.res) {
+		said[c.line] = true
+	}
 	var out []string
 	for _, w := range r.res.Warnings {
-		if !strings.Contains(w, "disagrees with the others") {
+		if !strings.Contains(w, "disagrees with the others") && !said[w] && !saysRobust(w) {
 			out = append(out, w)
 		}
 	}
 	return out
 }
 
-// count is "1 entry", "3 entries", "2 measurement methods".
-func count(n int, noun string) string {
-	if n == 1 {
-		return "1 " + noun
-	}
-	if strings.HasSuffix(noun, "y") {
-		return fmt.Sprintf("%d %sies", n, strings.TrimSuffix(noun, "y"))
-	}
-	return fmt.Sprintf("%d %ss", n, noun)
-}
+// saysRobust reports whether a warning of the result is fuse's line on a
+// robust headline (fuse/run.go words it "the headline figures are the
+// robust fusion's: …"), which page 1 says in its own words.
+func saysRobust(w string) bool { return strings.Contains(w, "robust fusion") }
 
 // recommendation is the plan's best repeat in one paragraph, and the
 // repeat that would tell whether a flagged entry is off.

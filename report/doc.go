@@ -18,4 +18,16 @@
 // methodReports (methods.go); the sections every report has are in
 // cover.go, agreement.go, plan.go and notes.go, in the order pdf.go calls
 // them.
+//
+// Counts and lists are written in words by one helper (words.go: Count,
+// List), units as in the rest of the tool (m², forces in the campaign's
+// report.force_unit in every command). Which fusion the headline figures
+// are and the model checks that tripped are read in one place
+// (headline.go). No input makes the report panic: chart data pass through
+// chartdata.go, which leaves out what no axis can show and says so, and a
+// chart that still cannot be drawn becomes a note; the title, the number
+// of report speeds and of configurations are laid out in bounded space
+// (three title lines on page 1, prose of at most four speeds and six
+// changes, charts of at most eight configurations — every figure stays in
+// the tables).
 package report

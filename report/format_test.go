@@ -69,3 +69,24 @@ func TestMethodReports(t *testing.T) {
 		t.Error("an unknown kind has a report")
 	}
 }
+
+// TestIsPercent: a probability after its symbol takes "=" unless it is
+// written as a bound (common practice, no source).
+func TestIsPercent(t *testing.T) {
+	tests := []struct {
+		name string
+		p    float64
+		want string
+	}{
+		{"ordinary", 0.42, "= 42 %"},
+		{"near one", 0.9999, ">99 %"},
+		{"near zero", 0.001, "<1 %"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := isPercent(tt.p); got != tt.want {
+				t.Errorf("isPercent(%g) = %q, want %q", tt.p, got, tt.want)
+			}
+		})
+	}
+}

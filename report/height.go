@@ -61,17 +61,20 @@ func (r *reporter) heightSection(h *height.Result) {
 	pg.h2(fmt.Sprintf("%s — %s ride height (%s)", e.ID, e.Axle, map[string]string{campaign.SensorPot: "suspension potentiometer", campaign.SensorLaser: "body-to-ground laser"}[e.Sensor]), 100)
 	cal := fmt.Sprintf("gain %.4g mm per unit ± %.1f %%", h.Calibration.Gain, 100*h.Calibration.RelSD)
 	stiff := fmt.Sprintf("heave stiffness %.1f N/mm from the %s ± %.1f %%", h.Stiffness.K, h.Stiffness.Source, 100*h.Stiffness.RelSD())
-	txt := fmt.Sprintf("%d steady windows from %d log(s); %s; %s.", len(h.Windows), len(e.Logs), cal, stiff)
+	txt := fmt.Sprintf("%s from %s; %s; %s.", count(len(h.Windows), "steady window"), count(len(e.Logs), "log"), cal, stiff)
 	if e.FrictionMm > 0 {
 		txt += fmt.Sprintf(" Suspension friction band ±%.2g mm.", e.FrictionMm)
 	}
 	if e.Sensor == campaign.SensorLaser {
 		txt += fmt.Sprintf(" Tyre growth prior %.2g ± %.2g mm at 100 km/h: a laser alone cannot tell growth from lift, so its absolute figures are loose and its differences between configurations sharp.", e.TyreGrowth.MmAt100kmh, e.TyreGrowth.SDMm)
 	}
-	txt += fmt.Sprintf(" It resolves about %.0f N (%.1f %s) of axle load at two standard deviations of one window.", h.Detect.ResolvableN, h.Detect.ResolvableN/r.unitN, r.in.Campaign.Report.ForceUnit)
+	txt += " It resolves about " + r.loadBoth(h.Detect.ResolvableN) + " of axle load at two standard deviations of one window."
 	pg.para(txt)
 	r.standaloneTable(e.ID)
-	fitted, _ := r.in.Fused.Standalone[e.ID].Fitted(e.ID)
+	var fitted []float64
+	if alone := r.in.Fused.Standalone[e.ID]; alone != nil {
+		fitted, _ = alone.Fitted(e.ID)
+	}
 	pg.chart(heightChart(h, fitted, r.configs()), 62)
 	pg.chart(traceChart(h), 48)
 }
@@ -82,7 +85,9 @@ func (r *reporter) heightSection(h *height.Result) {
 // drifts that make the fitted values scatter about it averaged out.
 func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": ride height against dynamic pressure", "dynamic pressure q (Pa)", "height (mm)")
-	for ci, cfg := range configs {
+	var d dropped
+	shown := charted(len(configs))
+	for ci, cfg := range configs[:shown] {
 		var pts, fit plotter.XYs
 		var errs plotter.YErrors
 		for i, w := range r.Windows {
@@ -95,15 +100,16 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 				fit = append(fit, plotter.XY{X: w.Q, Y: fitted[i]})
 			}
 		}
-		if len(pts) == 0 {
+		pts, errs = d.keepBars(pts, errs)
+		s := d.scatter(pts)
+		if s == nil {
 			continue
 		}
 		col, shape := styleOf(ci)
-		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: shape}
 		eb := &plotter.YErrorBars{XYs: pts, YErrors: errs, LineStyle: draw.LineStyle{Color: col, Width: vg.Points(0.5)}, CapWidth: vg.Points(3)}
 		p.Add(eb, s)
-		if l := trendLine(fit); l != nil {
+		if l := trendLine(d.keep(fit)); l != nil {
 			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
 			p.Add(l)
 			p.Legend.Add(cfg+": windows ± SE, line: fit", s, l)
@@ -111,12 +117,15 @@ func heightChart(r *height.Result, fitted []float64, configs []string) *plot.Plo
 			p.Legend.Add(cfg+": windows ± SE", s)
 		}
 	}
-	pad(p, 0.2)
+	chartedNote(p, len(configs))
+	pad(p, legendShare(shown+moreLine(len(configs)), 0.2))
+	d.note(p)
 	return p
 }
 
-// trendLine is the least-squares straight line through points, drawn
-// across their x range, or nil for fewer than two distinct x.
+// trendLine is the least-squares straight line through chartable points,
+// drawn across their x range, or nil for fewer than two distinct x or a
+// line that cannot be drawn.
 func trendLine(pts plotter.XYs) *plotter.Line {
 	n := float64(len(pts))
 	var sx, sy, sxx, sxy float64
@@ -126,13 +135,14 @@ func trendLine(pts plotter.XYs) *plotter.Line {
 		lo, hi = math.Min(lo, p.X), math.Max(hi, p.X)
 	}
 	den := n*sxx - sx*sx
-	if len(pts) < 2 || den <= 0 || hi <= lo {
+	if len(pts) < 2 || !(den > 0) || !(hi > lo) {
 		return nil
 	}
 	b := (n*sxy - sx*sy) / den
 	a := (sy - b*sx) / n
-	l, err := plotter.NewLine(plotter.XYs{{X: lo, Y: a + b*lo}, {X: hi, Y: a + b*hi}})
-	if err != nil {
+	var d dropped
+	l := d.line(plotter.XYs{{X: lo, Y: a + b*lo}, {X: hi, Y: a + b*hi}})
+	if d > 0 {
 		return nil
 	}
 	return l
@@ -151,6 +161,9 @@ func traceChart(r *height.Result) *plot.Plot {
 			best = w
 		}
 	}
+	if best.Log < 0 || best.Log >= len(r.Traces) {
+		return p
+	}
 	from, to := best.From-20, best.To+20
 	var raw, lp, ma plotter.XYs
 	for _, t := range r.Traces[best.Log] {
@@ -161,29 +174,33 @@ func traceChart(r *height.Result) *plot.Plot {
 		lp = append(lp, plotter.XY{X: t.T, Y: t.LowPass})
 		ma = append(ma, plotter.XY{X: t.T, Y: t.MovingAverage})
 	}
-	if len(raw) < 2 {
-		return p
+	var d dropped
+	for _, s := range []struct {
+		pts   plotter.XYs
+		label string
+		style draw.LineStyle
+	}{
+		{raw, "raw samples", draw.LineStyle{Color: color.Gray{190}, Width: vg.Points(0.5)}},
+		{lp, "first-order low-pass", draw.LineStyle{Color: color.Gray{0}, Width: vg.Points(1)}},
+		{ma, "moving average", draw.LineStyle{Color: color.Gray{90}, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}},
+	} {
+		if l := d.line(s.pts); l != nil {
+			l.LineStyle = s.style
+			p.Add(l)
+			p.Legend.Add(s.label, l)
+		}
 	}
-	lr, _ := plotter.NewLine(raw)
-	lr.LineStyle = draw.LineStyle{Color: color.Gray{190}, Width: vg.Points(0.5)}
-	ll, _ := plotter.NewLine(lp)
-	ll.LineStyle = draw.LineStyle{Color: color.Gray{0}, Width: vg.Points(1)}
-	lm, _ := plotter.NewLine(ma)
-	lm.LineStyle = draw.LineStyle{Color: color.Gray{90}, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(2), vg.Points(2)}}
-	p.Add(lr, ll, lm)
-	p.Legend.Add("raw samples", lr)
-	p.Legend.Add("first-order low-pass", ll)
-	p.Legend.Add("moving average", lm)
 	pad(p, 0.3)
+	d.note(p)
 	return p
 }
 
 // heightReduced writes each ride-height entry's steady windows and its
 // detectability.
-func heightReduced(w io.Writer, r *methods.Reduced) {
+func heightReduced(w io.Writer, r *methods.Reduced, u forceUnit) {
 	for _, h := range methods.Details[*height.Result](r) {
 		e := h.Entry
-		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f%%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
+		fmt.Fprintf(w, "%s: %s %s, K = %.1f N/mm (%s), calibration %.4g mm/unit ± %.1f %%\n", e.ID, e.Axle, e.Sensor, h.Stiffness.K, h.Stiffness.Source, h.Calibration.Gain, 100*h.Calibration.RelSD)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		fmt.Fprintln(tw, "  config\tdir\tspeed km/h\tq Pa\theight mm\tSE mm\tn_eff\ttime s")
 		for _, win := range h.Windows {
@@ -191,6 +208,6 @@ func heightReduced(w io.Writer, r *methods.Reduced) {
 		}
 		tw.Flush()
 		d := h.Detect
-		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.0f N at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, d.ResolvableN, d.ResolvableCLA100)
+		fmt.Fprintf(w, "  detectability: window sd %.2f mm → smallest load %.1f %s at 2 sd (C_L·A %.3f m² at 100 km/h)\n\n", d.SigmaMM, u.of(d.ResolvableN), u.name, d.ResolvableCLA100)
 	}
 }

@@ -193,8 +193,13 @@ func (p *page) row(cols []column, widths []float64, r []string, shade [3]int, fi
 	p.pdf.SetXY(margin, y+h)
 }
 
-// chart draws a gonum plot of the given height (mm) across the text width.
+// chart draws a gonum plot of the given height (mm) across the text width,
+// or a note in its place when its axes cannot be drawn (drawable).
 func (p *page) chart(pl *plot.Plot, height float64) {
+	if !drawable(pl) {
+		p.note(chartLeftOut(pl))
+		return
+	}
 	p.room(height + 2)
 	x, y := margin, p.pdf.GetY()
 	w := vg.Length(p.w / mmPerPt)
@@ -213,6 +218,12 @@ func (p *page) charts(pls []*plot.Plot, height float64) {
 		return
 	}
 	const gap = 4.0
+	for _, pl := range pls {
+		if !drawable(pl) {
+			p.note(chartLeftOut(pl))
+			return
+		}
+	}
 	p.room(height + 2)
 	y := p.pdf.GetY()
 	w := (p.w - gap*float64(len(pls)-1)) / float64(len(pls))
@@ -224,4 +235,9 @@ func (p *page) charts(pls []*plot.Plot, height float64) {
 	p.pdf.SetDashPattern(nil, 0)
 	p.pdf.SetLineWidth(0.2)
 	p.pdf.SetY(y + height + 2)
+}
+
+// chartLeftOut is the note that stands for a chart that cannot be drawn.
+func chartLeftOut(pl *plot.Plot) string {
+	return "Chart \u201c" + pl.Title.Text + "\u201d left out: its values are too large or not numbers, so no axis can show them."
 }

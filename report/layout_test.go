@@ -131,3 +131,42 @@ func TestWrap(t *testing.T) {
 		}
 	}
 }
+
+// TestWrapLongWord: a word wider than the line (a 2000-character title
+// without spaces, as issue 16 tried) is broken between characters into
+// lines no wider than asked, losing nothing; clamp keeps n lines and ends
+// the last in an ellipsis (common practice, no source).
+func TestWrapLongWord(t *testing.T) {
+	pdf := fpdf.New("P", "mm", "A4", "")
+	registerFonts(pdf)
+	pdf.AddPage()
+	pg := &page{pdf: pdf, w: 100}
+	pg.font("B", 20)
+	tests := []struct {
+		name string
+		text string
+	}{
+		{"one long word", strings.Repeat("x", 2000)},
+		{"words then a long one", "Ducktail trial " + strings.Repeat("ü", 500) + " end"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			lines := pg.wrap(tt.text, 100, 20)
+			for _, l := range lines {
+				if w := pg.spanWidth(spans(l), 20); w > 100 {
+					t.Errorf("line %q is %.1f mm wide", l, w)
+				}
+			}
+			if got := strings.ReplaceAll(strings.Join(lines, ""), " ", ""); got != strings.ReplaceAll(tt.text, " ", "") {
+				t.Error("characters lost or added")
+			}
+			short, cut := pg.clamp(tt.text, 100, 20, 3)
+			if !cut || len(short) != 3 || !strings.HasSuffix(short[2], "…") {
+				t.Errorf("clamp: %d lines, cut %v, last %q", len(short), cut, short[len(short)-1])
+			}
+			if w := pg.spanWidth(spans(short[2]), 20); w > 100 {
+				t.Errorf("the shortened line is %.1f mm wide", w)
+			}
+		})
+	}
+}

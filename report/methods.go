@@ -17,8 +17,8 @@ type methodReport struct {
 	// sub-section per entry, with its table and charts.
 	sections func(r *reporter)
 	// reduced writes, as terminal tables, what the method's adapter made of
-	// each entry's raw data (liftfuse reduce).
-	reduced func(w io.Writer, red *methods.Reduced)
+	// each entry's raw data (liftfuse reduce), forces in the unit u.
+	reduced func(w io.Writer, red *methods.Reduced, u forceUnit)
 	// signOnly: an entry alone says only lift or downforce, so the
 	// agreement chart leaves it out.
 	signOnly bool

@@ -61,6 +61,20 @@ func (r *reporter) safety() string {
 	return fmt.Sprintf("On-road aerodynamic testing happens at speed and can hurt people. This campaign ran at %s: test only on closed roads or tracks with the owner's permission and proper marshalling, within the local law. Secure every sensor, bracket, cable, tube and ballast mass so that nothing can come loose at speed. Stay within the tyres' speed rating and load index, and check pressures before each run. Temporary springs, removed anti-roll bars or added ballast change how the car brakes and handles: drive it gently until the driver knows it. Keep people off %s and out of the run-off areas. These notes do not replace local codes, the venue's rules or licensed practice, which take precedence.", where, edges)
 }
 
+// maxFullTitle is how many characters of the title Provenance gives: the
+// campaign format's limit, so that a longer title (from a document not
+// validated) cannot make a row taller than a page.
+const maxFullTitle = 2000
+
+// fullTitle is the title as Provenance gives it.
+func (r *reporter) fullTitle() string {
+	t := []rune(r.in.Campaign.Campaign.Title)
+	if len(t) > maxFullTitle {
+		return string(t[:maxFullTitle]) + ellipsis
+	}
+	return string(t)
+}
+
 // upperFirst capitalises the first letter.
 func upperFirst(s string) string {
 	if s == "" {
@@ -74,21 +88,23 @@ func (r *reporter) provenance() {
 	pg := r.pg
 	c := r.in.Campaign
 	pg.h2("Provenance", 45)
-	d := r.res.Diagnostics
 	rows := [][]string{
 		{"tool", "liftfuse " + r.in.Version},
 		{"campaign file", c.File},
 		{"inputs SHA-256", r.res.Campaign.SHA256},
 		{"air density", fmt.Sprintf("%.4f kg/m³ (%s; %g °C, %g hPa, %g %% RH, %g ppm CO₂)", r.res.Air.DensityKgM3, r.res.Air.Method, c.Air.TemperatureC, c.Air.PressureHPa, c.Air.HumidityPct, c.Air.CO2ppm)},
-		{"seed", fmt.Sprintf("%d", d.Seed)},
-		{"sampler", d.Sampler},
-		{"draws", fmt.Sprintf("%d", d.Draws)},
 	}
-	if d.RhatMax != nil {
-		rows = append(rows, []string{"convergence", fmt.Sprintf("rank-normalised split R-hat ≤ %.3f, bulk ESS ≥ %.0f (Vehtari et al. 2021)", *d.RhatMax, *d.ESSMin)})
+	if d := r.res.Diagnostics; d != nil {
+		rows = append(rows, []string{"seed", fmt.Sprintf("%d", d.Seed)}, []string{"sampler", d.Sampler}, []string{"draws", fmt.Sprintf("%d", d.Draws)})
+		if d.RhatMax != nil && d.ESSMin != nil {
+			rows = append(rows, []string{"convergence", fmt.Sprintf("rank-normalised split R-hat ≤ %.3f, bulk ESS ≥ %.0f (Vehtari et al. 2021)", *d.RhatMax, *d.ESSMin)})
+		}
 	}
 	for i, f := range c.Files {
 		rows = append(rows, []string{fmt.Sprintf("input %d", i+1), f})
+	}
+	if r.titleCut {
+		rows = append([][]string{{"title", r.fullTitle()}}, rows...)
 	}
 	pg.table([]column{{"item", 1, "L"}, {"value", 4, "L"}}, rows)
 	if len(r.res.Warnings) > 0 {

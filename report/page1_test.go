@@ -179,3 +179,35 @@ func TestReportSpeaksOfThisCampaign(t *testing.T) {
 		}
 	}
 }
+
+// TestPage1RobustHeadline: a laser whose gain is stated 60 % too high
+// (mm_per_unit 1.6 where the demo's truth is 1) disagrees with the pots
+// and the taps; the result's headline is then the robust fusion
+// (result-format.md, headline), and page 1 says so once, in its own words,
+// with the plain fusion's figure beside the headline one.
+func TestPage1RobustHeadline(t *testing.T) {
+	in := demoInput(t, func(c *campaign.Campaign) {
+		for i := range c.Evidence.RideHeight {
+			if c.Evidence.RideHeight[i].ID == "rear-laser" {
+				c.Evidence.RideHeight[i].Calibration.MmPerUnit = 1.6
+			}
+		}
+	})
+	if h := in.Fused.Result.Headline; h != fuse.HeadlineRobust {
+		t.Fatalf("the fusion kept a %q headline for a laser 60 %% off", h)
+	}
+	checks, err := report.Checks(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	all := strings.Join(checks, "\n")
+	for _, want := range []string{"rear-laser (ride_height) disagrees", "from the robust fusion, which widens its errors",
+		"the errors of rear-laser were widened", "With every entry at its stated errors (the plain fusion), ducktail's"} {
+		if !strings.Contains(all, want) {
+			t.Errorf("page 1's checks lack %q:\n%s", want, all)
+		}
+	}
+	if n := strings.Count(all, "robust fusion"); n != 2 {
+		t.Errorf("the robust fusion is spoken of %d times, want 2 (the flagged entry and the note):\n%s", n, all)
+	}
+}

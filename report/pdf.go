@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"slices"
 	"time"
@@ -42,12 +43,12 @@ func PDF(in Input) ([]byte, error) {
 	if !slices.Contains(Papers(), paper) {
 		return nil, fmt.Errorf("unknown paper %q (want A4 or Letter)", paper)
 	}
-	c := in.Campaign
-	date, err := time.Parse("2006-01-02", c.Campaign.Date)
+	r, err := newReporter(in)
 	if err != nil {
 		return nil, err
 	}
-	r, err := newReporter(in)
+	c := in.Campaign
+	date, err := time.Parse("2006-01-02", c.Campaign.Date)
 	if err != nil {
 		return nil, err
 	}
@@ -72,6 +73,10 @@ func PDF(in Input) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
+// compress turns on the compression of the PDF's streams; the tests turn
+// it off to read the page content.
+var compress = true
+
 // newDocument sets up the PDF: dated by the test, not the clock, with the
 // Go fonts embedded and a footer of title and page number on every page.
 func newDocument(paper string, date time.Time, title, version string) *page {
@@ -79,7 +84,7 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 	pdf.SetCreationDate(date)
 	pdf.SetModificationDate(date)
 	pdf.SetCatalogSort(true)
-	pdf.SetCompression(true)
+	pdf.SetCompression(compress)
 	pdf.SetProducer("liftfuse "+version, true)
 	pdf.SetCreator("liftfuse "+version, true)
 	pdf.SetTitle(title, true)
@@ -89,12 +94,15 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 	pdf.AliasNbPages("{nb}")
 	w, _ := pdf.GetPageSize()
 	pg := &page{pdf: pdf, w: w - 2*margin}
+	pg.font("", 7.5)
+	short, _ := pg.clamp(title, pg.w/2-2, 7.5, 1)
+	footer := plain(short[0])
 	pdf.SetFooterFunc(func() {
 		_, h := pdf.GetPageSize()
 		pdf.SetY(h - margin + 4)
 		pg.font("", 7.5)
 		pdf.SetTextColor(grey, grey, grey)
-		pdf.CellFormat(pg.w/2, 4, title, "", 0, "L", false, 0, "")
+		pdf.CellFormat(pg.w/2, 4, footer, "", 0, "L", false, 0, "")
 		pdf.CellFormat(pg.w/2, 4, fmt.Sprintf("page %d of {nb}", pdf.PageNo()), "", 0, "R", false, 0, "")
 		pdf.SetTextColor(0, 0, 0)
 	})
@@ -103,6 +111,9 @@ func newDocument(paper string, date time.Time, title, version string) *page {
 
 // newReporter starts a reporter of the input, with no document yet.
 func newReporter(in Input) (*reporter, error) {
+	if in.Campaign == nil || in.Reduced == nil || in.Fused == nil || in.Fused.Result == nil || in.Fused.Posterior == nil {
+		return nil, errors.New("report: the input lacks the campaign, its reduction or its fusion")
+	}
 	r := &reporter{in: in, res: in.Fused.Result}
 	var err error
 	if r.unitN, err = air.NewtonsPer(in.Campaign.Report.ForceUnit); err != nil {
@@ -118,6 +129,11 @@ type reporter struct {
 	pg    *page
 	res   *fuse.Result
 	unitN float64 // newtons per display unit
+	// titleCut is set when page 1 shortened the title; Provenance then
+	// gives it in full.
+	titleCut bool
+	// deltas caches deltaAt.
+	deltas map[deltaKey]changeAt
 }
 
 func (r *reporter) configs() []string {
@@ -130,6 +146,16 @@ func (r *reporter) configs() []string {
 
 // force formats an estimate in newtons in the display unit.
 func (r *reporter) force(e fuse.Estimate) string { return interval(e.Scale(1/r.unitN), 1) }
+
+// loadBoth writes a load in newtons and, when the display unit is another,
+// in it too: "12 N (1.2 kgf)".
+func (r *reporter) loadBoth(n float64) string {
+	unit := r.in.Campaign.Report.ForceUnit
+	if r.unitN == 1 {
+		return fmt.Sprintf("%.0f N", n)
+	}
+	return fmt.Sprintf("%.0f N (%.1f %s)", n, n/r.unitN, unit)
+}
 
 // cla formats a C_L·A estimate, m².
 func cla(e fuse.Estimate) string { return interval(e, 3) }

@@ -43,9 +43,9 @@ func (r *reporter) pressureSections() {
 func (r *reporter) pressureSection(p *pressure.Result) {
 	pg := r.pg
 	e := p.Entry
-	pg.h2(fmt.Sprintf("%s — pressure taps (%s, %d taps)", e.ID, e.Mode, len(p.Panels)), 70)
-	pg.para(fmt.Sprintf("Sensor noise %.3g Pa per tap, reference port ±%.3g Pa, integration scale ±%.0f %% for what a finite set of taps misses; %d uncovered patch(es) carry a prior on their Cp. Pressure integration sees the vertical pressure force only: the pitch of drag is added as a modelled nuisance, and the figures are approximate.",
-		e.SensorSDPa, e.ReferenceSDPa, e.ModelSDPct, len(e.Uncovered)))
+	pg.h2(fmt.Sprintf("%s — pressure taps (%s, %s)", e.ID, e.Mode, count(len(p.Panels), "tap")), 70)
+	pg.para(fmt.Sprintf("Sensor noise %.3g Pa per tap, reference port ±%.3g Pa, integration scale ±%.0f %% for what a finite set of taps misses; %s. Pressure integration sees the vertical pressure force only: the pitch of drag is added as a modelled nuisance, and the figures are approximate.",
+		e.SensorSDPa, e.ReferenceSDPa, e.ModelSDPct, uncoveredCarry(len(e.Uncovered))))
 	var rows [][]string
 	for _, rd := range p.Readings {
 		f := rd.Forces
@@ -59,11 +59,25 @@ func (r *reporter) pressureSection(p *pressure.Result) {
 	pg.chart(cpChart(p, r.configs()), 62)
 }
 
+// uncoveredCarry says how many uncovered patches carry a prior on their
+// Cp, in words.
+func uncoveredCarry(n int) string {
+	switch n {
+	case 0:
+		return "no uncovered patch is declared"
+	case 1:
+		return "1 uncovered patch carries a prior on its Cp"
+	}
+	return count(n, "uncovered patch") + " carry a prior on their Cp"
+}
+
 // cpChart: Cp of every tap along x, upper surface filled and lower hollow,
 // one marker shape per configuration.
 func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p := newPlot(r.Entry.ID+": pressure coefficient along the car", "x from the front axle, rearward (m)", "Cp")
-	for ci, cfg := range configs {
+	var d dropped
+	shown := charted(len(configs))
+	for ci, cfg := range configs[:shown] {
 		for _, surface := range []string{campaign.SurfaceUpper, campaign.SurfaceLower} {
 			var pts plotter.XYs
 			for _, rd := range r.Readings {
@@ -76,11 +90,11 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 					}
 				}
 			}
-			if len(pts) == 0 {
+			s := d.scatter(pts)
+			if s == nil {
 				continue
 			}
 			col, shape := styleOf(ci)
-			s, _ := plotter.NewScatter(pts)
 			s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.2), Shape: shape}
 			if surface == campaign.SurfaceLower {
 				s.GlyphStyle.Shape = hollow(shape)
@@ -92,21 +106,23 @@ func cpChart(r *pressure.Result, configs []string) *plot.Plot {
 	p.Legend.Top = true
 	p.Legend.Left = true
 	p.Legend.XOffs = 0
-	pad(p, 0.32)
+	chartedNote(p, len(configs))
+	pad(p, legendShare(2*shown+moreLine(len(configs)), 0.32))
+	d.note(p)
 	return p
 }
 
 // pressureReduced writes each pressure entry's integrated readings and the
 // C_L·A the taps alone imply.
-func pressureReduced(w io.Writer, r *methods.Reduced) {
+func pressureReduced(w io.Writer, r *methods.Reduced, u forceUnit) {
 	for _, p := range methods.Details[*pressure.Result](r) {
-		fmt.Fprintf(w, "%s: %d taps, %s\n", p.Entry.ID, len(p.Panels), p.Entry.Mode)
+		fmt.Fprintf(w, "%s: %s, %s\n", p.Entry.ID, count(len(p.Panels), "tap"), p.Entry.Mode)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		fmt.Fprintln(tw, "  config\tspeed km/h\tdir\tq Pa\tfront N\trear N\ttotal N\tβ_f m²\tβ_r m²\tβ_t m² (taps only)")
+		fmt.Fprintf(tw, "  config\tspeed km/h\tdir\tq Pa\tfront %[1]s\trear %[1]s\ttotal %[1]s\tβ_f m²\tβ_r m²\tβ_t m² (taps only)\n", u.name)
 		for _, rd := range p.Readings {
 			b := rd.ImpliedCLA()
 			fmt.Fprintf(tw, "  %s\t%g\t%+d\t%.0f\t%.1f\t%.1f\t%.1f\t%+.3f\t%+.3f\t%+.3f\n", rd.Config, rd.SpeedKmh, rd.Direction, rd.Q,
-				rd.Forces.Front, rd.Forces.Rear, rd.Forces.Total, b.Front, b.Rear, b.Total)
+				u.of(rd.Forces.Front), u.of(rd.Forces.Rear), u.of(rd.Forces.Total), b.Front, b.Rear, b.Total)
 		}
 		tw.Flush()
 		fmt.Fprintln(w)

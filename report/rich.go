@@ -105,15 +105,26 @@ func (p *page) spanWidth(ss []span, size float64) float64 {
 }
 
 // wrap breaks marked-up text into lines no wider than w mm at a size,
-// breaking at ordinary spaces only (never at a no-break space, nor inside
-// a word; a word wider than the line gets a line of its own).
+// breaking at ordinary spaces only (never at a no-break space). A word
+// wider than the line is broken between its characters (hardBreak); one
+// with subscripts, which cannot be, gets a line of its own.
 func (p *page) wrap(text string, w, size float64) []string {
 	var lines []string
+	space := p.spanWidth([]span{{text: " "}}, size)
 	for _, para := range strings.Split(text, "\n") {
 		line, lineW := "", 0.0
-		space := p.spanWidth([]span{{text: " "}}, size)
 		for _, word := range strings.Split(para, " ") {
 			ww := p.spanWidth(spans(word), size)
+			if ww > w && !strings.Contains(word, "_{") {
+				pieces := p.hardBreak(word, w, size)
+				if line != "" {
+					lines = append(lines, line)
+				}
+				lines = append(lines, pieces[:len(pieces)-1]...)
+				word = pieces[len(pieces)-1]
+				line, lineW = word, p.spanWidth([]span{{text: word}}, size)
+				continue
+			}
 			switch {
 			case line == "":
 				line, lineW = word, ww
@@ -127,6 +138,43 @@ func (p *page) wrap(text string, w, size float64) []string {
 		lines = append(lines, line)
 	}
 	return lines
+}
+
+// hardBreak cuts a word into pieces no wider than w mm (at least one
+// character each), measuring each character once.
+func (p *page) hardBreak(word string, w, size float64) []string {
+	p.pdf.SetFontSize(size)
+	var pieces []string
+	start, width := 0, 0.0
+	for i, r := range word {
+		cw := p.pdf.GetStringWidth(string(r))
+		if width+cw > w && i > start {
+			pieces = append(pieces, word[start:i])
+			start, width = i, 0
+		}
+		width += cw
+	}
+	return append(pieces, word[start:])
+}
+
+// ellipsis marks text that was shortened.
+const ellipsis = "…"
+
+// clamp wraps text to w mm at a size and keeps at most n lines; when it
+// had more, the last kept line is shortened to end in an ellipsis. The
+// work is linear in the text's length.
+func (p *page) clamp(text string, w, size float64, n int) (lines []string, cut bool) {
+	lines = p.wrap(text, w, size)
+	if len(lines) <= n {
+		return lines, false
+	}
+	lines = lines[:n]
+	last := []rune(strings.TrimRight(lines[n-1], " "))
+	for len(last) > 0 && p.spanWidth(spans(string(last)+ellipsis), size) > w {
+		last = last[:len(last)-1]
+	}
+	lines[n-1] = strings.TrimRight(string(last), " ,;:") + ellipsis
+	return lines, true
 }
 
 // drawLine sets one line of marked-up text with its baseline at y, from x.
@@ -151,7 +199,13 @@ func baseline(y, lh, size float64) float64 { return y + 0.5*lh + 0.3*size*mmPerP
 // width w, lh mm a line, starting a new page where the page is full.
 func (p *page) flow(text, style string, size, lh, x, w float64) {
 	p.font(style, size)
-	for _, line := range p.wrap(bind(text), w, size) {
+	p.setLines(p.wrap(bind(text), w, size), size, lh, x)
+}
+
+// setLines sets lines of marked-up text, already wrapped, in the current
+// font style, lh mm a line from x.
+func (p *page) setLines(lines []string, size, lh, x float64) {
+	for _, line := range lines {
 		p.room(lh)
 		y := p.pdf.GetY()
 		p.drawLine(x, baseline(y, lh, size), line, size)

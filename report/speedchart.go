@@ -72,7 +72,9 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 	unit := r.in.Campaign.Report.ForceUnit
 	p := newPlot(ax+" axle", "speed (km/h)", fmt.Sprintf("%s axle lift (%s)", ax, unit))
 	rho := r.res.Air.DensityKgM3
-	for ci, cr := range r.res.Configs {
+	var d dropped
+	shown := charted(len(r.res.Configs))
+	for ci, cr := range r.res.Configs[:shown] {
 		col, shape := styleOf(ci)
 		var mean, band plotter.XYs
 		var upper plotter.XYs
@@ -85,11 +87,18 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 			upper = append(upper, plotter.XY{X: v, Y: e.Hi})
 		}
 		slices.Reverse(upper)
-		poly, _ := plotter.NewPolygon(append(band, upper...))
-		poly.Color = tint(col, 0.18)
-		poly.LineStyle.Width = 0
-		line, _ := plotter.NewLine(mean)
-		line.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1.2)}
+		var thumbs []plot.Thumbnailer
+		if poly := d.polygon(append(band, upper...)); poly != nil {
+			poly.Color = tint(col, 0.18)
+			poly.LineStyle.Width = 0
+			p.Add(poly)
+			thumbs = append(thumbs, poly)
+		}
+		if line := d.line(mean); line != nil {
+			line.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1.2)}
+			p.Add(line)
+			thumbs = append(thumbs, line)
+		}
 		var pts plotter.XYs
 		var errs plotter.YErrors
 		for _, v := range r.in.Campaign.Report.SpeedsKmh {
@@ -99,20 +108,23 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 				errs = append(errs, struct{ Low, High float64 }{e.Mean - e.Lo, e.Hi - e.Mean})
 			}
 		}
-		p.Add(poly, line)
-		if len(pts) > 0 {
-			sc, _ := plotter.NewScatter(pts)
+		pts, errs = d.keepBars(pts, errs)
+		if sc := d.scatter(pts); sc != nil {
 			sc.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.4), Shape: shape}
 			eb := &plotter.YErrorBars{XYs: pts, YErrors: errs, LineStyle: draw.LineStyle{Color: col, Width: vg.Points(0.7)}, CapWidth: vg.Points(4)}
 			p.Add(eb, sc)
-			p.Legend.Add(cr.ID, poly, line, sc)
-		} else {
-			p.Legend.Add(cr.ID, poly, line)
+			thumbs = append(thumbs, sc)
+		}
+		if len(thumbs) > 0 {
+			p.Legend.Add(cr.ID, thumbs...)
 		}
 	}
-	zero, _ := plotter.NewLine(plotter.XYs{{X: lo, Y: 0}, {X: hi, Y: 0}})
-	zero.LineStyle = draw.LineStyle{Color: grayOf(120), Width: vg.Points(0.5)}
-	p.Add(zero)
-	pad(p, 0.22)
+	if zero := d.line(plotter.XYs{{X: lo, Y: 0}, {X: hi, Y: 0}}); zero != nil {
+		zero.LineStyle = draw.LineStyle{Color: grayOf(120), Width: vg.Points(0.5)}
+		p.Add(zero)
+	}
+	chartedNote(p, len(r.res.Configs))
+	pad(p, legendShare(shown+moreLine(len(r.res.Configs)), 0.22))
+	d.note(p)
 	return p
 }

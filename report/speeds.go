@@ -26,22 +26,16 @@ type atSpeed struct {
 func speedOf(cr fuse.ConfigResult, v float64) (atSpeed, bool) {
 	for _, s := range cr.AtSpeeds {
 		if s.SpeedKmh == v {
-			return atSpeed{SpeedKmh: v, N: [3]fuse.Estimate{s.FrontN, s.RearN, s.TotalN}, PDown: pDownAt(cr, s)}, true
+			return atSpeed{SpeedKmh: v, N: [3]fuse.Estimate{s.FrontN, s.RearN, s.TotalN}, PDown: pDownAt(s)}, true
 		}
 	}
 	return atSpeed{}, false
 }
 
-// pDownAt is P(downforce) per axle (front, rear, total) at the speed of s.
-//
-// For the lead: the result document's at_speeds gains p_downforce per axle
-// (fuse.SpeedResult.PDownforce, front/rear/total); point this at it, e.g.
-// return [3]float64{s.PDownforce.Front, s.PDownforce.Rear, s.PDownforce.Total}.
-// Until then it reads the configuration's P(downforce) of β at 100 km/h,
-// which is the same at every speed with the constant speed model only.
-func pDownAt(cr fuse.ConfigResult, s fuse.SpeedResult) [3]float64 {
-	_ = s
-	return [3]float64{cr.Front.PDownforce, cr.Rear.PDownforce, cr.Total.PDownforce}
+// pDownAt is P(downforce) per axle (front, rear, total) at the speed of s,
+// from the result document's at_speeds (P(β(V) < 0) at that V).
+func pDownAt(s fuse.SpeedResult) [3]float64 {
+	return [3]float64{s.PDownforce.Front, s.PDownforce.Rear, s.PDownforce.Total}
 }
 
 // changeAt is a configuration's change against the reference at a speed:
@@ -60,6 +54,26 @@ type changeAt struct {
 // configurations have), read them here instead; with the constant speed
 // model this equals the delta's C_L·A times q(V) exactly.
 func (r *reporter) deltaAt(d fuse.DeltaResult, v float64) changeAt {
+	key := deltaKey{d.Config, d.Versus, v}
+	if ch, ok := r.deltas[key]; ok {
+		return ch
+	}
+	if r.deltas == nil {
+		r.deltas = map[deltaKey]changeAt{}
+	}
+	r.deltas[key] = r.computeDeltaAt(d, v)
+	return r.deltas[key]
+}
+
+// deltaKey names a change at a speed, for the reporter's cache: page 1's
+// sentences and its table read the same changes.
+type deltaKey struct {
+	config, versus string
+	speedKmh       float64
+}
+
+// computeDeltaAt is deltaAt without the cache.
+func (r *reporter) computeDeltaAt(d fuse.DeltaResult, v float64) changeAt {
 	q := air.DynamicPressure(r.res.Air.DensityKgM3, air.KmhToMs(v))
 	ch := changeAt{SpeedKmh: v}
 	for i, ax := range axles {

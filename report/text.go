@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"slices"
 	"text/tabwriter"
 
 	"liftfuse/fuse"
@@ -70,10 +71,13 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 		}
 	}
 	tw.Flush()
+	if l := headlineOf(res).headlineLine(); l != "" && !slices.ContainsFunc(res.Warnings, saysRobust) {
+		fmt.Fprintf(w, "\n%s\n", l)
+	}
 	writeWarnings(w, res.Warnings)
 	if d := res.Diagnostics; d != nil {
-		fmt.Fprintf(w, "\nsampler: %s; %d draws, seed %d", d.Sampler, d.Draws, d.Seed)
-		if d.RhatMax != nil {
+		fmt.Fprintf(w, "\nsampler: %s; %s, seed %d", d.Sampler, count(d.Draws, "draw"), d.Seed)
+		if d.RhatMax != nil && d.ESSMin != nil {
 			fmt.Fprintf(w, ", R̂ ≤ %.3f, bulk ESS ≥ %.0f", *d.RhatMax, *d.ESSMin)
 		}
 		fmt.Fprintln(w)
@@ -81,11 +85,12 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 	return nil
 }
 
+// writeWarnings lists the warnings under a count of them ("1 warning").
 func writeWarnings(w io.Writer, ws []string) {
 	if len(ws) == 0 {
 		return
 	}
-	fmt.Fprintln(w, "\nwarnings")
+	fmt.Fprintf(w, "\n%s\n", count(len(ws), "warning"))
 	for _, s := range ws {
 		fmt.Fprintf(w, "  - %s\n", s)
 	}
@@ -93,10 +98,16 @@ func writeWarnings(w io.Writer, ws []string) {
 
 // ReduceText writes what each adapter made of its raw data: the steady
 // windows of each height entry, the integrated pressure readings, the vortex
-// senses, then each entry's standalone estimates.
-func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
+// senses, then each entry's standalone estimates. Forces (a ride-height
+// entry's detectability, the taps' integrated loads) are in unit, the
+// campaign's report.force_unit, as in fuse and plan.
+func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result, unit string) error {
+	u, err := newForceUnit(unit)
+	if err != nil {
+		return err
+	}
 	for _, m := range methodReports() {
-		m.reduced(w, r)
+		m.reduced(w, r, u)
 	}
 	fmt.Fprintln(w, "what each entry says on its own (C_L·A, m²)")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
@@ -108,4 +119,5 @@ func ReduceText(w io.Writer, r *methods.Reduced, res *fuse.Result) {
 	}
 	tw.Flush()
 	writeWarnings(w, res.Warnings)
+	return nil
 }

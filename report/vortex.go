@@ -40,8 +40,8 @@ func (r *reporter) vortexSections() {
 	for _, v := range methods.Details[*vortex.Result](r.in.Reduced) {
 		e := v.Entry
 		pg.h2(fmt.Sprintf("%s — %s trailing vortex sense", e.ID, e.Side), 95)
-		pg.para(fmt.Sprintf("%d observations, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
-			len(v.Observations), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
+		pg.para(fmt.Sprintf("%s, seen from behind the car looking forward; a %s vortex turning %s means net lift. Misread probability %.2f. A sense is a sign only: it tells lift from downforce and sharpens the result only near zero lift, where the other methods are weakest.",
+			upperFirst(count(len(v.Observations), "observation")), e.Side, map[bool]string{true: "clockwise", false: "counter-clockwise"}[e.Side == campaign.SideLeft], e.Misread))
 		r.standaloneTable(e.ID)
 		pg.chart(vortexChart(v, r.in.Fused.Posterior, r.configs()), 55)
 	}
@@ -62,7 +62,8 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 		}
 	}
 	lo, hi := math.Max(0, minV-20), maxV+20
-	for ci, cfg := range configs {
+	var d dropped
+	for ci, cfg := range configs[:charted(len(configs))] {
 		var pts plotter.XYs
 		for _, o := range r.Observations {
 			if o.Config != cfg {
@@ -74,11 +75,11 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			}
 			pts = append(pts, plotter.XY{X: o.SpeedKmh + 3*(float64(ci)-float64(len(configs)-1)/2), Y: y})
 		}
-		if len(pts) == 0 {
+		s := d.scatter(pts)
+		if s == nil {
 			continue
 		}
 		col, shape := styleOf(ci)
-		s, _ := plotter.NewScatter(pts)
 		s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2.5), Shape: shape}
 		var curve plotter.XYs
 		for k := range speedGrid + 1 {
@@ -86,10 +87,19 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 			_, pDown := P.At(v, evidence.Term{Config: cfg, Axle: r.Entry.Informs, W: 1})
 			curve = append(curve, plotter.XY{X: v, Y: 1 - pDown})
 		}
-		l, _ := plotter.NewLine(curve)
-		l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
-		p.Add(s, l)
-		p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", s, l)
+		p.Add(s)
+		thumbs := []plot.Thumbnailer{s}
+		if l := d.line(curve); l != nil {
+			l.LineStyle = draw.LineStyle{Color: col, Width: vg.Points(1)}
+			p.Add(l)
+			thumbs = append(thumbs, l)
+		}
+		p.Legend.Add(cfg+": sense seen (1 lift, 0 downforce); line: fused P(lift)", thumbs...)
+	}
+	chartedNote(p, len(configs))
+	d.note(p)
+	if !chartable(lo) || !chartable(hi) {
+		return p
 	}
 	p.X.Min, p.X.Max = lo, hi
 	p.X.Tick.Marker = plot.ConstantTicks(ticks)
@@ -100,7 +110,7 @@ func vortexChart(r *vortex.Result, P *fuse.Posterior, configs []string) *plot.Pl
 }
 
 // vortexReduced writes each vortex entry's observations and what each says.
-func vortexReduced(w io.Writer, r *methods.Reduced) {
+func vortexReduced(w io.Writer, r *methods.Reduced, _ forceUnit) {
 	for _, v := range methods.Details[*vortex.Result](r) {
 		fmt.Fprintf(w, "%s: %s vortex, informs %s, misread %.2f\n", v.Entry.ID, v.Entry.Side, v.Entry.Informs, v.Entry.Misread)
 		for _, o := range v.Observations {
