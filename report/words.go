@@ -3,6 +3,8 @@ package report
 import (
 	"fmt"
 	"strings"
+
+	"liftfuse/methods/campaign"
 )
 
 // The report writes counts and lists in words, the same way in the PDF and
@@ -60,12 +62,7 @@ func List(items []string) string { return listWith(items, "and") }
 // "none".
 func ListOr(items []string) string { return listWith(items, "or") }
 
-func listWith(items []string, conj string) string {
-	if len(items) == 0 {
-		return "none"
-	}
-	return join(items, " "+conj+" ")
-}
+func listWith(items []string, conj string) string { return campaign.Words(items, conj) }
 
 // join joins with commas and a final separator ("a, b" + last + "c"), for
 // the sentences that need one other than " and " ("; and ").

@@ -56,6 +56,5 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 	if o.json {
 		return report.WriteJSON(out, res)
 	}
-	report.ReduceText(out, r, res)
-	return nil
+	return report.ReduceText(out, r, res, c.Report.ForceUnit)
 }

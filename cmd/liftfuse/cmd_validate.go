@@ -8,6 +8,7 @@ import (
 
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/report"
 )
 
 type validateOptions struct {
@@ -54,7 +55,7 @@ func runValidate(o validateOptions, out io.Writer) error {
 	}
 	n := len(c.Evidence.RideHeight) + len(c.Evidence.Pressure) + len(c.Evidence.Vortex)
 	fmt.Fprintf(out, "%s: valid campaign %q: %s, %s, %s read, %s\n", o.file, c.Campaign.Title,
-		count(len(c.Configurations), "configuration", "configurations"), count(n, "evidence entry", "evidence entries"),
-		count(len(c.Files), "file", "files"), count(len(r.Warnings), "warning", "warnings"))
+		report.Count(len(c.Configurations), "configuration"), report.Count(n, "evidence entry"),
+		report.Count(len(c.Files), "file"), report.Count(len(r.Warnings), "warning"))
 	return nil
 }

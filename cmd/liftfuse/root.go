@@ -135,7 +135,7 @@ func execute(ctx context.Context, root *cobra.Command, args []string, stderr io.
 func argsExactly(n int, what string) cobra.PositionalArgs {
 	return func(_ *cobra.Command, args []string) error {
 		if len(args) != n {
-			return badInput("want %s, got %s", what, count(len(args), "argument", "arguments"))
+			return badInput("want %s, got %s", what, report.Count(len(args), "argument"))
 		}
 		return nil
 	}

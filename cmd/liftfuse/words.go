@@ -1,7 +1,6 @@
 package main
 
 import (
-	"fmt"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -16,14 +15,6 @@ func words(list []string, conj string) string {
 		return ""
 	}
 	return campaign.Words(list, conj)
-}
-
-// count writes n with the singular or plural noun: "1 warning", "2 warnings".
-func count(n int, one, many string) string {
-	if n == 1 {
-		return fmt.Sprintf("%d %s", n, one)
-	}
-	return fmt.Sprintf("%d %s", n, many)
 }
 
 // enum returns the allowed word that value names, in any case, or an

@@ -25,21 +25,3 @@ func TestWords(t *testing.T) {
 	}
 }
 
-func TestCount(t *testing.T) {
-	tests := []struct {
-		name string
-		n    int
-		want string
-	}{
-		{"zero is plural", 0, "0 warnings"},
-		{"one is singular", 1, "1 warning"},
-		{"two is plural", 2, "2 warnings"},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			if got := count(tt.n, "warning", "warnings"); got != tt.want {
-				t.Errorf("count(%d) = %q, want %q", tt.n, got, tt.want)
-			}
-		})
-	}
-}
