@@ -2,6 +2,7 @@ package methods_test
 
 import (
 	"bytes"
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -92,7 +93,8 @@ func writeCampaign(t *testing.T, yml, csv []byte) string {
 // or the fusion (issue 16). The input is the campaign text and the text of
 // logs/run.csv beside it; it is loaded the way the commands load it (log
 // headers only — the adapters stream the bodies), reduced and fused.
-// Errors are fine; a load error must be Problems (with positions).
+// Errors are fine; a load error must be Problems (with positions), and a
+// fusion that succeeds must give a result document that can be written.
 func FuzzReduce(f *testing.F) {
 	for _, s := range miniSeeds(f) {
 		f.Add(s[0], s[1])
@@ -123,6 +125,10 @@ func FuzzReduce(f *testing.F) {
 			t.Logf("fuse: %v", err)
 		} else if fz == nil || fz.Result == nil {
 			t.Fatal("nil fusion without error")
+		} else if _, err := json.Marshal(fz.Result); err != nil {
+			// A NaN or Inf anywhere in the result would fail here: a fusion
+			// that succeeds must give a result document that can be written.
+			t.Fatalf("the result document cannot be written: %v", err)
 		}
 	})
 }

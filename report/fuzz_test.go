@@ -77,6 +77,9 @@ func FuzzReport(f *testing.F) {
 			t.Logf("before the report: %v", err)
 			return
 		}
+		if _, err := report.JSON(in.Fused.Result); err != nil {
+			t.Fatalf("the result document cannot be written: %v", err)
+		}
 		pdf, err := report.PDF(in)
 		if err != nil {
 			t.Logf("report: %v", err)
