@@ -32,6 +32,13 @@ const (
 	// chains, in posterior sd: the Monte Carlo sd of a mean is 1/√ESS sd,
 	// 0.022 at ESS 2000, so 0.1 is ~4.5 of them.
 	sampledMeanTol = 0.1
+	// sampledEndTol is the error allowed on an end of the 90 % interval from
+	// the chains, in posterior sd: the Monte Carlo sd of a 5 % quantile of a
+	// normal is √(0.05·0.95)/(φ(1.645)·√ESS) ≈ 0.047 sd at ESS 2000 (the
+	// asymptotic variance of a sample quantile, common practice (no
+	// source)), so 0.2 is ~4 of them. A 30 % error in the sd moves an end
+	// by 0.49 sd.
+	sampledEndTol = 0.2
 )
 
 // window is one steady window of a direct-lift observation in a linear
@@ -45,7 +52,8 @@ type window struct {
 // (ρ = 1.2), with w = 1/50 (the order of a ride-height gain), an offset
 // nuisance with coefficient 1 and errors that are AR(1)-correlated between
 // consecutive windows (a full covariance block): Σ_ij = sd²·ρ^|i−j|.
-// truth gives β (and γ, under the linear model) for making y.
+// y(i, o) gives the value of window i's observation o; scale, when not
+// nil, multiplies the lift term of every window.
 func linearEntry(t *testing.T, id string, ws []window, off evidence.Nuisance, sd, rho float64, y func(i int, o evidence.Obs) float64, scale *evidence.ScaleGroup) evidence.Evidence {
 	t.Helper()
 	var obs []evidence.Obs
@@ -140,53 +148,9 @@ func newExactPosterior(t *testing.T, evs []evidence.Evidence, configs []string, 
 		lam.SetSym(i, i, prec0[i])
 		rhs.SetVec(i, prec0[i]*mu0[i])
 	}
-	vref := evidence.RefSpeedKmh / 3.6
 	for _, ev := range evs {
 		for _, b := range ev.Blocks {
-			k := len(b.Obs)
-			X := mat.NewDense(k, n, nil)
-			y := mat.NewVecDense(k, nil)
-			R := mat.NewSymDense(k, nil)
-			for i, o := range b.Obs {
-				y.SetVec(i, o.Y)
-				for _, tm := range o.Terms {
-					c := ep.col[tm.Config+"/"+tm.Axle]
-					X.Set(i, c, X.At(i, c)+tm.W*o.Air.Q)
-					if linear {
-						g := ep.col["γ "+tm.Config+"/"+tm.Axle]
-						X.Set(i, g, X.At(i, g)+tm.W*o.Air.Q*(o.Air.V-vref)/vref)
-					}
-				}
-				for _, cf := range o.Nuis {
-					c := ep.col["ν "+cf.Name]
-					X.Set(i, c, X.At(i, c)+cf.C)
-				}
-				for j := i; j < k; j++ {
-					R.SetSym(i, j, b.At(i, j))
-				}
-			}
-			var rc mat.Cholesky
-			if !rc.Factorize(R) {
-				t.Fatal("block covariance is not positive definite")
-			}
-			var RiX mat.Dense
-			if err := rc.SolveTo(&RiX, X); err != nil {
-				t.Fatal(err)
-			}
-			var info mat.Dense
-			info.Mul(X.T(), &RiX)
-			var Riy mat.VecDense
-			if err := rc.SolveVecTo(&Riy, y); err != nil {
-				t.Fatal(err)
-			}
-			var xr mat.VecDense
-			xr.MulVec(X.T(), &Riy)
-			for i := range n {
-				for j := i; j < n; j++ {
-					lam.SetSym(i, j, lam.At(i, j)+info.At(i, j))
-				}
-			}
-			rhs.AddVec(rhs, &xr)
+			ep.addBlock(t, lam, rhs, b, linear)
 		}
 	}
 	var lc mat.Cholesky
@@ -202,6 +166,57 @@ func newExactPosterior(t *testing.T, evs []evidence.Evidence, configs []string, 
 		t.Fatal(err)
 	}
 	return ep
+}
+
+// addBlock adds a block's information XᵀR⁻¹X to lam and XᵀR⁻¹y to rhs.
+func (ep *exactPosterior) addBlock(t *testing.T, lam *mat.SymDense, rhs *mat.VecDense, b evidence.Block, linear bool) {
+	t.Helper()
+	n := rhs.Len()
+	vref := evidence.RefSpeedKmh / 3.6
+	k := len(b.Obs)
+	X := mat.NewDense(k, n, nil)
+	y := mat.NewVecDense(k, nil)
+	R := mat.NewSymDense(k, nil)
+	for i, o := range b.Obs {
+		y.SetVec(i, o.Y)
+		for _, tm := range o.Terms {
+			c := ep.col[tm.Config+"/"+tm.Axle]
+			X.Set(i, c, X.At(i, c)+tm.W*o.Air.Q)
+			if linear {
+				g := ep.col["γ "+tm.Config+"/"+tm.Axle]
+				X.Set(i, g, X.At(i, g)+tm.W*o.Air.Q*(o.Air.V-vref)/vref)
+			}
+		}
+		for _, cf := range o.Nuis {
+			c := ep.col["ν "+cf.Name]
+			X.Set(i, c, X.At(i, c)+cf.C)
+		}
+		for j := i; j < k; j++ {
+			R.SetSym(i, j, b.At(i, j))
+		}
+	}
+	var rc mat.Cholesky
+	if !rc.Factorize(R) {
+		t.Fatal("block covariance is not positive definite")
+	}
+	var RiX mat.Dense
+	if err := rc.SolveTo(&RiX, X); err != nil {
+		t.Fatal(err)
+	}
+	var info mat.Dense
+	info.Mul(X.T(), &RiX)
+	var Riy mat.VecDense
+	if err := rc.SolveVecTo(&Riy, y); err != nil {
+		t.Fatal(err)
+	}
+	var xr mat.VecDense
+	xr.MulVec(X.T(), &Riy)
+	for i := range n {
+		for j := i; j < n; j++ {
+			lam.SetSym(i, j, lam.At(i, j)+info.At(i, j))
+		}
+	}
+	rhs.AddVec(rhs, &xr)
 }
 
 // linear returns the exact mean and sd of Σ a_name·θ_name.
@@ -226,9 +241,9 @@ type widthCase struct {
 	scaleSD float64
 	// noise multiplies every observation's error sd (0 means 1).
 	noise float64
-	// tol is the relative tolerance on the sd, meanTol that on the mean in
-	// posterior sd.
-	tol, meanTol float64
+	// tol is the relative tolerance on the sd; meanTol and endTol those on
+	// the mean and the interval's ends, in posterior sd.
+	tol, meanTol, endTol float64
 }
 
 // TestWidthAgainstExactPosterior: for linear-Gaussian evidence (two
@@ -240,18 +255,20 @@ type widthCase struct {
 // exact posterior by far less than its tolerance.
 func TestWidthAgainstExactPosterior(t *testing.T) {
 	cases := []widthCase{
-		{name: "closed form, constant speed", priorSD: 0.5, tol: exactRelTol, meanTol: exactRelTol},
-		{name: "closed form, linear speed model", priorSD: 0.5, linear: true, tol: exactRelTol, meanTol: exactRelTol},
-		{name: "closed form, noisy data, tight prior", priorSD: 0.05, noise: 30, tol: exactRelTol, meanTol: exactRelTol},
-		{name: "sampler, tiny scale factor", priorSD: 0.5, scaleSD: 1e-3, tol: sampledRelTol, meanTol: sampledMeanTol},
+		{name: "closed form, constant speed", priorSD: 0.5, tol: exactRelTol, meanTol: exactRelTol, endTol: exactRelTol},
+		{name: "closed form, linear speed model", priorSD: 0.5, linear: true, tol: exactRelTol, meanTol: exactRelTol, endTol: exactRelTol},
+		{name: "closed form, noisy data, tight prior", priorSD: 0.05, noise: 30, tol: exactRelTol, meanTol: exactRelTol, endTol: exactRelTol},
+		{name: "sampler, tiny scale factor", priorSD: 0.5, scaleSD: 1e-3, tol: sampledRelTol, meanTol: sampledMeanTol, endTol: sampledEndTol},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) { checkWidth(t, tc) })
 	}
 }
 
-func checkWidth(t *testing.T, tc widthCase) {
-	configs := []string{"base", "wing"}
+// widthEvidence returns the evidence of a width case: a front pot and a
+// rear pot (windows at 60–170 km/h, AR(1) errors, a Gaussian and a flat
+// offset) and taps on both axles at 90 and 150 km/h, for two configurations.
+func widthEvidence(t *testing.T, tc widthCase, configs []string) []evidence.Evidence {
 	truth := map[string]float64{"base/front": 0.10, "base/rear": 0.06, "wing/front": 0.13, "wing/rear": -0.05,
 		"γ base/front": 0.02, "γ base/rear": 0, "γ wing/front": 0.01, "γ wing/rear": -0.08}
 	rng := rand.New(rand.NewPCG(11, 1))
@@ -282,11 +299,38 @@ func checkWidth(t *testing.T, tc widthCase) {
 	if tc.scaleSD > 0 {
 		scale = &evidence.ScaleGroup{Name: "fpot gain", Label: "front pot gain", SD: tc.scaleSD}
 	}
-	evs := []evidence.Evidence{
+	return []evidence.Evidence{
 		linearEntry(t, "fpot", front, evidence.Nuisance{Name: "fpot h0", Label: "front offset", Mean: 0.3, SD: 0.5}, 0.05*nx, 0.6, gen(0.4, 0.05*nx), scale),
 		linearEntry(t, "rpot", rear, evidence.Nuisance{Name: "rpot h0", Label: "rear offset", Flat: true}, 0.05*nx, 0.3, gen(-1.2, 0.05*nx), nil),
 		linearEntry(t, "taps", taps, evidence.Nuisance{Name: "taps ref", Label: "reference", SD: 0.2}, 0.08*nx, 0, gen(0, 0.08*nx), nil),
 	}
+}
+
+// widthCheck is a linear quantity compared by checkWidth.
+type widthCheck struct {
+	name  string
+	terms []evidence.Term
+	atKmh float64 // 0: at V_ref
+}
+
+// widthChecks lists every axle and total, the differences to "base" and
+// the rear of "wing" at 150 km/h.
+func widthChecks(configs []string) []widthCheck {
+	var checks []widthCheck
+	for _, c := range configs {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+			checks = append(checks, widthCheck{c + " " + ax, []evidence.Term{{Config: c, Axle: ax, W: 1}}, 0})
+		}
+	}
+	for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+		checks = append(checks, widthCheck{"wing − base " + ax, []evidence.Term{{Config: "wing", Axle: ax, W: 1}, {Config: "base", Axle: ax, W: -1}}, 0})
+	}
+	return append(checks, widthCheck{"wing rear at 150 km/h", []evidence.Term{{Config: "wing", Axle: evidence.AxleRear, W: 1}}, 150})
+}
+
+func checkWidth(t *testing.T, tc widthCase) {
+	configs := []string{"base", "wing"}
+	evs := widthEvidence(t, tc, configs)
 	P, err := fuse.Fit(evs, fuse.Settings{Configs: configs, PriorSD: tc.priorSD, Linear: tc.linear, Seed: 5, Credible: 0.9})
 	if err != nil {
 		t.Fatal(err)
@@ -294,22 +338,7 @@ func checkWidth(t *testing.T, tc widthCase) {
 	t.Logf("sampler: %s", P.Diagnostics().Sampler)
 	ex := newExactPosterior(t, evs, configs, tc.priorSD, tc.linear)
 
-	type check struct {
-		name  string
-		terms []evidence.Term
-		atKmh float64 // 0: at V_ref
-	}
-	var checks []check
-	for _, c := range configs {
-		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
-			checks = append(checks, check{c + " " + ax, []evidence.Term{{Config: c, Axle: ax, W: 1}}, 0})
-		}
-	}
-	for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
-		checks = append(checks, check{"wing − base " + ax, []evidence.Term{{Config: "wing", Axle: ax, W: 1}, {Config: "base", Axle: ax, W: -1}}, 0})
-	}
-	checks = append(checks, check{"wing rear at 150 km/h", []evidence.Term{{Config: "wing", Axle: evidence.AxleRear, W: 1}}, 150})
-	for _, ck := range checks {
+	for _, ck := range widthChecks(configs) {
 		a := map[string]float64{}
 		for _, tm := range ck.terms {
 			axes := []string{tm.Axle}
@@ -332,6 +361,16 @@ func checkWidth(t *testing.T, tc widthCase) {
 		t.Logf("%-24s fused %+.5f ± %.5f, exact %+.5f ± %.5f (sd ratio %.4f)", ck.name, got.Mean, got.SD, wantMean, wantSD, got.SD/wantSD)
 		if r := got.SD / wantSD; math.Abs(r-1) > tc.tol || math.IsNaN(r) {
 			t.Errorf("%s: fused sd %.6g, exact %.6g: ratio %.4f is outside 1 ± %g (interval too %s)", ck.name, got.SD, wantSD, r, tc.tol, map[bool]string{true: "wide", false: "narrow"}[r > 1])
+		}
+		// The 90 % interval of the exact (normal) posterior: mean ± z·sd.
+		z := distuv.UnitNormal.Quantile(0.95)
+		for _, end := range []struct {
+			name      string
+			got, want float64
+		}{{"lower", got.Lo, wantMean - z*wantSD}, {"upper", got.Hi, wantMean + z*wantSD}} {
+			if d := math.Abs(end.got - end.want); d > tc.endTol*wantSD || math.IsNaN(d) {
+				t.Errorf("%s: %s end of the 90 %% interval %.6g, exact %.6g: off by %.3g sd (tolerance %g sd)", ck.name, end.name, end.got, end.want, d/wantSD, tc.endTol)
+			}
 		}
 		if d := math.Abs(got.Mean - wantMean); d > tc.meanTol*wantSD || math.IsNaN(d) {
 			t.Errorf("%s: fused mean %.6g, exact %.6g: off by %.3g sd (tolerance %g sd)", ck.name, got.Mean, wantMean, d/wantSD, tc.meanTol)
