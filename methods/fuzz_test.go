@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"strings"
 	"testing"
 
@@ -103,6 +104,7 @@ func FuzzReduce(f *testing.F) {
 		if len(yml) > maxFuzzInput || len(csv) > maxFuzzInput {
 			t.Skip("input over 64 KiB")
 		}
+		defer failOnPanic(t)
 		c, err := campaign.Load(writeCampaign(t, yml, csv), campaign.Options{HeadersOnly: true})
 		if err != nil {
 			if p, ok := err.(campaign.Problems); !ok || len(p) == 0 {
@@ -131,4 +133,13 @@ func FuzzReduce(f *testing.F) {
 			t.Fatalf("the result document cannot be written: %v", err)
 		}
 	})
+}
+
+// failOnPanic turns a panic of the code under test into a test failure with
+// its stack, so that a crashing input fails this target (and the fuzzer
+// records it) while the package's other tests still run.
+func failOnPanic(t *testing.T) {
+	if r := recover(); r != nil {
+		t.Fatalf("panic: %v\n%s", r, debug.Stack())
+	}
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"strings"
 	"testing"
 
@@ -72,6 +73,7 @@ func FuzzReport(f *testing.F) {
 		if len(yml) > maxFuzzInput || len(csv) > maxFuzzInput {
 			t.Skip("input over 64 KiB")
 		}
+		defer failOnPanic(t)
 		in, err := fuzzInput(t, yml, csv)
 		if err != nil {
 			t.Logf("before the report: %v", err)
@@ -141,4 +143,13 @@ func fuzzInput(t *testing.T, yml, csv []byte) (report.Input, error) {
 			ResolvableN100: h.Detect.ResolvableN, SpeedForTarget: h.Detect.SpeedFor(pl.Target.Now.Mean)})
 	}
 	return report.Input{Campaign: c, Reduced: r, Fused: f, Plan: pl, Version: "fuzz"}, nil
+}
+
+// failOnPanic turns a panic of the code under test into a test failure with
+// its stack, so that a crashing input fails this target (and the fuzzer
+// records it) while the package's other tests still run.
+func failOnPanic(t *testing.T) {
+	if r := recover(); r != nil {
+		t.Fatalf("panic: %v\n%s", r, debug.Stack())
+	}
 }
