@@ -473,9 +473,10 @@ func (q sbcQuantity) value(truth map[string]float64) float64 {
 
 // TestSBCRankUniformity is simulation-based calibration (Talts, Betancourt,
 // Simpson, Vehtari & Gelman 2018, "Validating Bayesian inference algorithms
-// with simulation-based calibration", arXiv:1804.06788, Algorithm 1): with
-// the truth drawn from the prior and the data from the model, the rank of
-// the truth among L posterior draws is uniform on 0…L whatever the model.
+// with simulation-based calibration", arXiv:1804.06788; its Algorithm 1,
+// the number from memory): with the truth drawn from the prior and the data
+// from the model, the rank of the truth among L posterior draws is uniform
+// on 0…L whatever the model.
 // Intervals too wide pile the ranks in the middle, too narrow at the ends;
 // either fails the χ² test of the rank histogram (Pearson, 9 degrees of
 // freedom for 10 bins) at sbcAlpha, Bonferroni-split over the four tracked
