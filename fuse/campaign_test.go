@@ -2,7 +2,6 @@ package fuse_test
 
 import (
 	"fmt"
-	"math"
 	"math/rand/v2"
 	"os"
 	"strings"
@@ -162,52 +161,6 @@ func TestLinearSpeedModel(t *testing.T) {
 	t.Logf("P(total downforce): at 100 km/h (truth lift) %.3f with the tuft, %.3f without; at 150 km/h (truth downforce) %.3f with, %.3f without", w100, o100, w150, o150)
 	if !(w100 <= o100 && w150 >= o150) {
 		t.Errorf("the tuft should sharpen the sign near the crossover")
-	}
-}
-
-// TestSimulateFuseCoverage: campaigns simulated from a stated truth, fused,
-// must cover that truth at about the nominal rate. Every uncertain part of
-// the truth (springs with their installation ratios, gains, tyre growth,
-// wind, pitch of drag, integration scale, the uncovered patch's Cp) is drawn
-// from the prior the campaign declares; the six intervals of a day share
-// that day's draws, so the band counts two independent intervals a day and
-// is ±3 binomial sd.
-func TestSimulateFuseCoverage(t *testing.T) {
-	days := 12
-	if testing.Short() {
-		days = 3
-	}
-	rng := newTestRand(77)
-	covered, n := 0, 0
-	for day := range days {
-		bf, br, wf, wr := 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64(), 0.2*rng.NormFloat64()
-		text := fmt.Sprintf(simSpec, 300+day, 0.5+0.5*rng.NormFloat64(), "constant", fmt.Sprintf("front_cla_m2: %g, rear_cla_m2: %g", wf, wr), "80, 120, 150")
-		text = strings.Replace(text, "{id: base, front_cla_m2: 0.10, rear_cla_m2: 0.08}", fmt.Sprintf("{id: base, front_cla_m2: %g, rear_cla_m2: %g}", bf, br), 1)
-		text = strings.Replace(text, "wind_ms: 0.6", fmt.Sprintf("wind_ms: %g", rng.NormFloat64()), 1)
-		lognormal := func(sd float64) float64 { return math.Exp(sd * rng.NormFloat64()) }
-		text = strings.Replace(text, "truth: {tyre_growth_mm:", fmt.Sprintf("truth: {front_spring_scale: %g, rear_spring_scale: %g, drag_scale: %g, pressure_scale: %g, tyre_growth_mm:",
-			lognormal(math.Hypot(0.05, 2*0.02/0.9)), lognormal(math.Hypot(0.05, 2*0.02/0.85)), lognormal(0.2), lognormal(0.2)), 1)
-		text += strings.Replace(testCar(t), "true_cp: -0.1}", fmt.Sprintf("true_cp: %g}", -0.1+0.1*rng.NormFloat64()), 1)
-		for _, id := range []string{"fpot", "rpot", "rlaser"} {
-			text = strings.Replace(text, "{id: "+id+",", fmt.Sprintf("{id: %s, gain_error_pct: %g,", id, rng.NormFloat64()), 1)
-		}
-		f := runSim(t, text)
-		truth := map[string]float64{"base front": bf, "base rear": br, "wing front": wf, "wing rear": wr,
-			"base total": bf + br, "wing total": wf + wr}
-		for _, c := range f.Result.Configs {
-			for ax, a := range map[string]fuse.AxleResult{"front": c.Front, "rear": c.Rear, "total": c.Total} {
-				n++
-				if v := truth[c.ID+" "+ax]; a.CLA.Lo <= v && v <= a.CLA.Hi {
-					covered++
-				}
-			}
-		}
-	}
-	rate := float64(covered) / float64(n)
-	sd := math.Sqrt(0.09 / float64(2*days))
-	t.Logf("fused 90%% intervals covered the truth %d of %d times (%.1f %%)", covered, n, 100*rate)
-	if math.Abs(rate-0.9) > 3*sd {
-		t.Errorf("coverage %.3f, want 0.90 ± %.3f", rate, 3*sd)
 	}
 }
 
