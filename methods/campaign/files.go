@@ -21,27 +21,36 @@ import (
 // measured airspeed, direction and config when named, then one column per
 // tap (pressure logs). The indices are returned as a LogIndex.
 func (l *LogSpec) LogColumns() ([]logs.Column, LogIndex) {
+	cols, ix, _ := l.columns()
+	return cols, ix
+}
+
+// columns is LogColumns with the campaign key that names each column (for
+// messages), built in one pass so the two stay in step.
+func (l *LogSpec) columns() ([]logs.Column, LogIndex, []string) {
 	ix := LogIndex{Time: 0, Speed: -1, Signal: -1, Airspeed: -1, Direction: -1, Config: -1}
 	cols := []logs.Column{{Name: l.Time, Time: true}}
-	add := func(at *int, c logs.Column) {
+	keys := []string{"time"}
+	add := func(at *int, key string, c logs.Column) {
 		if c.Name != "" {
 			*at = len(cols)
 			cols = append(cols, c)
+			keys = append(keys, key)
 		}
 	}
 	if l.SpeedFile == nil {
-		add(&ix.Speed, logs.Column{Name: l.SpeedColumn()})
+		add(&ix.Speed, map[bool]string{true: "speed_ms", false: "speed_kmh"}[l.SpeedMs != ""], logs.Column{Name: l.SpeedColumn()})
 	}
-	add(&ix.Signal, logs.Column{Name: l.Signal})
-	add(&ix.Airspeed, logs.Column{Name: l.AirspeedColumn()})
-	add(&ix.Direction, logs.Column{Name: l.Direction})
-	add(&ix.Config, logs.Column{Name: l.Config, Text: true})
+	add(&ix.Signal, "signal", logs.Column{Name: l.Signal})
+	add(&ix.Airspeed, l.airspeedKey(), logs.Column{Name: l.AirspeedColumn()})
+	add(&ix.Direction, "direction", logs.Column{Name: l.Direction})
+	add(&ix.Config, "config", logs.Column{Name: l.Config, Text: true})
 	for _, t := range l.Taps {
 		k := -1
-		add(&k, logs.Column{Name: t.V})
+		add(&k, "taps."+t.Key, logs.Column{Name: t.V})
 		ix.Taps = append(ix.Taps, k)
 	}
-	return cols, ix
+	return cols, ix, keys
 }
 
 // LogIndex places each named column among those LogColumns asks for; -1
@@ -123,26 +132,6 @@ func (sf *SpeedFile) SpeedToMs(x float64) float64 {
 	return air.KmhToMs(x)
 }
 
-// logKeys names the spec key of each asked-for column, in LogColumns'
-// order, for messages.
-func (l *LogSpec) logKeys() []string {
-	keys := []string{"time"}
-	if l.SpeedFile == nil {
-		keys = append(keys, map[bool]string{true: "speed_ms", false: "speed_kmh"}[l.SpeedMs != ""])
-	}
-	for _, k := range []struct{ key, col string }{
-		{"signal", l.Signal}, {l.airspeedKey(), l.AirspeedColumn()}, {"direction", l.Direction}, {"config", l.Config},
-	} {
-		if k.col != "" {
-			keys = append(keys, k.key)
-		}
-	}
-	for _, t := range l.Taps {
-		keys = append(keys, "taps."+t.Key)
-	}
-	return keys
-}
-
 func (l *LogSpec) airspeedKey() string {
 	switch {
 	case l.AirspeedKmh != "":
@@ -157,10 +146,10 @@ func (l *LogSpec) airspeedKey() string {
 const maxTableBytes = 16 << 20
 
 // logProblem turns a log reader error into a Problem at the log's position.
-func logProblem(err error, path string) *Problem {
+func logProblem(err error, at Where, path string) *Problem {
 	var pe *logs.ParseError
 	if !errors.As(err, &pe) {
-		return &Problem{Path: path, Err: wrapf(ErrFile, "%v", err)}
+		return &Problem{Where: at, Path: path, Err: wrapf(ErrFile, "%v", err)}
 	}
 	msg := pe.Err.Error()
 	if pe.Field != "" {
@@ -258,14 +247,14 @@ func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, 
 func (v *validator) headerProblems(err error, l *LogSpec, path string, cols []logs.Column) {
 	pes := logs.ParseErrors(err)
 	if len(pes) == 0 {
-		v.errs = append(v.errs, logProblem(err, path+".file"))
+		v.errs = append(v.errs, logProblem(err, l.At.Of("file"), path+".file"))
 		return
 	}
-	keys := l.logKeys()
+	_, _, keys := l.columns()
 	for _, pe := range pes {
 		k := slices.IndexFunc(cols, func(c logs.Column) bool { return c.Name == pe.Field })
 		if !errors.Is(pe, logs.ErrNoColumn) || k < 0 {
-			v.errs = append(v.errs, logProblem(pe, path+".file"))
+			v.errs = append(v.errs, logProblem(pe, l.At.Of("file"), path+".file"))
 			continue
 		}
 		at := l.At.Of(keys[k])
@@ -295,10 +284,10 @@ func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 	if err != nil {
 		pes := logs.ParseErrors(err)
 		if len(pes) == 0 {
-			v.errs = append(v.errs, logProblem(err, path))
+			v.errs = append(v.errs, logProblem(err, sf.At.Of("file"), path))
 		}
 		for _, pe := range pes {
-			v.errs = append(v.errs, logProblem(pe, path))
+			v.errs = append(v.errs, logProblem(pe, sf.At.Of("file"), path))
 		}
 		return
 	}
@@ -306,7 +295,7 @@ func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 	for !v.opt.HeadersOnly && r.Next() {
 	}
 	if err := r.Err(); err != nil {
-		v.errs = append(v.errs, logProblem(err, path))
+		v.errs = append(v.errs, logProblem(err, sf.At.Of("file"), path))
 	}
 }
 
@@ -338,7 +327,7 @@ func (v *validator) rows(r *logs.Reader, l *LogSpec, path string, ix LogIndex) *
 		}
 	}
 	if err := r.Err(); err != nil {
-		v.errs = append(v.errs, logProblem(err, path))
+		v.errs = append(v.errs, logProblem(err, l.At.Of("file"), path))
 		return nil
 	}
 	if rows == 0 {

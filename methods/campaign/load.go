@@ -54,7 +54,7 @@ func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
 	// key it checks already failed to decode (it would only repeat that).
 	probs := append([]*Problem(nil), d.probs...)
 	for _, p := range v.errs {
-		if !underAny(p.Path, d.probs) {
+		if !underAny(p.Path, d.probs) && !cascades(p, d.probs) {
 			probs = append(probs, p)
 		}
 	}
@@ -74,6 +74,28 @@ func underAny(path string, probs []*Problem) bool {
 			strings.HasPrefix(p.Path, path+".") || strings.HasPrefix(p.Path, path+"[") {
 			return true
 		}
+	}
+	return false
+}
+
+var entryPath = regexp.MustCompile(`^evidence\.\w+\[\d+\]`)
+
+// cascades reports whether a validation problem only follows from a part
+// of the campaign that failed to decode: a reference into configurations or
+// taps that could not be read, a rule on a body style that could not be
+// read, a plan cost of entries that could not be read.
+func cascades(p *Problem, decoded []*Problem) bool {
+	failed := func(prefix string) bool { return underAny(prefix, decoded) }
+	entry := entryPath.FindString(p.Path)
+	switch {
+	case errors.Is(p, ErrReference) && strings.Contains(p.Err.Error(), "configuration"):
+		return failed("configurations")
+	case errors.Is(p, ErrNotApply) && strings.HasPrefix(p.Path, "evidence.vortex"):
+		return failed("vehicle.body")
+	case strings.HasPrefix(p.Path, "plan.cost_h"):
+		return failed("evidence")
+	case entry != "" && strings.Contains(p.Path, ".readings"):
+		return failed(entry+".taps") || failed(entry+".taps_file")
 	}
 	return false
 }

@@ -396,3 +396,52 @@ func TestLoadMissingColumnsHelp(t *testing.T) {
 		t.Errorf("want one problem per missing column, got:\n%v", err)
 	}
 }
+
+// TestLoadNoCascades: a part that fails to decode is reported once, not
+// again through every rule that refers to it.
+func TestLoadNoCascades(t *testing.T) {
+	tests := []struct {
+		name, notWant string
+		edits         []edit
+	}{
+		{"configurations not a list", "unknown configuration", []edit{set("configurations", "5")}},
+		{"vehicle not a mapping", "does not apply", []edit{set("vehicle", "x")}},
+		{"taps not a list", "not among the taps", []edit{set("evidence.pressure[0].taps", "4")}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			path := fixture(t)
+			apply(t, path, tt.edits...)
+			_, err := campaign.Load(path, campaign.Options{})
+			if err == nil {
+				t.Fatal("loaded")
+			}
+			if !errors.Is(err, campaign.ErrType) || strings.Contains(err.Error(), tt.notWant) {
+				t.Errorf("want the type problem alone, without %q; got:\n%v", tt.notWant, err)
+			}
+		})
+	}
+}
+
+// TestLoadEmptyColumnName: a column key with an empty name is refused at
+// that key (it would otherwise count as given and read nothing).
+func TestLoadEmptyColumnName(t *testing.T) {
+	log0 := "evidence.ride_height[0].logs[0]"
+	for _, key := range []string{"speed_kmh", "direction", "signal"} {
+		t.Run(key, func(t *testing.T) {
+			path := fixture(t)
+			apply(t, path, set(log0+"."+key, `""`))
+			_, err := campaign.Load(path, campaign.Options{})
+			var probs campaign.Problems
+			if !errors.As(err, &probs) {
+				t.Fatalf("want problems, got %v", err)
+			}
+			for _, p := range probs {
+				if p.Path == log0+"."+key && errors.Is(p, campaign.ErrRange) && p.Line == lineOf(t, path, log0+"."+key) {
+					return
+				}
+			}
+			t.Errorf("no problem at %s.%s; got:\n%v", log0, key, err)
+		})
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"regexp"
 	"sort"
+	"strings"
 	"time"
 )
 
@@ -345,6 +346,7 @@ func distinct(n int, at func(int) float64) int {
 }
 
 func (v *validator) logSpec(l *LogSpec, path string) {
+	v.columnNames(l, path)
 	if n := count(l.At.Has("speed_kmh"), l.At.Has("speed_ms"), l.SpeedFile != nil); n != 1 {
 		v.errf(l.At.Where, path, ErrMissing, "give exactly one of speed_kmh, speed_ms (the speed column) and speed_file")
 	}
@@ -444,7 +446,7 @@ func (v *validator) taps(e *PressureEntry, path string, modeOK bool) map[string]
 			lower += t.AreaM2 + t.WidthM
 		}
 	}
-	if len(e.Taps) == 0 && e.At.Has("taps") {
+	if len(e.Taps) == 0 && (e.At.Has("taps") || e.At.Has("taps_file")) {
 		v.errf(e.At.Of("taps"), path+".taps", ErrMissing, "no taps")
 	}
 	if len(e.Taps) > 0 && (upper == 0 || lower == 0 || upper > 4*lower || lower > 4*upper) {
@@ -693,6 +695,31 @@ func (v *validator) sizes() {
 	} {
 		if n := len([]rune(t.s)); n > MaxTextLen {
 			v.errf(t.at.Of(t.key), join(t.path, t.key), ErrRange, "%s is %d characters long; at most %d", t.key, n, MaxTextLen)
+		}
+	}
+}
+
+// columnNames refuses a column key given with an empty name: it would be
+// taken as given and then read nothing.
+func (v *validator) columnNames(l *LogSpec, path string) {
+	for _, k := range []struct{ key, name string }{
+		{"time", l.Time}, {"speed_kmh", l.SpeedKmh}, {"speed_ms", l.SpeedMs}, {"airspeed_kmh", l.AirspeedKmh},
+		{"airspeed_ms", l.AirspeedMs}, {"q_pa", l.QPa}, {"signal", l.Signal}, {"direction", l.Direction}, {"config", l.Config},
+	} {
+		if l.At.Has(k.key) && strings.TrimSpace(k.name) == "" {
+			v.errf(l.At.Of(k.key), path+"."+k.key, ErrRange, "%s names no column (the name is empty)", k.key)
+		}
+	}
+	for _, t := range l.Taps {
+		if strings.TrimSpace(t.V) == "" {
+			v.errf(t.At, path+".taps."+t.Key, ErrRange, "tap %q names no column (the name is empty)", t.Key)
+		}
+	}
+	if sf := l.SpeedFile; sf != nil {
+		for _, k := range []struct{ key, name string }{{"time", sf.Time}, {"speed_kmh", sf.SpeedKmh}, {"speed_ms", sf.SpeedMs}} {
+			if sf.At.Has(k.key) && strings.TrimSpace(k.name) == "" {
+				v.errf(sf.At.Of(k.key), path+".speed_file."+k.key, ErrRange, "%s names no column (the name is empty)", k.key)
+			}
 		}
 	}
 }
