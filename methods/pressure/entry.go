@@ -57,8 +57,9 @@ func Reduce(c *campaign.Campaign, e *campaign.PressureEntry, wind string) (*Resu
 	}
 	var lg *Logged
 	if len(e.Logs) > 0 {
+		id := e.ID
 		if e, lg, err = withLogged(c, e); err != nil {
-			return nil, err
+			return nil, fmt.Errorf("%s: %w", id, err)
 		}
 	}
 	res := &Result{Entry: e, Panels: panels, Logged: lg}

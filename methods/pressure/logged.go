@@ -77,8 +77,8 @@ func FromLogs(c *campaign.Campaign, e *campaign.PressureEntry) (*Logged, error) 
 		}
 	}
 	if len(out.Readings) == 0 {
-		return nil, fmt.Errorf("%s: %w in its logs (speed within ±%g km/h for %g s, above %g km/h)",
-			e.ID, ErrNoWindows, e.Steady.SpeedTolKmh, e.Steady.MinDurationS, StandstillKmh)
+		return nil, fmt.Errorf("%w in the logs (speed within ±%g km/h for %g s, above %g km/h)",
+			ErrNoWindows, e.Steady.SpeedTolKmh, e.Steady.MinDurationS, StandstillKmh)
 	}
 	out.SensorSDPa = math.Max(math.Sqrt(ss/float64(n)), e.SensorSDPa)
 	return out, nil

@@ -1,6 +1,7 @@
 package pressure_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -226,4 +227,35 @@ func forceSE(panels []pressure.Panel, rd campaign.Reading, se []float64, L float
 		}
 	}
 	return math.Sqrt(v)
+}
+
+// TestLoggedTapsErrors: logs that cannot give readings are errors that
+// say why, never an empty entry.
+func TestLoggedTapsErrors(t *testing.T) {
+	taps := closedBody()[:2]
+	for _, tc := range []struct {
+		name, csv string
+		want      error
+		wantText  string
+	}{
+		{"no steady window at speed", "t,v,u0,l0\n0,0,1,2\n0.1,50,1,2\n0.2,100,1,2\n0.3,150,1,2\n", pressure.ErrNoWindows, "no steady window"},
+		{"negative speed", "t,v,u0,l0\n0,0,1,2\n0.1,-20,1,2\n", campaign.ErrRange, "taps.csv:3:"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			if err := os.WriteFile(filepath.Join(dir, "taps.csv"), []byte(tc.csv), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			c := loggedCampaign(dir)
+			c.Configurations = c.Configurations[:1]
+			l := campaign.LogSpec{File: "taps.csv", Time: "t", SpeedKmh: "v", Taps: campaign.Names{{Key: "u0", V: "u0"}, {Key: "l0", V: "l0"}}}
+			e := &campaign.PressureEntry{ID: "logged", Mode: campaign.ModePanels, SensorSDPa: 1, Taps: taps,
+				Logs: []campaign.LogSpec{l}, Steady: campaign.Steady{SpeedTolKmh: 2, MinDurationS: 0.05}}
+			_, err := pressure.Reduce(c, e, "")
+			t.Log(err)
+			if !errors.Is(err, tc.want) || !strings.Contains(err.Error(), tc.wantText) || !strings.HasPrefix(err.Error(), "logged: ") {
+				t.Errorf("error %v, want %v naming %q after the entry id", err, tc.want, tc.wantText)
+			}
+		})
+	}
 }
