@@ -113,7 +113,7 @@ func integrateReading(c *campaign.Campaign, e *campaign.PressureEntry, panels []
 		cp := get(pn.ID) / q
 		rd.Cp[pn.ID] = cp
 		if math.Abs(cp) > 3 || cp > 1.05 {
-			warns = append(warns, fmt.Sprintf("%s: reading %d (%s, %g km/h): tap %s has Cp = %.2f, which is physically odd (|Cp| > 3 or Cp > 1.05): check the tube and the reference port",
+			warns = append(warns, fmt.Sprintf("%s: reading %d (%s, %.4g km/h): tap %s has Cp = %.2f, which is physically odd (|Cp| > 3 or Cp > 1.05): check the tube and the reference port",
 				e.ID, ri+1, r.Config, r.SpeedKmh, pn.ID, cp))
 		}
 	}
