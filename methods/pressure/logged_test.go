@@ -38,7 +38,7 @@ const (
 )
 
 // write writes the log to dir and returns its segments.
-func (g tapLog) write(t *testing.T, dir string, rho float64) []campaign.Segment {
+func (g tapLog) write(t testing.TB, dir string, rho float64) []campaign.Segment {
 	t.Helper()
 	rng := rand.New(rand.NewPCG(13, 1946))
 	var b strings.Builder
@@ -257,5 +257,29 @@ func TestLoggedTapsErrors(t *testing.T) {
 				t.Errorf("error %v, want %v naming %q after the entry id", err, tc.want, tc.wantText)
 			}
 		})
+	}
+}
+
+// BenchmarkFromLogs reads a two-configuration 10 Hz log of ten taps
+// (about 3,000 rows) into readings.
+func BenchmarkFromLogs(b *testing.B) {
+	taps := closedBody()
+	cp := map[string]map[string]float64{"a": {}, "b": {}}
+	for _, tp := range taps {
+		cp["a"][tp.ID], cp["b"][tp.ID] = -0.3, -0.4
+	}
+	dir := b.TempDir()
+	c := loggedCampaign(dir)
+	g := tapLog{taps: taps, cp: cp, offset: map[string]float64{}, standstill: true, speeds: []float64{100, 150}, noiseSD: 6, phi: 0.8}
+	l := campaign.LogSpec{File: "taps.csv", Time: "t", SpeedKmh: "v_kmh", Segments: g.write(b, dir, c.Density())}
+	for _, tp := range taps {
+		l.Taps = append(l.Taps, campaign.Name{Key: tp.ID, V: "p_" + tp.ID})
+	}
+	e := &campaign.PressureEntry{ID: "logged", Mode: campaign.ModePanels, SensorSDPa: 0.5, Taps: taps,
+		Logs: []campaign.LogSpec{l}, Steady: campaign.Steady{SpeedTolKmh: 2, MinDurationS: 10}}
+	for b.Loop() {
+		if _, err := pressure.FromLogs(c, e); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
