@@ -19,4 +19,9 @@
 // with ε the sensor noise plus the reference port's offset, the session
 // wind's error when the direction is unknown (common to the reading's two
 // rows), and the run-to-run wind (common to the readings of one pass).
+//
+// Taps logged in time (FromLogs) become readings first: each steady window
+// of a log gives one reading with each tap's mean and its AR(1)-aware
+// standard error, standstill windows pin each tap's zero, and sensor_sd_pa
+// is estimated from the windows' standard errors.
 package pressure

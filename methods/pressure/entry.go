@@ -35,6 +35,9 @@ type Result struct {
 	// (m/s; 0 when not modelled), GustSDSDMs its posterior sd.
 	GustSDMs, GustSDSDMs float64
 	Warnings             []string
+	// Logged holds the steady windows read from the entry's tap logs; nil
+	// when the readings were given.
+	Logged *Logged
 }
 
 // DragPitchName is the nuisance name of m = C_D·A·h_D/L, shared by every
@@ -44,13 +47,25 @@ const DragPitchName = "drag-pitch"
 // Reduce integrates every reading of a pressure entry and builds its
 // evidence: the panels, each reading's forces, the pilot lift per
 // configuration, the run-to-run wind scatter, then one block per run.
+// An entry with taps logged in time has its readings built from the logs
+// first (FromLogs); Result.Entry is then a copy holding them.
 // wind names the campaign's wind nuisance ("" for none).
 func Reduce(c *campaign.Campaign, e *campaign.PressureEntry, wind string) (*Result, error) {
 	panels, err := Panels(e)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", e.ID, err)
 	}
-	res := &Result{Entry: e, Panels: panels}
+	var lg *Logged
+	if len(e.Logs) > 0 {
+		id := e.ID
+		if e, lg, err = withLogged(c, e); err != nil {
+			return nil, fmt.Errorf("%s: %w", id, err)
+		}
+	}
+	res := &Result{Entry: e, Panels: panels, Logged: lg}
+	if lg != nil {
+		res.Warnings = append(res.Warnings, lg.Warnings...)
+	}
 	for ri := range e.Readings {
 		rd, warns := integrateReading(c, e, panels, ri)
 		res.Readings = append(res.Readings, rd)
@@ -98,7 +113,7 @@ func integrateReading(c *campaign.Campaign, e *campaign.PressureEntry, panels []
 		cp := get(pn.ID) / q
 		rd.Cp[pn.ID] = cp
 		if math.Abs(cp) > 3 || cp > 1.05 {
-			warns = append(warns, fmt.Sprintf("%s: reading %d (%s, %g km/h): tap %s has Cp = %.2f, which is physically odd (|Cp| > 3 or Cp > 1.05): check the tube and the reference port",
+			warns = append(warns, fmt.Sprintf("%s: reading %d (%s, %.4g km/h): tap %s has Cp = %.2f, which is physically odd (|Cp| > 3 or Cp > 1.05): check the tube and the reference port",
 				e.ID, ri+1, r.Config, r.SpeedKmh, pn.ID, cp))
 		}
 	}

@@ -140,7 +140,7 @@ func (b *builder) rows(ri int, rd Reading) ([2]evidence.Obs, *mat.SymDense) {
 			Y:     F,
 			Terms: []evidence.Term{{Config: rd.Config, Axle: axle, W: 1}},
 			Air:   as,
-			Label: fmt.Sprintf("reading %d, %s, %g km/h, %s", ri+1, rd.Config, rd.SpeedKmh, axle),
+			Label: fmt.Sprintf("reading %d, %s, %.4g km/h, %s", ri+1, rd.Config, rd.SpeedKmh, axle),
 		}
 		if b.c.Vehicle.Drag != nil {
 			sgn := -1.0
