@@ -300,7 +300,7 @@ type PressureEntry struct {
 	At            Place   `yaml:"-"`
 	ID            string  `yaml:"id" lf:"required"`
 	Mode          string  `yaml:"mode" lf:"required"`
-	SensorSDPa    float64 `yaml:"sensor_sd_pa" lf:"required"`
+	SensorSDPa    float64 `yaml:"sensor_sd_pa"` // required unless the taps are logged in time
 	ReferenceSDPa float64 `yaml:"reference_sd_pa" lf:"required"`
 	ModelSDPct    float64 `yaml:"model_sd_pct"`
 	Taps          []Tap   `yaml:"taps"`

@@ -395,7 +395,12 @@ func (v *validator) logSpec(l *LogSpec, path string) {
 
 func (v *validator) pressure(e *PressureEntry, path string) {
 	modeOK := v.oneOf(e.At, path, "mode", e.Mode, ModePanels, ModeStrips)
-	v.positive(e.At, path, "sensor_sd_pa", e.SensorSDPa)
+	switch {
+	case e.At.Has("sensor_sd_pa"):
+		v.positive(e.At, path, "sensor_sd_pa", e.SensorSDPa)
+	case !e.At.Has("logs"):
+		v.errf(e.At.Where, path+".sensor_sd_pa", ErrMissing, "missing required key \"sensor_sd_pa\" (it is estimated only when the taps are logged in time)")
+	}
 	v.nonNegative(e.At, path, "reference_sd_pa", e.ReferenceSDPa)
 	v.percent(e.At, path, "model_sd_pct", e.ModelSDPct)
 

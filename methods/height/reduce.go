@@ -133,21 +133,21 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 		return nil, err
 	}
 	defer r.Close()
-	join, err := openSpeedFile(r, ps[0])
-	if err != nil {
-		return nil, err
+	var join *campaign.SpeedJoin
+	if ps[0].c != nil {
+		if join, err = ps[0].c.JoinSpeed(ps[0].l, r, ps[0].at[ps[0].ix.Time]); err != nil {
+			return nil, err
+		}
 	}
 	if join != nil {
-		defer join.close()
+		defer join.Close()
 	}
 	for r.Next() {
 		speed := math.NaN() // km/h, from the speed file when there is one
 		if join != nil {
-			x, err := join.ip.Value()
-			if err != nil {
+			if speed, err = join.Kmh(); err != nil {
 				return nil, err
 			}
-			speed = join.toKmh(x)
 		}
 		for _, p := range ps {
 			p.row(r, speed)
@@ -179,6 +179,10 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	ix := p.ix
 	t := r.Float(p.at[ix.Time])
 	v := joined
+	if ix.Speed < 0 && math.IsNaN(joined) {
+		p.err = fmt.Errorf("%s: log %s has no speed column and no speed file to join", p.e.ID, p.l.File)
+		return
+	}
 	if ix.Speed >= 0 {
 		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
 		if v < -standstillKmh {
@@ -342,43 +346,6 @@ func (f *finder) close() {
 		w.Probe, w.Q, w.AirKmh = true, c.sumQA/n, air.MsToKmh(c.sumVA/n)
 	}
 	f.windows = append(f.windows, w)
-}
-
-// speedJoin reads speed from another device's file, joined to the log by
-// time.
-type speedJoin struct {
-	ip    *logs.Interp
-	file  *os.File
-	toKmh func(float64) float64
-}
-
-func (j *speedJoin) close() {
-	j.ip.Close()
-	j.file.Close()
-}
-
-// openSpeedFile opens the pass's speed file, if it has one, for the read r
-// of its log. Passes that share a read share the first pass's speed file.
-func openSpeedFile(r *logs.Reader, p *pass) (*speedJoin, error) {
-	sf := p.l.SpeedFile
-	if sf == nil {
-		return nil, nil
-	}
-	name := sf.File
-	if p.c != nil {
-		name = p.c.Path(sf.File)
-	}
-	f, err := campaign.OpenRegular(name)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", name, err)
-	}
-	other, err := logs.NewReaderFormat(f, name, sf.SpeedFileColumns(), sf.ReaderFormat())
-	if err != nil {
-		f.Close()
-		return nil, err
-	}
-	ip := logs.NewInterp(r, p.at[p.ix.Time], other, 0, 1, sf.OffsetS)
-	return &speedJoin{ip: ip, file: f, toKmh: func(x float64) float64 { return air.MsToKmh(sf.SpeedToMs(x)) }}, nil
 }
 
 // openLog opens a log and reports its size for progress.

@@ -59,12 +59,12 @@ func readTapLog(src io.Reader, name string, c *campaign.Campaign, e *campaign.Pr
 		return nil, err
 	}
 	defer r.Close()
-	var join *speedJoin
-	if l.SpeedFile != nil {
-		if join, err = openSpeedFile(c, l, r, ix.Time); err != nil {
-			return nil, err
-		}
-		defer join.close()
+	join, err := c.JoinSpeed(l, r, ix.Time)
+	if err != nil {
+		return nil, err
+	}
+	if join != nil {
+		defer join.Close()
 	}
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
@@ -72,11 +72,9 @@ func readTapLog(src io.Reader, name string, c *campaign.Campaign, e *campaign.Pr
 	for r.Next() {
 		v := math.NaN()
 		if join != nil {
-			x, err := join.ip.Value()
-			if err != nil {
+			if v, err = join.Kmh(); err != nil {
 				return nil, err
 			}
-			v = join.toKmh(x)
 		}
 		if err := tr.row(r, v); err != nil {
 			return nil, err
