@@ -30,7 +30,10 @@ func (c Check) Line() string {
 			at = append(at, s)
 		}
 	}
-	msg := fmt.Sprintf("%s: %s (p = %.2g)", strings.Join(at, ", "), c.Check, c.PValue)
+	msg := strings.Join(at, ", ") + ": " + c.Check
+	if c.PValue > 0 { // rule-based checks carry no p-value
+		msg += fmt.Sprintf(" (p = %.2g)", c.PValue)
+	}
 	if c.Cause != "" {
 		msg += " — likely " + c.Cause
 	}

@@ -215,9 +215,9 @@ func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits
 	res.Configs, res.Deltas = scratch.Configs, scratch.Deltas
 	res.Headline = HeadlineRobust
 	out.Posterior = R
-	verb := "looks"
+	verb := "it looks"
 	if len(res.DownWeighted) > 1 {
-		verb = "look"
+		verb = "they look"
 	}
 	res.Warnings = append(res.Warnings, fmt.Sprintf("the headline figures are the robust fusion's: the errors of %s are widened ×%g because %s off; the plain fusion is shown beside them",
 		quoteJoin(res.DownWeighted), kappa, verb))

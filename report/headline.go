@@ -74,7 +74,10 @@ func (c modelCheck) sentence() string {
 			at = append(at, s)
 		}
 	}
-	s := fmt.Sprintf("%s: %s (p = %.2g)", strings.Join(at, ", "), checkName(c.check), c.pValue)
+	s := strings.Join(at, ", ") + ": " + checkName(c.check)
+	if c.pValue > 0 { // rule-based checks carry no p-value
+		s += fmt.Sprintf(" (p = %.2g)", c.pValue)
+	}
 	if c.cause != "" {
 		s += "; likely " + c.cause
 	}

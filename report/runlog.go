@@ -32,7 +32,7 @@ func (r *reporter) runs() []run {
 			if w.Log < len(h.Entry.Logs) {
 				file = h.Entry.Logs[w.Log].File
 			}
-			k := fmt.Sprintf("%s|%.0f|%.0f", file, w.From, w.To)
+			k := fmt.Sprintf("%s|%s|%d|%.0f|%.0f", file, w.Config, w.Direction, w.From, w.To)
 			if ru, ok := byKey[k]; ok {
 				ru.entries = append(ru.entries, h.Entry.ID)
 				continue

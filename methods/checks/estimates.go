@@ -2,7 +2,9 @@ package checks
 
 import (
 	"fmt"
+	"maps"
 	"math"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -53,6 +55,7 @@ func (e estimate) names() []string {
 			out = append(out, n)
 		}
 	}
+	slices.Sort(out) // sums in a fixed order: the same bits every run
 	return out
 }
 
@@ -241,7 +244,7 @@ func pairCov(ea, eb []estimate, ba []float64) *mat.SymDense {
 		}
 	}
 	c := mat.NewSymDense(k, nil)
-	for n := range names {
+	for _, n := range slices.Sorted(maps.Keys(names)) {
 		g := make([]float64, k)
 		for i := range ea {
 			g[i] = ea[i].comp(n, ba[i]) - eb[i].comp(n, eb[i].beta())

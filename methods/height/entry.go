@@ -230,7 +230,7 @@ func prepare(c *campaign.Campaign, e *campaign.RideHeightEntry) (*Result, error)
 func readKey(l *campaign.LogSpec) string {
 	k := fmt.Sprintf("%s\x00%+v", l.Time, l.ReaderFormat())
 	if sf := l.SpeedFile; sf != nil {
-		k += fmt.Sprintf("\x00%s\x00%s\x00%s%s\x00%g", sf.File, sf.Time, sf.SpeedKmh, sf.SpeedMs, sf.OffsetS)
+		k += fmt.Sprintf("\x00%s\x00%s\x00%s%s\x00%g\x00%+v", sf.File, sf.Time, sf.SpeedKmh, sf.SpeedMs, sf.OffsetS, sf.ReaderFormat())
 	}
 	return k
 }
