@@ -24,4 +24,3 @@ func TestWords(t *testing.T) {
 		})
 	}
 }
-

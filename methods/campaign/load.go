@@ -17,8 +17,9 @@ import (
 // Options changes how a campaign is loaded.
 type Options struct {
 	// HeadersOnly skips reading the bodies of log files: headers are still
-	// checked, but bad cells, time order and segment spans are left to the
-	// adapter that streams the log anyway.
+	// checked, but bad cells, time order and segment spans are not. The
+	// commands never set it (every command loads as validate does); it is
+	// for tools and fuzzers that stop before the adapters.
 	HeadersOnly bool
 }
 

@@ -116,3 +116,43 @@ type kindError struct {
 
 func (e *kindError) Error() string { return e.msg }
 func (e *kindError) Unwrap() error { return e.kind }
+
+// ErrData is wrapped when an entry's data (its calibration, its ballast
+// readings, its logs) say something no physical car can: found by an
+// adapter after loading, and traced back to the entry's key.
+var ErrData = errors.New("implausible data")
+
+// EntryProblem places an error an adapter found in evidence entry id at
+// that entry's key (e.g. "stiffness"), so that it carries file:line:column
+// like every loading problem.
+func (c *Campaign) EntryProblem(id, key string, err error) *Problem {
+	at, path := c.entryPlace(id)
+	if key != "" {
+		path += "." + key
+	}
+	if !errors.Is(err, ErrData) {
+		err = fmt.Errorf("%w: %w", ErrData, err)
+	}
+	return &Problem{Where: at.Of(key), Path: path, Err: err}
+}
+
+// entryPlace finds an evidence entry by id.
+func (c *Campaign) entryPlace(id string) (Place, string) {
+	e := &c.Evidence
+	for i := range e.RideHeight {
+		if e.RideHeight[i].ID == id {
+			return e.RideHeight[i].At, fmt.Sprintf("evidence.ride_height[%d]", i)
+		}
+	}
+	for i := range e.Pressure {
+		if e.Pressure[i].ID == id {
+			return e.Pressure[i].At, fmt.Sprintf("evidence.pressure[%d]", i)
+		}
+	}
+	for i := range e.Vortex {
+		if e.Vortex[i].ID == id {
+			return e.Vortex[i].At, fmt.Sprintf("evidence.vortex[%d]", i)
+		}
+	}
+	return e.At, "evidence"
+}

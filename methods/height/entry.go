@@ -204,13 +204,13 @@ func limitNote(max float64, dropped int) string {
 func prepare(c *campaign.Campaign, e *campaign.RideHeightEntry) (*Result, error) {
 	cal, err := NewCalibration(e.Calibration)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", e.ID, err)
+		return nil, c.EntryProblem(e.ID, "calibration", err)
 	}
 	res := &Result{Entry: e, Calibration: cal}
 	if e.Stiffness.From == campaign.FromBallast {
 		res.Stiffness, err = BallastStiffness(e.ID, e.Axle, e.Stiffness.Ballast, c.Vehicle.WheelbaseM, cal)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", e.ID, err)
+			return nil, c.EntryProblem(e.ID, "stiffness", err)
 		}
 	} else {
 		ax := c.Vehicle.Axles.Front
@@ -220,7 +220,7 @@ func prepare(c *campaign.Campaign, e *campaign.RideHeightEntry) (*Result, error)
 		res.Stiffness = SpringStiffness(e.Axle, ax, e.Sensor == campaign.SensorLaser)
 	}
 	if res.Lever, err = NewLever(c, e, res.Stiffness); err != nil {
-		return nil, fmt.Errorf("%s: %w", e.ID, err)
+		return nil, c.EntryProblem(e.ID, "x_m", err)
 	}
 	return res, nil
 }

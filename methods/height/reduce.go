@@ -165,6 +165,10 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 	return ps, nil
 }
 
+// maxHeightMm bounds a calibrated height reading: ten metres is beyond any
+// ride height or suspension travel (common practice (no source)).
+const maxHeightMm = 1e4
+
 // maxAverageLen bounds the moving average's window in samples, so that a
 // log with a tiny first time step cannot ask for a huge buffer.
 const maxAverageLen = 1 << 16
@@ -193,6 +197,11 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	}
 	v = math.Max(v, 0)
 	h := p.cal.MM(r.Float(p.at[ix.Signal]))
+	if math.Abs(h) > maxHeightMm {
+		p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Signal]), Field: p.l.Signal,
+			Err: fmt.Errorf("%w: reads %g mm after calibration, beyond any ride height (a spike, a dropout code or a unit slip?)", campaign.ErrData, h)}
+		return
+	}
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
 		p.ma = NewMovingAverage(int(math.Min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
