@@ -3,8 +3,9 @@ package fuse
 import "math"
 
 // A small envelope (profile) Cholesky factorisation for the conditional
-// posterior's precision matrix: Λ = L·Lᵀ with L lower triangular, stored
-// row-major in a p×p slice, in the order of the model's layout. Row i of
+// posterior's precision matrix: Λ = L·Lᵀ with L lower triangular, each
+// row's envelope stored one after another (layout.base), in the order of
+// the model's layout. Row i of
 // Λ, and of L, is zero left of first[i] (the envelope keeps the fill:
 // George & Liu 1981, ch. 4 — from memory), so each row is worked only from
 // there; with the arrowhead layout (see layout) the cost is linear in the
@@ -12,22 +13,24 @@ import "math"
 // factorisation also estimates a condition number and ignores the
 // envelope. Entries of l outside the envelope are never written nor read.
 
-// cholesky factorises the symmetric positive-definite a (row-major p×p, the
-// lower triangle read within the envelope) into l. It reports false if a
-// is not positive definite.
-func cholesky(a, l []float64, p int, first []int) bool {
-	for i := range p {
+// cholesky factorises the symmetric positive-definite a (its lower
+// triangle's envelope, stored as l is) into l. It reports false if a is
+// not positive definite.
+func cholesky(a, l []float64, lay *layout) bool {
+	first, base := lay.first, lay.base
+	for i := range len(first) {
 		fi := first[i]
-		li := l[i*p : i*p+i+1]
+		li := l[base[i] : base[i]+i+1]
+		ai := a[base[i] : base[i]+i+1]
 		for j := fi; j < i; j++ {
-			lj := l[j*p : j*p+j+1]
-			s := a[i*p+j]
+			lj := l[base[j] : base[j]+j+1]
+			s := ai[j]
 			for k := max(fi, first[j]); k < j; k++ {
 				s -= li[k] * lj[k]
 			}
 			li[j] = s / lj[j]
 		}
-		s := a[i*p+i]
+		s := ai[i]
 		for k := fi; k < i; k++ {
 			s -= li[k] * li[k]
 		}
@@ -40,10 +43,11 @@ func cholesky(a, l []float64, p int, first []int) bool {
 }
 
 // forward solves L·x = b in place.
-func forward(l, x []float64, p int, first []int) {
-	for i := range p {
+func forward(l, x []float64, lay *layout) {
+	first, base := lay.first, lay.base
+	for i := range len(first) {
 		s := x[i]
-		li := l[i*p : i*p+i+1]
+		li := l[base[i] : base[i]+i+1]
 		for k := first[i]; k < i; k++ {
 			s -= li[k] * x[k]
 		}
@@ -52,9 +56,10 @@ func forward(l, x []float64, p int, first []int) {
 }
 
 // backward solves Lᵀ·x = b in place, column by column of L.
-func backward(l, x []float64, p int, first []int) {
-	for i := p - 1; i >= 0; i-- {
-		li := l[i*p : i*p+i+1]
+func backward(l, x []float64, lay *layout) {
+	first, base := lay.first, lay.base
+	for i := len(first) - 1; i >= 0; i-- {
+		li := l[base[i] : base[i]+i+1]
 		x[i] /= li[i]
 		xi := x[i]
 		for k := first[i]; k < i; k++ {
@@ -65,10 +70,10 @@ func backward(l, x []float64, p int, first []int) {
 
 // logDetChol returns log|Λ| = 2·Σ log L_ii, taking one logarithm of the
 // product (kept in range by splitting off binary exponents as it grows).
-func logDetChol(l []float64, p int) float64 {
+func logDetChol(l []float64, lay *layout) float64 {
 	m, e := 1.0, 0
-	for i := range p {
-		f, x := math.Frexp(m * l[i*p+i])
+	for i, b := range lay.base {
+		f, x := math.Frexp(m * l[b+i])
 		m, e = f, e+x
 	}
 	return 2 * (math.Log(m) + float64(e)*math.Ln2)

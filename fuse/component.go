@@ -72,13 +72,13 @@ func (pr *proposal) refresh(ch *chainState, k *component) {
 		ch.zp[i] = x[i] // the proposal's standardised draw, kept on acceptance
 	}
 	for j := k.shared; j < p; j++ {
-		lj := l[j*p:]
+		lj := l[lay.base[j]:]
 		for i := max(k.lo, lay.first[j]); i < k.hi; i++ {
 			x[i] -= lj[i] * x[j]
 		}
 	}
 	for i := k.hi - 1; i >= k.lo; i-- {
-		li := l[i*p:]
+		li := l[lay.base[i]:]
 		x[i] /= li[i]
 		for q := lay.first[i]; q < i; q++ {
 			x[q] -= li[q] * x[i]

@@ -44,8 +44,8 @@ func (c *cond) toLayout(a, x []float64) {
 func (c *cond) solve(a []float64) []float64 {
 	x := make([]float64, c.p)
 	c.toLayout(a, x)
-	forward(c.l, x, c.p, c.lay.first)
-	backward(c.l, x, c.p, c.lay.first)
+	forward(c.l, x, c.lay)
+	backward(c.l, x, c.lay)
 	out := make([]float64, c.p)
 	for i, v := range x {
 		out[c.lay.col[i]] = v
@@ -61,7 +61,7 @@ func (c *cond) quad(a []float64) float64 {
 // quadInto is quad with a buffer x of length p.
 func (c *cond) quadInto(a, x []float64) float64 {
 	c.toLayout(a, x)
-	forward(c.l, x, c.p, c.lay.first)
+	forward(c.l, x, c.lay)
 	var s float64
 	for _, v := range x {
 		s += v * v
@@ -74,7 +74,7 @@ func (c *cond) quadInto(a, x []float64) float64 {
 // positions of the touched components and of the shared nuisances; the
 // rest are skipped.
 func (m *model) signVar(si int, c *cond) float64 {
-	s, lay, p, x, l := &m.signs[si], c.lay, c.p, c.x, c.l
+	s, lay, x, l := &m.signs[si], c.lay, c.x, c.l
 	spans := m.signSpans[si] // ascending, the shared positions last
 	for _, sp := range spans {
 		clear(x[sp[0]:sp[1]])
@@ -86,7 +86,7 @@ func (m *model) signVar(si int, c *cond) float64 {
 	for si, sp := range spans {
 		for i := sp[0]; i < sp[1]; i++ {
 			v := x[i]
-			li := l[i*p:]
+			li := l[lay.base[i]:]
 			for _, sq := range spans[:si+1] {
 				for q := max(lay.first[i], sq[0]); q < min(sq[1], i); q++ {
 					v -= li[q] * x[q]
@@ -185,8 +185,8 @@ func (m *model) priorTerms() *prior {
 // buffers.
 func (m *model) condition(phi []float64, c *cond) error {
 	p, lay := len(m.lin), m.lay
-	if len(c.lam) != p*p {
-		c.lam, c.l = make([]float64, p*p), make([]float64, p*p)
+	if len(c.lam) != lay.size || len(c.b) != p {
+		c.lam, c.l = make([]float64, lay.size), make([]float64, lay.size)
 		c.b, c.mean = make([]float64, p), make([]float64, p)
 		c.p = p
 	}
@@ -196,7 +196,7 @@ func (m *model) condition(phi []float64, c *cond) error {
 	pr := m.priorTerms()
 	for i := range p {
 		at := lay.pos[i]
-		lam[at*p+at] = pr.prec[i]
+		lam[lay.base[at]+at] = pr.prec[i]
 		b[at] = pr.prec[i] * m.lin[i].mean
 	}
 	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
@@ -230,18 +230,20 @@ func (m *model) condition(phi []float64, c *cond) error {
 					at := lay.pos[a.col]
 					b[at] += wt * a.v * yj
 					for _, bb := range c.xs[j] {
-						lam[at*p+lay.pos[bb.col]] += wt * a.v * bb.v
+						lam[lay.sym(at, lay.pos[bb.col])] += wt * a.v * bb.v
 					}
 				}
 			}
 		}
 	}
+	// Every off-diagonal term was added in both orders (i, j) and (j, i),
+	// so the lower triangle holds it twice.
 	for i := range p {
 		for j := lay.first[i]; j < i; j++ {
-			lam[i*p+j] = 0.5 * (lam[i*p+j] + lam[j*p+i])
+			lam[lay.base[i]+j] *= 0.5
 		}
 	}
-	if !cholesky(lam, c.l, p, lay.first) {
+	if !cholesky(lam, c.l, lay) {
 		return m.unidentified(lam)
 	}
 	if len(c.x) != p {
@@ -249,14 +251,14 @@ func (m *model) condition(phi []float64, c *cond) error {
 	}
 	mp := c.x
 	copy(mp, b)
-	forward(c.l, mp, p, lay.first)
-	backward(c.l, mp, p, lay.first)
+	forward(c.l, mp, lay)
+	backward(c.l, mp, lay)
 	var bm float64
 	for i := range p {
 		bm += b[i] * mp[i]
 		c.mean[lay.col[i]] = mp[i]
 	}
-	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*bm - 0.5*logDetChol(c.l, p) + 0.5*logDetPrior -
+	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*bm - 0.5*logDetChol(c.l, lay) + 0.5*logDetPrior -
 		0.5*logDetSigma - 0.5*float64(n)*math.Log(2*math.Pi)
 	return nil
 }
@@ -284,10 +286,9 @@ func designAt(r *row, f, q float64, dst []entryRef) []entryRef {
 // unidentified names a parameter the data cannot pin down (a flat prior and
 // no observation that sees it).
 func (m *model) unidentified(lam []float64) error {
-	p := len(m.lin)
 	for i := range m.lin {
 		at := m.lay.pos[i]
-		if lam[at*p+at] == 0 {
+		if lam[m.lay.base[at]+at] == 0 {
 			return fmt.Errorf("fuse: %s is not identified by the evidence", m.linName(i))
 		}
 	}
@@ -298,7 +299,7 @@ func (m *model) unidentified(lam []float64) error {
 // θ = m + L⁻ᵀz with Λ = L·Lᵀ (in layout order), so Cov θ = L⁻ᵀL⁻¹ = Λ⁻¹.
 // z is overwritten.
 func (c *cond) draw(z []float64, dst []float64) {
-	backward(c.l, z, c.p, c.lay.first)
+	backward(c.l, z, c.lay)
 	for col := range dst {
 		dst[col] = c.mean[col] + z[c.lay.pos[col]]
 	}

@@ -301,9 +301,9 @@ func (g *group) accumulate(m *model, phi, fs, lam, b []float64, p int) float64 {
 			c := &g.lam[j*nc+kk]
 			v := c[0] + c[1]*pw[1] + c[2]*pw[2] + c[3]*pw[3] + c[4]*pw[4]
 			v *= iw * fpow[cj.fpow()+ck.fpow()]
-			lam[cj.at*p+ck.at] += v
+			lam[m.lay.sym(cj.at, ck.at)] += v
 			if kk != j {
-				lam[ck.at*p+cj.at] += v
+				lam[m.lay.sym(ck.at, cj.at)] += v
 			}
 		}
 	}

@@ -26,6 +26,21 @@ type layout struct {
 	// contiguous and share no observation with another component's; the
 	// shared nuisances (comp −1) come last.
 	comp []int
+	// base and size place the envelope in one slice: element (i, j) of a
+	// lower-triangular matrix, first[i] ≤ j ≤ i, is at base[i] + j, and
+	// the matrix takes size elements — linear in the local columns, not
+	// p². base[i] = Σ_{r<i}(r − first[r] + 1) − first[i] ≥ 0.
+	base []int
+	size int
+}
+
+// sym returns where element (i, j) or (j, i) of a symmetric matrix held by
+// its lower triangle stands.
+func (l *layout) sym(i, j int) int {
+	if j > i {
+		i, j = j, i
+	}
+	return l.base[i] + j
 }
 
 // cliques returns the sets of columns of θ that appear together in Λ: the
@@ -199,6 +214,13 @@ func orderLayout(p int, cl [][]int, u unionFind, shared func(int) bool) *layout 
 			lay.first[i] = min(lay.first[i], lo)
 		}
 	}
+	lay.base = make([]int, p)
+	off := 0
+	for i := range p {
+		lay.base[i] = off - lay.first[i]
+		off += i - lay.first[i] + 1
+	}
+	lay.size = off
 	return lay
 }
 

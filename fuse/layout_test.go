@@ -150,7 +150,7 @@ func checkConditioning(t *testing.T, m *model, phi []float64, rng *rand.Rand) {
 	for i := range p {
 		near(fmt.Sprintf("mean[%s]", m.linName(i)), c.mean[i], want.AtVec(i), scale)
 	}
-	near("log|Λ|", logDetChol(c.l, p), ref.LogDet(), math.Abs(ref.LogDet()))
+	near("log|Λ|", logDetChol(c.l, c.lay), ref.LogDet(), math.Abs(ref.LogDet()))
 	a := make([]float64, p)
 	for i := range a {
 		a[i] = rng.NormFloat64()
