@@ -182,24 +182,9 @@ const standstillKmh = 2.0
 func (p *pass) row(r *logs.Reader, joined float64) {
 	ix := p.ix
 	t := r.Float(p.at[ix.Time])
-	v := joined
-	if ix.Speed < 0 && math.IsNaN(joined) {
-		p.err = fmt.Errorf("%s: log %s has no speed column and no speed file to join", p.e.ID, p.l.File)
-		return
-	}
-	if ix.Speed >= 0 {
-		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
-		if v < -standstillKmh {
-			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Speed]), Field: p.l.SpeedColumn(),
-				Err: fmt.Errorf("%w: speed %g km/h is negative", campaign.ErrRange, v)}
-			return
-		}
-	}
-	v = math.Max(v, 0)
-	h := p.cal.MM(r.Float(p.at[ix.Signal]))
-	if math.Abs(h) > maxHeightMm {
-		p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Signal]), Field: p.l.Signal,
-			Err: fmt.Errorf("%w: reads %g mm after calibration, beyond any ride height (a spike, a dropout code or a unit slip?)", campaign.ErrData, h)}
+	v, h, err := p.speedAndHeight(r, joined)
+	if err != nil {
+		p.err = err
 		return
 	}
 	if p.ma == nil && !math.IsNaN(p.prevT) {
@@ -263,6 +248,31 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
+}
+
+// speedAndHeight reads the row's ground speed (km/h; joined from a speed
+// file when the log has no speed column) and calibrated height (mm). A
+// speed below −standstillKmh or a height beyond maxHeightMm is an error at
+// its cell; a small negative speed (GPS jitter at rest) reads as 0.
+func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
+	ix := p.ix
+	v = joined
+	if ix.Speed < 0 && math.IsNaN(joined) {
+		return 0, 0, fmt.Errorf("%s: log %s has no speed column and no speed file to join", p.e.ID, p.l.File)
+	}
+	if ix.Speed >= 0 {
+		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
+		if v < -standstillKmh {
+			return 0, 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Speed]), Field: p.l.SpeedColumn(),
+				Err: fmt.Errorf("%w: speed %g km/h is negative", campaign.ErrRange, v)}
+		}
+	}
+	h = p.cal.MM(r.Float(p.at[ix.Signal]))
+	if math.Abs(h) > maxHeightMm {
+		return 0, 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Signal]), Field: p.l.Signal,
+			Err: fmt.Errorf("%w: reads %g mm after calibration, beyond any ride height (a spike, a dropout code or a unit slip?)", campaign.ErrData, h)}
+	}
+	return math.Max(v, 0), h, nil
 }
 
 // sample is one row of a log as the finder sees it: time (s), ground speed
