@@ -22,8 +22,17 @@ func (r *reporter) notes() {
 	pg.bullets(limits)
 	pg.h2("Modelled approximately, or not at all", 25)
 	approx := []string{"Anti-dive and anti-squat geometry, which lets drive and braking forces lift or squat the body, is not modelled: compare steady-speed windows only."}
+	if len(c.Evidence.RideHeight) > 0 {
+		approx = append(approx, fmt.Sprintf("Load moved from front to rear by a window's mean acceleration is modelled through the centre-of-gravity height (%.2f ± %.2f m).", c.Vehicle.CGHeightM, c.Vehicle.CGHeightSDM))
+	}
 	if c.Air.WindSDMs > 0 {
-		approx = append(approx, "The along-road wind is one value for the session, estimated from runs in both directions; gusts and crosswind are not modelled.")
+		wind := "The along-road wind is a session mean estimated from runs in both directions"
+		if c.Air.GustSDMs > 0 {
+			wind += ", plus a deviation per run (gusts) whose scatter is estimated from the runs; gusts within a run and crosswind are not modelled."
+		} else {
+			wind += "; gusts and crosswind are not modelled."
+		}
+		approx = append(approx, wind)
 	} else {
 		approx = append(approx, "No wind was modelled (air.wind_sd_ms is 0): the speeds are taken as air speeds.")
 	}

@@ -2,11 +2,11 @@ package report
 
 import (
 	"fmt"
-	"math"
 	"sort"
 	"strings"
 
 	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"liftfuse/methods/height"
 )
 
@@ -78,7 +78,7 @@ func (r *reporter) runLog() {
 	}
 	pg.table([]column{{"time (s)", 1.1, "L"}, {"configuration", 1, "L"}, {"direction", 0.7, "L"}, {"speed (km/h)", 0.8, "R"}, {"q (Pa)", 0.6, "R"}, {"read by", 2, "L"}}, rows)
 	c := r.in.Campaign
-	pg.note(fmt.Sprintf("Speed and q are window means (q = ½ρV² with ρ = %.4f kg/m³ from %g °C, %g hPa, %g %% RH). Direction as logged (+1 one way along the road, −1 the other).%s", r.res.Air.DensityKgM3, c.Air.TemperatureC, c.Air.PressureHPa, c.Air.HumidityPct, windNote(c.Air.WindSDMs)))
+	pg.note(fmt.Sprintf("Speed and q are window means (q = ½ρV² with ρ = %.4f kg/m³ from %g °C, %g hPa, %g %% RH). Direction as logged (+1 one way along the road, −1 the other).%s", r.res.Air.DensityKgM3, c.Air.TemperatureC, c.Air.PressureHPa, c.Air.HumidityPct, windNote(c.Air)))
 }
 
 // direction writes a logged direction.
@@ -92,10 +92,15 @@ func direction(d int) string {
 	return "–"
 }
 
-// windNote says how the wind was handled.
-func windNote(sd float64) string {
-	if sd <= 0 || math.IsNaN(sd) {
+// windNote says how the wind was handled: a session mean, and a deviation
+// per run when air.gust_sd_ms is set (model v2).
+func windNote(a campaign.Air) string {
+	if !(a.WindSDMs > 0) {
 		return " No along-road wind was modelled."
 	}
-	return fmt.Sprintf(" The along-road wind is one value for the session (prior sd %g m/s), estimated from the runs both ways.", sd)
+	s := fmt.Sprintf(" The along-road wind is a session mean (prior sd %g m/s), estimated from the runs both ways", a.WindSDMs)
+	if a.GustSDMs > 0 {
+		s += fmt.Sprintf(", plus a deviation per run whose scatter is estimated from the runs (prior scale %g m/s)", a.GustSDMs)
+	}
+	return s + "."
 }
