@@ -11,6 +11,7 @@ import (
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 	"liftfuse/methods/logs"
+	"liftfuse/methods/steady"
 )
 
 // Window is one steady stretch of a log: speed within ±tol of the window's
@@ -295,7 +296,7 @@ type finder struct {
 		ends             speedEnds
 		sumQA, sumVA     float64 // Σ q_air (Pa), Σ V_air (m/s)
 		probe            bool
-		h                windowStats
+		h                steady.Stats
 	}
 	open bool
 }
@@ -312,7 +313,7 @@ func (f *finder) add(s sample, config string, dir int) {
 	if f.open {
 		// Every sample within ±tol of the mean with v added: with n samples
 		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
-		n := float64(c.h.n + 1)
+		n := float64(c.h.N() + 1)
 		sum := c.sumV + v
 		hi, lo := max(c.maxV, v), min(c.minV, v)
 		if n*hi-sum > n*f.tol || sum-n*lo > n*f.tol {
@@ -325,7 +326,7 @@ func (f *finder) add(s sample, config string, dir int) {
 		c.sumV, c.minV, c.maxV, c.sumV2 = 0, v, v, 0
 		c.ends = speedEnds{}
 		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
-		c.h = windowStats{}
+		c.h = steady.Stats{}
 	}
 	c.to = s.t
 	c.sumV += v
@@ -337,7 +338,7 @@ func (f *finder) add(s sample, config string, dir int) {
 		c.sumQA += qa
 		c.sumVA += math.Sqrt(2 * qa / f.rho)
 	}
-	c.h.add(s.h)
+	c.h.Add(s.h)
 }
 
 func (f *finder) close() {
@@ -346,18 +347,18 @@ func (f *finder) close() {
 	}
 	f.open = false
 	c := &f.cur
-	if c.to-c.from < f.minDur || c.h.n < 3 {
+	if c.to-c.from < f.minDur || c.h.N() < 3 {
 		return
 	}
-	n := float64(c.h.n)
-	se, neff := c.h.standardError()
+	n := float64(c.h.N())
+	se, neff := c.h.StandardError()
 	slope, slopeSE := c.ends.accel(c.to - c.from)
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
-		N: c.h.n, NEff: neff, SpeedKmh: c.sumV / n,
+		N: c.h.N(), NEff: neff, SpeedKmh: c.sumV / n,
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
-		HeightMM: c.h.mean(), SE: se, Scatter: math.Sqrt(c.h.variance()),
+		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),
 		AccelMs2: air.KmhToMs(slope), AccelSE: air.KmhToMs(slopeSE),
 	}
 	w.AirKmh = w.SpeedKmh

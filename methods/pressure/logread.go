@@ -9,6 +9,7 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/logs"
+	"liftfuse/methods/steady"
 )
 
 // TapWindow is one steady stretch of a pressure log: ground speed within
@@ -23,7 +24,7 @@ type TapWindow struct {
 	N         int     // samples
 	SpeedKmh  float64 // mean ground speed
 	Pa        []float64
-	SE        []float64 // standard error of each tap's mean (tapStats)
+	SE        []float64 // standard error of each tap's mean (steady.Stats)
 }
 
 // tapReader splits one pressure log into steady windows.
@@ -45,7 +46,7 @@ type tapReader struct {
 		dir              int
 		from, to         float64
 		sumV, minV, maxV float64
-		taps             []tapStats
+		taps             []steady.Stats
 	}
 }
 
@@ -168,7 +169,7 @@ func (tr *tapReader) add(r *logs.Reader, t, v float64, config string, dir int) {
 	if tr.open {
 		// Every sample within ±tol of the mean with v added: with n samples
 		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
-		n := float64(c.taps[0].n + 1)
+		n := float64(c.taps[0].N() + 1)
 		sum := c.sumV + v
 		hi, lo := max(c.maxV, v), min(c.minV, v)
 		if n*hi-sum > n*tr.tol || sum-n*lo > n*tr.tol {
@@ -179,13 +180,13 @@ func (tr *tapReader) add(r *logs.Reader, t, v float64, config string, dir int) {
 		tr.open = true
 		c.config, c.dir, c.from = config, dir, t
 		c.sumV, c.minV, c.maxV = 0, v, v
-		c.taps = make([]tapStats, len(tr.ix.Taps))
+		c.taps = make([]steady.Stats, len(tr.ix.Taps))
 	}
 	c.to = t
 	c.sumV += v
 	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
 	for k, at := range tr.ix.Taps {
-		c.taps[k].add(r.Float(at))
+		c.taps[k].Add(r.Float(at))
 	}
 }
 
@@ -196,14 +197,15 @@ func (tr *tapReader) close() {
 	}
 	tr.open = false
 	c := &tr.cur
-	if len(c.taps) == 0 || c.to-c.from < tr.dur || c.taps[0].n < 3 {
+	if len(c.taps) == 0 || c.to-c.from < tr.dur || c.taps[0].N() < 3 {
 		return
 	}
-	n := c.taps[0].n
+	n := c.taps[0].N()
 	w := TapWindow{Log: tr.li, Config: c.config, Direction: c.dir, From: c.from, To: c.to, N: n, SpeedKmh: c.sumV / float64(n)}
 	for k := range c.taps {
-		w.Pa = append(w.Pa, c.taps[k].mean())
-		w.SE = append(w.SE, c.taps[k].standardError())
+		se, _ := c.taps[k].StandardError()
+		w.Pa = append(w.Pa, c.taps[k].Mean())
+		w.SE = append(w.SE, se)
 	}
 	tr.windows = append(tr.windows, w)
 }

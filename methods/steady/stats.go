@@ -1,4 +1,9 @@
-package height
+// Package steady holds the statistics of one steady window of a logged
+// signal, accumulated in one pass in fixed memory: mean, variance, the
+// lag-one autocorrelation and batch sums, and the window mean's standard
+// error that respects autocorrelation. Every adapter that averages a logged
+// channel over steady windows (ride height, pressure taps) uses it.
+package steady
 
 import "math"
 
@@ -20,16 +25,16 @@ func EffectiveN(n int, r float64) float64 {
 	return math.Max(1, float64(n)*(1-r)/(1+r))
 }
 
-// maxBatches bounds the batch sums a windowStats keeps: when full,
+// maxBatches bounds the batch sums a Stats keeps: when full,
 // neighbouring batches merge and the batch size doubles, so memory stays
 // fixed however long a window lasts.
 const maxBatches = 64
 
-// windowStats accumulates the statistics of one steady window in one pass:
+// Stats accumulates the statistics of one steady window in one pass:
 // moments for the mean and variance, the lag-one sum for the AR(1)
 // correlation, and batch sums for the batch-means variance. Values are
 // shifted by the first sample for numerical stability.
-type windowStats struct {
+type Stats struct {
 	n       int
 	shift   float64
 	sum, ss float64 // Σx, Σx² of shifted values
@@ -43,7 +48,8 @@ type windowStats struct {
 	curN    int
 }
 
-func (w *windowStats) add(x float64) {
+// Add takes the next sample.
+func (w *Stats) Add(x float64) {
 	if w.n == 0 {
 		w.shift, w.bsize = x, 1
 	}
@@ -73,11 +79,14 @@ func (w *windowStats) add(x float64) {
 	}
 }
 
-// mean returns the window mean.
-func (w *windowStats) mean() float64 { return w.shift + w.sum/float64(w.n) }
+// N returns the number of samples taken.
+func (w *Stats) N() int { return w.n }
 
-// variance returns the sample variance (n − 1 denominator).
-func (w *windowStats) variance() float64 {
+// Mean returns the window mean.
+func (w *Stats) Mean() float64 { return w.shift + w.sum/float64(w.n) }
+
+// Variance returns the sample variance (n − 1 denominator).
+func (w *Stats) Variance() float64 {
 	if w.n < 2 {
 		return 0
 	}
@@ -87,7 +96,7 @@ func (w *windowStats) variance() float64 {
 
 // lag1 returns the lag-one autocorrelation r = c1/c0 with
 // c1 = Σ_{i≥2}(x_i − m)(x_{i−1} − m)/n and c0 = Σ(x_i − m)²/n.
-func (w *windowStats) lag1() float64 {
+func (w *Stats) lag1() float64 {
 	if w.n < 3 {
 		return 0
 	}
@@ -105,7 +114,7 @@ func (w *windowStats) lag1() float64 {
 // batchVar returns the batch-means estimate of Var(x̄): the sample variance
 // of the B full batch means divided by B (samples of a trailing partial batch
 // are left out). It needs at least two batches; ok is false otherwise.
-func (w *windowStats) batchVar() (v float64, ok bool) {
+func (w *Stats) batchVar() (v float64, ok bool) {
 	return BatchMeansVar(w.batch[:w.nb], w.bsize)
 }
 
@@ -134,13 +143,13 @@ func BatchMeansVar(sums []float64, b int) (float64, bool) {
 	return ss / float64(B-1) / float64(B), true
 }
 
-// standardError returns the window mean's standard error: the larger of the
+// StandardError returns the window mean's standard error: the larger of the
 // batch-means estimate and the AR(1) one, s/√n_eff. The lag-one
 // correlation of a short series is biased low, E[r̂] ≈ r − (1 + 3r)/n
 // (Kendall 1954; Marriott & Pope 1954 — from memory), which would make the
 // window look more informative than it is; r̂ is corrected by that amount.
-func (w *windowStats) standardError() (se, neff float64) {
-	s2 := w.variance()
+func (w *Stats) StandardError() (se, neff float64) {
+	s2 := w.Variance()
 	r := w.lag1()
 	r = math.Min(r+(1+3*r)/float64(w.n), 0.99)
 	neff = EffectiveN(w.n, r)
