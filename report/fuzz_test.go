@@ -2,6 +2,7 @@ package report_test
 
 import (
 	"bytes"
+	"errors"
 	"os"
 	"path/filepath"
 	"runtime/debug"
@@ -11,7 +12,6 @@ import (
 	"liftfuse/fuse"
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
-	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/report"
 )
@@ -58,13 +58,18 @@ func fuzzSeeds(tb testing.TB) [][2][]byte {
 		{yamlEdit("- file: logs/run.csv", `- file: ""`), csv},
 		{yamlEdit("title: Fixture campaign", "title: "+strings.Repeat("Fixture campaign ", 200)), csv},
 		{yamlEdit("force_unit: N", "force_unit: kgf\n  reference_config: wing\nprior: {speed_model: linear}"), csv},
+		{yamlEdit("mm_per_unit: 25", "mm_per_unit: 1e308"), csv},
+		{yml, []byte("t,v,vms,d,fp,rl,cfg\n")},
 	}
 }
 
 // FuzzReport: no campaign with its log may panic anything on the way to
-// the PDF (issue 16). The input is the campaign text and the text of
-// logs/run.csv beside it; it is loaded as the commands load it, reduced,
-// fused with a small sampler budget, planned, and rendered. Errors are fine.
+// the PDF (issue 16): the loader, the adapters, the fusion, the plan and
+// the report. The input is the campaign text and the text of logs/run.csv
+// beside it; it is loaded, reduced, fused with a small sampler budget,
+// planned, and rendered. Errors are fine; a load error must be Problems
+// (with positions), and a fusion that succeeds must give a result document
+// that can be written (no NaN or Inf).
 func FuzzReport(f *testing.F) {
 	for _, s := range fuzzSeeds(f) {
 		f.Add(s[0], s[1])
@@ -75,6 +80,10 @@ func FuzzReport(f *testing.F) {
 		}
 		defer failOnPanic(t)
 		in, err := fuzzInput(t, yml, csv)
+		var probs campaign.Problems
+		if errors.As(err, &probs) && len(probs) == 0 {
+			t.Fatalf("an empty list of problems: %v", err)
+		}
 		if err != nil {
 			t.Logf("before the report: %v", err)
 			return
@@ -108,7 +117,7 @@ func fuzzInput(t *testing.T, yml, csv []byte) (report.Input, error) {
 	if err := os.WriteFile(path, yml, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	c, err := campaign.Load(path, campaign.Options{HeadersOnly: true})
+	c, err := campaign.Load(path, campaign.Options{})
 	if err != nil {
 		return report.Input{}, err
 	}
@@ -124,16 +133,8 @@ func fuzzInput(t *testing.T, yml, csv []byte) (report.Input, error) {
 		return report.Input{}, err
 	}
 	f.Result.Campaign = fuse.CampaignInfo{Title: c.Campaign.Title, SHA256: "fuzz"}
-	// The plan target as the report command picks it: the campaign's, or the
-	// rear of the last configuration against the reference.
+	// The campaign's plan target, its default applied on loading.
 	tg := fuse.Target{Config: c.Plan.Target.Config, Axle: c.Plan.Target.Axle, Versus: c.Plan.Target.Versus}
-	if tg.Config == "" {
-		last := ids[len(ids)-1]
-		tg = fuse.Target{Config: last, Axle: evidence.AxleRear}
-		if last != c.Report.ReferenceConfig {
-			tg.Versus = c.Report.ReferenceConfig
-		}
-	}
 	pl, err := f.PlanRepeats(tg, c.CostH)
 	if err != nil {
 		return report.Input{}, err

@@ -158,9 +158,9 @@ func logProblem(err error, at Where, path string) *Problem {
 	return &Problem{Where: Where{File: pe.File, Line: pe.Line, Column: pe.Column}, Path: path, Err: wrapf(ErrColumn, "%s", msg)}
 }
 
-// scanLog checks a log: the file opens, the named columns exist, and (unless
-// HeadersOnly) every used cell is a finite number, time increases, direction
-// is ±1, configuration ids are known and segments lie inside the log's span.
+// scanLog checks a log: the file opens, the named columns exist, every used
+// cell is a finite number, time increases, direction is ±1, configuration
+// ids are known and segments lie inside the log's span.
 // A log named by several entries with the same columns is read once. What
 // the reader detected of the file's format is kept for validate to show.
 func (v *validator) scanLog(l *LogSpec, path string) {
@@ -215,8 +215,7 @@ func scanKey(name string, cols []logs.Column, f logs.Format) string {
 	return b.String()
 }
 
-// scanBody opens the log, checks its header and (unless HeadersOnly) reads
-// its body.
+// scanBody opens the log, checks its header and reads its body.
 func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, ix LogIndex) *scanResult {
 	f, err := OpenRegular(name)
 	if err != nil {
@@ -231,9 +230,6 @@ func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, 
 		return nil
 	}
 	defer r.Close()
-	if v.opt.HeadersOnly {
-		return nil
-	}
 	res := v.rows(r, l, path, ix)
 	if res != nil {
 		res.detected = r.Detected().String()
@@ -292,7 +288,7 @@ func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 		return
 	}
 	defer r.Close()
-	for !v.opt.HeadersOnly && r.Next() {
+	for r.Next() {
 	}
 	if err := r.Err(); err != nil {
 		v.errs = append(v.errs, logProblem(err, sf.At.Of("file"), path))

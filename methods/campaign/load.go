@@ -14,14 +14,9 @@ import (
 	"go.yaml.in/yaml/v3"
 )
 
-// Options changes how a campaign is loaded.
-type Options struct {
-	// HeadersOnly skips reading the bodies of log files: headers are still
-	// checked, but bad cells, time order and segment spans are not. The
-	// commands never set it (every command loads as validate does); it is
-	// for tools and fuzzers that stop before the adapters.
-	HeadersOnly bool
-}
+// Options changes how a campaign is loaded. It has no settings today:
+// every caller loads as validate does (one loading path), logs read through.
+type Options struct{}
 
 // Load reads, decodes and validates the campaign at path. On any error it
 // returns Problems listing every one found, in file order; warnings are in

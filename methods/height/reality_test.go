@@ -32,7 +32,7 @@ func fuseReality(t *testing.T, d *reality.Day, seed int64) []realityFigure {
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{HeadersOnly: true})
+	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,10 +40,7 @@ func fuseReality(t *testing.T, d *reality.Day, seed int64) []realityFigure {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ids := make([]string, len(c.Configurations))
-	for i, cf := range c.Configurations {
-		ids[i] = cf.ID
-	}
+	ids := c.ConfigIDs()
 	P, err := fuse.Fit(r.Evidence(), fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Seed: uint64(seed), Credible: 0.9})
 	if err != nil {
 		t.Fatal(err)

@@ -17,7 +17,7 @@ import (
 // fuseDay loads, reduces and fuses a written campaign as the CLI does.
 func fuseDay(t *testing.T, dir string) *fuse.Result {
 	t.Helper()
-	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{HeadersOnly: true})
+	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -25,10 +25,7 @@ func fuseDay(t *testing.T, dir string) *fuse.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ids := make([]string, len(c.Configurations))
-	for i, cf := range c.Configurations {
-		ids[i] = cf.ID
-	}
+	ids := c.ConfigIDs()
 	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence(), Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh,
 		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
 		Settings: fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
