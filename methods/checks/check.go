@@ -1,7 +1,6 @@
 package checks
 
 import (
-	"fmt"
 	"sort"
 
 	"liftfuse/methods"
@@ -21,22 +20,6 @@ type Check struct {
 	PValue float64 `json:"p_value"`
 	Cause  string  `json:"cause"`
 	Action string  `json:"action"`
-}
-
-// String is the check as one readable warning line.
-func (c Check) String() string {
-	s := c.Entry
-	if c.Config != "" {
-		s += " (" + c.Config + ")"
-	}
-	if c.Where != "" {
-		s += ", " + c.Where
-	}
-	p := ""
-	if c.PValue > 0 {
-		p = fmt.Sprintf(" (p = %.2g)", c.PValue)
-	}
-	return fmt.Sprintf("%s: %s: %s%s; %s", c.Check, s, c.Cause, p, c.Action)
 }
 
 // Check ids.

@@ -20,7 +20,7 @@ func TestDemoIsClean(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, ch := range checks.Run(c, r) {
-		t.Errorf("demo: %s", ch)
+		t.Errorf("demo: %+v", ch)
 	}
 }
 
