@@ -205,21 +205,28 @@ func (P *Posterior) crosscheck(cl Claim, rho float64, shared map[string]bool) (*
 		out.Summary = fmt.Sprintf("consistent: the campaign agrees with the claim (p = %.2g)", out.PValue)
 		return out, nil
 	}
-	out.Explanations = m.explanations(cl.Value, T, vals, shared)
+	out.judge(m.explanations(cl.Value, T, vals, shared), m.tradeChecks)
+	return out, nil
+}
+
+// judge gives a claim the data do not agree with its explanations and
+// verdict: explained by the cheapest single error, or by none; the trade's
+// checks are added when no explanation is plausible.
+func (cc *Crosscheck) judge(ex []Explanation, trade func() []string) {
+	cc.Explanations = ex
 	plausible := false
-	for _, e := range out.Explanations {
+	for _, e := range ex {
 		plausible = plausible || e.Plausible
 	}
-	if len(out.Explanations) == 0 {
-		out.Verdict, out.Summary = VerdictUnexplained, "no single modelled error explains it"
+	if len(ex) == 0 {
+		cc.Verdict, cc.Summary = VerdictUnexplained, "no single modelled error explains it"
 	} else {
-		out.Verdict = VerdictExplained
-		out.Summary = fmt.Sprintf("the cheapest single explanation: %s (%+.1f prior sd)", out.Explanations[0].Note, out.Explanations[0].ShiftSD)
+		cc.Verdict = VerdictExplained
+		cc.Summary = fmt.Sprintf("the cheapest single explanation: %s (%+.1f prior sd)", ex[0].Note, ex[0].ShiftSD)
 	}
 	if !plausible {
-		out.Checks = m.tradeChecks()
+		cc.Checks = trade()
 	}
-	return out, nil
 }
 
 // tradeChecks lists the trade's checks for the kinds of entry in the

@@ -60,20 +60,7 @@ func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
 		return cc, nil
 	}
 	e0 := f.full.entryIndex(entry)
-	cc.Explanations = f.full.singleErrors(st, entry)
-	plausible := false
-	for _, x := range cc.Explanations {
-		plausible = plausible || x.Plausible
-	}
-	if len(cc.Explanations) == 0 {
-		cc.Verdict, cc.Summary = VerdictUnexplained, "no single modelled error explains it"
-	} else {
-		cc.Verdict = VerdictExplained
-		cc.Summary = fmt.Sprintf("the cheapest single explanation: %s (%+.1f prior sd)", cc.Explanations[0].Note, cc.Explanations[0].ShiftSD)
-	}
-	if !plausible {
-		cc.Checks = (&model{data: &data{kinds: f.full.kinds[e0 : e0+1]}}).tradeChecks()
-	}
+	cc.judge(f.full.singleErrors(st, entry), (&model{data: &data{kinds: f.full.kinds[e0 : e0+1]}}).tradeChecks)
 	return cc, nil
 }
 
