@@ -86,17 +86,24 @@ func (g gustModel) runOf(li, n int) []int {
 	return out
 }
 
-// pilotDesign is the pilot fit of one log's windows, with the known terms
-// at their prior means (tyre growth, load transfer at h_cg's mean) taken
-// off y: a static offset, the drift if modelled, and per configuration a
-// slope p_c on q (mm/Pa) and a mean-wind column ρ·Dir·V (its coefficient
-// is p_c·w). It returns the design, y, the weights 1/variance and each
-// configuration's columns (q, wind or −1).
+// pilotDesign is the pilot fit of one log's windows, with the tyre growth
+// at its prior mean taken off y (its column, ∝ V², would be collinear with
+// the lift slopes): a static offset, the drift if modelled, the
+// centre-of-gravity height h_cg on each window's load-transfer coefficient
+// (accelCoef), and per configuration a slope p_c on q (mm/Pa) and a
+// mean-wind column ρ·Dir·V (its coefficient is p_c·w). h_cg is fitted, not
+// held at its prior mean like the growth: the scatter estimate integrates
+// the pilot's coefficients out, and a load transfer fixed at a wrong h_cg —
+// or windows whose mean accelerations carry more error than their stated
+// one, as a speed logged at a lower rate than the file gives at a ramp's
+// edge — would leave a pattern the scatter reads as run-to-run wind. It
+// returns the design, y, the weights 1/variance and each configuration's
+// columns (q, wind or −1).
 func (b *builder) pilotDesign(idx []int) (X *mat.Dense, y, wt []float64, col map[string][2]int) {
 	ws := b.res.Windows
 	n := len(idx)
 	col = map[string][2]int{}
-	p := 1
+	p := 2 // offset, h_cg
 	if b.e.Drift {
 		p++
 	}
@@ -122,8 +129,9 @@ func (b *builder) pilotDesign(idx []int) (X *mat.Dense, y, wt []float64, col map
 		y[k] = w.HeightMM - b.known(w)
 		wt[k] = 1 / b.variance(w)
 		X.Set(k, 0, 1)
+		X.Set(k, 1, accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2))
 		if b.e.Drift {
-			X.Set(k, 1, (w.From+w.To)/2-tbar)
+			X.Set(k, 2, (w.From+w.To)/2-tbar)
 		}
 		c := col[w.Config]
 		X.Set(k, c[0], w.Q)
@@ -155,7 +163,7 @@ func (b *builder) sensitivities(idx []int, X *mat.Dense, y, wt []float64, col ma
 }
 
 // known is the part of a window's height the pilot takes as known: tyre
-// growth at its prior mean and the load transfer at h_cg's prior mean.
+// growth at its prior mean.
 func (b *builder) known(w Window) float64 {
 	var y float64
 	if b.laser {
@@ -163,5 +171,5 @@ func (b *builder) known(w Window) float64 {
 			y += cf.C * b.e.TyreGrowth.MmAt100kmh
 		}
 	}
-	return y + accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2)*b.c.Vehicle.CGHeightM
+	return y
 }
