@@ -13,6 +13,11 @@ import (
 // (block.shift), so that no one counts a block's lines before parsing it.
 func (r *Reader) parse(b *block, data []byte) *block {
 	b.data, b.first = data, 1
+	// room for the rows the data likely holds, at once: a cell array
+	// grown by doubling would touch every smaller copy's memory too
+	if need := len(r.cols) * (len(data)/r.rowBytes*9/8 + 16); cap(b.vals) < need {
+		b.vals = make([]float64, 0, need)
+	}
 	line, blank := 0, 0
 	for off := 0; off < len(data); {
 		e := bytes.IndexByte(data[off:], '\n')

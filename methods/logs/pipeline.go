@@ -132,6 +132,16 @@ func fill(src io.Reader, buf []byte, n int) ([]byte, error) {
 	return buf, nil
 }
 
+// rowBytes estimates the bytes per row from the data read with the
+// header: the mean length of its whole lines, or 16 when it has none.
+func rowBytes(head []byte) int {
+	n := bytes.Count(head, []byte{'\n'})
+	if n == 0 {
+		return 16
+	}
+	return max(bytes.LastIndexByte(head, '\n')/n, 1)
+}
+
 // send queues a result slot (or a ready block) for the consumer, in order.
 func (r *Reader) send(b *block, res chan *block) bool {
 	if res == nil {

@@ -122,6 +122,7 @@ type Reader struct {
 	havePrev bool
 	blank    int // first line of trailing blank lines of the previous block
 	nextLine int // line of the next block's first byte
+	rowBytes int // bytes per row, estimated from the head of the file
 	err      error
 }
 
@@ -173,6 +174,7 @@ func NewReaderFormat(src io.Reader, file string, cols []Column, f Format) (*Read
 	if err := r.readHead(); err != nil {
 		return nil, err
 	}
+	r.rowBytes = rowBytes(r.rest)
 	return r, nil
 }
 
