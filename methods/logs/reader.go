@@ -117,12 +117,11 @@ type Reader struct {
 
 	cur      *block
 	i        int
-	base     int // index of the current row's first cell in cur.vals
-	prev     float64
-	havePrev bool
-	blank    int // first line of trailing blank lines of the previous block
-	nextLine int // line of the next block's first byte
-	rowBytes int // bytes per row, estimated from the head of the file
+	base     int     // index of the current row's first cell in cur.vals
+	prev     float64 // the Increasing column's last value; −Inf at first
+	blank    int     // first line of trailing blank lines of the previous block
+	nextLine int     // line of the next block's first byte
+	rowBytes int     // bytes per row, estimated from the head of the file
 	err      error
 }
 
@@ -253,8 +252,27 @@ func cellColumn(line []byte, delim byte, i int) int {
 func (r *Reader) Names() []string { return r.names }
 
 // Next advances to the next row; it returns false at the end or on the
-// first error (see Err).
+// first error (see Err). The row accessors (Float, Text, Line, Column)
+// then no longer apply.
 func (r *Reader) Next() bool {
+	// the common case, small enough to be inlined in the caller's loop
+	if b := r.cur; b != nil && r.i+1 < b.rows && !r.post && r.err == nil {
+		base, k := r.base+len(r.cols), r.Increasing
+		if k < 0 {
+			r.i, r.base = r.i+1, base
+			return true
+		}
+		if x := b.vals[base+k]; x > r.prev {
+			r.i, r.base, r.prev = r.i+1, base, x
+			return true
+		}
+	}
+	return r.next() // which finds a fault again
+}
+
+// next is Next for the first row, a new block, a row that needs the
+// consumer's pass, or after an error.
+func (r *Reader) next() bool {
 	if r.err != nil {
 		return false
 	}
@@ -262,10 +280,11 @@ func (r *Reader) Next() bool {
 		if r.err = r.start(); r.err != nil {
 			return false
 		}
+		r.prev = math.Inf(-1)
 	}
 	for {
 		if r.cur != nil && r.i+1 < r.cur.rows {
-			r.i++ // the common case, kept inline
+			r.i++
 			r.base += len(r.cols)
 		} else if !r.advance() {
 			return false
@@ -279,15 +298,21 @@ func (r *Reader) Next() bool {
 		break
 	}
 	if k := r.Increasing; k >= 0 {
-		x := r.cur.vals[r.base+k]
-		if r.havePrev && !(x > r.prev) {
-			r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
-				Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
-			return false
+		if x := r.cur.vals[r.base+k]; x > r.prev {
+			r.prev = x
+		} else {
+			return r.notIncreasing(k, x)
 		}
-		r.prev, r.havePrev = x, true
 	}
 	return true
+}
+
+// notIncreasing stops the reader at a value x of column k that does not
+// grow.
+func (r *Reader) notIncreasing(k int, x float64) bool {
+	r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
+		Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
+	return false
 }
 
 // shift moves the line numbers of a block parsed from line 1 (and of its
