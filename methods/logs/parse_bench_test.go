@@ -46,17 +46,16 @@ func benchParse(b *testing.B, file string) {
 		chunks, data = append(chunks, data[:end]), data[end:]
 	}
 	b.SetBytes(int64(len(head)))
-	r.spare = make(chan *block, 1)
+	blk := getBlock(0)
 	runtime.LockOSThread()
 	defer runtime.UnlockOSThread()
 	cpu0 := threadCPU()
 	for b.Loop() {
 		for _, c := range chunks {
-			blk := r.parse(c, 2)
-			if blk.err != nil {
+			blk.rows, blk.vals = 0, blk.vals[:0]
+			if r.parse(blk, c); blk.err != nil {
 				b.Fatal(blk.err)
 			}
-			r.spare <- blk
 		}
 	}
 	b.ReportMetric(float64(threadCPU()-cpu0)/float64(b.N), "cpu-ns/op")
@@ -70,31 +69,4 @@ func threadCPU() int64 {
 		return 0
 	}
 	return ru.Utime.Nano() + ru.Stime.Nano()
-}
-
-// BenchmarkPrefixFloat: the fast number path alone on cells like the
-// benchmark log's.
-func BenchmarkPrefixFloat(b *testing.B) {
-	// cells cut from one row, as the reader hands them over: their
-	// capacity runs on to the end of the block
-	row := []byte("1234.567,118.42,-1,2.0131,1.6042,88.3,-0.27\n1234.568,")
-	var cells [][]byte
-	for _, c := range bytes.Split(row[:len(row)-10], []byte{','}) {
-		at := bytes.Index(row, c)
-		cells = append(cells, row[at:at+len(c)])
-	}
-	sum := 0.0
-	runtime.LockOSThread()
-	defer runtime.UnlockOSThread()
-	cpu0 := threadCPU()
-	for b.Loop() {
-		for _, c := range cells {
-			x, _, _ := prefixFloat(c, '.')
-			sum += x
-		}
-	}
-	b.ReportMetric(float64(threadCPU()-cpu0)/float64(b.N), "cpu-ns/op")
-	if sum == 0 {
-		b.Fatal(sum)
-	}
 }

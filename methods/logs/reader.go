@@ -7,7 +7,6 @@ import (
 	"io"
 	"math"
 	"runtime"
-	"sync"
 	"unicode/utf8"
 )
 
@@ -92,6 +91,7 @@ type Reader struct {
 	file  string
 	cols  []Column
 	want  []int // file column → asked index, or −1
+	plan  []int // want up to the last asked-for column
 	names []string
 	rest  []byte // bytes after the header, read while finding it
 	line  int    // line number of the last line before the data
@@ -114,27 +114,28 @@ type Reader struct {
 	started bool
 	order   chan chan *block
 	done    chan struct{}
-	pool    sync.Pool   // consumed blocks
-	spare   chan *block // blocks whose buffer was taken, for their arrays
 
 	cur      *block
 	i        int
-	base     int // index of the current row's first cell in cur.vals
-	prev     float64
-	havePrev bool
-	blank    int // first line of trailing blank lines of the previous block
+	base     int     // index of the current row's first cell in cur.vals
+	prev     float64 // the Increasing column's last value; −Inf at first
+	blank    int     // first line of trailing blank lines of the previous block
+	nextLine int     // line of the next block's first byte
+	rowBytes int     // bytes per row, estimated from the head of the file
 	err      error
 }
 
 // block is one parsed piece of the log.
 type block struct {
+	buf  []byte // the block's own buffer, data and the carried bytes after it
 	data []byte
 	rows int
 	// first is the line of the first row; the rows are the lines that
 	// follow it, unless rows may be dropped (EmptySkip): then line holds
-	// each row's line.
+	// each row's line, counted from 1 at the block's start (see shift).
 	first int
 	line  []int32
+	lines int // lines in data
 	// vals holds the asked-for cells row by row (row i, column k at
 	// i·len(cols)+k): numbers (NaN: an empty cell to hold), clock and ISO
 	// times as int64 nanoseconds in the float's bits until Next converts
@@ -172,6 +173,7 @@ func NewReaderFormat(src io.Reader, file string, cols []Column, f Format) (*Read
 	if err := r.readHead(); err != nil {
 		return nil, err
 	}
+	r.rowBytes = rowBytes(r.rest)
 	return r, nil
 }
 
@@ -207,6 +209,13 @@ func (r *Reader) setHeader(header []byte) error {
 		}
 		r.want[i] = k
 	}
+	last := -1
+	for i, k := range r.want {
+		if k >= 0 {
+			last = i
+		}
+	}
+	r.plan = r.want[:last+1]
 	switch len(errs) {
 	case 0:
 		return nil
@@ -243,8 +252,27 @@ func cellColumn(line []byte, delim byte, i int) int {
 func (r *Reader) Names() []string { return r.names }
 
 // Next advances to the next row; it returns false at the end or on the
-// first error (see Err).
+// first error (see Err). The row accessors (Float, Text, Line, Column)
+// then no longer apply.
 func (r *Reader) Next() bool {
+	// the common case, small enough to be inlined in the caller's loop
+	if b := r.cur; b != nil && r.i+1 < b.rows && !r.post && r.err == nil {
+		base, k := r.base+len(r.cols), r.Increasing
+		if k < 0 {
+			r.i, r.base = r.i+1, base
+			return true
+		}
+		if x := b.vals[base+k]; x > r.prev {
+			r.i, r.base, r.prev = r.i+1, base, x
+			return true
+		}
+	}
+	return r.next() // which finds a fault again
+}
+
+// next is Next for the first row, a new block, a row that needs the
+// consumer's pass, or after an error.
+func (r *Reader) next() bool {
 	if r.err != nil {
 		return false
 	}
@@ -252,10 +280,11 @@ func (r *Reader) Next() bool {
 		if r.err = r.start(); r.err != nil {
 			return false
 		}
+		r.prev = math.Inf(-1)
 	}
 	for {
 		if r.cur != nil && r.i+1 < r.cur.rows {
-			r.i++ // the common case, kept inline
+			r.i++
 			r.base += len(r.cols)
 		} else if !r.advance() {
 			return false
@@ -269,15 +298,34 @@ func (r *Reader) Next() bool {
 		break
 	}
 	if k := r.Increasing; k >= 0 {
-		x := r.cur.vals[r.base+k]
-		if r.havePrev && !(x > r.prev) {
-			r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
-				Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
-			return false
+		if x := r.cur.vals[r.base+k]; x > r.prev {
+			r.prev = x
+		} else {
+			return r.notIncreasing(k, x)
 		}
-		r.prev, r.havePrev = x, true
 	}
 	return true
+}
+
+// notIncreasing stops the reader at a value x of column k that does not
+// grow.
+func (r *Reader) notIncreasing(k int, x float64) bool {
+	r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
+		Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
+	return false
+}
+
+// shift moves the line numbers of a block parsed from line 1 (and of its
+// error) to the file's lines, n lines down.
+func (b *block) shift(n int) {
+	b.first += n
+	if b.trailing != 0 {
+		b.trailing += n
+	}
+	var pe *ParseError
+	if errors.As(b.err, &pe) {
+		pe.Line += n
+	}
 }
 
 // advance moves to the next parsed row, taking the next block when the
@@ -296,8 +344,10 @@ func (r *Reader) advance() bool {
 			return false
 		}
 		b := <-res
+		b.shift(r.nextLine - 1)
+		r.nextLine += b.lines
 		if r.cur != nil {
-			r.recycle(r.cur)
+			putBlock(r.cur)
 		}
 		if b.rows > 0 && r.blank != 0 {
 			r.err = &ParseError{File: r.file, Line: r.blank, Err: ErrBlankLine}
@@ -397,7 +447,7 @@ func (r *Reader) File() string { return r.file }
 // Line returns the 1-based line number of the current row.
 func (r *Reader) Line() int {
 	if r.format.Empty == EmptySkip {
-		return int(r.cur.line[r.i])
+		return r.cur.first - 1 + int(r.cur.line[r.i])
 	}
 	return r.cur.first + r.i
 }
@@ -441,80 +491,6 @@ func (r *Reader) Close() {
 	}
 }
 
-// start launches the block pipeline: one goroutine cuts the input into
-// blocks at line ends and hands them to the parsers in order.
-func (r *Reader) start() error {
-	r.started = true
-	if r.timeK < 0 && r.Increasing >= 0 && r.Increasing < len(r.cols) && r.kind[r.Increasing] == kindNum {
-		r.timeK = r.Increasing
-		if err := r.settleTime(); err != nil {
-			return err
-		}
-	}
-	r.setupPost()
-	r.spare = make(chan *block, 2*inFlight+4)
-	r.order = make(chan chan *block, inFlight)
-	r.done = make(chan struct{})
-	jobs := make(chan func(), inFlight)
-	workers := max(r.Workers, 1)
-	for range workers {
-		go func() {
-			for job := range jobs {
-				job()
-			}
-		}()
-	}
-	go func() {
-		defer close(r.order)
-		defer close(jobs)
-		carry := r.rest
-		line := r.line + 1 // line of the first byte of carry
-		eof := false
-		for !eof {
-			buf := r.buffer(len(carry))
-			copy(buf, carry)
-			var readErr error
-			target := len(carry) + chunkSize // read at least a block more than the carry
-			for len(buf) < target && readErr == nil {
-				n, err := r.src.Read(buf[len(buf):cap(buf)])
-				buf = buf[:len(buf)+n]
-				readErr = err
-			}
-			if readErr != nil && readErr != io.EOF {
-				r.send(&block{err: &ParseError{File: r.file, Line: line, Err: readErr}}, nil)
-				return
-			}
-			eof = readErr == io.EOF
-			end := len(buf)
-			if !eof {
-				end = bytes.LastIndexByte(buf, '\n') + 1
-				if end == 0 {
-					if len(buf) >= maxLineSize {
-						r.send(&block{err: &ParseError{File: r.file, Line: line, Err: ErrLongLine}}, nil)
-						return
-					}
-					carry = buf // a line longer than a block: read on
-					continue
-				}
-			}
-			data := buf[:end]
-			carry = append([]byte(nil), buf[end:]...)
-			first := line
-			line += bytes.Count(data, []byte{'\n'})
-			res := make(chan *block, 1)
-			if !r.send(nil, res) {
-				return
-			}
-			select {
-			case jobs <- func() { res <- r.parse(data, first) }:
-			case <-r.done:
-				return
-			}
-		}
-	}()
-	return nil
-}
-
 // setupPost readies the consumer's pass over each row: which columns hold
 // their last value, and whether time needs converting.
 func (r *Reader) setupPost() {
@@ -530,269 +506,5 @@ func (r *Reader) setupPost() {
 	}
 	if r.timeK >= 0 && r.kind[r.timeK] >= kindClock {
 		r.post = true
-	}
-}
-
-// send queues a result slot (or a ready block) for the consumer, in order.
-func (r *Reader) send(b *block, res chan *block) bool {
-	if res == nil {
-		res = make(chan *block, 1)
-		res <- b
-	}
-	select {
-	case r.order <- res:
-		return true
-	case <-r.done:
-		return false
-	}
-}
-
-// buffer returns a byte slice of length n (the carried-over partial line)
-// with room for a block after it, reusing a recycled block's buffer where
-// it can.
-func (r *Reader) buffer(n int) []byte {
-	const slack = 64 << 10
-	if b, ok := r.pool.Get().(*block); ok {
-		data := b.data // before a parser may take b and reset it
-		select {
-		case r.spare <- b: // its arrays, for newBlock
-		default:
-		}
-		if cap(data) >= chunkSize+n {
-			return data[:n]
-		}
-	}
-	return make([]byte, n, chunkSize+max(n, slack))
-}
-
-// recycle returns a consumed block's memory to the pool.
-func (r *Reader) recycle(b *block) {
-	if b.err == nil {
-		r.pool.Put(b)
-	}
-}
-
-// newBlock returns an empty block for data, reusing recycled arrays.
-func (r *Reader) newBlock(data []byte) *block {
-	var b *block
-	select {
-	case b = <-r.spare:
-	default:
-		b = &block{}
-	}
-	b.data, b.rows, b.trailing, b.err = data, 0, 0, nil
-	b.line, b.vals = b.line[:0], b.vals[:0]
-	return b
-}
-
-// parse parses the lines of data, the first of which is line first.
-func (r *Reader) parse(data []byte, first int) *block {
-	b := r.newBlock(data)
-	b.first = first
-	line := first - 1
-	blank := 0
-	for off := 0; off < len(data); {
-		e := bytes.IndexByte(data[off:], '\n')
-		next := off + e + 1
-		if e < 0 {
-			e, next = len(data)-off, len(data)
-		}
-		row := data[off : off+e]
-		line++
-		if e > maxLineSize {
-			b.err = &ParseError{File: r.file, Line: line, Err: ErrLongLine}
-			return b
-		}
-		if len(row) > 0 && row[len(row)-1] == '\r' {
-			row = row[:len(row)-1]
-		}
-		if (len(row) == 0 || row[0] == ' ' || row[0] == '\t') && isBlank(row) {
-			if blank == 0 {
-				blank = line
-			}
-			off = next
-			continue
-		}
-		if blank != 0 {
-			b.err = &ParseError{File: r.file, Line: blank, Err: ErrBlankLine}
-			return b
-		}
-		if err := r.parseRow(b, row, off, line); err != nil {
-			if err != errSkipRow {
-				b.err = err
-				return b
-			}
-			r.dropRow(b)
-		}
-		off = next
-	}
-	b.trailing = blank
-	return b
-}
-
-func isBlank(row []byte) bool {
-	for _, c := range row {
-		if c != ' ' && c != '\t' {
-			return false
-		}
-	}
-	return true
-}
-
-// errSkipRow drops a row with an empty cell (EmptySkip).
-var errSkipRow = errors.New("row skipped")
-
-// parseRow appends one row's asked-for cells to b. Numbers are parsed in
-// the same pass that finds the delimiters; an unusual cell (spaces, quotes,
-// an exponent, many digits, an empty cell, a time) takes the general path.
-func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
-	nc := len(r.cols)
-	base := len(b.vals)
-	if base+nc > cap(b.vals) {
-		b.vals = append(b.vals, make([]float64, nc)...)
-	}
-	b.vals = b.vals[:base+nc]
-	out := b.vals[base : base+nc]
-	at, found, j := 0, 0, 0
-	d, dec, want, kind := r.delim, r.dec, r.want, r.kind
-	for ; j < len(want) && found < nc; j++ {
-		if at > len(row) {
-			break // the row has no more cells
-		}
-		k := want[j]
-		if k < 0 {
-			if i := bytes.IndexByte(row[at:], d); i >= 0 {
-				at += i + 1
-			} else {
-				at = len(row) + 1
-			}
-			continue
-		}
-		found++
-		if kind[k] == kindNum {
-			if x, n, ok := prefixFloat(row[at:], dec); ok && (at+n == len(row) || row[at+n] == d) {
-				out[k] = x
-				at += n + 1
-				continue
-			}
-		}
-		end := len(row)
-		if i := bytes.IndexByte(row[at:], d); i >= 0 {
-			end = at + i
-		}
-		if err := r.cell(out, k, row, at, end, line, off); err != nil {
-			return err
-		}
-		at = end + 1
-	}
-	if found < nc { // the row ended before these asked-for cells
-		for ; j < len(r.want); j++ {
-			if k := r.want[j]; k >= 0 {
-				if err := r.empty(out, k, line, len(row)+1); err != nil {
-					return err
-				}
-			}
-		}
-	}
-	if r.format.Empty == EmptySkip {
-		b.line = append(b.line, int32(line))
-	}
-	b.rows++
-	return nil
-}
-
-// dropRow takes back the cells of a row that parseRow did not finish.
-func (r *Reader) dropRow(b *block) { b.vals = b.vals[:b.rows*len(r.cols)] }
-
-// empty deals with an empty (or absent) cell of asked-for column k, at
-// character column col, by the format's policy.
-func (r *Reader) empty(out []float64, k, line, col int) error {
-	switch {
-	case r.format.Empty == EmptySkip:
-		return errSkipRow
-	case r.format.Empty == EmptyHold && k != r.timeK:
-		out[k] = math.Float64frombits(noSpan) // a NaN, and no text span
-		return nil
-	}
-	return &ParseError{File: r.file, Line: line, Column: col, Field: r.cols[k].Name, Err: ErrMissingCell}
-}
-
-// cell parses one asked-for cell, row[at:end], by the general rules: spaces
-// and double quotes around it are dropped, text is kept as a span, a number
-// must parse exactly as strconv.ParseFloat would (after the decimal comma
-// becomes a point) and be finite, a time must read by its format.
-func (r *Reader) cell(out []float64, k int, row []byte, at, end, line, off int) error {
-	cell := bytes.TrimSpace(row[at:end])
-	if len(cell) >= 2 && cell[0] == '"' && cell[len(cell)-1] == '"' {
-		cell = cell[1 : len(cell)-1]
-	}
-	if len(cell) == 0 {
-		return r.empty(out, k, line, at+1)
-	}
-	fail := func(sentinel error) error {
-		return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q", sentinel, cell)}
-	}
-	switch r.kind[k] {
-	case kindText:
-		s := off + cap(row) - cap(cell) // cell is a sub-slice of row
-		out[k] = span(s, s+len(cell))
-		return nil
-	case kindClock, kindISO:
-		ns, ok := r.timeNanos(k, cell)
-		if !ok {
-			want := "clock time h:mm:ss[.fff]"
-			if r.kind[k] == kindISO {
-				want = "RFC 3339 time such as 2026-05-01T12:00:00.25+02:00"
-			}
-			return &ParseError{File: r.file, Line: line, Column: at + 1, Field: r.cols[k].Name, Err: fmt.Errorf("%w: %q (want %s)", ErrNotTime, cell, want)}
-		}
-		out[k] = math.Float64frombits(uint64(ns))
-		return nil
-	}
-	x, err := parseDecimal(cell, r.dec)
-	if err != nil {
-		return fail(ErrNotNumber)
-	}
-	if math.IsInf(x, 0) || math.IsNaN(x) {
-		return fail(ErrNotFinite)
-	}
-	out[k] = x
-	return nil
-}
-
-// timeNanos reads a clock or ISO cell of column k.
-func (r *Reader) timeNanos(k int, cell []byte) (int64, bool) {
-	if r.kind[k] == kindClock {
-		return clockNanos(cell, r.dec)
-	}
-	return isoNanos(cell)
-}
-
-// parseDecimal is ParseFloat for a number written with the decimal mark
-// dec: with ',' the number may hold no '.', and its ',' reads as a point.
-func parseDecimal(cell []byte, dec byte) (float64, error) {
-	if dec != ',' {
-		return ParseFloat(cell)
-	}
-	if bytes.IndexByte(cell, '.') >= 0 || len(cell) > 64 {
-		return 0, ErrNotNumber
-	}
-	var buf [64]byte
-	n := copy(buf[:], cell)
-	if i := bytes.IndexByte(buf[:n], ','); i >= 0 {
-		buf[i] = '.'
-	}
-	return ParseFloat(buf[:n])
-}
-
-// splitCells appends the cells of line, cut at delim, to dst.
-func splitCells(line []byte, delim byte, dst [][]byte) [][]byte {
-	for {
-		i := bytes.IndexByte(line, delim)
-		if i < 0 {
-			return append(dst, line)
-		}
-		dst = append(dst, line[:i])
-		line = line[i+1:]
 	}
 }
