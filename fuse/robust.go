@@ -251,14 +251,14 @@ func robustWhy(entries []string, cd condemned, widened []string) string {
 		cs := cd[id]
 		switch {
 		case cs[""]:
-			left = append(left, fmt.Sprintf("all of %q's", id))
+			left = append(left, fmt.Sprintf("all of %q", id))
 		case len(cs) > 0:
 			var cfgs []string
 			for c := range cs {
 				cfgs = append(cfgs, c)
 			}
 			sort.Strings(cfgs)
-			left = append(left, fmt.Sprintf("%q's in %s", id, strings.Join(cfgs, ", ")))
+			left = append(left, fmt.Sprintf("%q in %s", id, strings.Join(cfgs, ", ")))
 		}
 	}
 	var parts []string
