@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"sort"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -72,7 +73,7 @@ func agreement(full *model, ei int, ev evidence.Evidence, others *Posterior) (*A
 	d2 := quadForm(Vp, st.t)
 	st.Vp, st.d2 = Vp, d2
 	ag.Distance = math.Sqrt(d2)
-	ag.PValue = distuv.ChiSquared{K: float64(rank)}.Survival(d2)
+	ag.PValue = st.referenceP(full, ei, others, rank)
 	return ag, st
 }
 
@@ -126,4 +127,60 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 	p := float64(extreme) / float64(n)
 	return &Agreement{PValue: p, Distance: math.Abs(distuv.UnitNormal.Quantile(math.Max(p, 1e-300) / 2)),
 		Note: "posterior predictive check of the observed senses under the other entries"}
+}
+
+// Suspects lists the entries a reader should look at, most suspect first:
+// those a model check names (a check is a verdict on the data themselves),
+// by the smallest p-value of their checks (a rule's 0 first), then those
+// the agreement test flags, by P(off) and then by p-value. Entries neither
+// named nor flagged are not listed.
+func (r *Result) Suspects() []string {
+	type suspect struct {
+		id       string
+		checked  bool
+		p, pOff  float64
+		position int
+	}
+	byID := map[string]*suspect{}
+	var list []*suspect
+	add := func(id string) *suspect {
+		if s, ok := byID[id]; ok {
+			return s
+		}
+		s := &suspect{id: id, p: 1, position: len(list)}
+		byID[id] = s
+		list = append(list, s)
+		return s
+	}
+	for _, c := range r.Checks {
+		s := add(c.Entry)
+		if !s.checked || c.PValue < s.p {
+			s.p = c.PValue
+		}
+		s.checked = true
+	}
+	for _, m := range r.Methods {
+		if ag := m.Agreement; ag != nil && ag.Flag {
+			if s := add(m.ID); !s.checked {
+				s.p, s.pOff = ag.PValue, ag.POff
+			}
+		}
+	}
+	sort.SliceStable(list, func(i, j int) bool {
+		a, b := list[i], list[j]
+		switch {
+		case a.checked != b.checked:
+			return a.checked
+		case !a.checked && a.pOff != b.pOff:
+			return a.pOff > b.pOff
+		case a.p != b.p:
+			return a.p < b.p
+		}
+		return a.position < b.position
+	})
+	out := make([]string, len(list))
+	for i, s := range list {
+		out[i] = s.id
+	}
+	return out
 }

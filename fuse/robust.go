@@ -1,7 +1,12 @@
 package fuse
 
 import (
+	"errors"
+	"sort"
+	"sync"
+
 	"fmt"
+	"gonum.org/v1/gonum/mat"
 	"math"
 	"strings"
 
@@ -187,24 +192,44 @@ func (m *model) variant(off map[int]bool, noise, sys bool) *model {
 }
 
 // robustHeadline makes the robust fusion the headline when some entry looks
-// off (P(off) > flagOff): the joint posterior is refitted with those
-// entries' random errors and own systematic priors widened by κ (the "off"
-// alternatives of pOff, both at once), its configurations and deltas become
-// the result's, the plain fusion's move to Result.Plain, and Fused.Posterior
-// becomes the robust one, so that plan and crosscheck use it too.
+// off (P(off) > flagOff) or the model checks condemn some data: the joint
+// posterior is refitted with the condemned data distrusted (see
+// distrusted; the agreement figures are then recomputed against the others'
+// data that passed their checks) and the errors of the entries that look
+// off widened by κ (the "off" alternatives of pOff, both at once); its
+// configurations and deltas become the result's, the plain fusion's move
+// to Result.Plain, and Fused.Posterior becomes the robust one, so that plan
+// and crosscheck use it too.
 func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits) error {
+	ck, err := distrusted(full, in, lo)
+	if err != nil {
+		return err
+	}
+	base, pOff := full, lo.pOff
+	var cd condemned
+	if ck != nil {
+		ck.agreements(out, full, in.Evidence)
+		base, pOff, cd = ck.lo.full, ck.lo.pOff, ck.cd
+	}
 	res := out.Result
 	off := map[int]bool{}
-	for e, p := range lo.pOff {
-		if p > flagOff {
+	var widened []string
+	for e, id := range full.entries {
+		switch {
+		case cd.all(id):
+		case pOff[e] > flagOff:
 			off[e] = true
-			res.DownWeighted = append(res.DownWeighted, full.entries[e])
+			widened = append(widened, id)
+		case len(cd[id]) == 0:
+			continue
 		}
+		res.DownWeighted = append(res.DownWeighted, id)
 	}
-	if len(off) == 0 || len(full.entries) < 2 {
+	if len(res.DownWeighted) == 0 || len(full.entries) < 2 {
+		res.DownWeighted = []string{}
 		return nil
 	}
-	R, err := full.variant(off, true, true).fit()
+	R, err := base.variant(off, true, true).fit()
 	if err != nil {
 		return fmt.Errorf("the robust fusion (down-weighting %s): %w", joinMax(res.DownWeighted, 4), err)
 	}
@@ -215,13 +240,81 @@ func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits
 	res.Configs, res.Deltas = scratch.Configs, scratch.Deltas
 	res.Headline = HeadlineRobust
 	out.Posterior = R
-	verb := "it looks"
-	if len(res.DownWeighted) > 1 {
-		verb = "they look"
-	}
-	res.Warnings = append(res.Warnings, fmt.Sprintf("the headline figures are the robust fusion's: the errors of %s are widened ×%g because %s off; the plain fusion is shown beside them",
-		quoteJoin(res.DownWeighted), kappa, verb))
+	res.Warnings = append(res.Warnings, "the headline figures are the robust fusion's: "+robustWhy(full.entries, cd, widened)+"; the plain fusion is shown beside them")
 	return nil
+}
+
+// robustWhy says what the robust fusion changed.
+func robustWhy(entries []string, cd condemned, widened []string) string {
+	var left []string
+	for _, id := range entries {
+		cs := cd[id]
+		switch {
+		case cs[""]:
+			left = append(left, fmt.Sprintf("all of %q", id))
+		case len(cs) > 0:
+			var cfgs []string
+			for c := range cs {
+				cfgs = append(cfgs, c)
+			}
+			sort.Strings(cfgs)
+			left = append(left, fmt.Sprintf("%q in %s", id, strings.Join(cfgs, ", ")))
+		}
+	}
+	var parts []string
+	if len(left) > 0 {
+		parts = append(parts, "the data that failed their model checks are left out ("+strings.Join(left, "; ")+")")
+	}
+	if len(widened) > 0 {
+		verb := "it looks"
+		if len(widened) > 1 {
+			verb = "they look"
+		}
+		parts = append(parts, fmt.Sprintf("the errors of %s are widened ×%g because %s off", quoteJoin(widened), kappa, verb))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// agreements recomputes each entry's agreement against the others' fusion
+// with the condemned data distrusted (ck.lo.others), its P(off) in that
+// fusion, and the warnings of flagged entries in place of the plain
+// fusion's.
+func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) {
+	res := out.Result
+	for ei, ev := range evs {
+		mr := &res.Methods[ei]
+		old := mr.Agreement
+		ag, st := agreement(full, ei, ev, ck.lo.others[ei])
+		ag.POff = ck.lo.pOff[ei]
+		ag.Flag = ag.flagged()
+		mr.Agreement = ag
+		out.Others[ev.Entry], out.loo[ev.Entry] = ck.lo.others[ei], st
+		res.Warnings = replaceWarning(res.Warnings, old, ag, ev.Entry)
+	}
+}
+
+// replaceWarning puts the warning of agreement ag (none when not flagged)
+// where old's stood, or at the end.
+func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
+	at := -1
+	if old != nil && old.Flag {
+		w := old.warning(entry)
+		for i := range ws {
+			if ws[i] == w {
+				at = i
+				break
+			}
+		}
+	}
+	switch {
+	case at >= 0 && ag.Flag:
+		ws[at] = ag.warning(entry)
+	case at >= 0:
+		ws = append(ws[:at], ws[at+1:]...)
+	case ag.Flag:
+		ws = append(ws, ag.warning(entry))
+	}
+	return ws
 }
 
 // quoteJoin lists ids in quotes: "a", "b" and "c".
@@ -237,4 +330,224 @@ func quoteJoin(ids []string) string {
 		return q[0]
 	}
 	return strings.Join(q[:len(q)-1], ", ") + " and " + q[len(q)-1]
+}
+
+// Model checks that condemn data (model.md, "Model checks"): the ids of
+// the checks whose finding makes every datum of the entry wrong (a unit or
+// sign slip), and of those that make the entry's data of one configuration
+// wrong (a bump stop met, a tap blocked or leaking). A window beyond 4 sd
+// condemns one window only and is left to P(off).
+var (
+	entryChecks  = map[string]bool{"speed-units": true, "entry-mirrored": true, "cla-too-large": true, "gain-negative": true}
+	configChecks = map[string]bool{"height-not-linear": true, "tap-blocked": true, "tap-cp-high": true, "tap-cp-speed": true}
+)
+
+// distrustSD is the factor by which the error sd of condemned data is
+// widened: their information falls by 10⁶, so they no longer move the
+// posterior, while every entry keeps its place in the model (plan lists
+// every entry).
+const distrustSD = 1e3
+
+// condemned is the data the model checks condemn: entry → the
+// configurations condemned, "" meaning every one.
+type condemned map[string]map[string]bool
+
+// condemnedBy collects the data the checks condemn.
+func condemnedBy(cs []Check) condemned {
+	out := condemned{}
+	for _, c := range cs {
+		cfg := c.Config
+		switch {
+		case entryChecks[c.Check]:
+			cfg = ""
+		case !configChecks[c.Check]:
+			continue
+		}
+		if out[c.Entry] == nil {
+			out[c.Entry] = map[string]bool{}
+		}
+		out[c.Entry][cfg] = true
+	}
+	return out
+}
+
+// all reports whether every datum of an entry is condemned.
+func (cd condemned) all(entry string) bool { return cd[entry][""] }
+
+// obs reports whether an observation of an entry is condemned: its entry
+// entirely, or a configuration of one of its terms.
+func (cd condemned) obs(entry string, o evidence.Obs) bool {
+	cs := cd[entry]
+	if cs[""] {
+		return true
+	}
+	for _, t := range o.Terms {
+		if cs[t.Config] {
+			return true
+		}
+	}
+	return false
+}
+
+// distrust returns the evidence with the condemned observations' errors
+// widened by distrustSD (a full covariance as D·Σ·D with D = diag(1 or
+// distrustSD)); the rest is shared with evs.
+func (cd condemned) distrust(evs []evidence.Evidence) []evidence.Evidence {
+	out := append([]evidence.Evidence(nil), evs...)
+	for i, ev := range evs {
+		if len(cd[ev.Entry]) == 0 {
+			continue
+		}
+		out[i].Blocks = make([]evidence.Block, len(ev.Blocks))
+		for b, bl := range ev.Blocks {
+			d := make([]float64, len(bl.Obs))
+			for k, o := range bl.Obs {
+				d[k] = 1
+				if cd.obs(ev.Entry, o) {
+					d[k] = distrustSD
+				}
+			}
+			nb := evidence.Block{Obs: bl.Obs}
+			if bl.Cov == nil {
+				nb.Var = make([]float64, len(bl.Var))
+				for k, v := range bl.Var {
+					nb.Var[k] = v * d[k] * d[k]
+				}
+			} else {
+				n := len(bl.Obs)
+				nb.Cov = mat.NewSymDense(n, nil)
+				for r := range n {
+					for c := r; c < n; c++ {
+						nb.Cov.SetSym(r, c, bl.Cov.At(r, c)*d[r]*d[c])
+					}
+				}
+			}
+			out[i].Blocks[b] = nb
+		}
+	}
+	return out
+}
+
+// checked is the fusion with the condemned data distrusted: its model, its
+// leave-one-out fits and each entry's P(off) in it.
+type checked struct {
+	cd  condemned
+	evs []evidence.Evidence
+	lo  *looFits
+}
+
+// distrusted refits what the agreement figures and the headline rest on
+// with the data the model checks condemn distrusted (nil when they condemn
+// none): P(off) of every entry not condemned entirely (refined as in
+// refinePOff), and for each entry the others' fusion without the condemned
+// data, robust where another entry looks off. A check is a verdict on the
+// data themselves, which P(off) can only infer: a unit slip that puts three
+// ride-height entries off by ×13 makes the one correct entry look off by
+// P(off), and a blocked tap drags the others' prediction of a correct pot
+// far beyond what widening the taps' errors ×κ absorbs.
+func distrusted(full *model, in Input, lo *looFits) (*checked, error) {
+	cd := condemnedBy(in.Checks)
+	if len(cd) == 0 || len(in.Evidence) < 2 {
+		return nil, nil
+	}
+	evs := cd.distrust(in.Evidence)
+	dm, err := newModel(evs, full.set)
+	if err != nil {
+		return nil, err
+	}
+	dm.start = lo.start
+	ck := &checked{cd: cd, evs: evs, lo: &looFits{full: dm, setOthers: lo.setOthers, start: lo.start,
+		alone: lo.alone, others: make([]*Posterior, len(evs)), pOff: make([]float64, len(evs))}}
+	_, _, logZ, err := dm.laplace()
+	if err != nil {
+		return nil, fmt.Errorf("the fusion without the data the model checks condemn: %w", err)
+	}
+	for e, ev := range evs {
+		ck.lo.pOff[e] = lo.pOff[e]
+		if !cd.all(ev.Entry) {
+			ck.lo.pOff[e] = dm.pOff(e, logZ)
+		}
+	}
+	if err := ck.refine(logZ); err != nil {
+		return nil, err
+	}
+	return ck, ck.fitOthers()
+}
+
+// refine is refinePOff over the entries not condemned entirely; those keep
+// the P(off) of the plain fusion.
+func (ck *checked) refine(logZ float64) error {
+	keep := map[int]float64{}
+	for e, ev := range ck.evs {
+		if ck.cd.all(ev.Entry) {
+			keep[e] = ck.lo.pOff[e]
+			ck.lo.pOff[e] = 0
+		}
+	}
+	err := ck.lo.refinePOff(logZ)
+	for e, p := range keep {
+		ck.lo.pOff[e] = p
+	}
+	return err
+}
+
+// fitOthers fits, for each entry, every other entry with the condemned data
+// distrusted and, where another entry (not condemned entirely) looks off,
+// its errors widened ×κ — unless the entry looks off itself (see
+// robustOthers). Two at a time, as leaveOneOut.
+func (ck *checked) fitOthers() error {
+	n := len(ck.evs)
+	errs := make([]error, n)
+	jobs := make(chan int)
+	var wg sync.WaitGroup
+	for range 2 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for e := range jobs {
+				om, err := ck.lo.othersModel(ck.evs, e)
+				if err == nil {
+					ck.lo.others[e], err = om.variant(ck.offAmongOthers(e), true, true).fit()
+				}
+				if err != nil {
+					errs[e] = fmt.Errorf("every entry but %q, without the data the model checks condemn: %w", ck.evs[e].Entry, err)
+				}
+			}
+		}()
+	}
+	for e := range n {
+		jobs <- e
+	}
+	close(jobs)
+	wg.Wait()
+	return errors.Join(errs...)
+}
+
+// offAmongOthers is looFits.offAmongOthers without the entries condemned
+// entirely (already distrusted).
+func (ck *checked) offAmongOthers(ei int) map[int]bool {
+	off := ck.lo.offAmongOthers(ei)
+	k := 0
+	for j, ev := range ck.evs {
+		if j == ei {
+			continue
+		}
+		if ck.cd.all(ev.Entry) {
+			delete(off, k)
+		}
+		k++
+	}
+	return off
+}
+
+// offEntries returns the entries the headline widens ×κ: those that look
+// off, not counting the ones condemned entirely.
+func (ck *checked) offEntries() map[int]bool {
+	off := map[int]bool{}
+	for e, p := range ck.lo.pOff {
+		if p > flagOff && !ck.cd.all(ck.evs[e].Entry) {
+			off[e] = true
+		}
+	}
+	return off
 }

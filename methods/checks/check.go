@@ -55,10 +55,12 @@ func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
 	}
 	var out []Check
 	var est []estimate
+	var runs []heightRun
 	for _, e := range r.Entries {
 		switch d := e.Detail.(type) {
 		case *height.Result:
 			fits := heightFits(c, d)
+			runs = append(runs, heightRun{d, fits})
 			out = append(out, notLinear(c, d, fits)...)
 			out = append(out, residuals(c, d, fits)...)
 			out = append(out, negativeGain(d)...)
@@ -68,6 +70,7 @@ func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
 			est = append(est, pressureEstimates(c, d)...)
 		}
 	}
+	out = append(out, confirmNotLinear(c, runs, out)...)
 	out = append(out, speedUnits(c, r)...)
 	out = append(out, claTooLarge(est)...)
 	out = append(out, mirrored(est)...)

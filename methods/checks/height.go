@@ -14,28 +14,107 @@ import (
 // the extra-sum-of-squares F test of a q² term (heightfit.go) at
 // alphaNotLinear shared over the entry's configurations.
 func notLinear(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
-	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
 	var out []Check
 	alpha := alphaNotLinear / float64(max(1, len(fits)))
 	for _, f := range fits {
-		if f.PCurv >= alpha {
-			continue
+		if f.PCurv < alpha {
+			out = append(out, notLinearCheck(c, r, f, ""))
 		}
-		ch := Check{Check: IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
-			Cause: "ride height is not linear in dynamic pressure: bump-stop or packer contact, progressive springs, or the sensor at its end stop"}
-		if !linearSpeed {
-			ch.Cause += "; or the lift itself changes with speed (prior.speed_model: linear)"
-		}
-		if f.Broken {
-			ch.Where = "every speed"
-			ch.Action = fmt.Sprintf("measure the stiffness of %s's axle over the loads of the runs (ballast steps up to the aero load), or check the sensor's travel", r.Entry.ID)
-		} else {
-			ch.Where = fmt.Sprintf("windows above %.0f km/h", f.CutKmh)
-			ch.Action = fmt.Sprintf("set max_speed_kmh: %.0f on %s, or measure the stiffness at that load", f.CutKmh, r.Entry.ID)
-		}
-		out = append(out, ch)
 	}
 	return out
+}
+
+// notLinearCheck words a height-not-linear finding; by, when not empty,
+// names the entry on the same axle whose own finding this one confirms.
+func notLinearCheck(c *campaign.Campaign, r *height.Result, f cfgFit, by string) Check {
+	ch := Check{Check: IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
+		Cause: "ride height is not linear in dynamic pressure: bump-stop or packer contact, progressive springs, or the sensor at its end stop"}
+	if c.Prior.SpeedModel != campaign.SpeedLinear {
+		ch.Cause += "; or the lift itself changes with speed (prior.speed_model: linear)"
+	}
+	if by != "" {
+		ch.Cause = fmt.Sprintf("ride height is not linear in dynamic pressure, as %s on the same axle finds in this configuration: bump-stop or packer contact, or progressive springs", by)
+	}
+	if f.Broken {
+		ch.Where = "every speed"
+		ch.Action = fmt.Sprintf("measure the stiffness of %s's axle over the loads of the runs (ballast steps up to the aero load), or check the sensor's travel", r.Entry.ID)
+	} else {
+		ch.Where = fmt.Sprintf("windows above %.0f km/h", f.CutKmh)
+		ch.Action = fmt.Sprintf("set max_speed_kmh: %.0f on %s, or measure the stiffness at that load", f.CutKmh, r.Entry.ID)
+	}
+	return ch
+}
+
+// alphaConfirm is the level at which a second entry on an axle confirms
+// another entry's finding that the axle is not linear in a configuration
+// (common practice, no source). A bump stop or progressive spring belongs
+// to the axle, so every sensor that reads it carries the bend; a sensor
+// with more noise (a laser, which also sees the tyres) may show it less
+// clearly. On a clean day the confirmation is asked only after a first
+// finding (≤ 0.2 % per entry), so it adds at most 0.2 % × 5 % to an
+// entry's false-alarm rate.
+const alphaConfirm = 0.05
+
+// heightRun is one ride-height entry's result and its fits.
+type heightRun struct {
+	r    *height.Result
+	fits []cfgFit
+}
+
+// confirmNotLinear adds, for every height-not-linear finding, the same
+// finding on each other ride-height entry that reads the same axle when its
+// own curvature test of that configuration has p < alphaConfirm.
+func confirmNotLinear(c *campaign.Campaign, runs []heightRun, found []Check) []Check {
+	have := map[[2]string]bool{}
+	for _, ch := range found {
+		if ch.Check == IDHeightNotLinear {
+			have[[2]string{ch.Entry, ch.Config}] = true
+		}
+	}
+	var out []Check
+	for _, ch := range found {
+		if ch.Check != IDHeightNotLinear {
+			continue
+		}
+		src := runOf(runs, ch.Entry)
+		for _, o := range runs {
+			if o.r == src.r || !shareAxle(src.r, o.r) {
+				continue
+			}
+			for _, f := range o.fits {
+				key := [2]string{o.r.Entry.ID, f.Config}
+				if f.Config == ch.Config && !have[key] && f.PCurv < alphaConfirm {
+					have[key] = true
+					out = append(out, notLinearCheck(c, o.r, f, ch.Entry))
+				}
+			}
+		}
+	}
+	return out
+}
+
+func runOf(runs []heightRun, id string) heightRun {
+	for _, r := range runs {
+		if r.r.Entry.ID == id {
+			return r
+		}
+	}
+	return heightRun{}
+}
+
+// shareAxle reports whether two entries' readings depend on a common axle.
+func shareAxle(a, b *height.Result) bool {
+	if a == nil || b == nil {
+		return false
+	}
+	for _, x := range a.Lever.Axles {
+		for _, y := range b.Lever.Axles {
+			if x.Axle == y.Axle {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // residualSD is the size, in standard deviations, beyond which a window is
@@ -59,6 +138,7 @@ func residuals(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
 		n += len(f.Kept)
 	}
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
+	d := newEntryData(c, r)
 	var out []Check
 	for _, f := range fits {
 		kept, fit := f.Kept, f.Lin
@@ -75,7 +155,7 @@ func residuals(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
 				Action: fmt.Sprintf("look at the trace of %s over %.0f–%.0f s and cut that stretch from the log's segments if it was not steady",
 					r.Entry.ID, w.From, w.To)})
 			kept = append(append([]int(nil), kept[:k]...), kept[k+1:]...)
-			x, y, wt := design(r.Windows, kept, r.Entry, linearSpeed, nil, f.QScale)
+			x, y, wt := design(d, kept, linearSpeed, nil, f.QScale)
 			var err error
 			if fit, err = wls(x, y, wt); err != nil {
 				break

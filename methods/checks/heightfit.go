@@ -12,8 +12,8 @@ import (
 // cfgFit is the linear model of one ride-height entry's windows in one
 // configuration, directions pooled:
 //
-//	h_i = o_log + b·q_i [+ b₁·q_i·(V_i/100 − 1)] [+ c·dir_i·V_i] [+ d_log·t_i] + ε_i,
-//	var ε_i = SE_i² + friction²/3,
+//	h_i − κ_i·h̄_cg = o_log + b·q_i [+ b₁·q_i·(V_i/100 − 1)] [+ c·dir_i·V_i] [+ d_log·t_i] + ε_i,
+//	var ε_i = SE_i² + friction²/3 (+ the load transfer's share, see newEntryData),
 //
 // with a static offset per log, the deflection linear in the ground dynamic
 // pressure q (lift, and a laser's tyre growth, which is ∝ V² ∝ q too), the
@@ -38,7 +38,8 @@ const speedLevelGapKmh = 5
 // design builds the model's rows for windows idx; extra, when not nil,
 // adds a column of the normalised q/QScale (a curvature or hinge term).
 // The q column is always column 0.
-func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, extra func(qn float64) float64, qs float64) ([][]float64, []float64, []float64) {
+func design(d *entryData, idx []int, linearSpeed bool, extra func(qn float64) float64, qs float64) ([][]float64, []float64, []float64) {
+	ws, e := d.ws, d.e
 	logCol := map[int]int{}
 	var logs []int
 	dirs := map[int]bool{}
@@ -62,7 +63,6 @@ func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSp
 	for k := range tbar {
 		tbar[k] /= cnt[k]
 	}
-	v := windowVars(ws, e.FrictionMm)
 	var x [][]float64
 	var y, w []float64
 	for _, i := range idx {
@@ -95,8 +95,8 @@ func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSp
 			row = append(row, extra(qn))
 		}
 		x = append(x, row)
-		y = append(y, win.HeightMM)
-		w = append(w, 1/v[i])
+		y = append(y, d.y[i])
+		w = append(w, 1/d.v[i])
 	}
 	return x, y, w
 }
@@ -105,11 +105,14 @@ func design(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSp
 // departure: a q² term (progressive springs, a smooth stiffening), and a
 // hinge max(0, q − q_k) at each knot q_k halfway (in q) between two driven
 // speeds with at least three speeds below it and one above (a bump stop
-// or end stop met between them). Each is an extra-sum-of-squares F test;
-// the p-value is the smallest times the number of tests (Bonferroni). It
-// returns that p-value and the linear fit (nil when the data cannot tell).
-func curvature(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, qs float64) (float64, *wlsFit) {
-	x0, y, w := design(ws, idx, e, linearSpeed, nil, qs)
+// or end stop met between them). Each is an extra-sum-of-squares test
+// (extraTest: F on the residuals' scale and χ² on the windows' stated
+// variances, the larger p-value); the p-value is the smallest times the
+// number of tests (Bonferroni). It returns that p-value and the linear fit
+// (nil when the data cannot tell).
+func curvature(d *entryData, idx []int, linearSpeed bool, qs float64) (float64, *wlsFit) {
+	ws := d.ws
+	x0, y, w := design(d, idx, linearSpeed, nil, qs)
 	lin, err := wls(x0, y, w)
 	if err != nil {
 		return 1, nil
@@ -134,12 +137,12 @@ func curvature(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linea
 	}
 	best := 1.0
 	for _, ex := range extras {
-		x1, _, _ := design(ws, idx, e, linearSpeed, ex, qs)
+		x1, _, _ := design(d, idx, linearSpeed, ex, qs)
 		full, err := wls(x1, y, w)
 		if err != nil || full.DF < 2 {
 			continue
 		}
-		best = math.Min(best, fTest(lin, full))
+		best = math.Min(best, extraTest(lin, full))
 	}
 	return math.Min(1, best*float64(len(extras))), lin
 }
@@ -169,6 +172,7 @@ func levels(ws []height.Window, idx []int) [][2]float64 {
 // speed kept and the first dropped, rounded to 5 km/h.
 func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
+	d := newEntryData(c, r)
 	var order []string
 	byCfg := map[string][]int{}
 	for i, w := range r.Windows {
@@ -189,12 +193,12 @@ func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 			continue
 		}
 		f := cfgFit{Config: cfg, All: idx, Kept: idx, QScale: qs}
-		f.PCurv, f.Lin = curvature(r.Windows, idx, r.Entry, linearSpeed, qs)
+		f.PCurv, f.Lin = curvature(d, idx, linearSpeed, qs)
 		if f.PCurv < alpha && f.Lin != nil {
-			f.PCurv = oneWindow(r.Windows, idx, r.Entry, linearSpeed, qs, f.Lin, f.PCurv)
+			f.PCurv = oneWindow(d, idx, linearSpeed, qs, f.Lin, f.PCurv)
 		}
 		if f.PCurv < alpha {
-			f.cut(r.Windows, r.Entry, linearSpeed)
+			f.cut(d, linearSpeed)
 		}
 		if f.Lin == nil {
 			continue
@@ -211,20 +215,21 @@ func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
 // (the residual check's business), not a bend of the axle, which every
 // window at the speeds beyond it shares (a deletion diagnostic; Cook &
 // Weisberg, Residuals and Influence in Regression, 1982, §3.4).
-func oneWindow(ws []height.Window, idx []int, e *campaign.RideHeightEntry, linearSpeed bool, qs float64, lin *wlsFit, p float64) float64 {
+func oneWindow(d *entryData, idx []int, linearSpeed bool, qs float64, lin *wlsFit, p float64) float64 {
 	k, _ := worst(lin, 1)
 	if k < 0 {
 		return p
 	}
 	rest := append(append([]int(nil), idx[:k]...), idx[k+1:]...)
-	if q, fit := curvature(ws, rest, e, linearSpeed, qs); fit != nil {
+	if q, fit := curvature(d, rest, linearSpeed, qs); fit != nil {
 		return math.Max(p, q)
 	}
 	return p
 }
 
 // cut drops the fastest driven speeds until the rest is linear.
-func (f *cfgFit) cut(ws []height.Window, e *campaign.RideHeightEntry, linearSpeed bool) {
+func (f *cfgFit) cut(d *entryData, linearSpeed bool) {
+	ws := d.ws
 	lv := levels(ws, f.All)
 	for n := len(lv) - 1; n >= 3; n-- {
 		top := lv[n-1][1]
@@ -234,7 +239,7 @@ func (f *cfgFit) cut(ws []height.Window, e *campaign.RideHeightEntry, linearSpee
 				keep = append(keep, i)
 			}
 		}
-		p, lin := curvature(ws, keep, e, linearSpeed, f.QScale)
+		p, lin := curvature(d, keep, linearSpeed, f.QScale)
 		if lin != nil && p >= 0.05 {
 			f.Kept, f.Lin = keep, lin
 			f.CutKmh = 5 * math.Round((top+lv[n][0])/2/5)

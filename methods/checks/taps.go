@@ -53,20 +53,19 @@ func meanCp(r *pressure.Result, id, config string, sigma float64) tapCp {
 }
 
 // Blocked-tap thresholds (common practice, no source): a tap reads "near
-// zero" when |Cp| < 0.03 and under a quarter of its neighbours', which must
-// share a sign and reach |Cp| ≥ 0.08: a smooth pressure field between two
-// suctions (or two overpressures) does not dip to ambient.
+// zero" when |Cp| < 0.03; it read "clearly" in another configuration when
+// |Cp| ≥ 0.08 there; and it "lost" its reading when it moved towards zero
+// by more than half of that beyond what its neighbours moved.
 const (
 	cpZero      = 0.03
 	cpNeighbour = 0.08
-	cpRatio     = 0.25
+	cpLost      = 0.5
 )
 
 // neighbours returns the nearest tap ahead and the nearest behind on the
-// same surface, or nil for a tap at either end (whose field may cross zero
-// past its last neighbour).
-func neighbours(panels []pressure.Panel, k int) []int {
-	ahead, behind := -1, -1
+// same surface (−1 where there is none).
+func neighbours(panels []pressure.Panel, k int) (ahead, behind int) {
+	ahead, behind = -1, -1
 	for j, p := range panels {
 		if j == k || p.Surface != panels[k].Surface {
 			continue
@@ -78,58 +77,134 @@ func neighbours(panels []pressure.Panel, k int) []int {
 			behind = j
 		}
 	}
-	if ahead < 0 || behind < 0 {
-		return nil
-	}
-	return []int{ahead, behind}
+	return ahead, behind
 }
 
-// tapBlocked reports taps whose Cp is near zero in a configuration while
-// their neighbours' is not, when the weaker neighbour's |Cp| exceeds the
-// tap's by more than noise: one-sided z = (|Cp_n| − |Cp_t|)/√(se_n² + se_t²)
-// at alphaBlocked shared over taps × configurations.
-func tapBlocked(c *campaign.Campaign, r *pressure.Result) []Check {
-	sigma := tapNoise(r.Entry)
-	m := float64(len(r.Panels) * len(c.Configurations))
-	var out []Check
-	for k, pn := range r.Panels {
-		nb := neighbours(r.Panels, k)
-		if len(nb) == 0 {
+// change is how a tap's Cp moved from configuration from to configuration
+// to, with its standard error.
+func change(r *pressure.Result, id, to, from string, sigma float64) (d, se float64, ok bool) {
+	a, b := meanCp(r, id, to, sigma), meanCp(r, id, from, sigma)
+	if a.N == 0 || b.N == 0 {
+		return 0, 0, false
+	}
+	return a.Cp - b.Cp, math.Hypot(a.SE, b.SE), true
+}
+
+// neighbourChange is the change of Cp between two configurations that tap
+// k's neighbours suggest at its position: linear in x between the one
+// ahead and the one behind, or, at an end of the row, extrapolated along
+// the line through the two nearest taps on the side it has (none with a
+// single other tap on its surface).
+func neighbourChange(r *pressure.Result, k int, to, from string, sigma float64) (d, se float64, ok bool) {
+	js := bracket(r.Panels, k)
+	if js == nil {
+		return 0, 0, false
+	}
+	xa, xb, x := r.Panels[js[0]].X, r.Panels[js[1]].X, r.Panels[k].X
+	ws := []float64{(xb - x) / (xb - xa), (x - xa) / (xb - xa)}
+	var v float64
+	for i, j := range js {
+		dj, sj, okj := change(r, r.Panels[j].ID, to, from, sigma)
+		if !okj {
+			return 0, 0, false
+		}
+		d += ws[i] * dj
+		v += ws[i] * ws[i] * sj * sj
+	}
+	return d, math.Sqrt(v), true
+}
+
+// bracket returns the two taps on tap k's surface whose line gives its
+// neighbours' change: the nearest ahead and behind, or the two nearest on
+// its one side; nil when there are not two at distinct positions.
+func bracket(panels []pressure.Panel, k int) []int {
+	ahead, behind := neighbours(panels, k)
+	if ahead >= 0 && behind >= 0 {
+		return []int{ahead, behind}
+	}
+	first := max(ahead, behind)
+	if first < 0 {
+		return nil
+	}
+	second := -1
+	for j, p := range panels {
+		if j == k || j == first || p.Surface != panels[k].Surface || p.X == panels[first].X {
 			continue
 		}
+		sameSide := (p.X-panels[k].X)*(panels[first].X-panels[k].X) > 0
+		if sameSide && (second < 0 || math.Abs(p.X-panels[k].X) < math.Abs(panels[second].X-panels[k].X)) {
+			second = j
+		}
+	}
+	if second < 0 {
+		return nil
+	}
+	return []int{first, second}
+}
+
+// tapBlocked reports a tap that reads near zero in one configuration
+// (|Cp| < 0.03) after reading clearly in another (|Cp| ≥ 0.08) — a tube
+// pinched or pulled off its port between the two — when it lost more than
+// half of that reading beyond what its neighbours' change suggests at its
+// place (neighbourChange): r = ΔCp_t − ΔCp_neighbours, tested one-sided,
+// z = |r|/se_r, at alphaBlocked shared over taps × ordered pairs of
+// configurations. A tap near zero with nothing to compare it with is not
+// reported: a pressure field crosses zero between two suctions at a
+// windscreen base, so ambient pressure alone says nothing, and a tube
+// blocked all day that holds a pressure other than ambient shows in the
+// Cp-against-speed test instead.
+func tapBlocked(c *campaign.Campaign, r *pressure.Result) []Check {
+	sigma := tapNoise(r.Entry)
+	nc := len(c.Configurations)
+	m := float64(len(r.Panels) * nc * max(1, nc-1))
+	var out []Check
+	for k, pn := range r.Panels {
 		for _, cfg := range c.Configurations {
 			t := meanCp(r, pn.ID, cfg.ID, sigma)
 			if t.N == 0 || math.Abs(t.Cp) >= cpZero {
 				continue
 			}
-			weak, sign, ok := math.Inf(1), 0.0, true
-			var weakSE float64
-			for _, j := range nb {
-				n := meanCp(r, r.Panels[j].ID, cfg.ID, sigma)
-				s := math.Copysign(1, n.Cp)
-				if math.Abs(n.Cp) < cpNeighbour || math.Abs(t.Cp) > cpRatio*math.Abs(n.Cp) || (sign != 0 && s != sign) {
-					ok = false
-					break
-				}
-				sign = s
-				if math.Abs(n.Cp) < weak {
-					weak, weakSE = math.Abs(n.Cp), n.SE
-				}
+			if ch, ok := blockedAgainst(c, r, k, cfg.ID, t, sigma, m); ok {
+				out = append(out, ch)
 			}
-			if !ok {
-				continue
-			}
-			p := distuv.UnitNormal.Survival((weak - math.Abs(t.Cp)) / math.Hypot(weakSE, t.SE))
-			if p >= alphaBlocked/m {
-				continue
-			}
-			out = append(out, Check{Check: IDTapBlocked, Entry: r.Entry.ID, Config: cfg.ID, PValue: math.Min(1, p*m),
-				Where:  fmt.Sprintf("tap %s (%s, x = %.2f m): Cp %.3f, neighbours ≥ %.2f in size", pn.ID, pn.Surface, pn.X, t.Cp, weak),
-				Cause:  "the tap reads ambient where its neighbours are in suction or overpressure: blocked or pinched tube, or a tube off its port",
-				Action: fmt.Sprintf("blow through tap %s's tube and re-run %s, or drop the tap and declare its area uncovered", pn.ID, cfg.ID)})
 		}
 	}
 	return out
+}
+
+// blockedAgainst tests tap k, near zero in config (t), against every other
+// configuration where it read clearly, and returns the strongest finding.
+func blockedAgainst(c *campaign.Campaign, r *pressure.Result, k int, config string, t tapCp, sigma, m float64) (Check, bool) {
+	pn := r.Panels[k]
+	best, bestP := Check{}, 1.0
+	for _, o := range c.Configurations {
+		if o.ID == config {
+			continue
+		}
+		was := meanCp(r, pn.ID, o.ID, sigma)
+		if was.N == 0 || math.Abs(was.Cp) < cpNeighbour {
+			continue
+		}
+		nd, nse, ok := neighbourChange(r, k, config, o.ID, sigma)
+		if !ok {
+			continue
+		}
+		res := (t.Cp - was.Cp) - nd
+		if -res*math.Copysign(1, was.Cp) < cpLost*math.Abs(was.Cp) {
+			continue
+		}
+		p := distuv.UnitNormal.Survival(math.Abs(res) / math.Hypot(math.Hypot(t.SE, was.SE), nse))
+		if p*m >= alphaBlocked || p >= bestP {
+			continue
+		}
+		bestP = p
+		best = Check{Check: IDTapBlocked, Entry: r.Entry.ID, Config: config, PValue: math.Min(1, p*m),
+			Where: fmt.Sprintf("tap %s (%s, x = %.2f m): Cp %.3f in %s against %.3f in %s, where its neighbours moved by %+.3f",
+				pn.ID, pn.Surface, pn.X, t.Cp, config, was.Cp, o.ID, nd),
+			Cause:  "the tap reads ambient in this configuration where it read clearly in another and its neighbours did not change so: a blocked or pinched tube, or a tube off its port",
+			Action: fmt.Sprintf("blow through tap %s's tube and re-run %s, or drop the tap and declare its area uncovered", pn.ID, config)}
+	}
+	return best, bestP < 1
 }
 
 // tapSpeed tests, per tap and configuration, whether Cp changes with

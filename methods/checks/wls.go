@@ -124,3 +124,24 @@ func chi2Survival(x float64, k int) float64 {
 func normTwoSided(z float64) float64 {
 	return 2 * distuv.UnitNormal.Survival(math.Abs(z))
 }
+
+// extraTest is the p-value of a restricted fit against a full one when the
+// weights may be right or may be too large: the larger of the F test
+// (whose scale comes from the residuals) and the χ² test of the extra sum
+// of squares on the stated variances, RSS_r − RSS_f ~ χ²_k when the
+// weights are the inverse variances (Draper & Smith, §6.2). Under the
+// restricted model each p-value is uniform when its scale is the right
+// one, so the larger is valid in either case (an intersection–union test;
+// Casella & Berger, Statistical Inference, 2nd ed., §8.2.3). A departure
+// smaller than the errors the fusion is told the windows have then does
+// not trip, however well the residuals repeat it: a steady window that
+// catches the edge of a ramp carries a little of its pitch that the
+// window's mean acceleration models only to about one sample.
+func extraTest(restricted, full *wlsFit) float64 {
+	pf := fTest(restricted, full)
+	k := restricted.DF - full.DF
+	if k <= 0 {
+		return 1
+	}
+	return math.Max(pf, chi2Survival(math.Max(0, restricted.RSS-full.RSS), k))
+}

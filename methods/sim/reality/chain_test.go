@@ -11,10 +11,12 @@ import (
 	"liftfuse/fuse"
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/checks"
 	"liftfuse/methods/sim/reality"
 )
 
-// fuseDay loads, reduces and fuses a written campaign as the CLI does.
+// fuseDay loads, reduces, checks and fuses a written campaign as the CLI
+// does (cmd/liftfuse, analyseChecked).
 func fuseDay(t *testing.T, dir string) *fuse.Result {
 	t.Helper()
 	c, err := campaign.Load(filepath.Join(dir, reality.CampaignFile), campaign.Options{})
@@ -25,9 +27,13 @@ func fuseDay(t *testing.T, dir string) *fuse.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
+	var cs []fuse.Check
+	for _, k := range checks.Run(c, r) {
+		cs = append(cs, fuse.Check(k))
+	}
 	ids := c.ConfigIDs()
 	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence(), Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh,
-		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
+		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings, Checks: cs,
 		Settings: fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 			Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}})
 	if err != nil {
