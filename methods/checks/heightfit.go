@@ -274,6 +274,38 @@ func median(a []float64) float64 {
 	return (b[n/2-1] + b[n/2]) / 2
 }
 
+// levelPools returns, for each window, the median of vn over the windows
+// at its driven speed (the speed levels of levels: sorted speeds split where
+// they step by speedLevelGapKmh or more), or 0 where fewer than three
+// windows share it. One sort, so the cost is n·log n in the windows.
+func levelPools(ws []height.Window, vn []float64) []float64 {
+	order := make([]int, len(ws))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return ws[order[a]].SpeedKmh < ws[order[b]].SpeedKmh })
+	out := make([]float64, len(ws))
+	in := make([]float64, 0, len(ws))
+	for lo := 0; lo < len(order); {
+		hi := lo + 1
+		for hi < len(order) && ws[order[hi]].SpeedKmh-ws[order[hi-1]].SpeedKmh < speedLevelGapKmh {
+			hi++
+		}
+		if hi-lo >= 3 {
+			in = in[:0]
+			for _, i := range order[lo:hi] {
+				in = append(in, vn[i])
+			}
+			m := median(in)
+			for _, i := range order[lo:hi] {
+				out[i] = m
+			}
+		}
+		lo = hi
+	}
+	return out
+}
+
 // windowVars returns each window's variance σ_i² = v_i/N_i + friction²/3,
 // where v_i is the pooled variance-times-samples SE²·N (for a stationary
 // noise SE² ∝ 1/N): the larger of the median over the entry's windows and
@@ -287,31 +319,17 @@ func median(a []float64) float64 {
 // medians are divided by it.
 func windowVars(ws []height.Window, frictionMm float64) []float64 {
 	vn := make([]float64, len(ws))
-	idx := make([]int, len(ws))
 	ne := make([]float64, len(ws))
 	for i, w := range ws {
 		vn[i] = w.SE * w.SE * float64(w.N)
-		idx[i] = i
 		ne[i] = w.NEff
 	}
 	nu := math.Max(2, median(ne)-1)
 	unbias := math.Pow(1-2/(9*nu), 3)
 	pool := median(vn) / unbias
-	level := make([]float64, len(ws))
-	for _, lv := range levels(ws, idx) {
-		var in []float64
-		var members []int
-		for i, w := range ws {
-			if w.SpeedKmh >= lv[0] && w.SpeedKmh <= lv[1] {
-				in = append(in, vn[i])
-				members = append(members, i)
-			}
-		}
-		if len(in) >= 3 {
-			for _, i := range members {
-				level[i] = median(in) / unbias
-			}
-		}
+	level := levelPools(ws, vn)
+	for i := range level {
+		level[i] /= unbias
 	}
 	out := make([]float64, len(ws))
 	for i, w := range ws {
