@@ -89,8 +89,11 @@ func (u unionFind) union(i, j int) { u[u.find(i)] = u.find(j) }
 
 // buildLayout finds the components and the shared nuisances: lift columns
 // (β, γ) that share an observation are one component; a nuisance that
-// shares observations with the lift columns of two or more components is
-// shared; the rest join the component they meet.
+// shares observations with the lift columns of two or more configurations
+// (not tied by an observation) is shared; the rest join the components
+// they meet. A nuisance of one configuration's run (its wind, seen by the
+// front and the rear sensors) so joins that configuration's front and rear
+// columns instead of growing the shared block with the number of runs.
 func (m *model) buildLayout() {
 	p := len(m.lin)
 	cl := m.cliques()
@@ -109,8 +112,21 @@ func (m *model) buildLayout() {
 			}
 		}
 	}
+	// lift classes: lift columns that share an observation, and those of
+	// one configuration, are one class
 	lift := newUnionFind(p)
 	joinWithin(lift, isLift)
+	byConfig := map[string]int{}
+	for c, lp := range m.lin {
+		if !isLift(c) {
+			continue
+		}
+		if first, ok := byConfig[lp.config]; ok {
+			lift.union(first, c)
+		} else {
+			byConfig[lp.config] = c
+		}
+	}
 	meets := make([]map[int]bool, p)
 	for _, c := range cl {
 		for _, a := range c {
