@@ -159,6 +159,7 @@ type data struct {
 	// other blocks, conditioned row by row.
 	groups     []group
 	fullBlocks []int
+	terms      *termTable // the groups merged by basis function (terms.go)
 	lay        *layout // the order Λ is factorised in
 	// scaleSets are the distinct scales of the rows, so that a
 	// conditioning computes each s(φ) once
