@@ -32,6 +32,9 @@ type layout struct {
 	// p². base[i] = Σ_{r<i}(r − first[r] + 1) − first[i] ≥ 0.
 	base []int
 	size int
+	// colRow[colPtr[j]:colPtr[j+1]] are the rows k > j with first[k] ≤ j.
+	colPtr []int
+	colRow []int32
 }
 
 // sym returns where element (i, j) or (j, i) of a symmetric matrix held by
@@ -237,7 +240,32 @@ func orderLayout(p int, cl [][]int, u unionFind, shared func(int) bool) *layout 
 		off += i - lay.first[i] + 1
 	}
 	lay.size = off
+	lay.columns()
 	return lay
+}
+
+// columns lists, for each position j, the rows k > j whose envelope reaches
+// j (first[k] ≤ j), ascending: the strictly lower column j of the
+// envelope, for the reverse-mode Cholesky (chol.go).
+func (l *layout) columns() {
+	p := len(l.first)
+	l.colPtr = make([]int, p+1)
+	for k := range p {
+		for j := l.first[k]; j < k; j++ {
+			l.colPtr[j+1]++
+		}
+	}
+	for j := range p {
+		l.colPtr[j+1] += l.colPtr[j]
+	}
+	l.colRow = make([]int32, l.colPtr[p])
+	next := append([]int(nil), l.colPtr[:p]...)
+	for k := range p {
+		for j := l.first[k]; j < k; j++ {
+			l.colRow[next[j]] = int32(k)
+			next[j]++
+		}
+	}
 }
 
 // span returns the positions [lo, hi) of component k.

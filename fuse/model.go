@@ -160,7 +160,7 @@ type data struct {
 	groups     []group
 	fullBlocks []int
 	terms      *termTable // the groups merged by basis function (terms.go)
-	lay        *layout // the order Λ is factorised in
+	lay        *layout    // the order Λ is factorised in
 	// scaleSets are the distinct scales of the rows, so that a
 	// conditioning computes each s(φ) once
 	scaleSets [][]phiRef

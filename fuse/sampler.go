@@ -116,8 +116,10 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 	return -v
 }
 
-// laplace finds the mode of p(φ | y) and the inverse of the curvature there,
-// and returns a Laplace estimate of log p(y).
+// laplace finds the mode of p(φ | y) by BFGS (gonum optimize) with the
+// reverse-mode gradient (gradient.go), and the inverse of the curvature
+// there by central differences of that gradient, and returns a Laplace
+// estimate of log p(y).
 func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err error) {
 	d := len(m.phi)
 	if d == 0 {
@@ -128,27 +130,16 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		}
 		return nil, nil, -f, nil
 	}
-	var buf cond
-	f := func(phi []float64) float64 { return m.objective(phi, &buf) }
+	lf := &laplaceFns{m: m}
 	x0 := make([]float64, d)
 	for i, p := range m.phi {
 		x0[i] = m.start[p.name] // a warm start where one is known
 	}
-	if math.IsInf(f(x0), 1) {
+	if math.IsInf(lf.f(x0), 1) {
 		var c cond
 		if err := m.condition(x0, &c); err != nil {
 			return nil, nil, 0, err
 		}
-	}
-	// Central differences with a step of 1e-5 (φ are log scales and winds
-	// in m/s): the objective sums many rows, so its rounding error grows
-	// with the campaign, and forward differences at the default step of
-	// ~1e-8 turned it into a gradient error of order 10 on a 24-
-	// configuration day, which left BFGS far from the mode and the
-	// proposal off-centre (common practice (no source): step ∝ ε^(1/3)).
-	prob := optimize.Problem{
-		Func: f,
-		Grad: func(g, x []float64) { fd.Gradient(g, f, x, &fd.Settings{Formula: fd.Central, Step: gradStep}) },
 	}
 	// A failed line search or the iteration limit still leaves a usable best
 	// point; the chains correct for an imperfect proposal.
@@ -156,27 +147,91 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	// (the objective's rounding keeps the gradient from ever reaching the
 	// threshold on a large campaign).
 	conv := &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 2}
+	prob := optimize.Problem{Func: lf.f, Grad: lf.grad}
 	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
 	mode = x0
 	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
 		mode = res.X // also when the optimiser stopped early: its best point
 	}
-	H := mat.NewSymDense(d, nil)
-	fd.Hessian(H, f, mode, &fd.Settings{Formula: fd.Central})
+	H := lf.hessian(mode)
 	var ch mat.Cholesky
 	cov = mat.NewSymDense(d, nil)
 	if ch.Factorize(H) && ch.InverseTo(cov) == nil {
-		logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
+		logZ = -lf.f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
 		return mode, cov, logZ, nil
 	}
 	// The curvature is not positive definite (a flat direction): fall back
 	// on the prior spread, for the proposal and for the evidence alike.
-	logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi)
+	logZ = -lf.f(mode) + 0.5*float64(d)*math.Log(2*math.Pi)
 	for i, p := range m.phi {
 		cov.SetSym(i, i, p.sd*p.sd)
 		logZ += math.Log(p.sd)
 	}
 	return mode, cov, logZ, nil
+}
+
+// laplaceFns are the Laplace fit's objective, gradient and curvature,
+// sharing one conditioning buffer: the line search asks for f and ∇f at
+// the same φ, and the gradient then reuses f's conditioning.
+type laplaceFns struct {
+	m    *model
+	c    cond
+	gb   gradBuf
+	last []float64 // the φ whose conditioning c holds, if finite
+	ok   bool
+}
+
+func (lf *laplaceFns) f(phi []float64) float64 {
+	v := lf.m.objective(phi, &lf.c)
+	lf.last, lf.ok = append(lf.last[:0], phi...), !math.IsInf(v, 1)
+	return v
+}
+
+// grad writes ∇f at φ into g. A model the reverse pass does not cover
+// (hasGradient) takes central differences with a step of 1e-5 (φ are log
+// scales and winds in m/s; forward differences at the default step of
+// ~1e-8 met the objective's rounding on a 24-configuration day, common
+// practice (no source): step ∝ ε^(1/3)).
+func (lf *laplaceFns) grad(g, phi []float64) {
+	if !lf.m.hasGradient() {
+		fd.Gradient(g, lf.f, phi, &fd.Settings{Formula: fd.Central, Step: gradStep})
+		return
+	}
+	fresh := !lf.ok || !slices.Equal(phi, lf.last)
+	v := lf.m.objectiveGrad(phi, g, &lf.c, &lf.gb, fresh)
+	lf.last, lf.ok = append(lf.last[:0], phi...), !math.IsInf(v, 1)
+}
+
+// hessian returns the curvature of f at φ: central differences of the
+// gradient, step h = gradStep·max(1, |φ_j|), symmetrised (without the
+// reverse pass, gonum's central-difference Hessian of f).
+func (lf *laplaceFns) hessian(phi []float64) *mat.SymDense {
+	d := len(phi)
+	H := mat.NewSymDense(d, nil)
+	if !lf.m.hasGradient() {
+		fd.Hessian(H, lf.f, phi, &fd.Settings{Formula: fd.Central})
+		return H
+	}
+	J := mat.NewDense(d, d, nil)
+	x := slices.Clone(phi)
+	gp, gm := make([]float64, d), make([]float64, d)
+	for j := range d {
+		h := gradStep * math.Max(1, math.Abs(phi[j]))
+		x[j] = phi[j] + h
+		lf.grad(gp, x)
+		x[j] = phi[j] - h
+		lf.grad(gm, x)
+		x[j] = phi[j]
+		for i := range d {
+			J.Set(i, j, (gp[i]-gm[i])/(2*h))
+		}
+	}
+	for i := range d {
+		for j := i; j < d; j++ {
+			H.SetSym(i, j, 0.5*(J.At(i, j)+J.At(j, i)))
+		}
+	}
+	return H
 }
 
 // sample computes the posterior: closed form when it can, else the chains.

@@ -3,6 +3,7 @@ package fuse
 import (
 	"cmp"
 	"slices"
+	"sort"
 )
 
 // Merged sufficient statistics. Every element of a group's contribution to
@@ -36,6 +37,8 @@ type termTable struct {
 	lamPtr, bPtr   []int
 	lamIdx, bIdx   []int32
 	lamCoef, bCoef []float64
+	// lamRow, lamCol are the positions (i ≥ j) of each element of lamIdx
+	lamRow, lamCol []int32
 	yWy            []float64 // per entry: Σ yᵀΣ⁻¹y of its grouped rows
 }
 
@@ -95,7 +98,21 @@ func (m *model) buildTerms() {
 	}
 	t.lamPtr, t.lamIdx, t.lamCoef = flattenTerms(tb.lam)
 	t.bPtr, t.bIdx, t.bCoef = flattenTerms(tb.b)
+	t.lamRow, t.lamCol = m.lay.elements(t.lamIdx)
 	m.terms = t
+}
+
+// elements returns the row and column (i ≥ j) of elements of the envelope
+// storage given by their index base[i] + j. Row i takes the indices
+// base[i] + first[i] … base[i] + i, rows one after another.
+func (l *layout) elements(idx []int32) (rows, cols []int32) {
+	rows, cols = make([]int32, len(idx)), make([]int32, len(idx))
+	p := len(l.base)
+	for n, at := range idx {
+		i := sort.Search(p, func(i int) bool { return l.base[i]+l.first[i] > int(at) }) - 1
+		rows[n], cols[n] = int32(i), at-int32(l.base[i])
+	}
+	return rows, cols
 }
 
 // flattenTerms lays out per-basis maps as one index and one coefficient
