@@ -148,6 +148,7 @@ func (m *model) buildLayout() {
 	joinWithin(u, func(c int) bool { return !shared(c) })
 	m.lay = orderLayout(p, cl, u, shared)
 	m.compSigns = m.componentSigns()
+	m.markRepeats()
 	m.allSigns = make([]int, len(m.signs))
 	for i := range m.allSigns {
 		m.allSigns[i] = i

@@ -16,10 +16,11 @@ type looFits struct {
 	pOff          []float64
 
 	full *model
-	// setOthers are the settings of the others' fits; start is the joint
-	// posterior's mode of φ, where every fit begins.
-	setOthers Settings
-	start     map[string]float64
+	// setAlone and setOthers are the settings of the standalone and the
+	// others' fits; start is the joint posterior's mode of φ, where every
+	// fit begins.
+	setAlone, setOthers Settings
+	start               map[string]float64
 }
 
 // leaveOneOut fits each entry alone and every entry but it: 2M independent
@@ -32,7 +33,10 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	M := len(evs)
 	set := full.set
 	lo := &looFits{alone: make([]*Posterior, M), others: make([]*Posterior, M), pOff: make([]float64, M),
-		full: full, setOthers: set, start: modeStart(full, P)}
+		full: full, setAlone: set, setOthers: set, start: modeStart(full, P)}
+	// Their differences between configurations are not reported: their
+	// diagnostics need not track them.
+	lo.setAlone.reference, lo.setOthers.reference = "", ""
 	lo.setOthers.MinESS = math.Max(400, set.MinESS/2)
 	full.start = lo.start
 	errs := make([]error, 2*M)
@@ -80,9 +84,20 @@ func modeStart(full *model, P *Posterior) map[string]float64 {
 	return start
 }
 
-// fitAlone fits one entry on its own, p(θ | y_e).
+// fitAlone fits one entry on its own, p(θ | y_e), and compacts it (see
+// Posterior.compact): should its nuisances' draws be wanted later, the
+// same seeded fit is made again.
 func (lo *looFits) fitAlone(ev evidence.Evidence) (*Posterior, error) {
-	am, err := newModel([]evidence.Evidence{ev}, lo.full.set)
+	P, err := lo.fitAloneWhole(ev)
+	if err == nil {
+		P.compact(func() (*Posterior, error) { return lo.fitAloneWhole(ev) })
+	}
+	return P, err
+}
+
+// fitAloneWhole is fitAlone without the compaction.
+func (lo *looFits) fitAloneWhole(ev evidence.Evidence) (*Posterior, error) {
+	am, err := newModel([]evidence.Evidence{ev}, lo.setAlone)
 	if err != nil {
 		return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
 	}
@@ -105,15 +120,50 @@ func (lo *looFits) othersModel(evs []evidence.Evidence, ei int) (*model, error) 
 	return om, nil
 }
 
-// fitOthers fits every entry but entry ei, p(θ | y_−e).
+// fitOthers fits every entry but entry ei, p(θ | y_−e), and compacts it
+// once its joint moments, which the agreement of an entry with Gaussian
+// data needs, are computed (see Posterior.compact).
 func (lo *looFits) fitOthers(evs []evidence.Evidence, ei int) (*Posterior, error) {
-	om, err := lo.othersModel(evs, ei)
-	var P *Posterior
-	if err == nil {
-		P, err = om.fit()
+	fit := func() (*Posterior, error) {
+		om, err := lo.othersModel(evs, ei)
+		if err != nil {
+			return nil, err
+		}
+		return om.fit()
 	}
+	P, err := fit()
 	if err != nil {
 		return nil, fmt.Errorf("every entry but %q: %w", evs[ei].Entry, err)
 	}
+	compactOthers(P, evs[ei], fit)
 	return P, nil
+}
+
+// compactRefitted compacts the others' posteriors that robustOthers fitted
+// anew, refitting them the same way should they be needed whole.
+func (lo *looFits) compactRefitted(evs []evidence.Evidence) {
+	for ei, O := range lo.others {
+		if O == nil || O.compacted {
+			continue
+		}
+		compactOthers(O, evs[ei], func() (*Posterior, error) {
+			om, err := lo.othersModel(evs, ei)
+			if err != nil {
+				return nil, err
+			}
+			if off := lo.offAmongOthers(ei); len(off) > 0 {
+				om = om.variant(off, true, true)
+			}
+			return om.fit()
+		})
+	}
+}
+
+// compactOthers computes the joint moments of an others' posterior where
+// the entry's agreement needs them (Gaussian data) and compacts it.
+func compactOthers(P *Posterior, ev evidence.Evidence, refit func() (*Posterior, error)) {
+	if len(ev.Blocks) > 0 {
+		P.joint()
+	}
+	P.compact(refit)
 }

@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"sync"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods/evidence"
@@ -31,7 +33,17 @@ type Posterior struct {
 	level float64
 	// joint draws for non-linear summaries of a closed-form posterior,
 	// made on first use
-	gdraws [][]float64
+	gdraws []*drawStore
+
+	// the joint moments over (θ, φ), computed on first use (joint.go)
+	mu    sync.Mutex
+	jmean []float64
+	jcov  *mat.SymDense
+	// compacted: the draws of the nuisance columns were dropped (compact);
+	// refit makes them again, into whole
+	compacted bool
+	refit     func() (*Posterior, error)
+	whole     *Posterior
 }
 
 // Fit computes the posterior of the evidence under the settings.
@@ -145,22 +157,23 @@ func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
 	if P.gdraws == nil {
 		p := len(P.p.m.lin)
 		const n = 2000
-		P.gdraws = make([][]float64, nChains)
+		P.gdraws = make([]*drawStore, nChains)
 		for c := range P.gdraws {
 			rng := rand.New(rand.NewPCG(P.p.m.set.Seed, uint64(c)+101))
-			d := make([]float64, n*p)
-			z := make([]float64, p)
-			for i := range n {
+			d := newDrawStore(p)
+			z, theta := make([]float64, p), make([]float64, p)
+			for range n {
 				for j := range z {
 					z[j] = rng.NormFloat64()
 				}
-				P.p.cond.draw(z, d[i*p:(i+1)*p])
+				P.p.cond.draw(z, theta)
+				d.add(theta)
 			}
 			P.gdraws[c] = d
 		}
 	}
 	saved := P.p.draws
-	P.p.draws, P.p.n = P.gdraws, len(P.gdraws[0])/len(P.p.m.lin)
+	P.p.draws, P.p.n = P.gdraws, P.gdraws[0].n
 	defer func() { P.p.draws = saved }()
 	return P.p.series(w)
 }
@@ -224,7 +237,7 @@ func (P *Posterior) Fitted(entry string) ([]float64, error) {
 	if e < 0 {
 		return nil, fmt.Errorf("no entry %q in this posterior", entry)
 	}
-	mean, _ := P.joint()
+	mean := P.jointMean()
 	p := len(m.lin)
 	var out []float64
 	var buf []entryRef

@@ -2,6 +2,7 @@ package fuse
 
 import (
 	"fmt"
+	"sync"
 
 	"liftfuse/methods/evidence"
 )
@@ -47,6 +48,7 @@ type Fused struct {
 // checks.
 func Run(in Input) (*Fused, error) {
 	set := in.Settings.withDefaults()
+	set.reference = in.Reference
 	full, err := newModel(in.Evidence, set)
 	if err != nil {
 		return nil, err
@@ -74,6 +76,7 @@ func Run(in Input) (*Fused, error) {
 	if err := lo.robustOthers(in.Evidence); err != nil {
 		return nil, err
 	}
+	lo.compactRefitted(in.Evidence)
 	methodResults(res, out, full, in.Evidence, lo)
 	if err := robustHeadline(out, full, in, set, lo); err != nil {
 		return nil, err
@@ -152,13 +155,14 @@ func deltaResults(res *Result, P *Posterior, reference string, configs []string)
 // when p < flagP or P(off) > flagOff); it records the leave-one-out
 // posteriors in out.
 func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence, lo *looFits) {
+	ags, sts := agreements(full, evs, lo)
 	for ei, ev := range evs {
 		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(lo.alone[ei], ev)}
 		out.Standalone[ev.Entry] = lo.alone[ei]
 		if len(evs) > 1 {
 			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag, st := agreement(full, ei, ev, O)
+			ag, st := ags[ei], sts[ei]
 			out.loo[ev.Entry] = st
 			ag.POff = lo.pOff[ei]
 			ag.Flag = ag.flagged()
@@ -172,6 +176,33 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 	if len(evs) == 1 {
 		res.Warnings = append(res.Warnings, "a single evidence entry: nothing to check it against, so no agreement figures")
 	}
+}
+
+// agreements computes every entry's agreement with the others (none with
+// a single entry), two entries at a time: each reads only the joint model
+// and its own others' posterior.
+func agreements(full *model, evs []evidence.Evidence, lo *looFits) ([]*Agreement, []*looStat) {
+	ags, sts := make([]*Agreement, len(evs)), make([]*looStat, len(evs))
+	if len(evs) < 2 {
+		return ags, sts
+	}
+	jobs := make(chan int)
+	var wg sync.WaitGroup
+	for range 2 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for ei := range jobs {
+				ags[ei], sts[ei] = agreement(full, ei, evs[ei], lo.others[ei])
+			}
+		}()
+	}
+	for ei := range evs {
+		jobs <- ei
+	}
+	close(jobs)
+	wg.Wait()
+	return ags, sts
 }
 
 // diagnostics returns how the fused posterior was computed, warning when a

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"sync"
 
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
@@ -59,10 +60,10 @@ type Diagnostics struct {
 type posterior struct {
 	m        *model
 	gaussian bool
-	cond     cond        // the closed form, when gaussian
-	draws    [][]float64 // per chain: n×p linear draws, row-major
-	phiDraws [][]float64 // per chain: n×d
-	n        int         // draws per chain
+	cond     cond         // the closed form, when gaussian
+	draws    []*drawStore // per chain: the linear draws (the first n count)
+	phiDraws []*drawStore // per chain: the non-linear draws
+	n        int          // draws per chain
 	phiMode  []float64
 	logZ     float64 // Laplace estimate of log p(y), for the robust layer
 	diag     Diagnostics
@@ -305,14 +306,7 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 			continue // ESS cannot exceed the draws yet
 		}
 		post.collect(chains, n, prop.p, prop.d)
-		rmax, emin := 1.0, math.Inf(1)
-		var buf []float64
-		for _, q := range tracked {
-			var chains [][]float64
-			chains, buf = post.seriesInto(q, buf)
-			r, e := RhatESS(chains)
-			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
-		}
+		rmax, emin := post.diagnose(tracked)
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
 		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
 			post.keep()
@@ -323,6 +317,30 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 	}
 }
 
+// diagnose returns the largest R̂ and the smallest bulk ESS of the tracked
+// quantities, diagnosed by two goroutines (the chains are idle meanwhile).
+func (post *posterior) diagnose(tracked [][]entryRef) (rmax, emin float64) {
+	const workers = 2
+	rs, es := make([]float64, workers), make([]float64, workers)
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var buf []float64
+			rs[w], es[w] = 1, math.Inf(1)
+			for qi := w; qi < len(tracked); qi += workers {
+				var chains [][]float64
+				chains, buf = post.seriesInto(tracked[qi], buf)
+				r, e := RhatESS(chains)
+				rs[w], es[w] = math.Max(rs[w], r), math.Min(es[w], e)
+			}
+		}()
+	}
+	wg.Wait()
+	return math.Max(rs[0], rs[1]), math.Min(es[0], es[1])
+}
+
 // collect keeps the first n draws of every chain (p linear and d
 // non-linear parameters per draw).
 func (post *posterior) collect(chains []*chainState, n, p, d int) {
@@ -330,32 +348,51 @@ func (post *posterior) collect(chains []*chainState, n, p, d int) {
 	post.draws = post.draws[:0]
 	post.phiDraws = post.phiDraws[:0]
 	for _, ch := range chains {
-		post.draws = append(post.draws, ch.draws[:n*p])
-		post.phiDraws = append(post.phiDraws, ch.phis[:n*d])
+		post.draws = append(post.draws, ch.draws)
+		post.phiDraws = append(post.phiDraws, ch.phis)
 	}
 }
 
-// keep copies the kept draws out of the chains' buffers, which grew by
-// doubling, so that a posterior held for later (the standalone and
-// leave-one-out fits are) holds no more memory than its draws.
+// keep drops the draws past the first n of every chain, so that a
+// posterior held for later (the standalone and leave-one-out fits are)
+// holds no more memory than its draws.
 func (post *posterior) keep() {
 	for c := range post.draws {
-		post.draws[c] = slices.Clone(post.draws[c])
-		post.phiDraws[c] = slices.Clone(post.phiDraws[c])
+		post.draws[c].trim(post.n)
+		post.phiDraws[c].trim(post.n)
 	}
 }
 
 // trackedColumns returns the quantities whose convergence gates sampling:
 // the front, rear and total β of every configuration the evidence speaks
-// of (the others are the prior, drawn exactly).
+// of (the others are the prior, drawn exactly) and, given the reference
+// configuration of the result (Settings.reference), each one's difference
+// to it — every figure of the result that is a linear function of β.
 func (m *model) trackedColumns() [][]entryRef {
 	var out [][]entryRef
+	axles := []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal}
 	for _, c := range m.set.Configs {
 		if !m.informed[c] {
 			continue
 		}
-		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+		for _, ax := range axles {
 			out = append(out, m.quantity(evidence.Quantity{Config: c, Axle: ax}))
+		}
+	}
+	ref := m.set.reference
+	if _, ok := m.beta[[2]string{ref, evidence.AxleFront}]; !ok {
+		return out
+	}
+	for _, c := range m.set.Configs {
+		if c == ref || (!m.informed[c] && !m.informed[ref]) {
+			continue
+		}
+		for _, ax := range axles {
+			d := m.quantity(evidence.Quantity{Config: c, Axle: ax})
+			for _, t := range m.quantity(evidence.Quantity{Config: ref, Axle: ax}) {
+				d = append(d, entryRef{t.col, -t.v})
+			}
+			out = append(out, d)
 		}
 	}
 	return out
@@ -370,18 +407,11 @@ func (p *posterior) series(w []entryRef) [][]float64 {
 // seriesInto is series with the chains cut from one buffer, grown as
 // needed and returned for reuse.
 func (p *posterior) seriesInto(w []entryRef, buf []float64) ([][]float64, []float64) {
-	np := len(p.m.lin)
 	buf = grow(buf, len(p.draws)*p.n)
 	out := make([][]float64, len(p.draws))
 	for c, d := range p.draws {
 		out[c] = buf[c*p.n : (c+1)*p.n]
-		for i := range p.n {
-			var x float64
-			for _, t := range w {
-				x += t.v * d[i*np+t.col]
-			}
-			out[c][i] = x
-		}
+		d.combine(w, out[c])
 	}
 	return out, buf
 }

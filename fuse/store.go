@@ -1,0 +1,115 @@
+package fuse
+
+// drawStore holds one chain's draws, width values each, in blocks of
+// storeBlock draws that are never moved once written (a single slice grown
+// by doubling copied every draw so far at each growth, and once more to
+// trim it). Within a block the draws are stored by column — value j of
+// draw k at j·storeBlock + k — so that a linear combination of a few
+// columns (every diagnosed and reported quantity) reads contiguous runs,
+// and a block is directly the D × k matrix of a rank-k covariance update.
+type drawStore struct {
+	width  int
+	blocks [][]float64 // each width·storeBlock long, but a trimmed last one
+	n      int         // draws held
+	// lastStride is the column stride of the last block: storeBlock, or
+	// the draws it holds once trimmed
+	lastStride int
+}
+
+// storeBlock is the number of draws in one block.
+const storeBlock = 256
+
+func newDrawStore(width int) *drawStore { return &drawStore{width: width} }
+
+// add appends one draw (len(x) == width).
+func (s *drawStore) add(x []float64) {
+	k := s.n % storeBlock
+	if k == 0 && s.width > 0 {
+		s.blocks = append(s.blocks, make([]float64, s.width*storeBlock))
+		s.lastStride = storeBlock
+	}
+	if s.width > 0 {
+		blk := s.blocks[len(s.blocks)-1]
+		for j, v := range x {
+			blk[j*storeBlock+k] = v
+		}
+	}
+	s.n++
+}
+
+// at writes draw i into dst (len width) and returns it.
+func (s *drawStore) at(i int, dst []float64) []float64 {
+	dst = grow(dst, s.width)
+	if s.width == 0 {
+		return dst
+	}
+	blk, _, stride := s.span(i/storeBlock, s.n)
+	k := i % storeBlock
+	for j := range dst {
+		dst[j] = blk[j*stride+k]
+	}
+	return dst
+}
+
+// trim drops the draws from n on, releases the blocks they alone held and
+// packs a last block that is partly filled (stride its own draws).
+func (s *drawStore) trim(n int) {
+	n = min(n, s.n)
+	s.n = n
+	nb := (n + storeBlock - 1) / storeBlock
+	if s.width == 0 || nb == 0 {
+		return
+	}
+	clear(s.blocks[nb:])
+	s.blocks = s.blocks[:nb]
+	k := n - (nb-1)*storeBlock
+	if k == storeBlock || s.lastStride != storeBlock {
+		return
+	}
+	old, packed := s.blocks[nb-1], make([]float64, s.width*k)
+	for j := range s.width {
+		copy(packed[j*k:(j+1)*k], old[j*storeBlock:j*storeBlock+k])
+	}
+	s.blocks[nb-1], s.lastStride = packed, k
+}
+
+// span returns the draws of block b among the first n: its columns, how
+// many draws it holds and its column stride (value j of draw k at
+// j·stride + k).
+func (s *drawStore) span(b, n int) ([]float64, int, int) {
+	stride := storeBlock
+	if b == len(s.blocks)-1 {
+		stride = s.lastStride
+	}
+	return s.blocks[b], min(storeBlock, n-b*storeBlock), stride
+}
+
+// combine writes Σ w·x[col] of the first len(dst) draws into dst.
+func (s *drawStore) combine(w []entryRef, dst []float64) {
+	clear(dst)
+	if s.width == 0 {
+		return
+	}
+	for b := 0; b*storeBlock < len(dst); b++ {
+		blk, k, stride := s.span(b, len(dst))
+		out := dst[b*storeBlock : b*storeBlock+k]
+		for _, t := range w {
+			col := blk[t.col*stride : t.col*stride+k]
+			for i, v := range col {
+				out[i] += t.v * v
+			}
+		}
+	}
+}
+
+// narrow keeps the first width columns of every draw.
+func (s *drawStore) narrow(width int) {
+	if width >= s.width {
+		return
+	}
+	for b := range s.blocks {
+		_, _, stride := s.span(b, s.n)
+		s.blocks[b] = append([]float64(nil), s.blocks[b][:width*stride]...)
+	}
+	s.width = width
+}
