@@ -47,9 +47,19 @@ func (l *layout) sym(i, j int) int {
 }
 
 // cliques returns the sets of columns of θ that appear together in Λ: the
-// columns of a group, and every column of a full block's rows.
+// columns of a group, and every column of a full block's rows; and those
+// of each sign's quantity, so that the lift columns a sign sees (front and
+// rear, for a sign of the total) are one component, redrawn together by
+// the component steps.
 func (m *model) cliques() [][]int {
 	var out [][]int
+	for si := range m.signs {
+		var c []int
+		for _, t := range m.signs[si].refs() {
+			c = append(c, t.col)
+		}
+		out = append(out, c)
+	}
 	for gi := range m.groups {
 		var c []int
 		for _, g := range m.groups[gi].cols {
