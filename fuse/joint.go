@@ -101,37 +101,52 @@ func (P *Posterior) jointMoments() ([]float64, *mat.SymDense) {
 	}
 	mean := P.drawMean()
 	// Second pass for the covariance (two passes are stabler than one):
-	// each block of centred draws as the columns of X (D × k), and
+	// blocks of centred draws as the columns of X (D × k), and
 	// C += X Xᵀ by the BLAS rank-k update (gonum's Dsyrk: dot products of
 	// contiguous rows, not one scattered update per draw and pair).
-	X := mat.NewDense(D, storeBlock, nil)
+	X := mat.NewDense(D, jointBlock, nil)
 	raw := X.RawMatrix()
+	k := 0 // draws in X
+	flush := func() {
+		if k > 0 {
+			cov.SymRankK(cov, 1, X.Slice(0, D, 0, k))
+			k = 0
+		}
+	}
 	for c := range P.p.draws {
 		for b := 0; b*storeBlock < P.p.n; b++ {
-			tb, k, ts := P.p.draws[c].span(b, P.p.n)
+			tb, nb, ts := P.p.draws[c].span(b, P.p.n)
 			var fb []float64
 			fs := 0
 			if len(m.phi) > 0 {
 				fb, _, fs = P.p.phiDraws[c].span(b, P.p.n)
 			}
 			for j := range D {
-				src, mj := tb, mean[j]
-				if j >= p {
-					src = fb[(j-p)*fs:]
+				var src []float64
+				if j < p {
+					src = tb[j*ts:]
 				} else {
-					src = src[j*ts:]
+					src = fb[(j-p)*fs:]
 				}
-				row := raw.Data[j*raw.Stride : j*raw.Stride+k]
+				mj := mean[j]
+				row := raw.Data[j*raw.Stride+k : j*raw.Stride+k+nb]
 				for i := range row {
 					row[i] = src[i] - mj
 				}
 			}
-			cov.SymRankK(cov, 1, X.Slice(0, D, 0, k))
+			if k += nb; k+storeBlock > jointBlock {
+				flush()
+			}
 		}
 	}
+	flush()
 	cov.ScaleSym(1/float64(nChains*P.p.n-1), cov)
 	return mean, cov
 }
+
+// jointBlock is how many draws one rank-k update of the covariance takes
+// (dot products of that length; a store block alone is too short for them).
+const jointBlock = 8 * storeBlock
 
 // jointMean returns the posterior mean over (θ, φ): the draws' mean, or
 // the closed form's, kept once computed.

@@ -3,7 +3,6 @@ package fuse
 import (
 	"fmt"
 	"math"
-	"sync"
 
 	"liftfuse/methods/evidence"
 )
@@ -45,30 +44,17 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	lo.setAlone.MinESS = math.Max(math.Min(1000, set.MinESS), set.MinESS/2)
 	full.start = lo.start
 	errs := make([]error, 2*M)
-	jobs := make(chan int)
-	var wg sync.WaitGroup
-	for range 2 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for j := range jobs {
-				ei := j / 2
-				switch {
-				case j%2 == 0:
-					lo.alone[ei], errs[j] = lo.fitAlone(evs[ei])
-				case M > 1:
-					if lo.others[ei], errs[j] = lo.fitOthers(evs, ei); errs[j] == nil {
-						lo.pOff[ei] = full.pOff(ei, P.p.logZ)
-					}
-				}
+	parallel(2*M, func(j int) {
+		ei := j / 2
+		switch {
+		case j%2 == 0:
+			lo.alone[ei], errs[j] = lo.fitAlone(evs[ei])
+		case M > 1:
+			if lo.others[ei], errs[j] = lo.fitOthers(evs, ei); errs[j] == nil {
+				lo.pOff[ei] = full.pOff(ei, P.p.logZ)
 			}
-		}()
-	}
-	for j := range 2 * M {
-		jobs <- j
-	}
-	close(jobs)
-	wg.Wait()
+		}
+	})
 	for _, err := range errs {
 		if err != nil {
 			return nil, err

@@ -2,7 +2,6 @@ package fuse
 
 import (
 	"fmt"
-	"sync"
 
 	"liftfuse/methods/evidence"
 )
@@ -186,22 +185,9 @@ func agreements(full *model, evs []evidence.Evidence, lo *looFits) ([]*Agreement
 	if len(evs) < 2 {
 		return ags, sts
 	}
-	jobs := make(chan int)
-	var wg sync.WaitGroup
-	for range 2 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for ei := range jobs {
-				ags[ei], sts[ei] = agreement(full, ei, evs[ei], lo.others[ei])
-			}
-		}()
-	}
-	for ei := range evs {
-		jobs <- ei
-	}
-	close(jobs)
-	wg.Wait()
+	parallel(len(evs), func(ei int) {
+		ags[ei], sts[ei] = agreement(full, ei, evs[ei], lo.others[ei])
+	})
 	return ags, sts
 }
 

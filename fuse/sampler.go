@@ -318,9 +318,9 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 }
 
 // diagnose returns the largest R̂ and the smallest bulk ESS of the tracked
-// quantities, diagnosed by two goroutines (the chains are idle meanwhile).
+// quantities, diagnosed by workers goroutines, each its own buffer (the
+// chains are idle meanwhile).
 func (post *posterior) diagnose(tracked [][]entryRef) (rmax, emin float64) {
-	const workers = 2
 	rs, es := make([]float64, workers), make([]float64, workers)
 	var wg sync.WaitGroup
 	for w := range workers {
@@ -338,7 +338,11 @@ func (post *posterior) diagnose(tracked [][]entryRef) (rmax, emin float64) {
 		}()
 	}
 	wg.Wait()
-	return math.Max(rs[0], rs[1]), math.Min(es[0], es[1])
+	rmax, emin = 1, math.Inf(1)
+	for w := range workers {
+		rmax, emin = math.Max(rmax, rs[w]), math.Min(emin, es[w])
+	}
+	return rmax, emin
 }
 
 // collect keeps the first n draws of every chain (p linear and d
