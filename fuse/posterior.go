@@ -149,33 +149,41 @@ func (P *Posterior) Draws(ts ...evidence.Term) []float64 {
 }
 
 // seriesOf returns chain-wise draws, making joint Gaussian draws for a
-// closed-form posterior on first use (seeded, so output is reproducible).
+// closed-form posterior on first use (seeded, so output is reproducible;
+// under P.mu, so that concurrent readers make them once).
 func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
 	if !P.p.gaussian {
 		return P.p.series(w)
 	}
+	P.mu.Lock()
 	if P.gdraws == nil {
-		p := len(P.p.m.lin)
-		const n = 2000
-		P.gdraws = make([]*drawStore, nChains)
-		for c := range P.gdraws {
-			rng := rand.New(rand.NewPCG(P.p.m.set.Seed, uint64(c)+101))
-			d := newDrawStore(p)
-			z, theta := make([]float64, p), make([]float64, p)
-			for range n {
-				for j := range z {
-					z[j] = rng.NormFloat64()
-				}
-				P.p.cond.draw(z, theta)
-				d.add(theta)
-			}
-			P.gdraws[c] = d
-		}
+		P.gdraws = P.p.gaussDraws()
 	}
-	saved := P.p.draws
-	P.p.draws, P.p.n = P.gdraws, P.gdraws[0].n
-	defer func() { P.p.draws = saved }()
-	return P.p.series(w)
+	P.mu.Unlock()
+	out, _ := storesSeries(P.gdraws, P.gdraws[0].n, w, nil)
+	return out
+}
+
+// gaussDraws makes 2000 draws per chain from a closed-form posterior,
+// chain c seeded with stream 101 + c.
+func (p *posterior) gaussDraws() []*drawStore {
+	np := len(p.m.lin)
+	const n = 2000
+	out := make([]*drawStore, nChains)
+	for c := range out {
+		rng := rand.New(rand.NewPCG(p.m.set.Seed, uint64(c)+101))
+		d := newDrawStore(np)
+		z, theta := make([]float64, np), make([]float64, np)
+		for range n {
+			for j := range z {
+				z[j] = rng.NormFloat64()
+			}
+			p.cond.draw(z, theta)
+			d.add(theta)
+		}
+		out[c] = d
+	}
+	return out
 }
 
 // gaussMoments returns the exact mean and sd of wᵀθ under the closed form.

@@ -84,29 +84,40 @@ func Run(in Input) (*Fused, error) {
 	return out, nil
 }
 
-// configResults appends each configuration's fused result: the front, rear
-// and total C_L·A, the front share β_f/β_t, the axle forces q(V)·β(V) at
-// the report speeds (q = ½ρV²) and, given a frontal area A, the SAE J1594
-// coefficients C_L = C_L·A / A. A configuration no evidence speaks of is
-// marked prior-only, with a warning.
+// configResults appends each configuration's fused result (see
+// configResult), computed two configurations at a time. A configuration no
+// evidence speaks of is marked prior-only, with a warning.
 func configResults(res *Result, P *Posterior, in Input, set Settings) {
-	for _, c := range set.Configs {
-		cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
+	if P.p.gaussian {
+		P.seriesOf(nil) // a closed form's draws, made once before they are shared
+	}
+	crs := make([]ConfigResult, len(set.Configs))
+	parallel(len(crs), func(i int) { crs[i] = configResult(P, set.Configs[i], in) })
+	for _, cr := range crs {
 		if cr.PriorOnly {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
-		}
-		cr.Front = axle(P, c, evidence.AxleFront)
-		cr.Rear = axle(P, c, evidence.AxleRear)
-		cr.Total = axle(P, c, evidence.AxleTotal)
-		cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
-		for _, v := range in.SpeedsKmh {
-			cr.AtSpeeds = append(cr.AtSpeeds, atSpeed(P, c, v, in.Rho))
-		}
-		if A := in.FrontalAreaM2; A > 0 {
-			cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
+			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", cr.ID, set.PriorSD))
 		}
 		res.Configs = append(res.Configs, cr)
 	}
+}
+
+// configResult is a configuration's fused result: the front, rear and
+// total C_L·A, the front share β_f/β_t, the axle forces q(V)·β(V) at the
+// report speeds (q = ½ρV²) and, given a frontal area A, the SAE J1594
+// coefficients C_L = C_L·A / A.
+func configResult(P *Posterior, c string, in Input) ConfigResult {
+	cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
+	cr.Front = axle(P, c, evidence.AxleFront)
+	cr.Rear = axle(P, c, evidence.AxleRear)
+	cr.Total = axle(P, c, evidence.AxleTotal)
+	cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
+	for _, v := range in.SpeedsKmh {
+		cr.AtSpeeds = append(cr.AtSpeeds, atSpeed(P, c, v, in.Rho))
+	}
+	if A := in.FrontalAreaM2; A > 0 {
+		cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
+	}
+	return cr
 }
 
 // atSpeed returns a configuration's axle forces q(V)·β(V) at a speed V in

@@ -411,10 +411,15 @@ func (p *posterior) series(w []entryRef) [][]float64 {
 // seriesInto is series with the chains cut from one buffer, grown as
 // needed and returned for reuse.
 func (p *posterior) seriesInto(w []entryRef, buf []float64) ([][]float64, []float64) {
-	buf = grow(buf, len(p.draws)*p.n)
-	out := make([][]float64, len(p.draws))
-	for c, d := range p.draws {
-		out[c] = buf[c*p.n : (c+1)*p.n]
+	return storesSeries(p.draws, p.n, w, buf)
+}
+
+// storesSeries is seriesInto over the first n draws of given chains.
+func storesSeries(chains []*drawStore, n int, w []entryRef, buf []float64) ([][]float64, []float64) {
+	buf = grow(buf, len(chains)*n)
+	out := make([][]float64, len(chains))
+	for c, d := range chains {
+		out[c] = buf[c*n : (c+1)*n]
 		d.combine(w, out[c])
 	}
 	return out, buf
