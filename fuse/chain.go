@@ -4,7 +4,6 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
-	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
@@ -70,8 +69,7 @@ type chainState struct {
 	begun                 bool
 	accept                int
 	tries                 int
-	draws                 []float64
-	phis                  []float64
+	draws, phis           *drawStore
 }
 
 // newChains returns nChains chains, chain c seeded with stream c+1.
@@ -81,7 +79,7 @@ func (pr *proposal) newChains() []*chainState {
 	for c := range chains {
 		chains[c] = &chainState{rng: rand.New(rand.NewPCG(pr.m.set.Seed, uint64(c)+1)), theta: make([]float64, p), phi: make([]float64, d),
 			propTheta: make([]float64, p), propPhi: make([]float64, d), z: make([]float64, max(p, d)), x: make([]float64, p), saved: make([]float64, p),
-			zc: make([]float64, p), zp: make([]float64, p)}
+			zc: make([]float64, p), zp: make([]float64, p), draws: newDrawStore(p), phis: newDrawStore(d)}
 	}
 	return chains
 }
@@ -167,8 +165,6 @@ func (ch *chainState) proposed(d int) *cond {
 // component of θ given the rest (see component), and records the state
 // from the first acceptance on.
 func (pr *proposal) step(ch *chainState, n int) {
-	ch.draws = slices.Grow(ch.draws, n*pr.p)
-	ch.phis = slices.Grow(ch.phis, n*pr.d)
 	for range n {
 		lw := pr.propose(ch)
 		ch.tries++
@@ -189,8 +185,8 @@ func (pr *proposal) step(ch *chainState, n int) {
 		for k := range pr.comps {
 			pr.refresh(ch, &pr.comps[k])
 		}
-		ch.draws = append(ch.draws, ch.theta...)
-		ch.phis = append(ch.phis, ch.phi...)
+		ch.draws.add(ch.theta)
+		ch.phis.add(ch.phi)
 	}
 }
 
@@ -203,9 +199,9 @@ func (pr *proposal) runBatch(chains []*chainState, batch int) int {
 		go func() { defer wg.Done(); pr.step(ch, batch) }()
 	}
 	wg.Wait()
-	n := len(chains[0].draws) / pr.p
+	n := chains[0].draws.n
 	for _, ch := range chains {
-		n = min(n, len(ch.draws)/pr.p)
+		n = min(n, ch.draws.n)
 	}
 	return n
 }

@@ -78,3 +78,46 @@ func logDetChol(l []float64, lay *layout) float64 {
 	}
 	return 2 * (math.Log(m) + float64(e)*math.Ln2)
 }
+
+// cholRev is the reverse mode of cholesky: given lbar = ∂f/∂L on the
+// envelope, it overwrites lbar with ∂f/∂Λ for the lower triangle of Λ (the
+// elements cholesky reads), so that df = Σ_{i≥j} Λ̄_ij dΛ_ij. It is the
+// unblocked algorithm of I. Murray, "Differentiation of the Cholesky
+// decomposition" (arXiv:1602.07527, 2016), column j from the last to the
+// first, with r = L[j, :j], d = L_jj, c = L[j+1:, j] and B = L[j+1:, :j]:
+//
+//	d̄ ← (d̄ − cᵀc̄/d)/d,  c̄ ← c̄/d,  r̄ ← r̄ − d̄·r − Bᵀc̄,  B̄ ← B̄ − c̄ rᵀ,  d̄ ← d̄/2.
+//
+// Within the envelope only: an adjoint outside it multiplies entries of L
+// that are zero, and feeds only adjoints outside it.
+func cholRev(l, lbar []float64, lay *layout) {
+	first, base := lay.first, lay.base
+	for j := len(first) - 1; j >= 0; j-- {
+		fj, bj := first[j], base[j]
+		d := l[bj+j]
+		rows := lay.colRow[lay.colPtr[j]:lay.colPtr[j+1]]
+		dbar := lbar[bj+j]
+		for _, k := range rows {
+			at := base[k] + j
+			dbar -= l[at] * lbar[at] / d
+		}
+		dbar /= d
+		for _, k := range rows {
+			lbar[base[k]+j] /= d
+		}
+		rbar, r := lbar[bj:bj+j], l[bj:bj+j]
+		for q := fj; q < j; q++ {
+			rbar[q] -= dbar * r[q]
+		}
+		for _, k := range rows {
+			bk := base[k]
+			cb := lbar[bk+j]
+			lk, lbk := l[bk:bk+j], lbar[bk:bk+j]
+			for q := max(fj, first[k]); q < j; q++ {
+				rbar[q] -= cb * lk[q]
+				lbk[q] -= cb * r[q]
+			}
+		}
+		lbar[bj+j] = dbar / 2
+	}
+}

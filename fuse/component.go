@@ -1,6 +1,9 @@
 package fuse
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // Component steps. Given φ and the shared nuisances θ_S, the components of
 // θ (see layout) are independent, each Gaussian from the Gaussian data,
@@ -40,15 +43,21 @@ func (m *model) components() []component {
 	return out
 }
 
-// signLogProb is Σ log P(sign | θ) over the signs of a component.
-// The probabilities are multiplied and their product's logarithm taken
-// once (before it could underflow), not one logarithm per sign.
+// signLogProb is Σ log P(sign | θ) over the signs of a component (in
+// ascending order). The probabilities are multiplied and their product's
+// logarithm taken once (before it could underflow), not one logarithm per
+// sign; a sign that repeats the one before it (see sameAsPrev) repeats its
+// probability.
 func (m *model) signLogProb(signs []int, theta []float64) float64 {
-	var s float64
-	prod := 1.0
+	var s, p float64
+	prod, prev := 1.0, -2
 	for _, si := range signs {
-		sg := &m.signs[si]
-		prod *= math.Max(m.signProb(sg, sg.value(theta)), 1e-300)
+		if si != prev+1 || !m.sameAsPrev[si] {
+			sg := &m.signs[si]
+			p = math.Max(m.signProb(sg, sg.value(theta)), 1e-300)
+		}
+		prev = si
+		prod *= p
 		if prod < 1e-200 {
 			s += math.Log(prod)
 			prod = 1
@@ -145,4 +154,17 @@ func (m *model) ownSigns(k *component) bool {
 		}
 	}
 	return true
+}
+
+// markRepeats sets sameAsPrev: sign i says what sign i − 1 says (the same
+// quantity, entry, sense, misread and softness — an observer who saw the
+// same sense at several speeds under the constant speed model), so its
+// probability is the same at every θ.
+func (m *model) markRepeats() {
+	m.sameAsPrev = make([]bool, len(m.signs))
+	for i := 1; i < len(m.signs); i++ {
+		a, b := &m.signs[i-1], &m.signs[i]
+		m.sameAsPrev[i] = a.entry == b.entry && a.up == b.up && a.misread == b.misread &&
+			a.softness == b.softness && slices.Equal(a.all, b.all)
+	}
 }

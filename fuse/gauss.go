@@ -29,6 +29,7 @@ type cond struct {
 
 	lam, b []float64 // buffers, reused between calls
 	fs     []float64 // s(φ) of the model's scale sets
+	vals   []float64 // the basis values at φ (terms.go)
 	a, x   []float64
 	xs     [][]entryRef
 }
@@ -201,10 +202,9 @@ func (m *model) condition(phi []float64, c *cond) error {
 	}
 	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
 	c.fs = m.scaleFactors(phi, c.fs)
-	// Diagonal blocks through their grouped sufficient statistics.
-	for gi := range m.groups {
-		yWy += m.groups[gi].accumulate(m, phi, c.fs, lam, b, p)
-	}
+	// Diagonal blocks through their merged sufficient statistics.
+	c.vals = m.basisValues(phi, c.fs, c.vals)
+	yWy += m.addTerms(c.vals, lam, b)
 	// Full blocks row by row.
 	for _, bi := range m.fullBlocks {
 		bl := &m.blocks[bi]
@@ -230,17 +230,18 @@ func (m *model) condition(phi []float64, c *cond) error {
 					at := lay.pos[a.col]
 					b[at] += wt * a.v * yj
 					for _, bb := range c.xs[j] {
-						lam[lay.sym(at, lay.pos[bb.col])] += wt * a.v * bb.v
+						// Every off-diagonal term comes in both orders
+						// (i, a, j, bb) and (j, bb, i, a) onto one element
+						// of the lower triangle: half of it each time.
+						bt := lay.pos[bb.col]
+						v := wt * a.v * bb.v
+						if bt != at {
+							v *= 0.5
+						}
+						lam[lay.sym(at, bt)] += v
 					}
 				}
 			}
-		}
-	}
-	// Every off-diagonal term was added in both orders (i, j) and (j, i),
-	// so the lower triangle holds it twice.
-	for i := range p {
-		for j := lay.first[i]; j < i; j++ {
-			lam[lay.base[i]+j] *= 0.5
 		}
 	}
 	if !cholesky(lam, c.l, lay) {

@@ -144,6 +144,7 @@ func (m *model) buildGroups() {
 			c.at = m.lay.pos[c.col]
 		}
 	}
+	m.buildTerms()
 }
 
 // qPoly returns the coefficients in w of q(w)^pw for a row, pw ≤ 2.
@@ -274,38 +275,4 @@ func (m *model) scaleFactors(phi, dst []float64) []float64 {
 		dst = append(dst, math.Exp(s))
 	}
 	return dst
-}
-
-// accumulate adds the group's contribution at φ to Λ and b (in layout
-// order) and returns its share of yᵀΣ⁻¹y; fs are the scale factors of the
-// model's scale sets at φ.
-func (g *group) accumulate(m *model, phi, fs, lam, b []float64, p int) float64 {
-	k := m.inflate[g.entry]
-	iw := 1 / (k * k)
-	F := fs[g.set]
-	w := 0.0
-	if g.wind >= 0 {
-		w = phi[g.wind]
-	}
-	pw := [5]float64{1, w, w * w, w * w * w, w * w * w * w}
-	fpow := [3]float64{1, F, F * F}
-	nc := len(g.cols)
-	for j, cj := range g.cols {
-		var v float64
-		for d := range 5 {
-			v += g.b[j][d] * pw[d]
-		}
-		b[cj.at] += iw * fpow[cj.fpow()] * v
-		for kk := j; kk < nc; kk++ {
-			ck := g.cols[kk]
-			c := &g.lam[j*nc+kk]
-			v := c[0] + c[1]*pw[1] + c[2]*pw[2] + c[3]*pw[3] + c[4]*pw[4]
-			v *= iw * fpow[cj.fpow()+ck.fpow()]
-			lam[m.lay.sym(cj.at, ck.at)] += v
-			if kk != j {
-				lam[m.lay.sym(ck.at, cj.at)] += v
-			}
-		}
-	}
-	return iw * g.yWy
 }

@@ -32,6 +32,9 @@ type layout struct {
 	// p². base[i] = Σ_{r<i}(r − first[r] + 1) − first[i] ≥ 0.
 	base []int
 	size int
+	// colRow[colPtr[j]:colPtr[j+1]] are the rows k > j with first[k] ≤ j.
+	colPtr []int
+	colRow []int32
 }
 
 // sym returns where element (i, j) or (j, i) of a symmetric matrix held by
@@ -44,9 +47,19 @@ func (l *layout) sym(i, j int) int {
 }
 
 // cliques returns the sets of columns of θ that appear together in Λ: the
-// columns of a group, and every column of a full block's rows.
+// columns of a group, and every column of a full block's rows; and those
+// of each sign's quantity, so that the lift columns a sign sees (front and
+// rear, for a sign of the total) are one component, redrawn together by
+// the component steps.
 func (m *model) cliques() [][]int {
 	var out [][]int
+	for si := range m.signs {
+		var c []int
+		for _, t := range m.signs[si].refs() {
+			c = append(c, t.col)
+		}
+		out = append(out, c)
+	}
 	for gi := range m.groups {
 		var c []int
 		for _, g := range m.groups[gi].cols {
@@ -89,8 +102,11 @@ func (u unionFind) union(i, j int) { u[u.find(i)] = u.find(j) }
 
 // buildLayout finds the components and the shared nuisances: lift columns
 // (β, γ) that share an observation are one component; a nuisance that
-// shares observations with the lift columns of two or more components is
-// shared; the rest join the component they meet.
+// shares observations with the lift columns of two or more configurations
+// (not tied by an observation) is shared; the rest join the components
+// they meet. A nuisance of one configuration's run (its wind, seen by the
+// front and the rear sensors) so joins that configuration's front and rear
+// columns instead of growing the shared block with the number of runs.
 func (m *model) buildLayout() {
 	p := len(m.lin)
 	cl := m.cliques()
@@ -109,8 +125,21 @@ func (m *model) buildLayout() {
 			}
 		}
 	}
+	// lift classes: lift columns that share an observation, and those of
+	// one configuration, are one class
 	lift := newUnionFind(p)
 	joinWithin(lift, isLift)
+	byConfig := map[string]int{}
+	for c, lp := range m.lin {
+		if !isLift(c) {
+			continue
+		}
+		if first, ok := byConfig[lp.config]; ok {
+			lift.union(first, c)
+		} else {
+			byConfig[lp.config] = c
+		}
+	}
 	meets := make([]map[int]bool, p)
 	for _, c := range cl {
 		for _, a := range c {
@@ -129,6 +158,7 @@ func (m *model) buildLayout() {
 	joinWithin(u, func(c int) bool { return !shared(c) })
 	m.lay = orderLayout(p, cl, u, shared)
 	m.compSigns = m.componentSigns()
+	m.markRepeats()
 	m.allSigns = make([]int, len(m.signs))
 	for i := range m.allSigns {
 		m.allSigns[i] = i
@@ -221,7 +251,32 @@ func orderLayout(p int, cl [][]int, u unionFind, shared func(int) bool) *layout 
 		off += i - lay.first[i] + 1
 	}
 	lay.size = off
+	lay.columns()
 	return lay
+}
+
+// columns lists, for each position j, the rows k > j whose envelope reaches
+// j (first[k] ≤ j), ascending: the strictly lower column j of the
+// envelope, for the reverse-mode Cholesky (chol.go).
+func (l *layout) columns() {
+	p := len(l.first)
+	l.colPtr = make([]int, p+1)
+	for k := range p {
+		for j := l.first[k]; j < k; j++ {
+			l.colPtr[j+1]++
+		}
+	}
+	for j := range p {
+		l.colPtr[j+1] += l.colPtr[j]
+	}
+	l.colRow = make([]int32, l.colPtr[p])
+	next := append([]int(nil), l.colPtr[:p]...)
+	for k := range p {
+		for j := l.first[k]; j < k; j++ {
+			l.colRow[next[j]] = int32(k)
+			next[j]++
+		}
+	}
 }
 
 // span returns the positions [lo, hi) of component k.

@@ -22,6 +22,10 @@ type Settings struct {
 	// (default 2000); MaxDraws bounds the draws per chain (default 20000).
 	MinESS   float64
 	MaxDraws int
+
+	// reference is the result's reference configuration (Input.Reference):
+	// the differences to it are tracked by the sampler's diagnostics too.
+	reference string
 }
 
 // Fallbacks when a caller leaves Settings zero; the campaign's defaults
@@ -159,7 +163,8 @@ type data struct {
 	// other blocks, conditioned row by row.
 	groups     []group
 	fullBlocks []int
-	lay        *layout // the order Λ is factorised in
+	terms      *termTable // the groups merged by basis function (terms.go)
+	lay        *layout    // the order Λ is factorised in
 	// scaleSets are the distinct scales of the rows, so that a
 	// conditioning computes each s(φ) once
 	scaleSets [][]phiRef
@@ -167,11 +172,13 @@ type data struct {
 	// per sign: the position ranges [lo, hi) of its components, then
 	// that of the shared nuisances
 	signSpans [][][2]int
-	compSigns [][]int           // per layout component: the signs that involve it
-	allSigns  []int             // 0 … len(signs)−1
-	informed  map[string]bool   // configurations some evidence speaks of
-	beta      map[[2]string]int // (config, axle) → column of β
-	gamma     map[[2]string]int
+	compSigns [][]int // per layout component: the signs that involve it
+	allSigns  []int   // 0 … len(signs)−1
+	// sameAsPrev[i]: sign i repeats sign i − 1 (markRepeats)
+	sameAsPrev []bool
+	informed   map[string]bool   // configurations some evidence speaks of
+	beta       map[[2]string]int // (config, axle) → column of β
+	gamma      map[[2]string]int
 }
 
 // undirected widens the error of observations whose travel direction was

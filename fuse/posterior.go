@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"sync"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods/evidence"
@@ -31,7 +33,17 @@ type Posterior struct {
 	level float64
 	// joint draws for non-linear summaries of a closed-form posterior,
 	// made on first use
-	gdraws [][]float64
+	gdraws []*drawStore
+
+	// the joint moments over (θ, φ), computed on first use (joint.go)
+	mu    sync.Mutex
+	jmean []float64
+	jcov  *mat.SymDense
+	// compacted: the draws of the nuisance columns were dropped (compact);
+	// refit makes them again, into whole
+	compacted bool
+	refit     func() (*Posterior, error)
+	whole     *Posterior
 }
 
 // Fit computes the posterior of the evidence under the settings.
@@ -137,32 +149,41 @@ func (P *Posterior) Draws(ts ...evidence.Term) []float64 {
 }
 
 // seriesOf returns chain-wise draws, making joint Gaussian draws for a
-// closed-form posterior on first use (seeded, so output is reproducible).
+// closed-form posterior on first use (seeded, so output is reproducible;
+// under P.mu, so that concurrent readers make them once).
 func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
 	if !P.p.gaussian {
 		return P.p.series(w)
 	}
+	P.mu.Lock()
 	if P.gdraws == nil {
-		p := len(P.p.m.lin)
-		const n = 2000
-		P.gdraws = make([][]float64, nChains)
-		for c := range P.gdraws {
-			rng := rand.New(rand.NewPCG(P.p.m.set.Seed, uint64(c)+101))
-			d := make([]float64, n*p)
-			z := make([]float64, p)
-			for i := range n {
-				for j := range z {
-					z[j] = rng.NormFloat64()
-				}
-				P.p.cond.draw(z, d[i*p:(i+1)*p])
-			}
-			P.gdraws[c] = d
-		}
+		P.gdraws = P.p.gaussDraws()
 	}
-	saved := P.p.draws
-	P.p.draws, P.p.n = P.gdraws, len(P.gdraws[0])/len(P.p.m.lin)
-	defer func() { P.p.draws = saved }()
-	return P.p.series(w)
+	P.mu.Unlock()
+	out, _ := storesSeries(P.gdraws, P.gdraws[0].n, w, nil)
+	return out
+}
+
+// gaussDraws makes 2000 draws per chain from a closed-form posterior,
+// chain c seeded with stream 101 + c.
+func (p *posterior) gaussDraws() []*drawStore {
+	np := len(p.m.lin)
+	const n = 2000
+	out := make([]*drawStore, nChains)
+	for c := range out {
+		rng := rand.New(rand.NewPCG(p.m.set.Seed, uint64(c)+101))
+		d := newDrawStore(np)
+		z, theta := make([]float64, np), make([]float64, np)
+		for range n {
+			for j := range z {
+				z[j] = rng.NormFloat64()
+			}
+			p.cond.draw(z, theta)
+			d.add(theta)
+		}
+		out[c] = d
+	}
+	return out
 }
 
 // gaussMoments returns the exact mean and sd of wᵀθ under the closed form.
@@ -224,7 +245,7 @@ func (P *Posterior) Fitted(entry string) ([]float64, error) {
 	if e < 0 {
 		return nil, fmt.Errorf("no entry %q in this posterior", entry)
 	}
-	mean, _ := P.joint()
+	mean := P.jointMean()
 	p := len(m.lin)
 	var out []float64
 	var buf []entryRef

@@ -184,33 +184,58 @@ func integrateOutNew(I *mat.SymDense, sp repeatSpace) (*mat.SymDense, error) {
 //
 //	C' = (C⁻¹ + I_eff)⁻¹ = C − C (I + I_eff C)⁻¹ I_eff C,
 //
-// computed as the solution X of (I + I_eff C) X = I_eff C to avoid
-// inverting C (it may hold flat-prior directions pinned only by data).
+// without inverting C (it may hold flat-prior directions pinned only by
+// data). I_eff is zero outside the rows S of the parameters the repeat
+// touches, I_eff = E I_SS Eᵀ, and (I + E I_SS Eᵀ C)⁻¹ E = E (I + I_SS C_SS)⁻¹
+// (the push-through identity; Henderson & Searle, SIAM Review 23 (1981) 53
+// — from memory), so with c = C w
+//
+//	wᵀC'w = wᵀc − c_Sᵀ x,   (I + I_SS C_SS) x = I_SS c_S:
+//
+// one system of the touched parameters' size with one right-hand side.
 func updatedVar(C, Ieff *mat.SymDense, w []entryRef) (float64, error) {
 	D := C.SymmetricDim()
-	Cd := mat.NewDense(D, D, nil)
-	Cd.Copy(C)
-	var IC mat.Dense
-	IC.Mul(Ieff, Cd)
-	A := mat.NewDense(D, D, nil)
-	A.Copy(&IC)
-	for i := range D {
-		A.Set(i, i, A.At(i, i)+1)
-	}
-	var X mat.Dense
-	if err := X.Solve(A, &IC); err != nil {
-		return 0, err
-	}
 	wv := make([]float64, D)
 	for _, t := range w {
 		wv[t.col] += t.v
 	}
-	wvec := mat.NewVecDense(D, wv)
-	var cw, xw, cxw mat.VecDense
-	cw.MulVec(Cd, wvec)
-	xw.MulVec(&X, wvec)
-	cxw.MulVec(Cd, &xw)
-	return mat.Dot(wvec, &cw) - mat.Dot(wvec, &cxw), nil
+	var c mat.VecDense
+	c.MulVec(C, mat.NewVecDense(D, wv))
+	var S []int
+	for i := range D {
+		for j := range D {
+			if Ieff.At(i, j) != 0 {
+				S = append(S, i)
+				break
+			}
+		}
+	}
+	wc := mat.Dot(mat.NewVecDense(D, wv), &c)
+	k := len(S)
+	if k == 0 {
+		return wc, nil
+	}
+	Iss, Css := mat.NewDense(k, k, nil), mat.NewDense(k, k, nil)
+	cS := mat.NewVecDense(k, nil)
+	for a, i := range S {
+		for b, j := range S {
+			Iss.Set(a, b, Ieff.At(i, j))
+			Css.Set(a, b, C.At(i, j))
+		}
+		cS.SetVec(a, c.AtVec(i))
+	}
+	var A mat.Dense
+	A.Mul(Iss, Css)
+	for a := range k {
+		A.Set(a, a, A.At(a, a)+1)
+	}
+	var rhs mat.VecDense
+	rhs.MulVec(Iss, cS)
+	var x mat.VecDense
+	if err := x.SolveVec(&A, &rhs); err != nil {
+		return 0, err
+	}
+	return wc - mat.Dot(cS, &x), nil
 }
 
 // repeatVar returns the expected posterior variance of wᵀθ after entry e's

@@ -47,6 +47,7 @@ type Fused struct {
 // checks.
 func Run(in Input) (*Fused, error) {
 	set := in.Settings.withDefaults()
+	set.reference = in.Reference
 	full, err := newModel(in.Evidence, set)
 	if err != nil {
 		return nil, err
@@ -74,6 +75,7 @@ func Run(in Input) (*Fused, error) {
 	if err := lo.robustOthers(in.Evidence); err != nil {
 		return nil, err
 	}
+	lo.compactRefitted(in.Evidence)
 	methodResults(res, out, full, in.Evidence, lo)
 	if err := robustHeadline(out, full, in, set, lo); err != nil {
 		return nil, err
@@ -82,29 +84,40 @@ func Run(in Input) (*Fused, error) {
 	return out, nil
 }
 
-// configResults appends each configuration's fused result: the front, rear
-// and total C_L·A, the front share β_f/β_t, the axle forces q(V)·β(V) at
-// the report speeds (q = ½ρV²) and, given a frontal area A, the SAE J1594
-// coefficients C_L = C_L·A / A. A configuration no evidence speaks of is
-// marked prior-only, with a warning.
+// configResults appends each configuration's fused result (see
+// configResult), computed two configurations at a time. A configuration no
+// evidence speaks of is marked prior-only, with a warning.
 func configResults(res *Result, P *Posterior, in Input, set Settings) {
-	for _, c := range set.Configs {
-		cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
+	if P.p.gaussian {
+		P.seriesOf(nil) // a closed form's draws, made once before they are shared
+	}
+	crs := make([]ConfigResult, len(set.Configs))
+	parallel(len(crs), func(i int) { crs[i] = configResult(P, set.Configs[i], in) })
+	for _, cr := range crs {
 		if cr.PriorOnly {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", c, set.PriorSD))
-		}
-		cr.Front = axle(P, c, evidence.AxleFront)
-		cr.Rear = axle(P, c, evidence.AxleRear)
-		cr.Total = axle(P, c, evidence.AxleTotal)
-		cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
-		for _, v := range in.SpeedsKmh {
-			cr.AtSpeeds = append(cr.AtSpeeds, atSpeed(P, c, v, in.Rho))
-		}
-		if A := in.FrontalAreaM2; A > 0 {
-			cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
+			res.Warnings = append(res.Warnings, fmt.Sprintf("configuration %q: no evidence speaks of it; its figures are the prior (0 ± %g m²) alone", cr.ID, set.PriorSD))
 		}
 		res.Configs = append(res.Configs, cr)
 	}
+}
+
+// configResult is a configuration's fused result: the front, rear and
+// total C_L·A, the front share β_f/β_t, the axle forces q(V)·β(V) at the
+// report speeds (q = ½ρV²) and, given a frontal area A, the SAE J1594
+// coefficients C_L = C_L·A / A.
+func configResult(P *Posterior, c string, in Input) ConfigResult {
+	cr := ConfigResult{ID: c, PriorOnly: !P.p.m.informed[c]}
+	cr.Front = axle(P, c, evidence.AxleFront)
+	cr.Rear = axle(P, c, evidence.AxleRear)
+	cr.Total = axle(P, c, evidence.AxleTotal)
+	cr.FrontShare = P.Ratio([]evidence.Term{{Config: c, Axle: evidence.AxleFront, W: 1}}, []evidence.Term{{Config: c, Axle: evidence.AxleTotal, W: 1}})
+	for _, v := range in.SpeedsKmh {
+		cr.AtSpeeds = append(cr.AtSpeeds, atSpeed(P, c, v, in.Rho))
+	}
+	if A := in.FrontalAreaM2; A > 0 {
+		cr.SAE = &SAECoefficients{FrontalAreaM2: A, CLF: cr.Front.CLA.Scale(1 / A), CLR: cr.Rear.CLA.Scale(1 / A), CL: cr.Total.CLA.Scale(1 / A)}
+	}
+	return cr
 }
 
 // atSpeed returns a configuration's axle forces q(V)·β(V) at a speed V in
@@ -152,13 +165,14 @@ func deltaResults(res *Result, P *Posterior, reference string, configs []string)
 // when p < flagP or P(off) > flagOff); it records the leave-one-out
 // posteriors in out.
 func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence, lo *looFits) {
+	ags, sts := agreements(full, evs, lo)
 	for ei, ev := range evs {
 		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(lo.alone[ei], ev)}
 		out.Standalone[ev.Entry] = lo.alone[ei]
 		if len(evs) > 1 {
 			O := lo.others[ei]
 			out.Others[ev.Entry] = O
-			ag, st := agreement(full, ei, ev, O)
+			ag, st := ags[ei], sts[ei]
 			out.loo[ev.Entry] = st
 			ag.POff = lo.pOff[ei]
 			ag.Flag = ag.flagged()
@@ -172,6 +186,20 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 	if len(evs) == 1 {
 		res.Warnings = append(res.Warnings, "a single evidence entry: nothing to check it against, so no agreement figures")
 	}
+}
+
+// agreements computes every entry's agreement with the others (none with
+// a single entry), two entries at a time: each reads only the joint model
+// and its own others' posterior.
+func agreements(full *model, evs []evidence.Evidence, lo *looFits) ([]*Agreement, []*looStat) {
+	ags, sts := make([]*Agreement, len(evs)), make([]*looStat, len(evs))
+	if len(evs) < 2 {
+		return ags, sts
+	}
+	parallel(len(evs), func(ei int) {
+		ags[ei], sts[ei] = agreement(full, ei, evs[ei], lo.others[ei])
+	})
+	return ags, sts
 }
 
 // diagnostics returns how the fused posterior was computed, warning when a

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"sync"
 
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
@@ -59,10 +60,10 @@ type Diagnostics struct {
 type posterior struct {
 	m        *model
 	gaussian bool
-	cond     cond        // the closed form, when gaussian
-	draws    [][]float64 // per chain: n×p linear draws, row-major
-	phiDraws [][]float64 // per chain: n×d
-	n        int         // draws per chain
+	cond     cond         // the closed form, when gaussian
+	draws    []*drawStore // per chain: the linear draws (the first n count)
+	phiDraws []*drawStore // per chain: the non-linear draws
+	n        int          // draws per chain
 	phiMode  []float64
 	logZ     float64 // Laplace estimate of log p(y), for the robust layer
 	diag     Diagnostics
@@ -116,8 +117,10 @@ func (m *model) objective(phi []float64, cp *cond) float64 {
 	return -v
 }
 
-// laplace finds the mode of p(φ | y) and the inverse of the curvature there,
-// and returns a Laplace estimate of log p(y).
+// laplace finds the mode of p(φ | y) by BFGS (gonum optimize) with the
+// reverse-mode gradient (gradient.go), and the inverse of the curvature
+// there by central differences of that gradient, and returns a Laplace
+// estimate of log p(y).
 func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err error) {
 	d := len(m.phi)
 	if d == 0 {
@@ -128,27 +131,16 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		}
 		return nil, nil, -f, nil
 	}
-	var buf cond
-	f := func(phi []float64) float64 { return m.objective(phi, &buf) }
+	lf := &laplaceFns{m: m}
 	x0 := make([]float64, d)
 	for i, p := range m.phi {
 		x0[i] = m.start[p.name] // a warm start where one is known
 	}
-	if math.IsInf(f(x0), 1) {
+	if math.IsInf(lf.f(x0), 1) {
 		var c cond
 		if err := m.condition(x0, &c); err != nil {
 			return nil, nil, 0, err
 		}
-	}
-	// Central differences with a step of 1e-5 (φ are log scales and winds
-	// in m/s): the objective sums many rows, so its rounding error grows
-	// with the campaign, and forward differences at the default step of
-	// ~1e-8 turned it into a gradient error of order 10 on a 24-
-	// configuration day, which left BFGS far from the mode and the
-	// proposal off-centre (common practice (no source): step ∝ ε^(1/3)).
-	prob := optimize.Problem{
-		Func: f,
-		Grad: func(g, x []float64) { fd.Gradient(g, f, x, &fd.Settings{Formula: fd.Central, Step: gradStep}) },
 	}
 	// A failed line search or the iteration limit still leaves a usable best
 	// point; the chains correct for an imperfect proposal.
@@ -156,27 +148,91 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 	// (the objective's rounding keeps the gradient from ever reaching the
 	// threshold on a large campaign).
 	conv := &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 2}
+	prob := optimize.Problem{Func: lf.f, Grad: lf.grad}
 	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
 	mode = x0
 	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
 		mode = res.X // also when the optimiser stopped early: its best point
 	}
-	H := mat.NewSymDense(d, nil)
-	fd.Hessian(H, f, mode, &fd.Settings{Formula: fd.Central})
+	H := lf.hessian(mode)
 	var ch mat.Cholesky
 	cov = mat.NewSymDense(d, nil)
 	if ch.Factorize(H) && ch.InverseTo(cov) == nil {
-		logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
+		logZ = -lf.f(mode) + 0.5*float64(d)*math.Log(2*math.Pi) - 0.5*ch.LogDet()
 		return mode, cov, logZ, nil
 	}
 	// The curvature is not positive definite (a flat direction): fall back
 	// on the prior spread, for the proposal and for the evidence alike.
-	logZ = -f(mode) + 0.5*float64(d)*math.Log(2*math.Pi)
+	logZ = -lf.f(mode) + 0.5*float64(d)*math.Log(2*math.Pi)
 	for i, p := range m.phi {
 		cov.SetSym(i, i, p.sd*p.sd)
 		logZ += math.Log(p.sd)
 	}
 	return mode, cov, logZ, nil
+}
+
+// laplaceFns are the Laplace fit's objective, gradient and curvature,
+// sharing one conditioning buffer: the line search asks for f and ∇f at
+// the same φ, and the gradient then reuses f's conditioning.
+type laplaceFns struct {
+	m    *model
+	c    cond
+	gb   gradBuf
+	last []float64 // the φ whose conditioning c holds, if finite
+	ok   bool
+}
+
+func (lf *laplaceFns) f(phi []float64) float64 {
+	v := lf.m.objective(phi, &lf.c)
+	lf.last, lf.ok = append(lf.last[:0], phi...), !math.IsInf(v, 1)
+	return v
+}
+
+// grad writes ∇f at φ into g. A model the reverse pass does not cover
+// (hasGradient) takes central differences with a step of 1e-5 (φ are log
+// scales and winds in m/s; forward differences at the default step of
+// ~1e-8 met the objective's rounding on a 24-configuration day, common
+// practice (no source): step ∝ ε^(1/3)).
+func (lf *laplaceFns) grad(g, phi []float64) {
+	if !lf.m.hasGradient() {
+		fd.Gradient(g, lf.f, phi, &fd.Settings{Formula: fd.Central, Step: gradStep})
+		return
+	}
+	fresh := !lf.ok || !slices.Equal(phi, lf.last)
+	v := lf.m.objectiveGrad(phi, g, &lf.c, &lf.gb, fresh)
+	lf.last, lf.ok = append(lf.last[:0], phi...), !math.IsInf(v, 1)
+}
+
+// hessian returns the curvature of f at φ: central differences of the
+// gradient, step h = gradStep·max(1, |φ_j|), symmetrised (without the
+// reverse pass, gonum's central-difference Hessian of f).
+func (lf *laplaceFns) hessian(phi []float64) *mat.SymDense {
+	d := len(phi)
+	H := mat.NewSymDense(d, nil)
+	if !lf.m.hasGradient() {
+		fd.Hessian(H, lf.f, phi, &fd.Settings{Formula: fd.Central})
+		return H
+	}
+	J := mat.NewDense(d, d, nil)
+	x := slices.Clone(phi)
+	gp, gm := make([]float64, d), make([]float64, d)
+	for j := range d {
+		h := gradStep * math.Max(1, math.Abs(phi[j]))
+		x[j] = phi[j] + h
+		lf.grad(gp, x)
+		x[j] = phi[j] - h
+		lf.grad(gm, x)
+		x[j] = phi[j]
+		for i := range d {
+			J.Set(i, j, (gp[i]-gm[i])/(2*h))
+		}
+	}
+	for i := range d {
+		for j := i; j < d; j++ {
+			H.SetSym(i, j, 0.5*(J.At(i, j)+J.At(j, i)))
+		}
+	}
+	return H
 }
 
 // sample computes the posterior: closed form when it can, else the chains.
@@ -250,14 +306,7 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 			continue // ESS cannot exceed the draws yet
 		}
 		post.collect(chains, n, prop.p, prop.d)
-		rmax, emin := 1.0, math.Inf(1)
-		var buf []float64
-		for _, q := range tracked {
-			var chains [][]float64
-			chains, buf = post.seriesInto(q, buf)
-			r, e := RhatESS(chains)
-			rmax, emin = math.Max(rmax, r), math.Min(emin, e)
-		}
+		rmax, emin := post.diagnose(tracked)
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
 		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
 			post.keep()
@@ -268,6 +317,34 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 	}
 }
 
+// diagnose returns the largest R̂ and the smallest bulk ESS of the tracked
+// quantities, diagnosed by workers goroutines, each its own buffer (the
+// chains are idle meanwhile).
+func (post *posterior) diagnose(tracked [][]entryRef) (rmax, emin float64) {
+	rs, es := make([]float64, workers), make([]float64, workers)
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var buf []float64
+			rs[w], es[w] = 1, math.Inf(1)
+			for qi := w; qi < len(tracked); qi += workers {
+				var chains [][]float64
+				chains, buf = post.seriesInto(tracked[qi], buf)
+				r, e := RhatESS(chains)
+				rs[w], es[w] = math.Max(rs[w], r), math.Min(es[w], e)
+			}
+		}()
+	}
+	wg.Wait()
+	rmax, emin = 1, math.Inf(1)
+	for w := range workers {
+		rmax, emin = math.Max(rmax, rs[w]), math.Min(emin, es[w])
+	}
+	return rmax, emin
+}
+
 // collect keeps the first n draws of every chain (p linear and d
 // non-linear parameters per draw).
 func (post *posterior) collect(chains []*chainState, n, p, d int) {
@@ -275,32 +352,51 @@ func (post *posterior) collect(chains []*chainState, n, p, d int) {
 	post.draws = post.draws[:0]
 	post.phiDraws = post.phiDraws[:0]
 	for _, ch := range chains {
-		post.draws = append(post.draws, ch.draws[:n*p])
-		post.phiDraws = append(post.phiDraws, ch.phis[:n*d])
+		post.draws = append(post.draws, ch.draws)
+		post.phiDraws = append(post.phiDraws, ch.phis)
 	}
 }
 
-// keep copies the kept draws out of the chains' buffers, which grew by
-// doubling, so that a posterior held for later (the standalone and
-// leave-one-out fits are) holds no more memory than its draws.
+// keep drops the draws past the first n of every chain, so that a
+// posterior held for later (the standalone and leave-one-out fits are)
+// holds no more memory than its draws.
 func (post *posterior) keep() {
 	for c := range post.draws {
-		post.draws[c] = slices.Clone(post.draws[c])
-		post.phiDraws[c] = slices.Clone(post.phiDraws[c])
+		post.draws[c].trim(post.n)
+		post.phiDraws[c].trim(post.n)
 	}
 }
 
 // trackedColumns returns the quantities whose convergence gates sampling:
 // the front, rear and total β of every configuration the evidence speaks
-// of (the others are the prior, drawn exactly).
+// of (the others are the prior, drawn exactly) and, given the reference
+// configuration of the result (Settings.reference), each one's difference
+// to it — every figure of the result that is a linear function of β.
 func (m *model) trackedColumns() [][]entryRef {
 	var out [][]entryRef
+	axles := []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal}
 	for _, c := range m.set.Configs {
 		if !m.informed[c] {
 			continue
 		}
-		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+		for _, ax := range axles {
 			out = append(out, m.quantity(evidence.Quantity{Config: c, Axle: ax}))
+		}
+	}
+	ref := m.set.reference
+	if _, ok := m.beta[[2]string{ref, evidence.AxleFront}]; !ok {
+		return out
+	}
+	for _, c := range m.set.Configs {
+		if c == ref || (!m.informed[c] && !m.informed[ref]) {
+			continue
+		}
+		for _, ax := range axles {
+			d := m.quantity(evidence.Quantity{Config: c, Axle: ax})
+			for _, t := range m.quantity(evidence.Quantity{Config: ref, Axle: ax}) {
+				d = append(d, entryRef{t.col, -t.v})
+			}
+			out = append(out, d)
 		}
 	}
 	return out
@@ -315,18 +411,16 @@ func (p *posterior) series(w []entryRef) [][]float64 {
 // seriesInto is series with the chains cut from one buffer, grown as
 // needed and returned for reuse.
 func (p *posterior) seriesInto(w []entryRef, buf []float64) ([][]float64, []float64) {
-	np := len(p.m.lin)
-	buf = grow(buf, len(p.draws)*p.n)
-	out := make([][]float64, len(p.draws))
-	for c, d := range p.draws {
-		out[c] = buf[c*p.n : (c+1)*p.n]
-		for i := range p.n {
-			var x float64
-			for _, t := range w {
-				x += t.v * d[i*np+t.col]
-			}
-			out[c][i] = x
-		}
+	return storesSeries(p.draws, p.n, w, buf)
+}
+
+// storesSeries is seriesInto over the first n draws of given chains.
+func storesSeries(chains []*drawStore, n int, w []entryRef, buf []float64) ([][]float64, []float64) {
+	buf = grow(buf, len(chains)*n)
+	out := make([][]float64, len(chains))
+	for c, d := range chains {
+		out[c] = buf[c*n : (c+1)*n]
+		d.combine(w, out[c])
 	}
 	return out, buf
 }

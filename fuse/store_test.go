@@ -1,0 +1,116 @@
+package fuse
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"liftfuse/methods/evidence"
+)
+
+// TestDrawStore: draws written to the block store read back as they were
+// written to a plain row-major slice (the reference) — one by one, as a
+// linear combination of columns, after trimming to fewer draws and after
+// keeping fewer columns — across block boundaries.
+func TestDrawStore(t *testing.T) {
+	for _, tc := range []struct{ width, n, trim, narrow int }{
+		{3, 10, 7, 2},
+		{5, storeBlock, storeBlock - 1, 5},
+		{4, 2*storeBlock + 17, storeBlock + 3, 1},
+		{0, 300, 200, 0},
+	} {
+		t.Run(fmt.Sprintf("w%d-n%d-trim%d-narrow%d", tc.width, tc.n, tc.trim, tc.narrow), func(t *testing.T) {
+			rng := rand.New(rand.NewPCG(1, uint64(tc.n)))
+			s := newDrawStore(tc.width)
+			var ref []float64
+			for range tc.n {
+				x := make([]float64, tc.width)
+				for j := range x {
+					x[j] = rng.NormFloat64()
+				}
+				s.add(x)
+				ref = append(ref, x...)
+			}
+			w := []entryRef{}
+			if tc.width > 0 {
+				w = []entryRef{{0, 2}, {tc.width - 1, -0.5}}
+			}
+			check := func(stage string, n, width int) {
+				t.Helper()
+				if s.n != n {
+					t.Fatalf("%s: %d draws, want %d", stage, s.n, n)
+				}
+				got := make([]float64, n)
+				s.combine(w, got)
+				var buf []float64
+				for i := range n {
+					row := ref[i*tc.width : i*tc.width+width]
+					if buf = s.at(i, buf); !slices.Equal(buf, row) {
+						t.Fatalf("%s: draw %d = %v, want %v", stage, i, buf, row)
+					}
+					var want float64
+					for _, r := range w {
+						want += r.v * ref[i*tc.width+r.col]
+					}
+					if got[i] != want {
+						t.Fatalf("%s: combination at draw %d = %v, want %v", stage, i, got[i], want)
+					}
+				}
+			}
+			check("written", tc.n, tc.width)
+			s.trim(tc.trim)
+			check("trimmed", tc.trim, tc.width)
+			s.narrow(tc.narrow)
+			if tc.narrow > 0 {
+				w = []entryRef{{0, 1.5}, {tc.narrow - 1, 1}}
+			}
+			check("narrowed", tc.trim, tc.narrow)
+		})
+	}
+}
+
+// TestCompactKeepsFigures: compacting a posterior (dropping its nuisance
+// draws) changes none of its figures, its joint mean, nor — through the
+// seeded refit — its joint covariance and draws, against the same fit
+// left whole.
+func TestCompactKeepsFigures(t *testing.T) {
+	m := scaleModel(t, 2, false)
+	whole, err := m.fit()
+	if err != nil {
+		t.Fatal(err)
+	}
+	P, err := m.fit()
+	if err != nil {
+		t.Fatal(err)
+	}
+	refits := 0
+	P.compact(func() (*Posterior, error) { refits++; return m.fit() })
+	if !P.compacted || refits != 0 {
+		t.Fatalf("compacted %v, refits %d", P.compacted, refits)
+	}
+	for _, c := range m.set.Configs {
+		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+			q := evidence.Quantity{Config: c, Axle: ax}
+			a, pa := P.Quantity(q)
+			b, pb := whole.Quantity(q)
+			if a != b || pa != pb {
+				t.Errorf("%s %s: %+v (%v) compacted, %+v (%v) whole", c, ax, a, pa, b, pb)
+			}
+		}
+	}
+	if !slices.Equal(P.jointMean(), whole.jointMean()) {
+		t.Error("joint mean differs after compaction")
+	}
+	mc, cc := P.joint()
+	mw, cw := whole.joint()
+	if !slices.Equal(mc, mw) || !slices.Equal(cc.RawSymmetric().Data, cw.RawSymmetric().Data) || refits != 1 {
+		t.Errorf("joint moments differ after compaction (refits %d)", refits)
+	}
+	var a, b [][]float64
+	P.jointDraws(func(th, ph []float64) { a = append(a, append(slices.Clone(th), ph...)) })
+	whole.jointDraws(func(th, ph []float64) { b = append(b, append(slices.Clone(th), ph...)) })
+	if !slices.EqualFunc(a, b, slices.Equal) || refits != 1 {
+		t.Errorf("joint draws differ after compaction (refits %d)", refits)
+	}
+}
