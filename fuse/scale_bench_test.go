@@ -100,14 +100,14 @@ func TestScaleSpec(t *testing.T) {
 	}
 }
 
-// scaleSpecText returns fuse.ScaleSpec of the demo's spec.
+// scaleSpecText returns sim.ScaleSpec of the demo's spec.
 func scaleSpecText(tb testing.TB, n int) string {
 	tb.Helper()
 	demo, err := os.ReadFile("../examples/ducktail-fastback/spec.yaml")
 	if err != nil {
 		tb.Fatal(err)
 	}
-	s, err := fuse.ScaleSpec(string(demo), n)
+	s, err := sim.ScaleSpec(string(demo), n)
 	if err != nil {
 		tb.Fatal(err)
 	}

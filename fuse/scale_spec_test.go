@@ -3,16 +3,18 @@ package fuse
 import (
 	"os"
 	"testing"
+
+	"liftfuse/methods/sim"
 )
 
-// scaleSpec returns ScaleSpec of the demo's spec with n configurations.
+// scaleSpec returns sim.ScaleSpec of the demo's spec with n configurations.
 func scaleSpec(tb testing.TB, n int) string {
 	tb.Helper()
 	b, err := os.ReadFile("../examples/ducktail-fastback/spec.yaml")
 	if err != nil {
 		tb.Fatal(err)
 	}
-	s, err := ScaleSpec(string(b), n)
+	s, err := sim.ScaleSpec(string(b), n)
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -8,12 +8,12 @@ import (
 	"path/filepath"
 	"testing"
 
-	"liftfuse/fuse"
+	"liftfuse/methods/sim"
 )
 
 // BenchmarkScale runs the fuse, report and plan commands end to end (load,
 // reduce, check, fuse, and the plan and the PDF) on simulated campaigns of
-// 2 to 48 configurations (fuse.ScaleSpec), side by side in one run (issue
+// 2 to 48 configurations (sim.ScaleSpec), side by side in one run (issue
 // 15):
 //
 //	go test ./cmd/liftfuse -run XXX -bench Scale -benchtime 3x
@@ -49,7 +49,7 @@ func BenchmarkScale(b *testing.B) {
 // returns its campaign file.
 func scaleCampaign(b *testing.B, demo string, n int, dir string) string {
 	b.Helper()
-	spec, err := fuse.ScaleSpec(demo, n)
+	spec, err := sim.ScaleSpec(demo, n)
 	if err != nil {
 		b.Fatal(err)
 	}

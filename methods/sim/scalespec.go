@@ -1,4 +1,4 @@
-package fuse
+package sim
 
 import (
 	"errors"
@@ -6,7 +6,7 @@ import (
 	"strings"
 )
 
-// ScaleSpec returns a simulation spec (methods/sim) of n ≥ 2
+// ScaleSpec returns a simulation spec of n ≥ 2
 // configurations made from the demo's spec text demo: the demo's own two
 // (baseline, ducktail) and n − 2 more, v03 … vNN, whose true lift steps
 // through a wing-angle-like sweep (invented values). Every ride-height
