@@ -306,7 +306,7 @@ func (v *validator) rows(r *logs.Reader, l *LogSpec, path string, ix LogIndex) *
 	for r.Next() {
 		rows++
 		t := r.Float(ix.Time)
-		res.t0, res.t1 = math.Min(res.t0, t), math.Max(res.t1, t)
+		res.t0, res.t1 = min(res.t0, t), max(res.t1, t)
 		if ix.Direction >= 0 {
 			if err := RowDirection(r.Float(ix.Direction)); err != nil {
 				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
