@@ -566,11 +566,18 @@ func (c *Campaign) Hash() (string, error) {
 // RowDirection checks one logged direction cell: +1 or −1. The validator
 // and the adapters that read a direction column both call it, so a fault
 // reads the same whoever finds it.
+// It is called on every row, so it is small enough to inline; the message
+// is built apart.
 func RowDirection(d float64) error {
 	if d != 1 && d != -1 {
-		return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
+		return badDirection(d)
 	}
 	return nil
+}
+
+//go:noinline
+func badDirection(d float64) error {
+	return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
 }
 
 // RowConfig checks one logged configuration id cell.
