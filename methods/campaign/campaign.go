@@ -28,6 +28,8 @@ type Campaign struct {
 	Dir      string     `yaml:"-"`
 	Files    []string   `yaml:"-"`
 	Warnings []*Problem `yaml:"-"`
+
+	digest *digest // Hash of Files, as loading read them (Load only)
 }
 
 // Info names the campaign.

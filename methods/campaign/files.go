@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -223,8 +224,9 @@ func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, 
 		return nil
 	}
 	defer f.Close()
-	v.c.addFile(name)
-	r, err := logs.NewReaderFormat(f, name, cols, l.ReaderFormat())
+	src, done := v.c.track(name, f)
+	defer done()
+	r, err := logs.NewReaderFormat(src, name, cols, l.ReaderFormat())
 	if err != nil {
 		v.headerProblems(err, l, path, cols)
 		return nil
@@ -275,8 +277,9 @@ func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 		return
 	}
 	defer f.Close()
-	v.c.addFile(name)
-	r, err := logs.NewReaderFormat(f, name, sf.SpeedFileColumns(), sf.ReaderFormat())
+	src, done := v.c.track(name, f)
+	defer done()
+	r, err := logs.NewReaderFormat(src, name, sf.SpeedFileColumns(), sf.ReaderFormat())
 	if err != nil {
 		pes := logs.ParseErrors(err)
 		if len(pes) == 0 {
@@ -303,7 +306,7 @@ func (v *validator) rows(r *logs.Reader, l *LogSpec, path string, ix LogIndex) *
 	for r.Next() {
 		rows++
 		t := r.Float(ix.Time)
-		res.t0, res.t1 = math.Min(res.t0, t), math.Max(res.t1, t)
+		res.t0, res.t1 = min(res.t0, t), max(res.t1, t)
 		if ix.Direction >= 0 {
 			if err := RowDirection(r.Float(ix.Direction)); err != nil {
 				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
@@ -342,16 +345,14 @@ type csvTable struct {
 	pos    [][]Where
 }
 
-func readTable(name string) (*csvTable, error) {
-	f, err := OpenRegular(name)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
+// readTable reads the table in f, named name, through track (Campaign.track).
+func readTable(name string, f *os.File, track func(string, *os.File) (io.Reader, func())) (*csvTable, error) {
 	if st, err := f.Stat(); err == nil && st.Size() > maxTableBytes {
 		return nil, fmt.Errorf("the table is larger than %d MiB (it holds one row per tap or reading)", maxTableBytes>>20)
 	}
-	cr := csv.NewReader(io.LimitReader(f, maxTableBytes))
+	src, done := track(name, f)
+	defer done()
+	cr := csv.NewReader(io.LimitReader(src, maxTableBytes))
 	cr.TrimLeadingSpace = true
 	cr.FieldsPerRecord = 0
 	t := &csvTable{name: name}
@@ -393,7 +394,12 @@ func (v *validator) tableNumber(cell string, w Where, path, col string) (float64
 
 func (v *validator) openTable(p Place, path, key, file string) *csvTable {
 	name := v.c.Path(file)
-	t, err := readTable(name)
+	f, err := OpenRegular(name)
+	var t *csvTable
+	if err == nil {
+		defer f.Close()
+		t, err = readTable(name, f, v.c.track)
+	}
 	if err != nil {
 		var pe *csv.ParseError
 		if errors.As(err, &pe) {
@@ -403,7 +409,6 @@ func (v *validator) openTable(p Place, path, key, file string) *csvTable {
 		}
 		return nil
 	}
-	v.c.addFile(name)
 	return t
 }
 
@@ -528,20 +533,15 @@ func (v *validator) loadReadings(e *PressureEntry, path string) {
 	}
 }
 
-// addFile records a file the campaign reads, once.
-func (c *Campaign) addFile(name string) {
-	for _, f := range c.Files {
-		if f == name {
-			return
-		}
-	}
-	c.Files = append(c.Files, name)
-}
-
 // Hash returns the hex SHA-256 of the campaign file and every file it read,
 // in the order read, each preceded by its length so that no two different
-// sets of files hash alike.
+// sets of files hash alike. A campaign from Load has it already, from the
+// bytes validation read (the files as they were then); otherwise, or if a
+// file was not read whole, the files are read again.
 func (c *Campaign) Hash() (string, error) {
+	if sum, ok := c.digest.sum(c.Files); ok {
+		return sum, nil
+	}
 	h := sha256.New()
 	for _, name := range c.Files {
 		f, err := OpenRegular(name)
@@ -566,11 +566,18 @@ func (c *Campaign) Hash() (string, error) {
 // RowDirection checks one logged direction cell: +1 or −1. The validator
 // and the adapters that read a direction column both call it, so a fault
 // reads the same whoever finds it.
+// It is called on every row, so it is small enough to inline; the message
+// is built apart.
 func RowDirection(d float64) error {
 	if d != 1 && d != -1 {
-		return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
+		return badDirection(d)
 	}
 	return nil
+}
+
+//go:noinline
+func badDirection(d float64) error {
+	return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
 }
 
 // RowConfig checks one logged configuration id cell.

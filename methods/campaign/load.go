@@ -2,6 +2,7 @@ package campaign
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"errors"
 	"fmt"
 	"io"
@@ -27,17 +28,26 @@ func Load(path string, opt Options) (*Campaign, error) {
 		return nil, Problems{{Where: Where{File: path}, Err: wrapf(ErrFile, "cannot read campaign: %v", err)}}
 	}
 	defer f.Close()
-	return Parse(f, path, filepath.Dir(path), opt)
+	d := &digest{h: sha256.New()}
+	src, done := d.start(f)
+	return parse(src, path, filepath.Dir(path), opt, d, done)
 }
 
 // Parse reads a campaign from src; name is used in messages and dir is the
 // folder relative to which the campaign's paths are resolved.
 func Parse(src io.Reader, name, dir string, opt Options) (*Campaign, error) {
+	return parse(src, name, dir, opt, nil, func() {})
+}
+
+// parse is Parse; sum, if not nil, is the digest of the campaign file read
+// from src (Load's), which done ends once the file is read.
+func parse(src io.Reader, name, dir string, opt Options, sum *digest, done func()) (*Campaign, error) {
 	root, err := readNode(src, name)
+	done()
 	if err != nil {
 		return nil, err
 	}
-	c := &Campaign{File: name, Dir: dir, Files: []string{name}}
+	c := &Campaign{File: name, Dir: dir, Files: []string{name}, digest: sum}
 	d := &decoder{file: name}
 	if p := otherDocument(d, root); p != nil {
 		return nil, Problems{p}

@@ -190,9 +190,9 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	}
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
-		p.ma = NewMovingAverage(int(math.Min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
+		p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
 	}
-	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > math.Max(1, 10*p.firstDT)
+	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > max(1, 10*p.firstDT)
 	p.prevT = t
 
 	// Which configuration and direction does this sample belong to?
@@ -273,7 +273,7 @@ func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err
 		return 0, 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Signal]), Field: p.l.Signal,
 			Err: fmt.Errorf("%w: reads %g mm after calibration, beyond any ride height (a spike, a dropout code or a unit slip?)", campaign.ErrData, h)}
 	}
-	return math.Max(v, 0), h, nil
+	return max(v, 0), h, nil
 }
 
 // sample is one row of a log as the finder sees it: time (s), ground speed
@@ -334,7 +334,7 @@ func (f *finder) add(s sample, config string, dir int) {
 	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
 	c.ends.add(v)
 	if c.probe {
-		qa := math.Max(s.qa, 0)
+		qa := max(s.qa, 0)
 		c.sumQA += qa
 		c.sumVA += math.Sqrt(2 * qa / f.rho)
 	}

@@ -1,0 +1,79 @@
+package campaign
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// reread is Hash's layout computed directly with the standard library's
+// SHA-256 (FIPS 180-4): each file's size in decimal and a newline, then
+// its bytes, in the order of files.
+func reread(t *testing.T, files []string) string {
+	t.Helper()
+	h := sha256.New()
+	for _, name := range files {
+		data, err := os.ReadFile(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fmt.Fprintf(h, "%d\n", len(data))
+		h.Write(data)
+	}
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+// TestHashFromLoadingRead: the hash Load gathers while validation reads the
+// files is byte for byte the hash of reading them again, and it covers
+// every file (the second read is not needed). Cases: the demo (a log and a
+// readings table) and testdata/mini (two entries on one log).
+func TestHashFromLoadingRead(t *testing.T) {
+	for _, tc := range []struct{ name, file string }{
+		{"demo", "../../examples/ducktail-fastback/campaign.yaml"},
+		{"mini", "../../testdata/mini/campaign.yaml"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := Load(tc.file, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(c.Files) < 2 {
+				t.Fatalf("files read = %v, want the campaign and its logs", c.Files)
+			}
+			got, ok := c.digest.sum(c.Files)
+			if !ok {
+				t.Fatalf("the digest covers %d of %d files", c.digest.fed, len(c.Files))
+			}
+			if want := reread(t, c.Files); got != want {
+				t.Errorf("digest while loading = %s, reading again = %s", got, want)
+			}
+			if h, err := c.Hash(); err != nil || h != got {
+				t.Errorf("Hash = %s, %v; want %s", h, err, got)
+			}
+		})
+	}
+}
+
+// TestHashWithoutLoad: a campaign from Parse (no file behind its source)
+// hashes its files by reading them, as before.
+func TestHashWithoutLoad(t *testing.T) {
+	file := "../../testdata/mini/campaign.yaml"
+	f, err := os.Open(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	c, err := Parse(f, file, filepath.Dir(file), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, ok := c.digest.sum(c.Files); ok {
+		t.Fatal("Parse gathered a digest; its source need not be the file named")
+	}
+	if h, err := c.Hash(); err != nil || h != reread(t, c.Files) {
+		t.Errorf("Hash = %s, %v; want %s", h, err, reread(t, c.Files))
+	}
+}
