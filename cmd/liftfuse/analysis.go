@@ -73,6 +73,7 @@ func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campa
 	if err != nil {
 		return nil, err
 	}
+	fusionStarts()
 	f, err := fuse.Run(fuse.Input{
 		Evidence: r.Evidence(), Settings: settings(c), Reference: c.Report.ReferenceConfig,
 		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,

@@ -14,14 +14,34 @@ import (
 	"liftfuse/report"
 )
 
-// memoryLimit is a soft limit for the Go heap: log reduction streams
-// through a few blocks, and collecting garbage before the heap doubles keeps
-// the whole process small however long the log (GOMEMLIMIT overrides it).
-const memoryLimit = 24 << 20
+// readingLimit is a soft limit for the Go heap while logs are read and
+// reduced: reduction streams through a few blocks, and collecting garbage
+// before the heap doubles keeps the whole process small however long the
+// log. fusionLimit replaces it when the fusion starts, whose working set
+// grows with the configurations: under the reading limit the collector
+// would run almost without pause there (24 configurations: 3.9 s against
+// 2.9 s at 64 MiB; measured with GOMEMLIMIT, /usr/bin/time). GOMEMLIMIT
+// overrides both.
+const (
+	readingLimit = 24 << 20
+	fusionLimit  = 64 << 20
+)
+
+// phasedLimits is true when the command sets the heap limits itself (not
+// under GOMEMLIMIT, nor in tests that call run).
+var phasedLimits bool
+
+// fusionStarts raises the heap limit to fusionLimit (see readingLimit).
+func fusionStarts() {
+	if phasedLimits {
+		debug.SetMemoryLimit(fusionLimit)
+	}
+}
 
 func main() {
 	if os.Getenv("GOMEMLIMIT") == "" {
-		debug.SetMemoryLimit(memoryLimit)
+		phasedLimits = true
+		debug.SetMemoryLimit(readingLimit)
 	}
 	ctx := onSignal(context.Background(), os.Stderr)
 	os.Exit(run(ctx, os.Args[1:], os.Stdout, os.Stderr))
