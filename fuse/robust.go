@@ -2,13 +2,13 @@ package fuse
 
 import (
 	"errors"
+	"fmt"
+	"math"
 	"sort"
+	"strings"
 	"sync"
 
-	"fmt"
 	"gonum.org/v1/gonum/mat"
-	"math"
-	"strings"
 
 	"liftfuse/methods/evidence"
 )

@@ -31,7 +31,7 @@ func scaleInput(tb testing.TB, n int) fuse.Input {
 		return in
 	}
 	dir := tb.TempDir()
-	c, _, err := sim.Build(strings.NewReader(scaleSpecText(tb, n)), "scale.yaml", dir)
+	c, _, err := sim.Build(strings.NewReader(fuse.ScaleSpecText(tb, n)), "scale.yaml", dir)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -94,22 +94,8 @@ func TestScaleSpec(t *testing.T) {
 	}
 	for _, n := range scaleSizes {
 		p := filepath.Join(out, fmt.Sprintf("scale-%02d.yaml", n))
-		if err := os.WriteFile(p, []byte(scaleSpecText(t, n)), 0o644); err != nil {
+		if err := os.WriteFile(p, []byte(fuse.ScaleSpecText(t, n)), 0o644); err != nil {
 			t.Fatal(err)
 		}
 	}
-}
-
-// scaleSpecText returns sim.ScaleSpec of the demo's spec.
-func scaleSpecText(tb testing.TB, n int) string {
-	tb.Helper()
-	demo, err := os.ReadFile("../examples/ducktail-fastback/spec.yaml")
-	if err != nil {
-		tb.Fatal(err)
-	}
-	s, err := sim.ScaleSpec(string(demo), n)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return s
 }
