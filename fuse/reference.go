@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/rand/v2"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -89,10 +90,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 				}
 			}
 			for i := range t {
-				t[i] = 0
-				for j, a := range st.A.RawRowView(i) {
-					t[i] += a * y[j]
-				}
+				t[i] = floats.Dot(st.A.RawRowView(i), y)
 			}
 			out = append(out, quadForm(st.Vp, t))
 		}
