@@ -171,6 +171,9 @@ func entryNoise(m *model, e int) *noiseDraws {
 	return nd
 }
 
+// draw returns one draw of the entry's errors, block by block: for a block
+// whose precision is P = L·Lᵀ, ε = L⁻ᵀ·z with z standard normal has
+// covariance P⁻¹; a diagonal block scales z by 1/√P_ii.
 func (nd *noiseDraws) draw(rng *rand.Rand) []float64 {
 	nd.out = nd.out[:0]
 	for b, bl := range nd.blocks {
