@@ -1,78 +1,25 @@
 package logs_test
 
 import (
-	"bufio"
 	"bytes"
-	"fmt"
 	"io"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"syscall"
 	"testing"
 
 	"liftfuse/methods/logs"
+	"liftfuse/methods/logs/logtest"
 )
 
-// benchLogBytes is the size of the log benchLog writes; a log of another
-// size (an older generator's, whose speed ramped down below zero and which
-// the reduction refuses) is written again.
-const benchLogBytes = 88_246_556
-
-// benchLog writes (once per machine) the 1 kHz, 30-minute, 8-column log
-// that methods/height's ReduceLog benchmark reads (same name, same rows),
-// and returns its path.
-func benchLog(tb testing.TB) string {
-	tb.Helper()
-	name := filepath.Join(os.TempDir(), "liftfuse-bench-1khz-30min.csv")
-	if st, err := os.Stat(name); err == nil && st.Size() == benchLogBytes {
-		return name
-	}
-	f, err := os.Create(name + ".tmp")
-	if err != nil {
-		tb.Fatal(err)
-	}
-	w := bufio.NewWriterSize(f, 1<<20)
-	rng := rand.New(rand.NewPCG(1, 2))
-	fmt.Fprintln(w, "t_s,v_kmh,dir,front_pot_v,rear_pot_v,rear_laser_mm,coolant_c,steer_deg")
-	for i := range 1_800_000 {
-		t := float64(i) / 1000
-		phase := math.Mod(t, 60)
-		v := 120.0
-		switch {
-		case phase < 10:
-			v = 35
-		case phase < 15:
-			v = 35 + 17*(phase-10)
-		case phase > 50:
-			v = 120 - 8.5*(phase-50) // back to 35 km/h: no negative speeds
-		}
-		v += 0.3 * rng.NormFloat64()
-		dir := 1
-		if int(t/60)%2 == 1 {
-			dir = -1
-		}
-		fmt.Fprintf(w, "%.3f,%.2f,%d,%.4f,%.4f,%.2f,%.1f,%.2f\n", t, v, dir, 2+0.01*rng.NormFloat64(), 1.6+0.01*rng.NormFloat64(),
-			118+0.4*rng.NormFloat64(), 88+rng.Float64(), rng.NormFloat64())
-	}
-	if err := w.Flush(); err != nil {
-		tb.Fatal(err)
-	}
-	f.Close()
-	if err := os.Rename(name+".tmp", name); err != nil {
-		tb.Fatal(err)
-	}
-	return name
-}
-
-// benchLogSemicolon is benchLog as a European logger writes it: ';' cells
+// benchLogSemicolon is logtest.BenchLog as a European logger writes it: ';' cells
 // and decimal commas (same size, same values).
 func benchLogSemicolon(tb testing.TB) string {
 	tb.Helper()
-	src := benchLog(tb)
+	src := logtest.BenchLog(tb)
 	name := filepath.Join(os.TempDir(), "liftfuse-bench-1khz-30min-semicolon.csv")
-	if st, err := os.Stat(name); err == nil && st.Size() == benchLogBytes {
+	if st, err := os.Stat(name); err == nil && st.Size() == logtest.BenchLogBytes {
 		return name
 	}
 	data, err := os.ReadFile(src)
@@ -101,10 +48,10 @@ var benchCols = []logs.Column{{Name: "t_s"}, {Name: "v_kmh"}, {Name: "front_pot_
 
 // BenchmarkReadLog: the reader alone over the 1 kHz log, four of eight
 // columns, every value touched. Reported as MB/s of log.
-func BenchmarkReadLog(b *testing.B) { benchRead(b, benchLog(b), 0) }
+func BenchmarkReadLog(b *testing.B) { benchRead(b, logtest.BenchLog(b), 0) }
 
 // BenchmarkReadLogOneWorker: the same with one parsing goroutine.
-func BenchmarkReadLogOneWorker(b *testing.B) { benchRead(b, benchLog(b), 1) }
+func BenchmarkReadLogOneWorker(b *testing.B) { benchRead(b, logtest.BenchLog(b), 1) }
 
 // BenchmarkReadLogSemicolon: the same log with ';' and decimal commas,
 // detected.
