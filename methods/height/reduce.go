@@ -288,15 +288,15 @@ type finder struct {
 
 	windows []Window
 	cur     struct {
-		config           string
-		dir              int
-		from, to         float64
-		sumV, minV, maxV float64
-		sumV2            float64 // Σ V², (km/h)²
-		ends             speedEnds
-		sumQA, sumVA     float64 // Σ q_air (Pa), Σ V_air (m/s)
-		probe            bool
-		h                steady.Stats
+		config       string
+		dir          int
+		from, to     float64
+		speed        steady.Band
+		sumV2        float64 // Σ V², (km/h)²
+		ends         speedEnds
+		sumQA, sumVA float64 // Σ q_air (Pa), Σ V_air (m/s)
+		probe        bool
+		h            steady.Stats
 	}
 	open bool
 }
@@ -310,27 +310,19 @@ func (f *finder) add(s sample, config string, dir int) {
 		return
 	}
 	v := s.v
-	if f.open {
-		// Every sample within ±tol of the mean with v added: with n samples
-		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
-		n := float64(c.h.N() + 1)
-		sum := c.sumV + v
-		hi, lo := max(c.maxV, v), min(c.minV, v)
-		if n*hi-sum > n*f.tol || sum-n*lo > n*f.tol {
-			f.close()
-		}
+	if f.open && !c.speed.Admits(v, f.tol) {
+		f.close()
 	}
 	if !f.open {
 		f.open = true
 		c.config, c.dir, c.from = config, dir, s.t
-		c.sumV, c.minV, c.maxV, c.sumV2 = 0, v, v, 0
+		c.speed, c.sumV2 = steady.Band{}, 0
 		c.ends = speedEnds{}
 		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
 		c.h = steady.Stats{}
 	}
 	c.to = s.t
-	c.sumV += v
-	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
+	c.speed.Add(v)
 	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
 	c.ends.add(v)
 	if c.probe {
@@ -355,7 +347,7 @@ func (f *finder) close() {
 	slope, slopeSE := c.ends.accel(c.to - c.from)
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
-		N: c.h.N(), NEff: neff, SpeedKmh: c.sumV / n,
+		N: c.h.N(), NEff: neff, SpeedKmh: c.speed.Mean(),
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),

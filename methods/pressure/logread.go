@@ -42,11 +42,11 @@ type tapReader struct {
 	windows []TapWindow
 	open    bool
 	cur     struct {
-		config           string
-		dir              int
-		from, to         float64
-		sumV, minV, maxV float64
-		taps             []steady.Stats
+		config   string
+		dir      int
+		from, to float64
+		speed    steady.Band
+		taps     []steady.Stats
 	}
 }
 
@@ -166,25 +166,17 @@ func (tr *tapReader) add(r *logs.Reader, t, v float64, config string, dir int) {
 	if config == "" {
 		return
 	}
-	if tr.open {
-		// Every sample within ±tol of the mean with v added: with n samples
-		// and sum s, max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n.
-		n := float64(c.taps[0].N() + 1)
-		sum := c.sumV + v
-		hi, lo := max(c.maxV, v), min(c.minV, v)
-		if n*hi-sum > n*tr.tol || sum-n*lo > n*tr.tol {
-			tr.close()
-		}
+	if tr.open && !c.speed.Admits(v, tr.tol) {
+		tr.close()
 	}
 	if !tr.open {
 		tr.open = true
 		c.config, c.dir, c.from = config, dir, t
-		c.sumV, c.minV, c.maxV = 0, v, v
+		c.speed = steady.Band{}
 		c.taps = make([]steady.Stats, len(tr.ix.Taps))
 	}
 	c.to = t
-	c.sumV += v
-	c.minV, c.maxV = min(c.minV, v), max(c.maxV, v)
+	c.speed.Add(v)
 	for k, at := range tr.ix.Taps {
 		c.taps[k].Add(r.Float(at))
 	}
@@ -201,7 +193,7 @@ func (tr *tapReader) close() {
 		return
 	}
 	n := c.taps[0].N()
-	w := TapWindow{Log: tr.li, Config: c.config, Direction: c.dir, From: c.from, To: c.to, N: n, SpeedKmh: c.sumV / float64(n)}
+	w := TapWindow{Log: tr.li, Config: c.config, Direction: c.dir, From: c.from, To: c.to, N: n, SpeedKmh: c.speed.Mean()}
 	for k := range c.taps {
 		se, _ := c.taps[k].StandardError()
 		w.Pa = append(w.Pa, c.taps[k].Mean())
