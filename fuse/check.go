@@ -1,47 +1,10 @@
 package fuse
 
-import (
-	"fmt"
-	"strings"
-)
+import "liftfuse/methods/evidence"
 
-// Check is one tripped model check (model.md, "Model checks"): which test,
-// on which entry, configuration and span or tap, how surprising it is, the
-// likely cause in the trade's words and what to do. The adapters' checks
-// reach fusion through Input.Checks; fusion carries each into Result.Checks
-// and, as one readable line (Line), into Result.Warnings.
-type Check struct {
-	Check  string  `json:"check"`            // e.g. "height-not-linear"
-	Entry  string  `json:"entry"`            // the evidence entry's id
-	Config string  `json:"config,omitempty"` // configuration, when one
-	Where  string  `json:"where,omitempty"`  // span, windows or tap
-	PValue float64 `json:"p_value"`          // the check's p-value
-	Cause  string  `json:"cause"`            // likely cause, in the trade's words
-	Action string  `json:"action"`           // what to do
-}
-
-// Line is the check as one readable warning:
-//
-//	rear-pot, wing-mid, windows above 140 km/h: height-not-linear (p = 0.0004) — bump-stop contact or progressive springs; set max_speed_kmh: 140 on rear-pot
-func (c Check) Line() string {
-	var at []string
-	for _, s := range []string{c.Entry, c.Config, c.Where} {
-		if s != "" {
-			at = append(at, s)
-		}
-	}
-	msg := strings.Join(at, ", ") + ": " + c.Check
-	if c.PValue > 0 { // rule-based checks carry no p-value
-		msg += fmt.Sprintf(" (p = %.2g)", c.PValue)
-	}
-	if c.Cause != "" {
-		msg += " — likely " + c.Cause
-	}
-	if c.Action != "" {
-		msg += "; " + c.Action
-	}
-	return msg
-}
+// Check is one tripped model check, as the result document carries it
+// (evidence.ModelCheck).
+type Check = evidence.ModelCheck
 
 // AddChecks appends tripped model checks to a result document: each to
 // Checks and, as its Line, to Warnings. Run does this for Input.Checks; a

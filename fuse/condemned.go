@@ -16,8 +16,10 @@ import (
 // wrong (a bump stop met, a tap blocked or leaking). A window beyond 4 sd
 // condemns one window only and is left to P(off).
 var (
-	entryChecks  = map[string]bool{"speed-units": true, "entry-mirrored": true, "cla-too-large": true, "gain-negative": true}
-	configChecks = map[string]bool{"height-not-linear": true, "tap-blocked": true, "tap-cp-high": true, "tap-cp-speed": true}
+	entryChecks = map[string]bool{evidence.IDSpeedUnits: true, evidence.IDMirror: true, evidence.IDCLATooLarge: true,
+		evidence.IDGainNegative: true}
+	configChecks = map[string]bool{evidence.IDHeightNotLinear: true, evidence.IDTapBlocked: true, evidence.IDTapCpHigh: true,
+		evidence.IDTapSpeed: true}
 )
 
 // distrustSD is the factor by which the error sd of condemned data is

@@ -77,7 +77,7 @@ func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campa
 	f, err := fuse.Run(fuse.Input{
 		Evidence: r.Evidence(), Settings: settings(c), Reference: c.Report.ReferenceConfig,
 		SpeedsKmh: c.Report.SpeedsKmh, Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings,
-		Checks: modelChecks(c, r),
+		Checks: checks.Run(c, r),
 	})
 	if err != nil {
 		return nil, err
@@ -86,17 +86,6 @@ func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campa
 		return nil, err
 	}
 	return &analysis{campaign: c, reduced: r, fused: f}, nil
-}
-
-// modelChecks runs the model checks on the adapters' results and hands
-// them over in the result document's type (the same fields).
-func modelChecks(c *campaign.Campaign, r *methods.Reduced) []fuse.Check {
-	cs := checks.Run(c, r)
-	out := make([]fuse.Check, len(cs))
-	for i, k := range cs {
-		out[i] = fuse.Check(k)
-	}
-	return out
 }
 
 // stamp fills the result's campaign title, input hash and tool version.

@@ -6,6 +6,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/fuse"
+	"liftfuse/methods/checks"
 	"liftfuse/report"
 )
 
@@ -49,7 +50,7 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 		return err
 	}
 	res.Warnings = append(r.Warnings, res.Warnings...)
-	res.AddChecks(modelChecks(c, r))
+	res.AddChecks(checks.Run(c, r))
 	if err := stamp(res, c); err != nil {
 		return err
 	}

@@ -5,22 +5,14 @@ import (
 
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/methods/pressure"
 )
 
-// Check is one tripped model check: which entry and configuration, where
-// (a time span, windows above a speed, a tap), the p-value of the test
-// (0 for a rule), a likely cause in the trade's words and what to do.
-type Check struct {
-	Check  string  `json:"check"`
-	Entry  string  `json:"entry"`
-	Config string  `json:"config,omitempty"`
-	Where  string  `json:"where,omitempty"`
-	PValue float64 `json:"p_value"`
-	Cause  string  `json:"cause"`
-	Action string  `json:"action"`
-}
+// Check is one tripped model check (evidence.ModelCheck, the type the
+// fusion and the result document take).
+type Check = evidence.ModelCheck
 
 // Check ids.
 const (

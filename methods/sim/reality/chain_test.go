@@ -27,13 +27,9 @@ func fuseDay(t *testing.T, dir string) *fuse.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var cs []fuse.Check
-	for _, k := range checks.Run(c, r) {
-		cs = append(cs, fuse.Check(k))
-	}
 	ids := c.ConfigIDs()
 	f, err := fuse.Run(fuse.Input{Evidence: r.Evidence(), Reference: c.Report.ReferenceConfig, SpeedsKmh: c.Report.SpeedsKmh,
-		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings, Checks: cs,
+		Rho: c.Density(), FrontalAreaM2: c.Vehicle.FrontalAreaM2, Warnings: r.Warnings, Checks: checks.Run(c, r),
 		Settings: fuse.Settings{Configs: ids, PriorSD: c.Prior.CLASDM2, Linear: c.Prior.SpeedModel == campaign.SpeedLinear,
 			Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}})
 	if err != nil {
