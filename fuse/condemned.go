@@ -3,7 +3,6 @@ package fuse
 import (
 	"errors"
 	"fmt"
-	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -176,30 +175,16 @@ func (ck *checked) refine(logZ float64) error {
 // its errors widened ×κ — unless the entry looks off itself (see
 // robustOthers). Two at a time, as leaveOneOut.
 func (ck *checked) fitOthers() error {
-	n := len(ck.evs)
-	errs := make([]error, n)
-	jobs := make(chan int)
-	var wg sync.WaitGroup
-	for range 2 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for e := range jobs {
-				om, err := ck.lo.othersModel(ck.evs, e)
-				if err == nil {
-					ck.lo.others[e], err = om.variant(ck.offAmongOthers(e), true, true).fit()
-				}
-				if err != nil {
-					errs[e] = fmt.Errorf("every entry but %q, without the data the model checks condemn: %w", ck.evs[e].Entry, err)
-				}
-			}
-		}()
-	}
-	for e := range n {
-		jobs <- e
-	}
-	close(jobs)
-	wg.Wait()
+	errs := make([]error, len(ck.evs))
+	parallel(len(ck.evs), func(e int) {
+		om, err := ck.lo.othersModel(ck.evs, e)
+		if err == nil {
+			ck.lo.others[e], err = om.variant(ck.offAmongOthers(e), true, true).fit()
+		}
+		if err != nil {
+			errs[e] = fmt.Errorf("every entry but %q, without the data the model checks condemn: %w", ck.evs[e].Entry, err)
+		}
+	})
 	return errors.Join(errs...)
 }
 

@@ -212,14 +212,9 @@ func flatten(chains [][]float64) []float64 {
 	return out
 }
 
-// summarize returns mean, sd, central interval and P(x < 0) of draws. The
-// two quantiles are found by selection rather than a full sort (the same
-// order statistics, in linear time).
-func summarize(x []float64, level float64) (Estimate, float64) {
-	return summarizeOwned(append([]float64(nil), x...), level)
-}
-
-// summarizeOwned is summarize on draws it may reorder.
+// summarizeOwned returns mean, sd, central interval and P(x < 0) of draws
+// it may reorder. The two quantiles are found by selection rather than a
+// full sort (the same order statistics, in linear time).
 func summarizeOwned(x []float64, level float64) (Estimate, float64) {
 	if len(x) == 0 {
 		nan := math.NaN()

@@ -76,20 +76,14 @@ func (m *model) priorPrecision(i int) float64 {
 func predictiveMoments(full *model, others *Posterior) ([]float64, *mat.SymDense) {
 	om := others.p.m
 	oMean, oCov := others.joint()
-	where := map[string]int{}
-	for i := range om.dim() {
-		where[om.paramKey(i)] = i
-	}
 	D := full.dim()
 	p := len(full.lin)
 	mean := make([]float64, D)
 	cov := mat.NewSymDense(D, nil)
-	src := make([]int, D)
+	src := sharedIndex(full, om)
 	for i := range D {
-		j, ok := where[full.paramKey(i)]
-		src[i] = -1
-		if ok {
-			src[i], mean[i] = j, oMean[j]
+		if j := src[i]; j >= 0 {
+			mean[i] = oMean[j]
 			continue
 		}
 		switch {
