@@ -93,7 +93,7 @@ func (r *reporter) agreementBars() []bar {
 	}
 	cfgs := r.configs()
 	for ci, cfg := range cfgs[:charted(len(cfgs))] {
-		for _, ax := range []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal} {
+		for _, ax := range axles {
 			var entries []bar
 			for _, m := range r.res.Methods {
 				if signOnly[m.ID] {

@@ -131,13 +131,6 @@ func kindOf(m fs.FileMode) string {
 	return "not a file"
 }
 
-// WriteFile writes data to name atomically (see WriteFiles). perm is the
-// mode of a new file; an existing file keeps its mode.
-func WriteFile(name string, data []byte, perm os.FileMode) error {
-	_ = perm // kept for callers; the mode rule is WriteFiles'
-	return WriteFiles(context.Background(), Bytes(name, data))
-}
-
 // pending is one output written to its temporary file.
 type pending struct {
 	out    Output

@@ -3,7 +3,6 @@ package main
 import (
 	"io"
 	"math"
-	"slices"
 
 	"github.com/spf13/cobra"
 
@@ -104,12 +103,8 @@ func runCrosscheck(o crosscheckOptions, out, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var ids []string
-	for _, c := range a.campaign.Configurations {
-		ids = append(ids, c.ID)
-	}
-	if !slices.Contains(ids, cl.Config) {
-		return badInput("unknown configuration %q for --config (known: %s)", cl.Config, words(ids, "and"))
+	if !a.campaign.HasConfig(cl.Config) {
+		return badInput("unknown configuration %q for --config (known: %s)", cl.Config, words(a.campaign.ConfigIDs(), "and"))
 	}
 	cc, err := a.fused.Crosscheck(cl, a.campaign.Density())
 	if err != nil {
