@@ -238,12 +238,6 @@ type LogSpec struct {
 	Detected string `yaml:"-"`
 }
 
-// Airspeed reports whether the log carries a measured airspeed (a probe's
-// speed or differential pressure) rather than ground speed alone.
-func (l *LogSpec) Airspeed() bool {
-	return l.AirspeedKmh != "" || l.AirspeedMs != "" || l.QPa != ""
-}
-
 // Time formats and empty-cell policies of a log (LogFormat).
 const (
 	TimeSeconds = "seconds"

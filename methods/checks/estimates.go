@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"liftfuse/methods/campaign"
@@ -125,19 +126,10 @@ func pressureEstimates(c *campaign.Campaign, r *pressure.Result) []estimate {
 
 // meanVar returns the mean and the sample variance (0 for one value).
 func meanVar(xs []float64) (float64, float64) {
-	var s float64
-	for _, x := range xs {
-		s += x
-	}
-	mu := s / float64(len(xs))
 	if len(xs) < 2 {
-		return mu, 0
+		return stat.Mean(xs, nil), 0
 	}
-	var v float64
-	for _, x := range xs {
-		v += (x - mu) * (x - mu)
-	}
-	return mu, v / float64(len(xs)-1)
+	return stat.MeanVariance(xs, nil)
 }
 
 // maxCLA is the size of an axle C_L·A no road car reaches (model.md:

@@ -67,7 +67,7 @@ func (g Group) prepare() reml {
 	return r
 }
 
-// restrictedLogLik returns the restricted (REML) log-likelihood of σ_g²,
+// logLik returns the restricted (REML) log-likelihood of σ_g²,
 // up to a constant: the likelihood of the residuals with the fixed effects
 // integrated out under a flat prior (Patterson & Thompson, Biometrika 58,
 // 1971; Harville, JASA 72, 1977 — from memory),
@@ -104,9 +104,6 @@ func (r reml) logLik(s2 float64) (ll float64, ok bool) {
 	}
 	return -0.5 * (ldv + ca.LogDet() + quad - mat.Dot(b, &ab)), true
 }
-
-// restrictedLogLik is the group's restricted log-likelihood of σ_g².
-func (g Group) restrictedLogLik(s2 float64) (float64, bool) { return g.prepare().logLik(s2) }
 
 // nonZeroColumns returns X without its all-zero columns.
 func nonZeroColumns(X *mat.Dense, n, p int) *mat.Dense {

@@ -111,3 +111,6 @@ func TestScatterREML(t *testing.T) {
 		t.Errorf("mean estimate %.2f, true %.1f", sum, truth)
 	}
 }
+
+// restrictedLogLik is the group's restricted log-likelihood of σ_g².
+func (g Group) restrictedLogLik(s2 float64) (float64, bool) { return g.prepare().logLik(s2) }

@@ -35,7 +35,6 @@ type Interp struct {
 	t0, v0  float64 // sample at or before the last time asked
 	t1, v1  float64 // sample after it
 	firstT  float64 // the other log's first sample
-	n       int     // samples of other read
 	done    bool
 }
 
@@ -79,7 +78,7 @@ func (ip *Interp) At(t float64) (float64, error) {
 	}
 	t = max(t, ip.firstT)
 	if t < ip.t0 {
-		return 0, fmt.Errorf("logs: Interp.At asked for %g s after %g s", t, ip.t1)
+		return 0, fmt.Errorf("logs: Interp.At asked for %g s, before %g s already passed (the times asked must not decrease)", t, ip.t0)
 	}
 	for t > ip.t1 && !ip.done {
 		ip.step()
@@ -121,7 +120,6 @@ func (ip *Interp) begin() error {
 		// Both on one clock: the other's first sample is this far after main's.
 		ip.shift += float64(o.t0-m.t0) / float64(nsPerSec)
 	}
-	ip.n = 1
 	ip.t1, ip.v1 = o.Float(ip.timeK)+ip.shift, o.Float(ip.valueK)
 	ip.t0, ip.v0, ip.firstT = ip.t1, ip.v1, ip.t1
 	return nil
@@ -134,7 +132,6 @@ func (ip *Interp) step() {
 		ip.done = true
 		return
 	}
-	ip.n++
 	ip.t0, ip.v0 = ip.t1, ip.v1
 	ip.t1, ip.v1 = o.Float(ip.timeK)+ip.shift, o.Float(ip.valueK)
 }

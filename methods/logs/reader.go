@@ -407,16 +407,6 @@ func (r *Reader) postRow() bool {
 	return true
 }
 
-// Origin returns the time of the log's first sample for clock time (in
-// seconds after midnight) and ISO time (Unix seconds); 0 for time in
-// seconds or before the first row.
-func (r *Reader) Origin() float64 {
-	if !r.haveT0 {
-		return 0
-	}
-	return float64(r.t0) / float64(nsPerSec)
-}
-
 // Float returns the value of asked-for column k in the current row.
 func (r *Reader) Float(k int) float64 { return r.cur.vals[r.base+k] }
 
