@@ -66,6 +66,13 @@ func LoadTransferN(m, a, h, L float64) float64 { return m * a * h / L }
 //
 // Anti-dive and anti-squat geometry, which carry part of the transfer
 // past the springs, are not modelled (a pot's share is then overstated).
+// AccelCoef is accelCoef for the result's sensor: the coefficient of h_cg
+// in a window's height at mean acceleration a (mm per m), as the entry's
+// evidence carries it. The model checks take the same load transfer out.
+func (r *Result) AccelCoef(v campaign.Vehicle, a float64) float64 {
+	return accelCoef(v, r.Lever, a)
+}
+
 func accelCoef(v campaign.Vehicle, lv Lever, a float64) float64 {
 	per := LoadTransferN(v.MassKg, a, 1, v.WheelbaseM) // N per m of h_cg
 	var c float64
