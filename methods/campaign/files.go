@@ -268,9 +268,18 @@ func (v *validator) headerProblems(err error, l *LogSpec, path string, cols []lo
 	}
 }
 
-// scanSpeedFile checks a speed file's header and cells.
+// scanSpeedFile checks a speed file's header and cells, once per file and
+// columns however many logs name it.
 func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 	name := v.c.Path(sf.File)
+	key := scanKey(name, sf.SpeedFileColumns(), sf.ReaderFormat())
+	if v.speeds[key] {
+		return // read once; its problems, if any, are reported at the first log naming it
+	}
+	if v.speeds == nil {
+		v.speeds = map[string]bool{}
+	}
+	v.speeds[key] = true
 	f, err := OpenRegular(name)
 	if err != nil {
 		v.errf(sf.At.Of("file"), path+".file", ErrFile, "cannot read speed file %q: %v", sf.File, err)

@@ -20,6 +20,7 @@ type validator struct {
 	configs  map[string]bool
 	informed map[string]bool        // configs that some evidence speaks of
 	scanned  map[string]*scanResult // logs read, by file and columns
+	speeds   map[string]bool        // speed files read, by file and columns
 }
 
 func (v *validator) errf(w Where, path string, kind error, format string, args ...any) {
