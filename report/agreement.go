@@ -149,8 +149,8 @@ func (r *reporter) checksTable() {
 	r.pg.para("Each entry's data are also checked against what its own model assumes (heights linear in q, residuals of the windows, taps that read like a blocked or leaking line, plausible speeds and sizes). A check that trips does not change the figures; it says where to look.")
 	var rows [][]string
 	for _, c := range cs {
-		where := strings.Join(slices.DeleteFunc([]string{c.config, c.where}, func(s string) bool { return s == "" }), ", ")
-		rows = append(rows, []string{c.entry, where, checkName(c.check), fmt.Sprintf("%.2g", c.pValue), c.cause, c.action})
+		where := strings.Join(slices.DeleteFunc([]string{c.Config, c.Where}, func(s string) bool { return s == "" }), ", ")
+		rows = append(rows, []string{c.Entry, where, checkName(c.Check.Check), fmt.Sprintf("%.2g", c.PValue), c.Cause, c.Action})
 	}
 	r.pg.table([]column{{"entry", 1, "L"}, {"where", 1.2, "L"}, {"check", 1.1, "L"}, {"p", 0.5, "R"}, {"likely cause", 1.6, "L"}, {"what to do", 1.6, "L"}}, rows)
 }

@@ -239,7 +239,7 @@ func (r *reporter) checks() []string {
 func (r *reporter) otherWarnings() []string {
 	said := map[string]bool{}
 	for _, c := range checksOf(r.res) {
-		said[c.line] = true
+		said[c.Line()] = true
 	}
 	var out []string
 	for _, w := range r.res.Warnings {

@@ -31,15 +31,8 @@ type headline struct {
 	plainDeltas []fuse.DeltaResult
 }
 
-// modelCheck is one tripped model check of an entry (fuse.Check).
-type modelCheck struct {
-	check, entry, config, where string
-	pValue                      float64
-	cause, action               string
-	// line is the check as the result's warnings write it, so that the
-	// text does not say it twice.
-	line string
-}
+// modelCheck is one tripped model check of an entry, as page 1 words it.
+type modelCheck struct{ fuse.Check }
 
 // headlineOf reads which fusion the headline figures are (result
 // document: headline, down_weighted, plain). A document without a
@@ -56,7 +49,7 @@ func headlineOf(res *fuse.Result) headline {
 func checksOf(res *fuse.Result) []modelCheck {
 	var out []modelCheck
 	for _, c := range res.Checks {
-		out = append(out, modelCheck{check: c.Check, entry: c.Entry, config: c.Config, where: c.Where, pValue: c.PValue, cause: c.Cause, action: c.Action, line: c.Line()})
+		out = append(out, modelCheck{c})
 	}
 	return out
 }
@@ -68,21 +61,15 @@ func checkName(c string) string { return strings.ReplaceAll(c, "-", " ") }
 // sentence is a model check as one sentence of page 1: where, what, how
 // sure, the likely cause and what to do.
 func (c modelCheck) sentence() string {
-	var at []string
-	for _, s := range []string{c.entry, c.config, c.where} {
-		if s != "" {
-			at = append(at, s)
-		}
+	s := c.Place() + ": " + checkName(c.Check.Check)
+	if c.PValue > 0 { // rule-based checks carry no p-value
+		s += fmt.Sprintf(" (p = %.2g)", c.PValue)
 	}
-	s := strings.Join(at, ", ") + ": " + checkName(c.check)
-	if c.pValue > 0 { // rule-based checks carry no p-value
-		s += fmt.Sprintf(" (p = %.2g)", c.pValue)
+	if c.Cause != "" {
+		s += "; likely " + c.Cause
 	}
-	if c.cause != "" {
-		s += "; likely " + c.cause
-	}
-	if c.action != "" {
-		s += "; " + c.action
+	if c.Action != "" {
+		s += "; " + c.Action
 	}
 	return s + "."
 }

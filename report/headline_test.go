@@ -73,9 +73,9 @@ func TestCheckSentence(t *testing.T) {
 		c    modelCheck
 		want string
 	}{
-		{"everything", modelCheck{check: "height-not-linear", entry: "rear-pot", config: "wing-mid", where: "windows above 140 km/h", pValue: 0.00041, cause: "bump-stop contact or progressive springs", action: "set max_speed_kmh: 140 on rear-pot"},
+		{"everything", modelCheck{fuse.Check{Check: "height-not-linear", Entry: "rear-pot", Config: "wing-mid", Where: "windows above 140 km/h", PValue: 0.00041, Cause: "bump-stop contact or progressive springs", Action: "set max_speed_kmh: 140 on rear-pot"}},
 			"rear-pot, wing-mid, windows above 140 km/h: height not linear (p = 0.00041); likely bump-stop contact or progressive springs; set max_speed_kmh: 140 on rear-pot."},
-		{"entry only", modelCheck{check: "negative-gain", entry: "front-pot", pValue: 0.01},
+		{"entry only", modelCheck{fuse.Check{Check: "negative-gain", Entry: "front-pot", PValue: 0.01}},
 			"front-pot: negative gain (p = 0.01)."},
 	}
 	for _, tt := range tests {

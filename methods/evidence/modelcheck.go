@@ -24,13 +24,7 @@ type ModelCheck struct {
 //
 //	rear-pot, wing-mid, windows above 140 km/h: height-not-linear (p = 0.0004) — bump-stop contact or progressive springs; set max_speed_kmh: 140 on rear-pot
 func (c ModelCheck) Line() string {
-	var at []string
-	for _, s := range []string{c.Entry, c.Config, c.Where} {
-		if s != "" {
-			at = append(at, s)
-		}
-	}
-	msg := strings.Join(at, ", ") + ": " + c.Check
+	msg := c.Place() + ": " + c.Check
 	if c.PValue > 0 { // rule-based checks carry no p-value
 		msg += fmt.Sprintf(" (p = %.2g)", c.PValue)
 	}
@@ -55,3 +49,15 @@ const (
 	IDGainNegative    = "gain-negative"
 	IDMirror          = "entry-mirrored"
 )
+
+// Place is where the check tripped, in words: "entry, configuration,
+// span", each part when known.
+func (c ModelCheck) Place() string {
+	var at []string
+	for _, s := range []string{c.Entry, c.Config, c.Where} {
+		if s != "" {
+			at = append(at, s)
+		}
+	}
+	return strings.Join(at, ", ")
+}
