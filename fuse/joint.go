@@ -16,26 +16,37 @@ import (
 func (m *model) dim() int { return len(m.lin) + len(m.phi) }
 
 // jointDraws calls fn with every pooled draw of (θ, φ); fn must not keep
-// the slices, which are reused. A compacted posterior has no draws of its
-// nuisances: they come from its refit (see compact).
+// the slices, which are reused. A compacted posterior has no draws of most
+// of its nuisances: they come from its refit (see compact).
 func (P *Posterior) jointDraws(fn func(theta, phi []float64)) {
+	P.drawsOf(nil, fn)
+}
+
+// drawsOf is jointDraws for a caller that reads only the columns need of
+// θ (nil: all of them): a compacted posterior that kept those columns
+// serves them without its refit, the others' columns NaN.
+func (P *Posterior) drawsOf(need []int, fn func(theta, phi []float64)) {
 	var theta, phi []float64
 	if P.compacted {
 		P.mu.Lock()
-		W := P.wholeLocked()
+		var W *Posterior
+		if need == nil || !P.keeps(need) {
+			W = P.wholeLocked()
+		}
 		P.mu.Unlock()
 		if W != nil {
 			W.jointDraws(fn)
 			return
 		}
-		p := len(P.p.m.lin) // no refit: the nuisances come as NaN
-		full := make([]float64, p)
+		full := make([]float64, len(P.p.m.lin)) // the columns not kept come as NaN
 		for i := range full {
 			full[i] = math.NaN()
 		}
-		inner := fn
+		inner, kept := fn, P.kept
 		fn = func(th, ph []float64) {
-			copy(full, th)
+			for j, col := range kept {
+				full[col] = th[j]
+			}
 			inner(full, ph)
 		}
 	}
@@ -55,6 +66,17 @@ func (P *Posterior) jointDraws(fn func(theta, phi []float64)) {
 			fn(theta, phi)
 		}
 	}
+}
+
+// keeps reports whether a compacted posterior kept the draws of every
+// column of θ in cols.
+func (P *Posterior) keeps(cols []int) bool {
+	for _, c := range cols {
+		if _, ok := slices.BinarySearch(P.kept, c); !ok {
+			return false
+		}
+	}
+	return true
 }
 
 // joint returns the posterior mean and covariance over (θ, φ). The closed
@@ -199,30 +221,42 @@ func (P *Posterior) drawMean() []float64 {
 	return mean
 }
 
-// compact drops the draws of the nuisance columns of θ, keeping those of
-// the lift columns (β, γ: the first columns of θ, see indexLift) and of φ,
-// after computing the joint mean (and keeping the joint covariance if it
-// was computed): a standalone or others' posterior is used after its fit
-// for its figures, the agreement and the fitted lines of the charts. At 48
-// configurations the nuisances — each run's wind above all — hold four
-// fifths of the draws. What needs the dropped draws (the planner's
-// discrimination and the diagnosis of a flagged entry) gets those of
-// refit, the same seeded fit made again, once.
-func (P *Posterior) compact(refit func() (*Posterior, error)) {
+// compact drops the draws of the nuisance columns of θ but those of
+// extra (columns of θ), keeping those of the lift columns (β, γ: the first
+// columns of θ, see indexLift) and of φ, after computing the joint mean
+// (and keeping the joint covariance if it was computed): a standalone or
+// others' posterior is used after its fit for its figures, the agreement
+// (whose replicates read the nuisances the entry shares with the others,
+// kept as extra) and the fitted lines of the charts. At 48 configurations
+// the nuisances — each run's wind above all — hold four fifths of the
+// draws. What needs the dropped draws (the planner's discrimination and the
+// diagnosis of a flagged entry) gets those of refit, the same seeded fit
+// made again, once.
+func (P *Posterior) compact(refit func() (*Posterior, error), extra []int) {
 	P.mu.Lock()
 	defer P.mu.Unlock()
 	if P.p.gaussian || P.compacted {
 		return
 	}
 	P.keptMean()
-	nLift := 0
-	for nLift < len(P.p.m.lin) && P.p.m.lin[nLift].kind != kindNuisance {
-		nLift++
+	m := P.p.m
+	var kept []int
+	for i := range m.lin {
+		if m.lin[i].kind != kindNuisance {
+			kept = append(kept, i)
+		}
 	}
+	for _, c := range extra {
+		if m.lin[c].kind == kindNuisance {
+			kept = append(kept, c)
+		}
+	}
+	slices.Sort(kept)
+	kept = slices.Compact(kept)
 	for _, st := range P.p.draws {
-		st.narrow(nLift)
+		st.pick(kept)
 	}
-	P.compacted, P.refit = true, refit
+	P.compacted, P.refit, P.kept = true, refit, kept
 }
 
 // wholeLocked returns the posterior with every draw: P, or the refit of a

@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"liftfuse/methods/evidence"
 )
@@ -81,7 +82,7 @@ func modeStart(full *model, P *Posterior) map[string]float64 {
 func (lo *looFits) fitAlone(ev evidence.Evidence) (*Posterior, error) {
 	P, err := lo.fitAloneWhole(ev)
 	if err == nil {
-		P.compact(func() (*Posterior, error) { return lo.fitAloneWhole(ev) })
+		P.compact(func() (*Posterior, error) { return lo.fitAloneWhole(ev) }, nil)
 	}
 	return P, err
 }
@@ -126,7 +127,7 @@ func (lo *looFits) fitOthers(evs []evidence.Evidence, ei int) (*Posterior, error
 	if err != nil {
 		return nil, fmt.Errorf("every entry but %q: %w", evs[ei].Entry, err)
 	}
-	compactOthers(P, evs[ei], fit)
+	compactOthers(P, lo.full, ei, evs[ei], fit)
 	return P, nil
 }
 
@@ -137,7 +138,7 @@ func (lo *looFits) compactRefitted(evs []evidence.Evidence) {
 		if O == nil || O.compacted {
 			continue
 		}
-		compactOthers(O, evs[ei], func() (*Posterior, error) {
+		compactOthers(O, lo.full, ei, evs[ei], func() (*Posterior, error) {
 			om, err := lo.othersModel(evs, ei)
 			if err != nil {
 				return nil, err
@@ -151,10 +152,54 @@ func (lo *looFits) compactRefitted(evs []evidence.Evidence) {
 }
 
 // compactOthers computes the joint moments of an others' posterior where
-// the entry's agreement needs them (Gaussian data) and compacts it.
-func compactOthers(P *Posterior, ev evidence.Evidence, refit func() (*Posterior, error)) {
+// the entry's agreement needs them (Gaussian data) and compacts it, keeping
+// the draws of the nuisances entry ei's data share with the others: its
+// agreement's replicates read them (reference.go), which would otherwise
+// cost the others' fit made again.
+func compactOthers(P *Posterior, full *model, ei int, ev evidence.Evidence, refit func() (*Posterior, error)) {
+	var extra []int
 	if len(ev.Blocks) > 0 {
 		P.joint()
+		extra = sharedCols(full, ei, P.p.m)
 	}
-	P.compact(refit)
+	P.compact(refit, extra)
+}
+
+// sharedCols returns the columns of θ in model om (ascending) that the
+// rows of entry e of the full model read.
+func sharedCols(full *model, e int, om *model) []int {
+	src := sharedIndex(full, om)
+	out := []int{} // none is not nil, which asks for every column
+	for _, c := range full.entryCols(e) {
+		if j := src[c]; j >= 0 && j < len(om.lin) {
+			out = append(out, j)
+		}
+	}
+	slices.Sort(out)
+	return slices.Compact(out)
+}
+
+// entryCols returns the columns of θ the rows of entry e read, each once.
+func (m *model) entryCols(e int) []int {
+	seen := map[int]bool{}
+	var out []int
+	for bi := range m.blocks {
+		bl := &m.blocks[bi]
+		if bl.entry != e {
+			continue
+		}
+		for _, ri := range bl.rows {
+			r := &m.rows[ri]
+			for _, ts := range [][]entryRef{r.lift, r.gamma, r.nuis, r.nuisPerQ} {
+				for _, t := range ts {
+					if !seen[t.col] {
+						seen[t.col] = true
+						out = append(out, t.col)
+					}
+				}
+			}
+		}
+	}
+	slices.Sort(out)
+	return out
 }

@@ -42,6 +42,7 @@ type Posterior struct {
 	// compacted: the draws of the nuisance columns were dropped (compact);
 	// refit makes them again, into whole
 	compacted bool
+	kept      []int // the columns of θ a compacted posterior kept, ascending
 	refit     func() (*Posterior, error)
 	whole     *Posterior
 }

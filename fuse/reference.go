@@ -63,8 +63,9 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.Rand) []float64 {
 	src := sharedIndex(full, others.p.m)
 	noise := entryNoise(full, e)
+	need := sharedCols(full, e, others.p.m)
 	draws := 0
-	others.jointDraws(func([]float64, []float64) { draws++ })
+	others.drawsOf(need, func([]float64, []float64) { draws++ })
 	if draws == 0 || noise == nil {
 		return nil
 	}
@@ -75,7 +76,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 	t := make([]float64, len(st.t))
 	var out []float64
 	var buf []entryRef
-	others.jointDraws(func(theta, phi []float64) {
+	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
 			if len(out) == referenceReps {
 				return
@@ -141,9 +142,9 @@ func (m *model) predictiveDraw(x []float64, src []int, theta, phi []float64, op 
 // order of its rows: N(0, Σ_b) as L⁻ᵀz with Σ_b⁻¹ = LLᵀ, or σ·z.
 type noiseDraws struct {
 	blocks []*block
-	l      []*mat.TriDense // L of a full block's precision; nil when diagonal
+	u      [][]float64 // U = Lᵀ row-major, L of a full block's precision; nil when diagonal
+	sd     [][]float64 // 1/√P_ii of a diagonal block
 	out    []float64
-	x      mat.VecDense
 }
 
 // entryNoise prepares the error draws of entry e's blocks (nil when a
@@ -157,7 +158,11 @@ func entryNoise(m *model, e int) *noiseDraws {
 		}
 		nd.blocks = append(nd.blocks, bl)
 		if bl.diag != nil {
-			nd.l = append(nd.l, nil)
+			sd := make([]float64, len(bl.diag))
+			for a, p := range bl.diag {
+				sd[a] = 1 / math.Sqrt(p)
+			}
+			nd.u, nd.sd = append(nd.u, nil), append(nd.sd, sd)
 			continue
 		}
 		var ch mat.Cholesky
@@ -166,14 +171,22 @@ func entryNoise(m *model, e int) *noiseDraws {
 		}
 		var L mat.TriDense
 		ch.LTo(&L)
-		nd.l = append(nd.l, &L)
+		n := len(bl.rows)
+		u := make([]float64, n*n)
+		for i := range n {
+			for k := i; k < n; k++ {
+				u[i*n+k] = L.At(k, i)
+			}
+		}
+		nd.u, nd.sd = append(nd.u, u), append(nd.sd, nil)
 	}
 	return nd
 }
 
 // draw returns one draw of the entry's errors, block by block: for a block
 // whose precision is P = L·Lᵀ, ε = L⁻ᵀ·z with z standard normal has
-// covariance P⁻¹; a diagonal block scales z by 1/√P_ii.
+// covariance P⁻¹ (back substitution in U = Lᵀ); a diagonal block scales z
+// by 1/√P_ii.
 func (nd *noiseDraws) draw(rng *rand.Rand) []float64 {
 	nd.out = nd.out[:0]
 	for b, bl := range nd.blocks {
@@ -182,16 +195,27 @@ func (nd *noiseDraws) draw(rng *rand.Rand) []float64 {
 			nd.out = append(nd.out, rng.NormFloat64())
 		}
 		z := nd.out[k:]
-		if nd.l[b] == nil {
-			for a := range z {
-				z[a] /= math.Sqrt(bl.diag[a])
-			}
+		if u := nd.u[b]; u != nil {
+			backSubst(u, z)
 			continue
 		}
-		// L comes from a successful factorisation: non-singular.
-		nd.x.Reset()
-		_ = nd.x.SolveVec(nd.l[b].T(), mat.NewVecDense(len(z), z))
-		copy(z, nd.x.RawVector().Data)
+		for a, s := range nd.sd[b] {
+			z[a] *= s
+		}
 	}
 	return nd.out
+}
+
+// backSubst solves U·x = z in place for x, U upper triangular and
+// non-singular (n×n row-major, n = len(z)).
+func backSubst(u, z []float64) {
+	n := len(z)
+	for i := n - 1; i >= 0; i-- {
+		row := u[i*n : (i+1)*n]
+		s := z[i]
+		for k := i + 1; k < n; k++ {
+			s -= row[k] * z[k]
+		}
+		z[i] = s / row[i]
+	}
 }

@@ -137,11 +137,27 @@ func (s *drawStore) narrow(width int) {
 	if width >= s.width {
 		return
 	}
+	cols := make([]int, width)
+	for j := range cols {
+		cols[j] = j
+	}
+	s.pick(cols)
+}
+
+// pick keeps the columns cols (ascending) of every draw, in that order.
+func (s *drawStore) pick(cols []int) {
+	if len(cols) == s.width {
+		return
+	}
 	for b := range s.blocks {
 		_, _, stride := s.span(b, s.n)
 		old := s.blocks[b]
-		s.blocks[b] = append([]float64(nil), old[:width*stride]...)
+		kept := make([]float64, len(cols)*stride)
+		for j, c := range cols {
+			copy(kept[j*stride:(j+1)*stride], old[c*stride:(c+1)*stride])
+		}
+		s.blocks[b] = kept
 		freeBlock(old)
 	}
-	s.width = width
+	s.width = len(cols)
 }

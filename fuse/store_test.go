@@ -85,7 +85,7 @@ func TestCompactKeepsFigures(t *testing.T) {
 		t.Fatal(err)
 	}
 	refits := 0
-	P.compact(func() (*Posterior, error) { refits++; return m.fit() })
+	P.compact(func() (*Posterior, error) { refits++; return m.fit() }, nil)
 	if !P.compacted || refits != 0 {
 		t.Fatalf("compacted %v, refits %d", P.compacted, refits)
 	}
