@@ -74,8 +74,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 	x := make([]float64, full.dim())
 	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
-	var out []float64
-	var buf []entryRef
+	var out, fs []float64
 	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
 			if len(out) == referenceReps {
@@ -83,12 +82,11 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 			}
 			full.predictiveDraw(x, src, theta, phi, op, rng)
 			eps := noise.draw(rng)
+			fs = full.scaleFactors(x[p:], fs)
 			for r, ri := range st.rows {
-				buf = full.design(&full.rows[ri], x[p:], buf[:0])
-				y[r] = eps[r] - st.mu[r]
-				for _, d := range buf {
-					y[r] += d.v * x[d.col]
-				}
+				row := &full.rows[ri]
+				f, q := full.factorAt(row, x[p:], fs)
+				y[r] = eps[r] - st.mu[r] + rowValue(row, f, q, x)
 			}
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)
@@ -97,6 +95,25 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 		}
 	})
 	return out
+}
+
+// rowValue is Σ d·x[col] over the row's design at the factors s(φ)·q(w) = f
+// and q(w) = q (designAt), without building it.
+func rowValue(r *row, f, q float64, x []float64) float64 {
+	var y float64
+	for _, t := range r.lift {
+		y += f * t.v * x[t.col]
+	}
+	for _, t := range r.gamma {
+		y += f * t.v * x[t.col]
+	}
+	for _, t := range r.nuisPerQ {
+		y += q * t.v * x[t.col]
+	}
+	for _, t := range r.nuis {
+		y += t.v * x[t.col]
+	}
+	return y
 }
 
 // sharedIndex maps each parameter of the full model to its index in the
