@@ -145,6 +145,10 @@ func (m *model) buildGroups() {
 		}
 	}
 	m.buildTerms()
+	// The groups live on merged in the term table: their coefficient
+	// polynomials (a sixth of a 48-configuration fusion's heap, each fit
+	// holding its own) are let go.
+	m.groups = nil
 }
 
 // qPoly returns the coefficients in w of q(w)^pw for a row, pw ≤ 2.

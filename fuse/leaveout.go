@@ -14,6 +14,12 @@ import (
 type looFits struct {
 	alone, others []*Posterior
 	pOff          []float64
+	// ag and st are each entry's agreement and statistic, computed with
+	// its others' posterior agOf as soon as that was fitted (see
+	// fitOthers)
+	ag   []*Agreement
+	st   []*looStat
+	agOf []*Posterior
 
 	full *model
 	// setAlone and setOthers are the settings of the standalone and the
@@ -38,7 +44,7 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	M := len(evs)
 	set := full.set
 	lo := &looFits{alone: make([]*Posterior, M), others: make([]*Posterior, M), pOff: make([]float64, M),
-		full: full, setAlone: set, setOthers: set, start: modeStart(full, P)}
+		ag: make([]*Agreement, M), st: make([]*looStat, M), agOf: make([]*Posterior, M), full: full, setAlone: set, setOthers: set, start: modeStart(full, P)}
 	// Their differences between configurations are not reported: their
 	// diagnostics need not track them.
 	lo.setAlone.reference, lo.setOthers.reference = "", ""
@@ -113,9 +119,10 @@ func (lo *looFits) othersModel(evs []evidence.Evidence, ei int) (*model, error) 
 	return om, nil
 }
 
-// fitOthers fits every entry but entry ei, p(θ | y_−e), and compacts it
-// once its joint moments, which the agreement of an entry with Gaussian
-// data needs, are computed (see Posterior.compact).
+// fitOthers fits every entry but entry ei, p(θ | y_−e), computes entry
+// ei's agreement with it (kept for agreement, below) and compacts it, the
+// nuisances' draws, which the agreement's replicates read, no longer
+// needed (see Posterior.compact).
 func (lo *looFits) fitOthers(evs []evidence.Evidence, ei int) (*Posterior, error) {
 	fit := func() (*Posterior, error) {
 		om, err := lo.othersModel(evs, ei)
@@ -128,8 +135,20 @@ func (lo *looFits) fitOthers(evs []evidence.Evidence, ei int) (*Posterior, error
 	if err != nil {
 		return nil, fmt.Errorf("every entry but %q: %w", evs[ei].Entry, err)
 	}
-	compactOthers(P, lo.full, ei, evs[ei], fit)
+	lo.ag[ei], lo.st[ei] = agreement(lo.full, ei, evs[ei], P)
+	lo.agOf[ei] = P
+	P.compact(fit, nil)
 	return P, nil
+}
+
+// agreement returns entry ei's agreement with its others' posterior: the
+// one fitOthers computed, while that posterior is still the one in use
+// (robustOthers may have refitted it since), else computed now.
+func (lo *looFits) agreement(ei int, ev evidence.Evidence) (*Agreement, *looStat) {
+	if O := lo.others[ei]; O != nil && O == lo.agOf[ei] {
+		return lo.ag[ei], lo.st[ei]
+	}
+	return agreement(lo.full, ei, ev, lo.others[ei])
 }
 
 // compactRefitted compacts the others' posteriors that robustOthers fitted

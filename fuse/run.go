@@ -197,7 +197,7 @@ func agreements(full *model, evs []evidence.Evidence, lo *looFits) ([]*Agreement
 		return ags, sts
 	}
 	parallel(len(evs), func(ei int) {
-		ags[ei], sts[ei] = agreement(full, ei, evs[ei], lo.others[ei])
+		ags[ei], sts[ei] = lo.agreement(ei, evs[ei])
 	})
 	return ags, sts
 }
