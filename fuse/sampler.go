@@ -1,6 +1,7 @@
 package fuse
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -295,10 +296,18 @@ func (m *model) closedForm() (*posterior, error) {
 // needed, with a margin of 35 %:
 //
 //	batch = n·(MinESS/ESS − 1)·1.35,  at least n/10
+//
+// Before diagnosing every tracked quantity, a batch is screened on an
+// eighth of them (every eighth at first, then those the last full
+// diagnosis found least converged): a batch that fails there is not worth
+// diagnosing whole, and a diagnosis was a seventh of a fusion's work.
+// Only a full diagnosis ends the sampling.
 func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) error {
 	m := post.m
 	tracked := m.trackedColumns()
+	screen := everyEighth(len(tracked))
 	batch := int(math.Ceil(m.set.MinESS / nChains * 1.6))
+	passes := func(r, e float64) bool { return e >= m.set.MinESS && r <= 1.01 }
 	for {
 		n := prop.runBatch(chains, batch)
 		if n == 0 {
@@ -309,43 +318,97 @@ func (post *posterior) drawUntilConverged(prop *proposal, chains []*chainState) 
 			continue // ESS cannot exceed the draws yet
 		}
 		post.collect(chains, n, prop.p, prop.d)
-		rmax, emin := post.diagnose(tracked)
+		if len(screen) < len(tracked) && n < m.set.MaxDraws {
+			rmax, emin := extremes(post.diagnose(subset(tracked, screen)))
+			if !passes(rmax, emin) {
+				batch = nextBatch(n, emin, m.set)
+				continue
+			}
+		}
+		rs, es := post.diagnose(tracked)
+		rmax, emin := extremes(rs, es)
 		post.diag.RhatMax, post.diag.ESSMin = rmax, emin
-		if (emin >= m.set.MinESS && rmax <= 1.01) || n >= m.set.MaxDraws {
+		if passes(rmax, emin) || n >= m.set.MaxDraws {
 			post.keep()
 			return nil
 		}
-		need := float64(n) * (m.set.MinESS/math.Max(emin, 1) - 1) * 1.35
-		batch = int(math.Min(math.Max(need, 0.1*float64(n)), float64(m.set.MaxDraws-n)))
+		screen = leastConverged(rs, es, max(1, len(tracked)/8))
+		batch = nextBatch(n, emin, m.set)
 	}
 }
 
-// diagnose returns the largest R̂ and the smallest bulk ESS of the tracked
-// quantities, diagnosed by workers goroutines, each its own buffer (the
-// chains are idle meanwhile).
-func (post *posterior) diagnose(tracked [][]entryRef) (rmax, emin float64) {
-	rs, es := make([]float64, workers), make([]float64, workers)
+// nextBatch is the batch after n draws per chain gave a bulk ESS of ess
+// (see drawUntilConverged).
+func nextBatch(n int, ess float64, set Settings) int {
+	need := float64(n) * (set.MinESS/math.Max(ess, 1) - 1) * 1.35
+	return int(math.Min(math.Max(need, 0.1*float64(n)), float64(set.MaxDraws-n)))
+}
+
+// everyEighth returns every eighth index below n, from 0.
+func everyEighth(n int) []int {
+	var out []int
+	for i := 0; i < n; i += 8 {
+		out = append(out, i)
+	}
+	return out
+}
+
+// subset returns the tracked quantities at the given indices.
+func subset(tracked [][]entryRef, idx []int) [][]entryRef {
+	out := make([][]entryRef, len(idx))
+	for k, i := range idx {
+		out[k] = tracked[i]
+	}
+	return out
+}
+
+// leastConverged returns the indices (ascending) of the k quantities with
+// the smallest ESS, ties broken by the larger R̂.
+func leastConverged(rs, es []float64, k int) []int {
+	idx := make([]int, len(es))
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortStableFunc(idx, func(a, b int) int {
+		if c := cmp.Compare(es[a], es[b]); c != 0 {
+			return c
+		}
+		return cmp.Compare(rs[b], rs[a])
+	})
+	out := slices.Clone(idx[:k])
+	slices.Sort(out)
+	return out
+}
+
+// extremes returns the largest R̂ and the smallest ESS.
+func extremes(rs, es []float64) (rmax, emin float64) {
+	rmax, emin = 1, math.Inf(1)
+	for i := range rs {
+		rmax, emin = math.Max(rmax, rs[i]), math.Min(emin, es[i])
+	}
+	return rmax, emin
+}
+
+// diagnose returns the R̂ and the bulk ESS of each tracked quantity,
+// diagnosed by workers goroutines, each its own buffer (the chains are
+// idle meanwhile).
+func (post *posterior) diagnose(tracked [][]entryRef) (rs, es []float64) {
+	rs, es = make([]float64, len(tracked)), make([]float64, len(tracked))
 	var wg sync.WaitGroup
 	for w := range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			var buf []float64
-			rs[w], es[w] = 1, math.Inf(1)
 			for qi := w; qi < len(tracked); qi += workers {
 				var chains [][]float64
 				chains, buf = post.seriesInto(tracked[qi], buf)
-				r, e := RhatESS(chains)
-				rs[w], es[w] = math.Max(rs[w], r), math.Min(es[w], e)
+				rs[qi], es[qi] = RhatESS(chains)
 			}
 		}()
 	}
 	wg.Wait()
-	rmax, emin = 1, math.Inf(1)
-	for w := range workers {
-		rmax, emin = math.Max(rmax, rs[w]), math.Min(emin, es[w])
-	}
-	return rmax, emin
+	return rs, es
 }
 
 // collect keeps the first n draws of every chain (p linear and d
