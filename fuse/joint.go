@@ -166,6 +166,67 @@ func (P *Posterior) jointMoments() ([]float64, *mat.SymDense) {
 	return mean, cov
 }
 
+// jointCov returns the posterior covariance of the parameters cols of
+// (θ, φ) (in that order): the joint covariance's, restricted, when it was
+// computed or the posterior is a closed form or compacted; else from the
+// draws of those parameters alone, as jointMoments computes it over all.
+func (P *Posterior) jointCov(cols []int) *mat.SymDense {
+	P.mu.Lock()
+	whole := P.jcov != nil || P.p.gaussian || P.compacted
+	P.mu.Unlock()
+	out := mat.NewSymDense(max(len(cols), 1), nil)
+	if len(cols) == 0 {
+		return out
+	}
+	if whole {
+		_, c := P.joint()
+		for a, i := range cols {
+			for b := a; b < len(cols); b++ {
+				out.SetSym(a, b, c.At(i, cols[b]))
+			}
+		}
+		return out
+	}
+	m := P.p.m
+	p := len(m.lin)
+	mean := P.jointMean()
+	k, nr := 0, len(cols)
+	X := mat.NewDense(nr, jointBlock, nil)
+	raw := X.RawMatrix()
+	flush := func() {
+		if k > 0 {
+			out.SymRankK(out, 1, X.Slice(0, nr, 0, k))
+			k = 0
+		}
+	}
+	for c := range P.p.draws {
+		for b := 0; b*storeBlock < P.p.n; b++ {
+			tb, nb, ts := P.p.draws[c].span(b, P.p.n)
+			var fb []float64
+			fs := 0
+			if len(m.phi) > 0 {
+				fb, _, fs = P.p.phiDraws[c].span(b, P.p.n)
+			}
+			for a, j := range cols {
+				src := fb[max(j-p, 0)*fs:]
+				if j < p {
+					src = tb[j*ts:]
+				}
+				row := raw.Data[a*raw.Stride+k : a*raw.Stride+k+nb]
+				for i := range row {
+					row[i] = src[i] - mean[j]
+				}
+			}
+			if k += nb; k+storeBlock > jointBlock {
+				flush()
+			}
+		}
+	}
+	flush()
+	out.ScaleSym(1/float64(nChains*P.p.n-1), out)
+	return out
+}
+
 // jointBlock is how many draws one rank-k update of the covariance takes
 // (dot products of that length; a store block alone is too short for them).
 const jointBlock = 8 * storeBlock

@@ -69,37 +69,53 @@ func (m *model) priorPrecision(i int) float64 {
 	return 1 / (sd * sd)
 }
 
-// predictiveMoments returns the mean and covariance over the full model's
-// (θ, φ) of the others' posterior of entry e, with e's own parameters (those
-// no other entry declares) at their priors, independent of the rest; a flat
-// prior gets variance 0 (it drops out of the test, see above).
-func predictiveMoments(full *model, others *Posterior) ([]float64, *mat.SymDense) {
+// predictiveMoments returns the mean over the full model's (θ, φ) of the
+// others' posterior of entry e, with e's own parameters (those no other
+// entry declares) at their priors, and the covariance over the parameters
+// cols only (in that order), e's own independent of the rest with their
+// prior variances; a flat prior gets variance 0 (it drops out of the test,
+// see above). The covariance is wanted over the parameters e's data touch
+// alone: over all of them it cost configurations² (and its draws' pass
+// configurations² × draws) for an entry that reads a few of them.
+func predictiveMoments(full *model, others *Posterior, cols []int) ([]float64, *mat.SymDense) {
 	om := others.p.m
-	oMean, oCov := others.joint()
+	oMean := others.jointMean()
 	D := full.dim()
 	p := len(full.lin)
 	mean := make([]float64, D)
-	cov := mat.NewSymDense(D, nil)
 	src := sharedIndex(full, om)
 	for i := range D {
 		if j := src[i]; j >= 0 {
 			mean[i] = oMean[j]
-			continue
-		}
-		switch {
-		case i >= p:
-			sd := full.phi[i-p].sd
-			cov.SetSym(i, i, sd*sd)
-		case full.lin[i].prec > 0:
+		} else if i < p && full.lin[i].prec > 0 {
 			mean[i] = full.lin[i].mean
-			cov.SetSym(i, i, 1/full.lin[i].prec)
 		}
 	}
-	for i := range D {
-		for j := i; j < D; j++ {
-			if src[i] >= 0 && src[j] >= 0 {
-				cov.SetSym(i, j, oCov.At(src[i], src[j]))
-			}
+	if len(cols) == 0 {
+		return mean, nil
+	}
+	var shared []int // the others' index of each shared column of cols
+	var at []int     // its place in cols
+	for a, i := range cols {
+		if src[i] >= 0 {
+			shared, at = append(shared, src[i]), append(at, a)
+		}
+	}
+	cov := mat.NewSymDense(len(cols), nil)
+	oCov := others.jointCov(shared)
+	for x, a := range at {
+		for y := x; y < len(at); y++ {
+			cov.SetSym(a, at[y], oCov.At(x, y))
+		}
+	}
+	for a, i := range cols {
+		switch {
+		case src[i] >= 0:
+		case i >= p:
+			sd := full.phi[i-p].sd
+			cov.SetSym(a, a, sd*sd)
+		case full.lin[i].prec > 0:
+			cov.SetSym(a, a, 1/full.lin[i].prec)
 		}
 	}
 	return mean, cov
@@ -133,7 +149,7 @@ type looStat struct {
 // others' posterior; ok is false when the entry has no Gaussian data or the
 // computation is singular.
 func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
-	mean, C := predictiveMoments(full, others)
+	mean, _ := predictiveMoments(full, others, nil)
 	p := len(full.lin)
 	theta, phi := mean[:p], mean[p:]
 	sp := repeatSpace{D: full.dim(), newIdx: map[int]int{}}
@@ -194,46 +210,59 @@ func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
 		}
 		k += nb
 	}
-	if !st.finish(full, J, G, C, res) {
+	cols := touched(J, G)
+	_, C := predictiveMoments(full, others, cols)
+	if !st.finish(full, J, G, cols, C, res) {
 		return nil, false
 	}
 	return st, true
 }
 
-// finish computes t, V and A·J over the parameters the entry's data touch
-// (the others do not enter H⁻¹ restricted to them, the prior being
-// independent between parameters).
-func (st *looStat) finish(full *model, J, G *mat.Dense, C *mat.SymDense, res []float64) bool {
+// touched returns the parameters the entry's data touch: those whose
+// diagonal element of F = JᵀΣ⁻¹J = JᵀG is positive.
+func touched(J, G *mat.Dense) []int {
 	n, D := J.Dims()
-	var F mat.Dense
-	F.Mul(J.T(), G)
 	var cols []int
-	pos := map[int]int{}
 	for i := range D {
-		if F.At(i, i) > 0 {
-			pos[i] = len(cols)
+		var f float64
+		for r := range n {
+			f += J.At(r, i) * G.At(r, i)
+		}
+		if f > 0 {
 			cols = append(cols, i)
 		}
 	}
+	return cols
+}
+
+// finish computes t, V and A·J over the parameters the entry's data touch,
+// cols (the others do not enter H⁻¹ restricted to them, the prior being
+// independent between parameters); C is the predictive covariance over
+// cols.
+func (st *looStat) finish(full *model, J, G *mat.Dense, cols []int, C *mat.SymDense, res []float64) bool {
+	n, _ := J.Dims()
+	pos := map[int]int{}
+	Js := mat.NewDense(n, len(cols), nil)
+	Gs := mat.NewDense(n, len(cols), nil)
+	for a, i := range cols {
+		pos[i] = a
+		for r := range n {
+			Js.Set(r, a, J.At(r, i))
+			Gs.Set(r, a, G.At(r, i))
+		}
+	}
+	var F mat.Dense
+	F.Mul(Js.T(), Gs)
 	W := st.weights(full, pos, len(cols))
 	if len(W) == 0 {
 		return false
 	}
 	nc := len(cols)
 	H := mat.NewSymDense(nc, nil)
-	Fs := mat.NewDense(nc, nc, nil)
-	Cs := mat.NewDense(nc, nc, nil)
-	Gs := mat.NewDense(n, nc, nil)
+	Fs, Cs := &F, C
 	for a, i := range cols {
-		for r := range n {
-			Gs.Set(r, a, G.At(r, i))
-		}
-		for b, j := range cols {
-			Fs.Set(a, b, F.At(i, j))
-			Cs.Set(a, b, C.At(i, j))
-			if b >= a {
-				H.SetSym(a, b, 0.5*(F.At(i, j)+F.At(j, i)))
-			}
+		for b := a; b < nc; b++ {
+			H.SetSym(a, b, 0.5*(F.At(a, b)+F.At(b, a)))
 		}
 		H.SetSym(a, a, H.At(a, a)+full.priorPrecision(i))
 	}
