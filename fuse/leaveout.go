@@ -51,14 +51,16 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	lo.setOthers.MinESS = math.Max(400, set.MinESS/3)
 	lo.setAlone.MinESS = math.Max(math.Min(1000, set.MinESS), set.MinESS/2)
 	full.start = lo.start
+	// The others' fits first: each is about the joint fit's size and
+	// carries its entry's agreement, so the two workers do not end on one
+	// long job while the other waits (errs keeps the entries' order).
 	errs := make([]error, 2*M)
 	parallel(2*M, func(j int) {
-		ei := j / 2
-		switch {
-		case j%2 == 0:
-			lo.alone[ei], errs[j] = lo.fitAlone(evs[ei])
+		switch ei := j % M; {
+		case j >= M:
+			lo.alone[ei], errs[2*ei] = lo.fitAlone(evs[ei])
 		case M > 1:
-			if lo.others[ei], errs[j] = lo.fitOthers(evs, ei); errs[j] == nil {
+			if lo.others[ei], errs[2*ei+1] = lo.fitOthers(evs, ei); errs[2*ei+1] == nil {
 				lo.pOff[ei] = full.pOff(ei, P.p.logZ)
 			}
 		}
