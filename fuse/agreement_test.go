@@ -116,9 +116,9 @@ func TestFaultRankedFirst(t *testing.T) {
 			bad := agreementOf(t, res, "fpot")
 			for _, m := range res.Methods {
 				ag := m.Agreement
-				t.Logf("%s: p = %.3g, P(off) = %.3f, flag %v", m.ID, ag.PValue, ag.POff, ag.Flag)
-				if m.ID != "fpot" && (ag.POff >= bad.POff || ag.Flag) {
-					t.Errorf("correct entry %s: P(off) %.3f (faulty pot %.3f), flagged %v", m.ID, ag.POff, bad.POff, ag.Flag)
+				t.Logf("%s: p = %.3g, P(off) = %.3f, flag %v", m.ID, ag.PValue, ag.POff, ag.Suspect)
+				if m.ID != "fpot" && (ag.POff >= bad.POff || ag.Suspect) {
+					t.Errorf("correct entry %s: P(off) %.3f (faulty pot %.3f), flagged %v", m.ID, ag.POff, bad.POff, ag.Suspect)
 				}
 			}
 			if day == 0 {
@@ -228,7 +228,7 @@ func falseAlarms(t *testing.T, days int, day func(i int) string) (flags, n int) 
 		}
 		for _, m := range f.Result.Methods {
 			n++
-			if m.Agreement.Flag {
+			if m.Agreement.Suspect {
 				flags++
 				t.Logf("day %d: %s flagged (p = %.3g, P(off) = %.2f)", i, m.ID, m.Agreement.PValue, m.Agreement.POff)
 			}

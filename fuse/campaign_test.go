@@ -84,7 +84,7 @@ outer:
 func flagged(res *fuse.Result) []string {
 	var out []string
 	for _, m := range res.Methods {
-		if m.Agreement != nil && m.Agreement.Flag {
+		if m.Agreement != nil && m.Agreement.Suspect {
 			out = append(out, m.ID)
 		}
 	}

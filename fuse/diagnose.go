@@ -40,7 +40,7 @@ func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
 		}
 	}
 	alone, others := f.Standalone[entry], f.Others[entry]
-	if ag == nil || !ag.Flag || ag.Worst == nil || alone == nil || others == nil {
+	if ag == nil || !ag.Suspect || ag.Worst == nil || alone == nil || others == nil {
 		return nil, nil
 	}
 	w := ag.Worst
@@ -100,7 +100,7 @@ func (m *model) singleErrors(st *looStat, entry string) []Explanation {
 		}
 		shift := delta / et.sd
 		target := et.mean + delta
-		if p < flagP || !et.within(shift, target) {
+		if p < suspectP || !et.within(shift, target) {
 			continue
 		}
 		out = append(out, et.explanation(entry, shift, target))

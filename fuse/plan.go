@@ -125,7 +125,7 @@ func (f *Fused) PlanRepeats(t Target, cost func(entry string) float64) (*Plan, e
 	}
 	sort.SliceStable(pl.Options, func(i, j int) bool { return pl.Options[i].PerHour > pl.Options[j].PerHour })
 	for _, mr := range f.Result.Methods {
-		if ag := mr.Agreement; ag != nil && ag.Flag && ag.Worst != nil {
+		if ag := mr.Agreement; ag != nil && ag.Suspect && ag.Worst != nil {
 			if d := f.discriminate(mr.ID, *ag.Worst, cost); d != nil {
 				pl.Discriminate = append(pl.Discriminate, *d)
 			}

@@ -140,12 +140,15 @@ type StandaloneResult struct {
 // predictive p-value of the observed senses, and Distance its two-sided
 // normal quantile). POff is the posterior probability that its errors are
 // inflated by κ, computed as a sequential diagnosis (robust.go). Flag is
+// PValue < 0.05 or POff > 0.5 (result-format.md); Suspect, the level at
+// which the tool names the entry, warns, down-weights and explains it, is
 // PValue < 0.01 or POff > 0.5.
 type Agreement struct {
 	Distance float64 `json:"distance"`
 	PValue   float64 `json:"p_value"`
 	POff     float64 `json:"p_off"`
 	Flag     bool    `json:"flag"`
+	Suspect  bool    `json:"suspect"`
 	// Worst names the quantity where the entry disagrees most, with the
 	// difference (what its data say minus what the others predict) in m²
 	// and in standard deviations of the prediction.

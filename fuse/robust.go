@@ -282,7 +282,7 @@ func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) 
 		old := mr.Agreement
 		ag, st := agreement(full, ei, ev, ck.lo.others[ei])
 		ag.POff = ck.lo.pOff[ei]
-		ag.Flag = ag.flagged()
+		ag.judge()
 		mr.Agreement = ag
 		out.Others[ev.Entry], out.loo[ev.Entry] = ck.lo.others[ei], st
 		res.Warnings = replaceWarning(res.Warnings, old, ag, ev.Entry)
@@ -293,7 +293,7 @@ func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) 
 // where old's stood, or at the end.
 func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
 	at := -1
-	if old != nil && old.Flag {
+	if old != nil && old.Suspect {
 		w := old.warning(entry)
 		for i := range ws {
 			if ws[i] == w {
@@ -303,11 +303,11 @@ func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
 		}
 	}
 	switch {
-	case at >= 0 && ag.Flag:
+	case at >= 0 && ag.Suspect:
 		ws[at] = ag.warning(entry)
 	case at >= 0:
 		ws = append(ws[:at], ws[at+1:]...)
-	case ag.Flag:
+	case ag.Suspect:
 		ws = append(ws, ag.warning(entry))
 	}
 	return ws

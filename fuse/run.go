@@ -161,8 +161,8 @@ func deltaResults(res *Result, P *Posterior, reference string, configs []string)
 }
 
 // methodResults appends each entry's standalone estimates and, with more
-// than one entry, its agreement with the others (flagged, with a warning,
-// when p < flagP or P(off) > flagOff); it records the leave-one-out
+// than one entry, its agreement with the others (named a suspect, with a
+// warning, when p < suspectP or P(off) > flagOff); it records the leave-one-out
 // posteriors in out.
 func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence, lo *looFits) {
 	ags, sts := agreements(full, evs, lo)
@@ -175,8 +175,8 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 			ag, st := ags[ei], sts[ei]
 			out.loo[ev.Entry] = st
 			ag.POff = lo.pOff[ei]
-			ag.Flag = ag.flagged()
-			if ag.Flag {
+			ag.judge()
+			if ag.Suspect {
 				res.Warnings = append(res.Warnings, ag.warning(ev.Entry))
 			}
 			mr.Agreement = ag

@@ -21,7 +21,7 @@ import (
 func (r *reporter) agreement() {
 	pg := r.pg
 	pg.h1("Agreement between methods")
-	intro := "Each entry's data are compared with what all the other entries predict they would say (a leave-one-out check; the errors it shares with them, such as the springs or the wind, are counted once): the distance between the two, in standard deviations of their difference, and its p-value; and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is flagged when p < 0.01 or P(off) > 0.5."
+	intro := "Each entry's data are compared with what all the other entries predict they would say (a leave-one-out check; the errors it shares with them, such as the springs or the wind, are counted once): the distance between the two, in standard deviations of their difference, and its p-value; and the probability that the entry's errors are larger than stated (P(off), from a robust mixture). An entry is named as disagreeing when p < 0.01 or P(off) > 0.5; p < 0.05 alone is marked but not acted on (one correct entry in twenty reaches it by chance)."
 	if h := headlineOf(r.res); h.known && h.robust {
 		intro += fmt.Sprintf(" The fused result here is the robust fusion's, with the errors of %s widened; the plain fusion's figures are in the result document (plain).", List(h.downWeighted))
 	}
@@ -87,7 +87,7 @@ func (r *reporter) agreementBars() []bar {
 	flagged := map[string]bool{}
 	signOnly := map[string]bool{}
 	for _, m := range r.res.Methods {
-		flagged[m.ID] = m.Agreement != nil && m.Agreement.Flag
+		flagged[m.ID] = m.Agreement != nil && m.Agreement.Suspect
 		mr, _ := reportOf(m.Kind)
 		signOnly[m.ID] = mr.signOnly
 	}
@@ -123,8 +123,11 @@ func (r *reporter) agreementTable() {
 	for _, m := range r.res.Methods {
 		if a := m.Agreement; a != nil {
 			flag := ""
-			if a.Flag {
+			switch {
+			case a.Suspect:
 				flag = "DISAGREES"
+			case a.Flag:
+				flag = "p < 0.05"
 			}
 			worst := ""
 			if w := a.Worst; w != nil {

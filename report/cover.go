@@ -205,7 +205,7 @@ func (r *reporter) checks() []string {
 	var flagged []string
 	for _, m := range r.res.Methods {
 		kinds[m.Kind] = true
-		if a := m.Agreement; a != nil && a.Flag {
+		if a := m.Agreement; a != nil && a.Suspect {
 			s := fmt.Sprintf("%s (%s) disagrees with the other entries (p = %.3g, P(off) %s)", m.ID, m.Kind, a.PValue, isPercent(a.POff))
 			if w := a.Worst; w != nil {
 				s += fmt.Sprintf(", most on %s %s, by %+.3f m² of %s (%.1f sd)", w.Config, w.Axle, w.DiffM2, symCLA, w.Sigmas)

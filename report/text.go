@@ -57,7 +57,7 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 		ag := "\t\t\t"
 		if a := m.Agreement; a != nil {
 			flag := ""
-			if a.Flag {
+			if a.Suspect {
 				flag = "DISAGREES"
 			}
 			ag = fmt.Sprintf("%.2f\t%.3f\t%.2f\t%s", a.Distance, a.PValue, a.POff, flag)

@@ -130,7 +130,7 @@ func runReport(ctx context.Context, o reportOptions, out, stderr io.Writer) erro
 func explanations(a *analysis) (map[string]*fuse.Crosscheck, error) {
 	out := map[string]*fuse.Crosscheck{}
 	for _, m := range a.fused.Result.Methods {
-		if ag := m.Agreement; ag == nil || !ag.Flag {
+		if ag := m.Agreement; ag == nil || !ag.Suspect {
 			continue
 		}
 		cc, err := a.fused.Diagnose(m.ID)
