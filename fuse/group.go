@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 )
 
@@ -42,26 +43,32 @@ type group struct {
 	yWy    float64
 }
 
-// signature describes a row's structure.
-func (m *model) signature(r *row) string {
-	var sb strings.Builder
-	fmt.Fprintf(&sb, "w%d|", r.wind)
+// signature writes into b the key of a row's structure in entry's
+// block (strconv, not fmt: a key per row of every fit's model).
+func (m *model) signature(entry int, r *row, b []byte) []byte {
+	b = append(b[:0], 'e')
+	b = strconv.AppendInt(b, int64(entry), 10)
+	b = append(b, "|w"...)
+	b = strconv.AppendInt(b, int64(r.wind), 10)
+	b = append(b, '|')
 	for _, s := range r.scales {
-		fmt.Fprintf(&sb, "s%d^%g,", s.idx, s.pow)
+		b = append(b, 's')
+		b = strconv.AppendInt(b, int64(s.idx), 10)
+		b = append(b, '^')
+		b = strconv.AppendFloat(b, s.pow, 'g', -1, 64)
+		b = append(b, ',')
 	}
-	for _, c := range r.lift {
-		fmt.Fprintf(&sb, "L%d,", c.col)
+	for _, part := range []struct {
+		tag  byte
+		cols []entryRef
+	}{{'L', r.lift}, {'G', r.gamma}, {'Q', r.nuisPerQ}, {'N', r.nuis}} {
+		for _, c := range part.cols {
+			b = append(b, part.tag)
+			b = strconv.AppendInt(b, int64(c.col), 10)
+			b = append(b, ',')
+		}
 	}
-	for _, c := range r.gamma {
-		fmt.Fprintf(&sb, "G%d,", c.col)
-	}
-	for _, c := range r.nuisPerQ {
-		fmt.Fprintf(&sb, "Q%d,", c.col)
-	}
-	for _, c := range r.nuis {
-		fmt.Fprintf(&sb, "N%d,", c.col)
-	}
-	return sb.String()
+	return b
 }
 
 // rowValues returns a row's design columns and values (before F and q).
@@ -88,6 +95,7 @@ func rowValues(r *row) ([]gcol, []float64) {
 func (m *model) buildGroups() {
 	m.indexScaleSets()
 	index := map[string]int{}
+	var sig []byte
 	for bi := range m.blocks {
 		bl := &m.blocks[bi]
 		if bl.diag == nil {
@@ -98,12 +106,12 @@ func (m *model) buildGroups() {
 		}
 		for i, ri := range bl.rows {
 			r := &m.rows[ri]
-			key := fmt.Sprintf("e%d|%s", bl.entry, m.signature(r))
-			gi, ok := index[key]
+			sig = m.signature(bl.entry, r, sig)
+			gi, ok := index[string(sig)]
 			cols, vals := rowValues(r)
 			if !ok {
 				gi = len(m.groups)
-				index[key] = gi
+				index[string(sig)] = gi
 				nc := len(cols)
 				m.groups = append(m.groups, group{entry: bl.entry, scales: r.scales, set: r.scaleSet, wind: r.wind, cols: cols,
 					lam: make([][5]float64, nc*nc), b: make([][5]float64, nc)})
