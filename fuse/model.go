@@ -117,7 +117,11 @@ func (m *model) rowOffset(r *row, phi []float64) float64 {
 	if len(r.offs) == 0 {
 		return 0
 	}
-	_, q := m.liftFactor(r, phi)
+	q := r.q0
+	if r.wind >= 0 {
+		w := phi[r.wind]
+		q += r.a*w + r.c*w*w
+	}
 	return r.offset(phi, q)
 }
 
