@@ -84,7 +84,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 			eps := noise.draw(rng)
 			for r, ri := range st.rows {
 				buf = full.design(&full.rows[ri], x[p:], buf[:0])
-				y[r] = eps[r] - st.mu[r]
+				y[r] = eps[r] - st.mu[r] + full.rowOffset(&full.rows[ri], x[p:])
 				for _, d := range buf {
 					y[r] += d.v * x[d.col]
 				}
