@@ -30,9 +30,9 @@ func (ag *Agreement) judge() {
 	ag.Suspect = ag.PValue < suspectP || ag.POff > flagOff
 }
 
-// warning is the result's warning for a flagged entry, naming the quantity
+// Warning is the result's warning for a suspect entry, naming the quantity
 // where it disagrees most.
-func (ag *Agreement) warning(entry string) string {
+func (ag *Agreement) Warning(entry string) string {
 	msg := fmt.Sprintf("entry %q disagrees with the others (distance %.2f, p = %.3g, P(off) = %.2f)", entry, ag.Distance, ag.PValue, ag.POff)
 	if w := ag.Worst; w != nil {
 		msg += fmt.Sprintf(": most on %s %s, by %+.3f m² (%.1f sd)", w.Config, w.Axle, w.DiffM2, w.Sigmas)

@@ -284,6 +284,15 @@ type errorTerm struct {
 	mean, sd    float64
 	logScale    bool // a scale factor: the value is exp of the parameter
 	wind        bool
+	// median > 0: a log-normal nuisance, median·exp of the parameter, in
+	// unit (the pitch of drag in m²)
+	median float64
+}
+
+// phiErrorTerm describes φ parameter j as an error term.
+func (m *model) phiErrorTerm(j int) errorTerm {
+	ph := m.phi[j]
+	return errorTerm{label: ph.label, unit: ph.unit, sd: ph.sd, logScale: !ph.wind, wind: ph.wind, median: ph.median}
 }
 
 // explanations asks every modelled error with a proper prior how far it
@@ -309,7 +318,7 @@ func (m *model) explanations(claim float64, T []float64, vals [][]float64, skip 
 	}
 	p := len(m.lin)
 	for j, ph := range m.phi {
-		add(p+j, errorTerm{label: ph.label, unit: ph.unit, sd: ph.sd, logScale: !ph.wind, wind: ph.wind}, ph.owners)
+		add(p+j, m.phiErrorTerm(j), ph.owners)
 	}
 	sort.SliceStable(out, func(a, b int) bool { return math.Abs(out[a].ShiftSD) < math.Abs(out[b].ShiftSD) })
 	return out

@@ -17,6 +17,7 @@ func TestExplanationBounds(t *testing.T) {
 	springs := errorTerm{label: "front spring rate", sd: 0.2, logScale: true}
 	growth := errorTerm{label: "rear tyre growth", unit: "mm at 100 km/h", mean: 0.5, sd: 0.5}
 	cp := errorTerm{label: "taps uncovered lower patch at x = 3.00 m (Cp)", mean: -0.1, sd: 0.4}
+	drag := errorTerm{label: "pitch of drag C_D·A·h/L", unit: "m²", sd: 0.2, logScale: true, median: 0.124}
 	cases := []struct {
 		name          string
 		et            errorTerm
@@ -34,6 +35,8 @@ func TestExplanationBounds(t *testing.T) {
 		{"tyre growth at 4.5 sd", growth, 4.5, 2.75, false},
 		{"Cp −0.5", cp, -1, -0.5, true},
 		{"Cp 1.2 (beyond stagnation)", cp, 3.25, 1.2, false},
+		{"drag pitch ×1.8 at 2.9 sd", drag, 2.94, math.Log(1.8), true},
+		{"drag pitch ×2.2 at 3.9 sd", drag, 3.94, math.Log(2.2), false},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -41,6 +44,22 @@ func TestExplanationBounds(t *testing.T) {
 				t.Errorf("within(%v, %v) = %v, want %v", tc.shift, tc.target, got, tc.want)
 			}
 		})
+	}
+}
+
+// TestLogNormalExplanation: a log-normal nuisance's explanation is in its
+// own unit — the stated median times the factor, 0.124 m² × e^0.5878 =
+// 0.2232 m² (hand-worked) — with its shift in prior sd and the factor.
+func TestLogNormalExplanation(t *testing.T) {
+	drag := errorTerm{label: "pitch of drag C_D·A·h/L", unit: "m²", sd: 0.2, logScale: true, median: 0.124}
+	ex := drag.explanation("taps", 2.94, 0.5878)
+	if math.Abs(ex.Value-0.2232) > 1e-4 || ex.Unit != "m²" || ex.ShiftSD != 2.94 || ex.Plausible {
+		t.Errorf("explanation %+v, want 0.2232 m² at 2.94 sd, not plausible (beyond 2 sd)", ex)
+	}
+	for _, want := range []string{"0.223 m²", "0.124 m²", "×1.8", "±20 %"} {
+		if !strings.Contains(ex.Note, want) {
+			t.Errorf("note %q does not say %q", ex.Note, want)
+		}
 	}
 }
 

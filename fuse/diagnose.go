@@ -118,8 +118,7 @@ func (m *model) ownErrorTerm(k int) (errorTerm, bool) {
 	}
 	p := len(m.lin)
 	if k >= p {
-		ph := m.phi[k-p]
-		return errorTerm{label: ph.label, unit: ph.unit, sd: ph.sd, logScale: !ph.wind, wind: ph.wind}, true
+		return m.phiErrorTerm(k - p), true
 	}
 	lp := m.lin[k]
 	if lp.kind != kindNuisance {
@@ -129,9 +128,17 @@ func (m *model) ownErrorTerm(k int) (errorTerm, bool) {
 }
 
 // explanation words an error's explaining value: target on the parameter's
-// scale (the log of a scale factor), shift in prior sd.
+// scale (the log of a scale factor or of a log-normal nuisance's factor),
+// shift in prior sd; a log-normal nuisance's value in its own unit.
 func (et errorTerm) explanation(entry string, shift, target float64) Explanation {
 	ex := Explanation{Nuisance: et.label, Entry: entry, ShiftSD: shift, Value: target, Unit: et.unit, Plausible: math.Abs(shift) <= 2}
+	if et.median > 0 {
+		f := math.Exp(target)
+		ex.Value = et.median * f
+		ex.Note = fmt.Sprintf("the %s would have to be %.3g %s instead of %.3g %s as stated (×%.3g; prior ±%.0f %%)",
+			et.label, ex.Value, et.unit, et.median, et.unit, f, 100*et.sd)
+		return ex
+	}
 	if et.logScale {
 		ex.Value, ex.Unit = math.Exp(target), "×"
 		ex.Note = fmt.Sprintf("the %s factor would have to be ×%.3g instead of ×1 (prior ±%.1f %%)", et.label, ex.Value, 100*et.sd)

@@ -16,7 +16,9 @@ import (
 //	log p(y | φ) = −½ yᵀΣ⁻¹y − ½ μ₀ᵀΛ₀μ₀ + ½ mᵀΛm − ½ log|Λ| + ½ log|Λ₀|₊ − ½ log|Σ| − (n/2) log 2π
 //
 // where |Λ₀|₊ is the product of the proper prior precisions (flat priors
-// add the same constant to every φ).
+// add the same constant to every φ), and y is the data less the known
+// terms o(φ) of the log-normal nuisances (see offRef): given φ they are a
+// shift, and the update stays exact.
 //
 // Λ is factorised in the order of the model's layout (see layout), so l,
 // lam and b are in that order; mean is in the order of the columns of θ.
@@ -32,6 +34,7 @@ type cond struct {
 	vals   []float64 // the basis values at φ (terms.go)
 	a, x   []float64
 	xs     [][]entryRef
+	ys     []float64 // a full block's y − o(φ)
 }
 
 // toLayout writes a (in column order) into x in layout order.
@@ -207,42 +210,7 @@ func (m *model) condition(phi []float64, c *cond) error {
 	yWy += m.addTerms(c.vals, lam, b)
 	// Full blocks row by row.
 	for _, bi := range m.fullBlocks {
-		bl := &m.blocks[bi]
-		k := m.inflate[bl.entry]
-		w := 1 / (k * k)
-		for len(c.xs) < len(bl.rows) {
-			c.xs = append(c.xs, nil)
-		}
-		f, q := m.factorAt(&m.rows[bl.rows[0]], phi, c.fs)
-		for i, ri := range bl.rows {
-			r := &m.rows[ri]
-			if i > 0 && !bl.uniform {
-				f, q = m.factorAt(r, phi, c.fs)
-			}
-			c.xs[i] = designAt(r, f, q, c.xs[i][:0])
-		}
-		for i, ri := range bl.rows {
-			for j, rj := range bl.rows {
-				wt := w * bl.precD[i*len(bl.rows)+j]
-				yj := m.rows[rj].y
-				yWy += wt * m.rows[ri].y * yj
-				for _, a := range c.xs[i] {
-					at := lay.pos[a.col]
-					b[at] += wt * a.v * yj
-					for _, bb := range c.xs[j] {
-						// Every off-diagonal term comes in both orders
-						// (i, a, j, bb) and (j, bb, i, a) onto one element
-						// of the lower triangle: half of it each time.
-						bt := lay.pos[bb.col]
-						v := wt * a.v * bb.v
-						if bt != at {
-							v *= 0.5
-						}
-						lam[lay.sym(at, bt)] += v
-					}
-				}
-			}
-		}
+		yWy += m.addFullRows(&m.blocks[bi], phi, c)
 	}
 	if !cholesky(lam, c.l, lay) {
 		return m.unidentified(lam)
@@ -262,6 +230,51 @@ func (m *model) condition(phi []float64, c *cond) error {
 	c.logML = -0.5*yWy - 0.5*mu0 + 0.5*bm - 0.5*logDetChol(c.l, lay) + 0.5*logDetPrior -
 		0.5*logDetSigma - 0.5*float64(n)*math.Log(2*math.Pi)
 	return nil
+}
+
+// addFullRows adds a full block outside the term table to c.lam and c.b
+// row by row at φ and returns its (y − o)ᵀΣ⁻¹(y − o).
+func (m *model) addFullRows(bl *block, phi []float64, c *cond) float64 {
+	lay, lam, b := c.lay, c.lam, c.b
+	k := m.inflate[bl.entry]
+	w := 1 / (k * k)
+	for len(c.xs) < len(bl.rows) {
+		c.xs = append(c.xs, nil)
+	}
+	c.ys = grow(c.ys, len(bl.rows))
+	f, q := m.factorAt(&m.rows[bl.rows[0]], phi, c.fs)
+	for i, ri := range bl.rows {
+		r := &m.rows[ri]
+		if i > 0 && !bl.uniform {
+			f, q = m.factorAt(r, phi, c.fs)
+		}
+		c.xs[i] = designAt(r, f, q, c.xs[i][:0])
+		c.ys[i] = r.y - r.offset(phi, q)
+	}
+	var yWy float64
+	for i := range bl.rows {
+		for j := range bl.rows {
+			wt := w * bl.precD[i*len(bl.rows)+j]
+			yj := c.ys[j]
+			yWy += wt * c.ys[i] * yj
+			for _, a := range c.xs[i] {
+				at := lay.pos[a.col]
+				b[at] += wt * a.v * yj
+				for _, bb := range c.xs[j] {
+					// Every off-diagonal term comes in both orders
+					// (i, a, j, bb) and (j, bb, i, a) onto one element
+					// of the lower triangle: half of it each time.
+					bt := lay.pos[bb.col]
+					v := wt * a.v * bb.v
+					if bt != at {
+						v *= 0.5
+					}
+					lam[lay.sym(at, bt)] += v
+				}
+			}
+		}
+	}
+	return yWy
 }
 
 // design appends the non-zero entries of a row's design vector at φ.

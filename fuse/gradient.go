@@ -8,8 +8,8 @@ import (
 
 // The gradient of the Laplace objective f(φ) = −log p(y | φ) − log p(φ)
 // − Σ_signs log E[P(sign | θ)] (see objective), in reverse mode: f
-// depends on φ only through Λ(φ) and b(φ), whose derivatives the term
-// table gives (terms.go), so one conditioning and one reverse pass give
+// depends on φ only through Λ(φ), b(φ) and yᵀΣ⁻¹y(φ), whose derivatives
+// the term table gives (terms.go), so one conditioning and one reverse pass give
 // every ∂f/∂φ_t — about three conditionings' work, where central
 // differences took two per parameter.
 //
@@ -126,9 +126,11 @@ func (m *model) signAdjoint(si int, c *cond, gb *gradBuf) float64 {
 }
 
 // basisAdjoint adds ∂F/∂φ through the term table into dF: each basis's
-// adjoint s_k = Σ C_k,ij·Λ̄_ij + Σ c_k,i·b̄_i, times ∂v_k/∂φ. Λ̄ is the
-// reverse Cholesky's (gb.lbar) plus the direct terms −½ mᵀdΛm − uᵀdΛm on
-// each element (both orders of an off-diagonal one), and b̄ = m + u.
+// adjoint s_k = Σ C_k,ij·Λ̄_ij + Σ c_k,i·b̄_i − ½ y_k, times ∂v_k/∂φ. Λ̄ is
+// the reverse Cholesky's (gb.lbar) plus the direct terms −½ mᵀdΛm − uᵀdΛm
+// on each element (both orders of an off-diagonal one), b̄ = m + u, and
+// −½ y_k is the basis's share of −½ yᵀΣ⁻¹y, which depends on φ through the
+// log-normal nuisances' terms (y − o(φ), see terms.go).
 func (m *model) basisAdjoint(phi []float64, c *cond, gb *gradBuf, dF []float64) {
 	t, mL, u := m.terms, gb.mL, gb.u
 	for k, bs := range t.bases {
@@ -147,18 +149,29 @@ func (m *model) basisAdjoint(phi []float64, c *cond, gb *gradBuf, dF []float64) 
 			i := t.bIdx[n]
 			s += t.bCoef[n] * (mL[i] + u[i])
 		}
+		s -= 0.5 * t.yCoef[k]
 		if s == 0 {
 			continue
 		}
 		v := c.vals[k]
-		if bs.fpow > 0 {
-			for _, sc := range m.scaleSets[bs.set] {
-				dF[sc.idx] += s * float64(bs.fpow) * sc.pow * v
+		switch {
+		case bs.f1 >= 0 && bs.f1 == bs.f2:
+			for _, sc := range m.scaleSets[bs.f1] {
+				dF[sc.idx] += s * 2 * sc.pow * v
+			}
+		case bs.f1 >= 0:
+			for _, sc := range m.scaleSets[bs.f1] {
+				dF[sc.idx] += s * sc.pow * v
+			}
+			fallthrough
+		case bs.f2 >= 0:
+			for _, sc := range m.scaleSets[bs.f2] {
+				dF[sc.idx] += s * sc.pow * v
 			}
 		}
 		if bs.deg > 0 {
 			kp := m.inflate[bs.entry]
-			dv := float64(bs.deg) / (kp * kp) * math.Pow(c.fs[bs.set], float64(bs.fpow)) * math.Pow(phi[bs.wind], float64(bs.deg-1))
+			dv := float64(bs.deg) / (kp * kp) * bs.factors(c.fs) * math.Pow(phi[bs.wind], float64(bs.deg-1))
 			dF[bs.wind] += s * dv
 		}
 	}

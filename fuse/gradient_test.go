@@ -14,8 +14,11 @@ import (
 // Richardson's extrapolation, error O(h⁴): a smaller step meets the
 // objective's rounding) to
 // 10⁻⁵ of the gradient's scale, and its value equals objective's, on
-// campaigns with signs and shared nuisances, with both speed models, with
-// an entry's errors inflated by the robust layer, at random φ.
+// campaigns with signs and shared nuisances (the taps' log-normal pitch of
+// drag among them), with both speed models, with an entry's errors
+// inflated by the robust layer, and on offsetModel's log-normal nuisances
+// (in diagonal and full blocks, two in one row, one stated exactly), at
+// random φ.
 func TestObjectiveGradient(t *testing.T) {
 	for _, tc := range []struct {
 		name    string
@@ -26,14 +29,22 @@ func TestObjectiveGradient(t *testing.T) {
 		{"2-constant", 2, false, false},
 		{"5-linear", 5, true, false},
 		{"5-constant-robust", 5, false, true},
+		{"offsets", 0, false, false},
+		{"offsets-robust", 0, false, true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			m := scaleModel(t, tc.n, tc.linear)
+			var m *model
+			if tc.n == 0 {
+				m = offsetModel(t, 3, false)
+				checkOffsetPaths(t, m)
+			} else {
+				m = scaleModel(t, tc.n, tc.linear)
+			}
 			if !m.hasGradient() || len(m.signs) == 0 {
 				t.Fatal("the campaign does not exercise the gradient's sign and term paths")
 			}
 			if tc.inflate {
-				m = m.variant(map[int]bool{0: true, 4: true}, true, true)
+				m = m.variant(map[int]bool{0: true, len(m.entries) - 1: true}, true, true)
 			}
 			rng := rand.New(rand.NewPCG(7, uint64(tc.n)))
 			for range 3 {

@@ -14,22 +14,69 @@ import (
 // the wind w (q(w) = q0 + a·w + c·w² enters at most squared) times a power
 // of the scale factor F = s(φ). Summing the polynomial coefficients once
 // makes the cost of conditioning on φ independent of the number of rows.
+//
+// A row's terms of log-normal nuisances, o(φ) = Σ_g v_g·G_g·q(w)^{0 or 1}
+// with G_g = e^{φ_g} (see offRef), are known given φ and shift the data:
+// y − o(φ). They are kept as columns of kind colOffset beside the design
+// columns, so that the same sums hold their products: a design column
+// times an offset column is a term of −Xᵀ Σ⁻¹ o (of b), an offset's own
+// terms are −2 yᵀΣ⁻¹o and oᵀΣ⁻¹o (of yᵀΣ⁻¹y) — see buildTerms.
 
 // column kinds: how a design column depends on φ.
 const (
-	colFixed = iota // constant: static offset, tyre growth, drift
-	colPerQ         // ∝ q(w): a patch's Cp, the pitch of drag
-	colLift         // ∝ F·q(w): the lift parameters
+	colFixed  = iota // constant: static offset, tyre growth, drift
+	colPerQ          // ∝ q(w): a patch's Cp
+	colLift          // ∝ F·q(w): the lift parameters
+	colOffset        // a log-normal nuisance's term: ∝ G = e^φ, times q(w) when perQ
 )
 
 type gcol struct {
-	col  int
+	col  int // column of θ; for an offset, its φ (−1: stated exactly)
 	kind int
-	at   int // position of col in the model's layout
+	perQ bool // an offset ∝ q(w)
+	set  int  // an offset's factor G among the model's scaleSets, or −1
+	at   int  // position of col in the model's layout (not for an offset)
 }
 
-func (g gcol) qpow() int { return min(g.kind, 1) }
-func (g gcol) fpow() int { return g.kind / 2 }
+// qpow is the power of q(w) in the column.
+func (g gcol) qpow() int {
+	switch g.kind {
+	case colFixed:
+		return 0
+	case colOffset:
+		if g.perQ {
+			return 1
+		}
+		return 0
+	}
+	return 1
+}
+
+// key tells the columns of a block apart: a column of θ by its index, an
+// offset by its φ and whether it scales with q.
+func (g gcol) key() int {
+	if g.kind != colOffset {
+		return g.col
+	}
+	k := -2 * (g.col + 2)
+	if g.perQ {
+		k--
+	}
+	return k
+}
+
+// factor returns the index among the model's scaleSets of the column's
+// φ-dependence e^{Σ pow·φ} in group gr: F for a lift column, G for an
+// offset, −1 for none.
+func (g gcol) factor(gr *group) int {
+	switch g.kind {
+	case colLift:
+		return gr.set
+	case colOffset:
+		return g.set
+	}
+	return -1
+}
 
 // group is a set of rows with one structure.
 type group struct {
@@ -68,6 +115,13 @@ func (m *model) signature(entry int, r *row, b []byte) []byte {
 			b = append(b, ',')
 		}
 	}
+	for _, o := range r.offs {
+		b = append(b, 'O')
+		b = strconv.AppendInt(b, int64(o.idx), 10)
+		b = append(b, ':')
+		b = strconv.AppendBool(b, o.perQ)
+		b = append(b, ',')
+	}
 	return b
 }
 
@@ -86,6 +140,9 @@ func rowValues(r *row) ([]gcol, []float64) {
 	}
 	for _, c := range r.nuis {
 		cols, vals = append(cols, gcol{col: c.col, kind: colFixed}), append(vals, c.v)
+	}
+	for _, o := range r.offs {
+		cols, vals = append(cols, gcol{col: o.idx, kind: colOffset, perQ: o.perQ, set: o.set}), append(vals, o.v)
 	}
 	return cols, vals
 }
@@ -148,15 +205,12 @@ func (m *model) buildGroups() {
 	m.buildLayout()
 	for gi := range m.groups {
 		for j := range m.groups[gi].cols {
-			c := &m.groups[gi].cols[j]
-			c.at = m.lay.pos[c.col]
+			if c := &m.groups[gi].cols[j]; c.kind != colOffset {
+				c.at = m.lay.pos[c.col]
+			}
 		}
 	}
 	m.buildTerms()
-	// The groups live on merged in the term table: their coefficient
-	// polynomials (a sixth of a 48-configuration fusion's heap, each fit
-	// holding its own) are let go.
-	m.groups = nil
 }
 
 // qPoly returns the coefficients in w of q(w)^pw for a row, pw ≤ 2.
@@ -202,20 +256,20 @@ func (m *model) groupFullBlock(bl *block, index map[string]int) bool {
 		}
 		rc, _ := rowValues(r)
 		for _, c := range rc {
-			if j, ok := at[c.col]; ok {
+			if j, ok := at[c.key()]; ok {
 				if cols[j].kind != c.kind {
 					return false
 				}
 				continue
 			}
-			at[c.col] = len(cols)
+			at[c.key()] = len(cols)
 			cols = append(cols, c)
 		}
 	}
 	var sig strings.Builder
 	fmt.Fprintf(&sig, "e%d|full|w%d|s%d|", bl.entry, r0.wind, r0.scaleSet)
 	for _, c := range cols {
-		fmt.Fprintf(&sig, "%d:%d,", c.col, c.kind)
+		fmt.Fprintf(&sig, "%d:%d,", c.key(), c.kind)
 	}
 	gi, ok := index[sig.String()]
 	nc := len(cols)
@@ -239,7 +293,7 @@ func (m *model) addFullBlock(g *group, bl *block, at map[int]int) {
 		vals[i] = make([]float64, nc)
 		rc, rv := rowValues(&m.rows[ri])
 		for k, c := range rc {
-			vals[i][at[c.col]] += rv[k]
+			vals[i][at[c.key()]] += rv[k]
 		}
 	}
 	for i, ri := range bl.rows {
@@ -263,15 +317,29 @@ func (m *model) addFullBlock(g *group, bl *block, at map[int]int) {
 	}
 }
 
-// indexScaleSets numbers the distinct scales of the rows.
+// indexScaleSets numbers the distinct scales of the rows, then the factors
+// G = e^φ of the log-normal nuisances their offsets name.
 func (m *model) indexScaleSets() {
 	m.scaleSets = m.scaleSets[:0]
+	index := func(set []phiRef) int {
+		i := slices.IndexFunc(m.scaleSets, func(s []phiRef) bool { return slices.Equal(s, set) })
+		if i < 0 {
+			i = len(m.scaleSets)
+			m.scaleSets = append(m.scaleSets, set)
+		}
+		return i
+	}
 	for i := range m.rows {
 		r := &m.rows[i]
-		r.scaleSet = slices.IndexFunc(m.scaleSets, func(s []phiRef) bool { return slices.Equal(s, r.scales) })
-		if r.scaleSet < 0 {
-			r.scaleSet = len(m.scaleSets)
-			m.scaleSets = append(m.scaleSets, r.scales)
+		r.scaleSet = index(r.scales)
+	}
+	for i := range m.rows {
+		for k := range m.rows[i].offs {
+			o := &m.rows[i].offs[k]
+			o.set = -1
+			if o.idx >= 0 {
+				o.set = index([]phiRef{{o.idx, 1}})
+			}
 		}
 	}
 }

@@ -18,6 +18,9 @@ type indexer struct {
 	// winds are the nuisances that some observation uses as its
 	// airspeed's wind: they enter non-linearly, as φ.
 	winds map[string]bool
+	// logn are the log-normal nuisances: their log factor is a φ (none
+	// when stated exactly), their terms the rows' offsets.
+	logn map[string]evidence.Nuisance
 }
 
 // newModel indexes the evidence in three steps: the lift columns, every
@@ -28,7 +31,7 @@ func newModel(evs []evidence.Evidence, set Settings) (*model, error) {
 	set = set.withDefaults()
 	m := &model{data: &data{set: set, beta: map[[2]string]int{}, gamma: map[[2]string]int{}, informed: map[string]bool{}}}
 	m.indexLift()
-	ix := &indexer{model: m, nuisIdx: map[string]int{}, phiIdx: map[string]int{}, winds: windNames(evs)}
+	ix := &indexer{model: m, nuisIdx: map[string]int{}, phiIdx: map[string]int{}, winds: windNames(evs), logn: map[string]evidence.Nuisance{}}
 	for ei, ev := range evs {
 		if err := ix.registerEntry(ei, ev); err != nil {
 			return nil, err
@@ -116,14 +119,25 @@ func (ix *indexer) registerEntry(ei int, ev evidence.Evidence) error {
 	return nil
 }
 
-// registerNuisance declares a nuisance of entry ei: a wind as a φ, any
-// other as an additive column of θ with prior N(μ, σ²) (precision 0 when
-// flat), or adds ei as an owner of one already declared with the same
-// prior.
+// registerNuisance declares a nuisance of entry ei: a wind as a φ, a
+// log-normal one as the φ of its log factor (none when stated exactly),
+// any other as an additive column of θ with prior N(μ, σ²) (precision 0
+// when flat), or adds ei as an owner of one already declared with the
+// same prior.
 func (ix *indexer) registerNuisance(ei int, n evidence.Nuisance) error {
 	m := ix.model
 	if ix.winds[n.Name] {
 		return ix.addPhi(ei, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit})
+	}
+	if n.LogNormal {
+		if o, ok := ix.logn[n.Name]; ok && (o.Mean != n.Mean || o.SD != n.SD) {
+			return fmt.Errorf("fuse: log-normal nuisance %q is declared twice with different priors (median %g, log-sd %g and %g, %g)", n.Name, o.Mean, o.SD, n.Mean, n.SD)
+		}
+		ix.logn[n.Name] = n
+		if n.SD == 0 {
+			return nil
+		}
+		return ix.addPhi(ei, phiParam{name: n.Name, label: n.Label, sd: n.SD, perRun: n.PerRun, unit: n.Unit, median: n.Mean})
 	}
 	if i, ok := ix.nuisIdx[n.Name]; ok {
 		p := &m.lin[i]
@@ -147,7 +161,7 @@ func (ix *indexer) registerNuisance(ei int, n evidence.Nuisance) error {
 func (ix *indexer) addPhi(ei int, p phiParam) error {
 	m := ix.model
 	if i, ok := ix.phiIdx[p.name]; ok {
-		if m.phi[i].sd != p.sd {
+		if m.phi[i].sd != p.sd || m.phi[i].median != p.median || m.phi[i].wind != p.wind {
 			return fmt.Errorf("fuse: %q is declared with sd %g and %g", p.name, m.phi[i].sd, p.sd)
 		}
 		m.phi[i].owners[ei] = true
@@ -212,6 +226,10 @@ func (ix *indexer) indexRow(ei int, o evidence.Obs) (row, error) {
 		}
 	}
 	for _, c := range o.Nuis {
+		if n, ok := ix.logn[c.Name]; ok {
+			ix.addOffset(&r, c, n.Mean)
+			continue
+		}
 		if c.PerQ && r.wind >= 0 && r.q0 > 0 {
 			r.nuisPerQ = append(r.nuisPerQ, entryRef{ix.nuisIdx[c.Name], c.C / r.q0})
 			continue
@@ -219,6 +237,25 @@ func (ix *indexer) indexRow(ei int, o evidence.Obs) (row, error) {
 		r.nuis = append(r.nuis, entryRef{ix.nuisIdx[c.Name], c.C})
 	}
 	return r, nil
+}
+
+// addOffset adds to a row the term c·ν of a log-normal nuisance ν of
+// median M (see offRef); terms of one nuisance are merged.
+func (ix *indexer) addOffset(r *row, c evidence.Coef, M float64) {
+	t := offRef{idx: -1, v: c.C * M}
+	if i, ok := ix.phiIdx[c.Name]; ok {
+		t.idx = i
+	}
+	if c.PerQ && r.wind >= 0 && r.q0 > 0 {
+		t.v, t.perQ = t.v/r.q0, true
+	}
+	for k := range r.offs {
+		if r.offs[k].idx == t.idx && r.offs[k].perQ == t.perQ {
+			r.offs[k].v += t.v
+			return
+		}
+	}
+	r.offs = append(r.offs, t)
 }
 
 // liftTerms returns the β columns of terms with their weights w_k and,

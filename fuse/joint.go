@@ -336,9 +336,10 @@ func (P *Posterior) wholeLocked() *Posterior {
 	return P.whole
 }
 
-// rowMean is the expected value of a row's observation at (θ, φ).
+// rowMean is the expected value of a row's observation at (θ, φ), the
+// log-normal nuisances' terms included.
 func (m *model) rowMean(r *row, theta, phi []float64, buf []entryRef) float64 {
-	var y float64
+	y := m.rowOffset(r, phi)
 	for _, e := range m.design(r, phi, buf[:0]) {
 		y += e.v * theta[e.col]
 	}

@@ -63,7 +63,9 @@ func (m *model) cliques() [][]int {
 	for gi := range m.groups {
 		var c []int
 		for _, g := range m.groups[gi].cols {
-			c = append(c, g.col)
+			if g.kind != colOffset {
+				c = append(c, g.col)
+			}
 		}
 		out = append(out, c)
 	}

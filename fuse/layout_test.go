@@ -37,25 +37,52 @@ func scaleModel(t *testing.T, n int, linear bool) *model {
 }
 
 // denseCond is the reference for cond: Λ = Λ₀ + Xᵀ Σ⁻¹ X and
-// Λ m = Λ₀ μ₀ + Xᵀ Σ⁻¹ y assembled row by row from the design vectors in
-// the columns' own order, factorised by gonum's dense Cholesky (the
-// reference library), with no layout, groups or envelope.
-func denseCond(t *testing.T, m *model, phi []float64) (*mat.Cholesky, []float64) {
+// Λ m = Λ₀ μ₀ + Xᵀ Σ⁻¹ (y − o) assembled row by row from the design
+// vectors in the columns' own order (o the rows' log-normal terms, each
+// c·M·e^φ·q(w)/q0 or c·M·e^φ), factorised by gonum's dense Cholesky (the
+// reference library), with no layout, groups or envelope; and the log
+// marginal likelihood of cond's doc comment from those pieces, with
+// (y − o)ᵀΣ⁻¹(y − o) and log|Σ| from the blocks' own matrices. scale is
+// the size of its largest terms, ½(y − o)ᵀΣ⁻¹(y − o) and ½bᵀm, which
+// cancel: rounding is relative to it.
+func denseCond(t *testing.T, m *model, phi []float64) (ch *mat.Cholesky, b []float64, logML, scale float64) {
 	t.Helper()
 	p := len(m.lin)
 	lam := mat.NewSymDense(p, nil)
-	b := make([]float64, p)
+	b = make([]float64, p)
 	pr := m.priorTerms()
+	var logDet0 float64
 	for i := range p {
 		lam.SetSym(i, i, pr.prec[i])
 		b[i] = pr.prec[i] * m.lin[i].mean
+		logML -= 0.5 * pr.prec[i] * m.lin[i].mean * m.lin[i].mean
+		if pr.prec[i] > 0 {
+			logDet0 += math.Log(pr.prec[i])
+		}
 	}
 	for _, bl := range m.blocks {
 		n := len(bl.rows)
 		X := mat.NewDense(n, p, nil)
+		y := make([]float64, n)
 		for i, ri := range bl.rows {
-			for _, e := range m.design(&m.rows[ri], phi, nil) {
+			r := &m.rows[ri]
+			for _, e := range m.design(r, phi, nil) {
 				X.Set(i, e.col, X.At(i, e.col)+e.v)
+			}
+			q := r.q0
+			if r.wind >= 0 {
+				q += r.a*phi[r.wind] + r.c*phi[r.wind]*phi[r.wind]
+			}
+			y[i] = r.y
+			for _, o := range r.offs {
+				g := 1.0
+				if o.idx >= 0 {
+					g = math.Exp(phi[o.idx])
+				}
+				if o.perQ {
+					g *= q
+				}
+				y[i] -= o.v * g
 			}
 		}
 		P := mat.NewDense(n, n, nil)
@@ -78,24 +105,41 @@ func denseCond(t *testing.T, m *model, phi []float64) (*mat.Cholesky, []float64)
 				}
 				lam.SetSym(a, c, lam.At(a, c)+s)
 			}
-			for i, ri := range bl.rows {
-				b[a] += PX.At(i, a) * m.rows[ri].y
+			for i := range n {
+				b[a] += PX.At(i, a) * y[i]
 			}
 		}
+		yv := mat.NewVecDense(n, y)
+		var Py mat.VecDense
+		Py.MulVec(P, yv)
+		var lu mat.LU
+		lu.Factorize(P)
+		logP, _ := lu.LogDet()
+		// −½ log|Σ| = ½ log|Σ⁻¹|
+		logML += -0.5*mat.Dot(yv, &Py) + 0.5*logP - 0.5*float64(n)*math.Log(2*math.Pi)
+		scale += 0.5 * mat.Dot(yv, &Py)
 	}
-	var ch mat.Cholesky
+	ch = &mat.Cholesky{}
 	if !ch.Factorize(lam) {
 		t.Fatal("reference Λ not positive definite")
 	}
-	return &ch, b
+	mean := mat.NewVecDense(p, nil)
+	if err := ch.SolveVecTo(mean, mat.NewVecDense(p, b)); err != nil {
+		t.Fatal(err)
+	}
+	bm := mat.Dot(mean, mat.NewVecDense(p, b))
+	logML += 0.5*bm - 0.5*ch.LogDet() + 0.5*logDet0
+	return ch, b, logML, math.Max(scale, 0.5*math.Abs(bm))
 }
 
 // TestLayoutConditioning: the conditional posterior computed in the
 // arrowhead layout with grouped statistics and the envelope Cholesky
 // equals the dense reference (gonum) to 1e-9 relative — its mean, log|Λ|,
-// Λ⁻¹ applied to a vector, aᵀΛ⁻¹a of every sign and a draw's map z ↦ θ —
-// on campaigns of 2 and 7 configurations, with both speed models, at φ = 0
-// and at a random φ.
+// the log marginal likelihood, Λ⁻¹ applied to a vector, aᵀΛ⁻¹a of every
+// sign and a draw's map z ↦ θ — on campaigns of 2 and 7 configurations
+// (whose taps carry the log-normal pitch of drag), with both speed
+// models, and on offsetModel's log-normal nuisances (through the term
+// table and row by row), at φ = 0 and at a random φ.
 func TestLayoutConditioning(t *testing.T) {
 	for _, tc := range []struct {
 		name   string
@@ -105,9 +149,23 @@ func TestLayoutConditioning(t *testing.T) {
 		{"2-constant", 2, false},
 		{"7-constant", 7, false},
 		{"7-linear", 7, true},
+		{"offsets", 0, false},
+		{"offsets-row-by-row", -1, false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			m := scaleModel(t, tc.n, tc.linear)
+			var m *model
+			switch tc.n {
+			case 0:
+				m = offsetModel(t, 2, false)
+				checkOffsetPaths(t, m)
+			case -1:
+				m = offsetModel(t, 2, true)
+				if len(m.fullBlocks) == 0 {
+					t.Fatal("no block conditioned row by row")
+				}
+			default:
+				m = scaleModel(t, tc.n, tc.linear)
+			}
 			if m.lay.shared() == len(m.lin) {
 				t.Fatal("no shared nuisances: the test would not exercise the arrowhead")
 			}
@@ -131,7 +189,7 @@ func checkConditioning(t *testing.T, m *model, phi []float64, rng *rand.Rand) {
 	if err := m.condition(phi, &c); err != nil {
 		t.Fatal(err)
 	}
-	ref, b := denseCond(t, m, phi)
+	ref, b, logML, mlScale := denseCond(t, m, phi)
 	p := len(m.lin)
 	want := mat.NewVecDense(p, nil)
 	if err := ref.SolveVecTo(want, mat.NewVecDense(p, b)); err != nil {
@@ -151,6 +209,7 @@ func checkConditioning(t *testing.T, m *model, phi []float64, rng *rand.Rand) {
 		near(fmt.Sprintf("mean[%s]", m.linName(i)), c.mean[i], want.AtVec(i), scale)
 	}
 	near("log|Λ|", logDetChol(c.l, c.lay), ref.LogDet(), math.Abs(ref.LogDet()))
+	near("log p(y | φ)", c.logML, logML, mlScale)
 	a := make([]float64, p)
 	for i := range a {
 		a[i] = rng.NormFloat64()

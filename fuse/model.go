@@ -80,7 +80,8 @@ type linParam struct {
 }
 
 // phiParam is one parameter of the non-linear part: the log of a scale
-// factor, or a wind speed.
+// factor, a wind speed, or the log of the factor s of a log-normal nuisance
+// ν = median·s (the pitch of drag; median > 0 marks it).
 type phiParam struct {
 	name   string
 	label  string
@@ -88,6 +89,7 @@ type phiParam struct {
 	wind   bool
 	perRun bool
 	unit   string
+	median float64
 	owners map[int]bool
 }
 
@@ -101,10 +103,52 @@ type phiRef struct {
 	pow float64
 }
 
+// offRef is a row's term of a log-normal nuisance ν = M·e^φ: the known
+// value v·e^{φ_idx} (v = c·M for the coefficient c; v = c·M/q0, times
+// q(w), when it scales with q), idx −1 for a nuisance stated exactly.
+// Given φ it is a known shift of the observation.
+type offRef struct {
+	idx  int
+	v    float64
+	perQ bool
+	set  int // {(idx, 1)} among the model's scaleSets, or −1
+}
+
+// rowOffset returns a row's terms of log-normal nuisances at φ.
+func (m *model) rowOffset(r *row, phi []float64) float64 {
+	if len(r.offs) == 0 {
+		return 0
+	}
+	q := r.q0
+	if r.wind >= 0 {
+		w := phi[r.wind]
+		q += r.a*w + r.c*w*w
+	}
+	return r.offset(phi, q)
+}
+
+// offset returns a row's terms of log-normal nuisances at φ, q = q(w).
+func (r *row) offset(phi []float64, q float64) float64 {
+	var o float64
+	for _, t := range r.offs {
+		v := t.v
+		if t.idx >= 0 {
+			v *= math.Exp(phi[t.idx])
+		}
+		if t.perQ {
+			v *= q
+		}
+		o += v
+	}
+	return o
+}
+
 // row is one Gaussian observation in indexed form:
 //
-//	y = s(φ)·q(w)·Σ_k w_k·(β_k + γ_k·vfac) + Σ_j c_j·ν_j + ε
+//	y = s(φ)·q(w)·Σ_k w_k·(β_k + γ_k·vfac) + Σ_j c_j·ν_j + o(φ) + ε
 //	q(w) = q0 + a·w + c·w²
+//
+// with o(φ) the terms of its log-normal nuisances (see offRef).
 type row struct {
 	y        float64
 	lift     []entryRef // β columns with their weights w_k
@@ -115,6 +159,7 @@ type row struct {
 	scales   []phiRef
 	nuis     []entryRef
 	nuisPerQ []entryRef // nuisances proportional to q: coefficient·q(w)/q0
+	offs     []offRef   // log-normal nuisances: o(φ)
 	scaleSet int        // index of its scales among the model's distinct sets
 	entry    int
 	label    string
@@ -167,8 +212,9 @@ type data struct {
 	fullBlocks []int
 	terms      *termTable // the groups merged by basis function (terms.go)
 	lay        *layout    // the order Λ is factorised in
-	// scaleSets are the distinct scales of the rows, so that a
-	// conditioning computes each s(φ) once
+	// scaleSets are the distinct scales of the rows and the factors e^φ
+	// of the log-normal nuisances, so that a conditioning computes each
+	// once
 	scaleSets [][]phiRef
 	signComps [][]int // per sign: the layout components of its columns
 	// per sign: the position ranges [lo, hi) of its components, then

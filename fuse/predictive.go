@@ -343,7 +343,7 @@ func (st *looStat) weights(full *model, pos map[int]int, nc int) [][]float64 {
 }
 
 // scaleParam reports whether parameter k of (θ, φ) is a scale factor (a
-// scale group's log, not the wind).
+// scale group's log or a log-normal nuisance's, not the wind).
 func (m *model) scaleParam(k int) bool {
 	p := len(m.lin)
 	return k >= p && !m.phi[k-p].wind

@@ -86,7 +86,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 			for r, ri := range st.rows {
 				row := &full.rows[ri]
 				f, q := full.factorAt(row, x[p:], fs)
-				y[r] = eps[r] - st.mu[r] + rowValue(row, f, q, x)
+				y[r] = eps[r] - st.mu[r] + full.rowOffset(row, x[p:]) + rowValue(row, f, q, x)
 			}
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)

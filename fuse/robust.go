@@ -236,9 +236,17 @@ func robustHeadline(out *Fused, full *model, in Input, set Settings, lo *looFits
 	res.Configs, res.Deltas = scratch.Configs, scratch.Deltas
 	res.Headline = HeadlineRobust
 	out.Posterior = R
-	res.Warnings = append(res.Warnings, "the headline figures are the robust fusion's: "+robustWhy(full.entries, cd, widened)+"; the plain fusion is shown beside them")
+	res.Warnings = append(res.Warnings, robustLead+robustWhy(full.entries, cd, widened)+"; the plain fusion is shown beside them")
 	return nil
 }
+
+// robustLead begins the warning of a robust headline.
+const robustLead = "the headline figures are the robust fusion's: "
+
+// IsRobustWarning reports whether w is the result's warning that the
+// headline figures are the robust fusion's (which a report may say in its
+// own words).
+func IsRobustWarning(w string) bool { return strings.HasPrefix(w, robustLead) }
 
 // robustWhy says what the robust fusion changed.
 func robustWhy(entries []string, cd condemned, widened []string) string {
@@ -294,7 +302,7 @@ func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) 
 func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
 	at := -1
 	if old != nil && old.Suspect {
-		w := old.warning(entry)
+		w := old.Warning(entry)
 		for i := range ws {
 			if ws[i] == w {
 				at = i
@@ -304,11 +312,11 @@ func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
 	}
 	switch {
 	case at >= 0 && ag.Suspect:
-		ws[at] = ag.warning(entry)
+		ws[at] = ag.Warning(entry)
 	case at >= 0:
 		ws = append(ws[:at], ws[at+1:]...)
 	case ag.Suspect:
-		ws = append(ws, ag.warning(entry))
+		ws = append(ws, ag.Warning(entry))
 	}
 	return ws
 }

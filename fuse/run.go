@@ -177,7 +177,7 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 			ag.POff = lo.pOff[ei]
 			ag.judge()
 			if ag.Suspect {
-				res.Warnings = append(res.Warnings, ag.warning(ev.Entry))
+				res.Warnings = append(res.Warnings, ag.Warning(ev.Entry))
 			}
 			mr.Agreement = ag
 		}

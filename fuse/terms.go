@@ -7,31 +7,37 @@ import (
 )
 
 // Merged sufficient statistics. Every element of a group's contribution to
-// Λ = Λ₀ + Xᵀ Σ⁻¹ X and to b = Λ₀ μ₀ + Xᵀ Σ⁻¹ y is a coefficient times a
-// basis function of φ,
+// Λ = Λ₀ + Xᵀ Σ⁻¹ X, to b = Λ₀ μ₀ + Xᵀ Σ⁻¹ (y − o(φ)) and to
+// (y − o)ᵀ Σ⁻¹ (y − o) is a coefficient times a basis function of φ,
 //
-//	v(φ) = κ_e⁻²·F_s(φ)^k·w^d,   F_s = exp(Σ_t pow_t φ_t),  w = φ_wind,
+//	v(φ) = κ_e⁻²·E₁(φ)·E₂(φ)·w^d,   E = exp(Σ_t pow_t φ_t),  w = φ_wind,
 //
 // with κ_e the inflation of the group's entry (1 unless the robust layer
-// widens it), s its scale set, k ≤ 2 the power of F and d ≤ 4 the power of
-// the wind (see group). Groups of one entry, scale set and wind that touch
-// the same element of Λ — every run of a configuration touches its lift
-// and the sensor's offset — differ only in the coefficient, so the
-// coefficients are summed once when the model is built and a conditioning
-// costs one multiply-add per distinct (element, basis) pair:
+// widens it), E₁ and E₂ the two columns' factors — F = s(φ) of the row's
+// scale set for a lift column, G = e^{φ_g} for a log-normal nuisance's
+// term (group.go), 1 otherwise — and d ≤ 4 the power of the wind (see
+// group). Groups of one entry, factors and wind that touch the same
+// element of Λ — every run of a configuration touches its lift and the
+// sensor's offset — differ only in the coefficient, so the coefficients
+// are summed once when the model is built and a conditioning costs one
+// multiply-add per distinct (element, basis) pair:
 //
-//	Λ_ij(φ) = Λ₀_ij + Σ_k v_k(φ)·C_k,ij,   b_i(φ) = (Λ₀μ₀)_i + Σ_k v_k(φ)·c_k,i.
+//	Λ_ij(φ) = Λ₀_ij + Σ_k v_k(φ)·C_k,ij,   b_i(φ) = (Λ₀μ₀)_i + Σ_k v_k(φ)·c_k,i,
+//	yᵀΣ⁻¹y(φ) = Σ_k v_k(φ)·y_k.
 //
-// The same table gives the derivatives of Λ and b in φ for the gradient
-// of the Laplace fit (gradient.go): ∂v/∂φ_t = k·pow_t·v for a scale,
-// ∂v/∂w = d·κ_e⁻²·F^k·w^(d−1) for the wind.
+// The same table gives the derivatives of Λ, b and yᵀΣ⁻¹y in φ for the
+// gradient of the Laplace fit (gradient.go): ∂v/∂φ_t = (pow_t of E₁ +
+// pow_t of E₂)·v for a factor, ∂v/∂w = d·κ_e⁻²·E₁·E₂·w^(d−1) for the wind.
 type basis struct {
-	entry, set, wind, fpow, deg int
+	// f1 ≤ f2 are the factors' indices among the model's scaleSets, −1
+	// for none (f1 = −1 when there is one).
+	entry, f1, f2, wind, deg int
 }
 
 // termTable holds, per basis k, the elements of Λ (positions in the
 // envelope storage, see layout) and of b (layout positions) it adds to,
-// with their coefficients: lamIdx[lamPtr[k]:lamPtr[k+1]], and so on.
+// with their coefficients: lamIdx[lamPtr[k]:lamPtr[k+1]], and so on; and
+// its coefficient of yᵀΣ⁻¹y.
 type termTable struct {
 	bases          []basis
 	lamPtr, bPtr   []int
@@ -39,7 +45,7 @@ type termTable struct {
 	lamCoef, bCoef []float64
 	// lamRow, lamCol are the positions (i ≥ j) of each element of lamIdx
 	lamRow, lamCol []int32
-	yWy            []float64 // per entry: Σ yᵀΣ⁻¹y of its grouped rows
+	yCoef          []float64 // per basis: its coefficient of yᵀΣ⁻¹y
 }
 
 // termBuilder merges coefficients by basis and element.
@@ -47,15 +53,24 @@ type termBuilder struct {
 	index map[basis]int
 	lam   []map[int32]float64
 	b     []map[int32]float64
+	y     []float64
+	lay   *layout
 }
 
-func (tb *termBuilder) basis(k basis) int {
+// basis returns the index of the basis of group g's columns' factors f1,
+// f2 (−1: none) and wind power d, adding it when new.
+func (tb *termBuilder) basis(g *group, f1, f2, d int) int {
+	if f1 > f2 {
+		f1, f2 = f2, f1
+	}
+	k := basis{g.entry, f1, f2, g.wind, d}
 	i, ok := tb.index[k]
 	if !ok {
 		i = len(tb.lam)
 		tb.index[k] = i
 		tb.lam = append(tb.lam, map[int32]float64{})
 		tb.b = append(tb.b, map[int32]float64{})
+		tb.y = append(tb.y, 0)
 	}
 	return i
 }
@@ -63,36 +78,28 @@ func (tb *termBuilder) basis(k basis) int {
 // buildTerms merges the groups' coefficients into the model's term table;
 // the layout must be built (group columns know their positions).
 func (m *model) buildTerms() {
-	tb := &termBuilder{index: map[basis]int{}}
-	t := &termTable{yWy: make([]float64, len(m.entries))}
+	tb := &termBuilder{index: map[basis]int{}, lay: m.lay}
 	for gi := range m.groups {
 		g := &m.groups[gi]
-		t.yWy[g.entry] += g.yWy
-		nc := len(g.cols)
+		tb.y[tb.basis(g, -1, -1, 0)] += g.yWy
 		for j, cj := range g.cols {
 			for d, c := range g.b[j] {
-				if c != 0 {
-					k := tb.basis(basis{g.entry, g.set, g.wind, cj.fpow(), d})
+				if c == 0 {
+					continue
+				}
+				k := tb.basis(g, cj.factor(g), -1, d)
+				if cj.kind == colOffset {
+					tb.y[k] -= 2 * c // (y − o)ᵀΣ⁻¹(y − o) ∋ −2 yᵀΣ⁻¹o
+				} else {
 					tb.b[k][int32(cj.at)] += c
 				}
 			}
-			for kk := j; kk < nc; kk++ {
-				ck := g.cols[kk]
-				twice := 1.0
-				if kk != j && ck.at == cj.at {
-					twice = 2 // x_j·x_k and x_k·x_j on one diagonal element
-				}
-				idx := int32(m.lay.sym(cj.at, ck.at))
-				for d, c := range g.lam[j*nc+kk] {
-					if c != 0 {
-						k := tb.basis(basis{g.entry, g.set, g.wind, cj.fpow() + ck.fpow(), d})
-						tb.lam[k][idx] += twice * c
-					}
-				}
+			for kk := j; kk < len(g.cols); kk++ {
+				tb.addPair(g, j, kk)
 			}
 		}
 	}
-	t.bases = make([]basis, len(tb.lam))
+	t := &termTable{bases: make([]basis, len(tb.lam)), yCoef: tb.y}
 	for k, i := range tb.index {
 		t.bases[i] = k
 	}
@@ -100,6 +107,34 @@ func (m *model) buildTerms() {
 	t.bPtr, t.bIdx, t.bCoef = flattenTerms(tb.b)
 	t.lamRow, t.lamCol = m.lay.elements(t.lamIdx)
 	m.terms = t
+}
+
+// addPair merges the coefficients of columns j ≤ kk of group g: an element
+// of Λ for two design columns, of −Xᵀ Σ⁻¹ o in b for a design column and
+// an offset, of oᵀΣ⁻¹o for two offsets.
+func (tb *termBuilder) addPair(g *group, j, kk int) {
+	cj, ck := g.cols[j], g.cols[kk]
+	offJ, offK := cj.kind == colOffset, ck.kind == colOffset
+	twice := 1.0
+	if kk != j && (offJ && offK || !offJ && !offK && ck.at == cj.at) {
+		twice = 2 // x_j·x_k and x_k·x_j on one element
+	}
+	for d, c := range g.lam[j*len(g.cols)+kk] {
+		if c == 0 {
+			continue
+		}
+		k := tb.basis(g, cj.factor(g), ck.factor(g), d)
+		switch {
+		case offJ && offK:
+			tb.y[k] += twice * c
+		case offJ:
+			tb.b[k][int32(ck.at)] -= c
+		case offK:
+			tb.b[k][int32(cj.at)] -= c
+		default:
+			tb.lam[k][int32(tb.lay.sym(cj.at, ck.at))] += twice * c
+		}
+	}
 }
 
 // elements returns the row and column (i ≥ j) of elements of the envelope
@@ -143,19 +178,14 @@ func flattenTerms(per []map[int32]float64) ([]int, []int32, []float64) {
 	return ptr, idx, coef
 }
 
-// basisValues returns v_k(φ) of every basis into dst; fs are the scale
-// factors F_s of the model's scale sets at φ.
+// basisValues returns v_k(φ) of every basis into dst; fs are the factors
+// of the model's scaleSets at φ.
 func (m *model) basisValues(phi, fs, dst []float64) []float64 {
 	dst = grow(dst, len(m.terms.bases))
 	for k, bs := range m.terms.bases {
 		kp := m.inflate[bs.entry]
 		v := 1 / (kp * kp)
-		switch bs.fpow {
-		case 1:
-			v *= fs[bs.set]
-		case 2:
-			v *= fs[bs.set] * fs[bs.set]
-		}
+		v *= bs.factors(fs)
 		if bs.deg > 0 {
 			w := phi[bs.wind]
 			for range bs.deg {
@@ -167,10 +197,22 @@ func (m *model) basisValues(phi, fs, dst []float64) []float64 {
 	return dst
 }
 
+// factors returns E₁·E₂ of a basis (see basisValues).
+func (bs basis) factors(fs []float64) float64 {
+	switch {
+	case bs.f1 >= 0:
+		return fs[bs.f1] * fs[bs.f2]
+	case bs.f2 >= 0:
+		return fs[bs.f2]
+	}
+	return 1
+}
+
 // addTerms adds Σ_k v_k·C_k to lam and Σ_k v_k·c_k to b, and returns the
-// grouped rows' yᵀΣ⁻¹y under the model's inflation.
+// grouped rows' (y − o)ᵀΣ⁻¹(y − o), Σ_k v_k·y_k.
 func (m *model) addTerms(vals, lam, b []float64) float64 {
 	t := m.terms
+	var yWy float64
 	for k, v := range vals {
 		idx, coef := t.lamIdx[t.lamPtr[k]:t.lamPtr[k+1]], t.lamCoef[t.lamPtr[k]:t.lamPtr[k+1]]
 		for j, i := range idx {
@@ -180,11 +222,7 @@ func (m *model) addTerms(vals, lam, b []float64) float64 {
 		for j, i := range idx {
 			b[i] += v * coef[j]
 		}
-	}
-	var yWy float64
-	for e, y := range t.yWy {
-		k := m.inflate[e]
-		yWy += y / (k * k)
+		yWy += v * t.yCoef[k]
 	}
 	return yWy
 }

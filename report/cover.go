@@ -111,7 +111,7 @@ func (r *reporter) findings() []string {
 			i := map[string]int{"front": 0, "rear": 1}[ax]
 			var by, sure []string
 			for _, ch := range chs {
-				e := ch.N[i].Scale(1 / r.unitN)
+				e := r.unit.est(ch.N[i])
 				by = append(by, fmt.Sprintf("%+.1f %s (%+.1f to %+.1f) at %g km/h", e.Mean, unit, e.Lo, e.Hi, ch.SpeedKmh))
 				sure = append(sure, percent(ch.PLess[i]))
 			}
@@ -188,7 +188,7 @@ func sameOrEach(ps []string, chs []changeAt) string {
 // liftWord says a force in newtons as lift or downforce in the display
 // unit, with its interval.
 func (r *reporter) liftWord(n fuse.Estimate, unit string) string {
-	e := n.Scale(1 / r.unitN)
+	e := r.unit.est(n)
 	word := "lift"
 	if e.Mean < 0 {
 		word = "downforce"
@@ -235,25 +235,26 @@ func (r *reporter) checks() []string {
 }
 
 // otherWarnings are the result's warnings other than the disagreements,
-// the robust headline and the model checks, which checks already says.
+// the robust headline and the model checks, which page 1 already says in
+// its own words.
 func (r *reporter) otherWarnings() []string {
 	said := map[string]bool{}
 	for _, c := range checksOf(r.res) {
 		said[c.Line()] = true
 	}
+	for _, m := range r.res.Methods {
+		if a := m.Agreement; a != nil && a.Suspect {
+			said[a.Warning(m.ID)] = true
+		}
+	}
 	var out []string
 	for _, w := range r.res.Warnings {
-		if !strings.Contains(w, "disagrees with the others") && !said[w] && !saysRobust(w) {
+		if !said[w] && !fuse.IsRobustWarning(w) {
 			out = append(out, w)
 		}
 	}
 	return out
 }
-
-// saysRobust reports whether a warning of the result is fuse's line on a
-// robust headline (fuse/run.go words it "the headline figures are the
-// robust fusion's: …"), which page 1 says in its own words.
-func saysRobust(w string) bool { return strings.Contains(w, "robust fusion") }
 
 // recommendation is the plan's best repeat in one paragraph, and the
 // repeat that would tell whether a flagged entry is off.

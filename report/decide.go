@@ -6,7 +6,6 @@ import (
 	"text/tabwriter"
 
 	"liftfuse/fuse"
-	"liftfuse/methods/air"
 )
 
 // PlanText writes a plan as a readable ranking.
@@ -23,7 +22,7 @@ func PlanText(w io.Writer, pl *fuse.Plan, unit string) error {
 		fmt.Fprintf(w, "\n%s looks off: %s\n", d.Flagged, d.Why)
 	}
 	if len(pl.Detectability) > 0 {
-		k, err := air.NewtonsPer(unit)
+		u, err := newForceUnit(unit)
 		if err != nil {
 			return err
 		}
@@ -31,7 +30,7 @@ func PlanText(w io.Writer, pl *fuse.Plan, unit string) error {
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		fmt.Fprintf(tw, "entry\taxle\tsmallest load (%s)\tspeed for the target's size\n", unit)
 		for _, d := range pl.Detectability {
-			fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.0f km/h\n", d.Entry, d.Axle, d.ResolvableN100/k, d.SpeedForTarget)
+			fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.0f km/h\n", d.Entry, d.Axle, u.of(d.ResolvableN100), d.SpeedForTarget)
 		}
 		tw.Flush()
 	}

@@ -59,6 +59,9 @@ func newForceUnit(name string) (forceUnit, error) {
 // of converts newtons to the unit.
 func (u forceUnit) of(n float64) float64 { return n / u.newtons }
 
+// est converts an estimate in newtons to the unit.
+func (u forceUnit) est(e fuse.Estimate) fuse.Estimate { return e.Scale(1 / u.newtons) }
+
 // unitText is a unit as the text prints it: the words the command line
 // and the result document use ("m2") written as everywhere else ("m²").
 func unitText(u string) string {

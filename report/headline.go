@@ -147,12 +147,3 @@ func mostMoved(rob, pl fuse.DeltaResult) (string, fuse.Estimate, fuse.Estimate) 
 func claText(e fuse.Estimate) string {
 	return fmt.Sprintf("%+.3f (%+.3f to %+.3f)", e.Mean, e.Lo, e.Hi)
 }
-
-// headlineLine is the terminal's line on the headline, or "" when the
-// headline is plain or unknown.
-func (h headline) headlineLine() string {
-	if !h.known || !h.robust {
-		return ""
-	}
-	return fmt.Sprintf("headline: robust fusion, errors widened for %s (see --json \"plain\" for the plain fusion)", List(h.downWeighted))
-}

@@ -11,7 +11,6 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
-	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 )
 
@@ -116,7 +115,7 @@ func newReporter(in Input) (*reporter, error) {
 	}
 	r := &reporter{in: in, res: in.Fused.Result}
 	var err error
-	if r.unitN, err = air.NewtonsPer(in.Campaign.Report.ForceUnit); err != nil {
+	if r.unit, err = newForceUnit(in.Campaign.Report.ForceUnit); err != nil {
 		return nil, err
 	}
 	return r, nil
@@ -125,10 +124,10 @@ func newReporter(in Input) (*reporter, error) {
 // reporter writes the report's sections, one method each, in the order
 // PDF calls them.
 type reporter struct {
-	in    Input
-	pg    *page
-	res   *fuse.Result
-	unitN float64 // newtons per display unit
+	in   Input
+	pg   *page
+	res  *fuse.Result
+	unit forceUnit // the display unit of force
 	// titleCut is set when page 1 shortened the title; Provenance then
 	// gives it in full.
 	titleCut bool
@@ -145,16 +144,15 @@ func (r *reporter) configs() []string {
 }
 
 // force formats an estimate in newtons in the display unit.
-func (r *reporter) force(e fuse.Estimate) string { return interval(e.Scale(1/r.unitN), 1) }
+func (r *reporter) force(e fuse.Estimate) string { return interval(r.unit.est(e), 1) }
 
 // loadBoth writes a load in newtons and, when the display unit is another,
 // in it too: "12 N (1.2 kgf)".
 func (r *reporter) loadBoth(n float64) string {
-	unit := r.in.Campaign.Report.ForceUnit
-	if r.unitN == 1 {
+	if r.unit.newtons == 1 {
 		return fmt.Sprintf("%.0f N", n)
 	}
-	return fmt.Sprintf("%.0f N (%.1f %s)", n, n/r.unitN, unit)
+	return fmt.Sprintf("%.0f N (%.1f %s)", n, r.unit.of(n), r.unit.name)
 }
 
 // cla formats a C_L·A estimate, m².

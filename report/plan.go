@@ -31,7 +31,7 @@ func (r *reporter) plan() {
 		pg.h2("Detectability of the ride-height entries", 25)
 		rows = nil
 		for _, d := range pl.Detectability {
-			rows = append(rows, []string{d.Entry, d.Axle, fmt.Sprintf("%.1f", d.ResolvableN100/r.unitN), fmt.Sprintf("%.0f", d.SpeedForTarget)})
+			rows = append(rows, []string{d.Entry, d.Axle, fmt.Sprintf("%.1f", r.unit.of(d.ResolvableN100)), fmt.Sprintf("%.0f", d.SpeedForTarget)})
 		}
 		pg.table([]column{{"entry", 1.2, "L"}, {"axle", 0.8, "L"}, {"smallest load at 2 sd (" + unit + ")", 1.6, "R"}, {"speed for the target's size (km/h)", 1.8, "R"}}, rows)
 		pg.note("A stiffer car deflects less for the same load and needs more speed to show the same lift.")

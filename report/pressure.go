@@ -50,7 +50,7 @@ func (r *reporter) pressureSection(p *pressure.Result) {
 	for _, rd := range p.Readings {
 		f := rd.Forces
 		rows = append(rows, []string{rd.Config, fmt.Sprintf("%g", rd.SpeedKmh), fmt.Sprintf("%+d", rd.Direction), fmt.Sprintf("%.0f", rd.Q),
-			fmt.Sprintf("%+.1f", f.Front/r.unitN), fmt.Sprintf("%+.1f", f.Rear/r.unitN), fmt.Sprintf("%+.1f", f.Total/r.unitN)})
+			fmt.Sprintf("%+.1f", r.unit.of(f.Front)), fmt.Sprintf("%+.1f", r.unit.of(f.Rear)), fmt.Sprintf("%+.1f", r.unit.of(f.Total))})
 	}
 	unit := r.in.Campaign.Report.ForceUnit
 	pg.table([]column{{"configuration", 1.3, "L"}, {"km/h", 0.7, "R"}, {"dir", 0.5, "R"}, {"q (Pa)", 0.8, "R"}, {"front " + unit, 1, "R"}, {"rear " + unit, 1, "R"}, {"total " + unit, 1, "R"}}, rows)

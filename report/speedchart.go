@@ -81,7 +81,7 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 		for k := range speedGrid + 1 {
 			v := lo + (hi-lo)*float64(k)/speedGrid
 			q := air.DynamicPressure(rho, air.KmhToMs(v))
-			e, _ := r.in.Fused.Posterior.At(v, evidence.Term{Config: cr.ID, Axle: ax, W: q / r.unitN})
+			e, _ := r.in.Fused.Posterior.At(v, evidence.Term{Config: cr.ID, Axle: ax, W: r.unit.of(q)})
 			mean = append(mean, plotter.XY{X: v, Y: e.Mean})
 			band = append(band, plotter.XY{X: v, Y: e.Lo})
 			upper = append(upper, plotter.XY{X: v, Y: e.Hi})
@@ -103,7 +103,7 @@ func (r *reporter) speedChart(ax string, i int, lo, hi float64) *plot.Plot {
 		var errs plotter.YErrors
 		for _, v := range r.in.Campaign.Report.SpeedsKmh {
 			if s, ok := speedOf(cr, v); ok {
-				e := s.N[i].Scale(1 / r.unitN)
+				e := r.unit.est(s.N[i])
 				pts = append(pts, plotter.XY{X: v, Y: e.Mean})
 				errs = append(errs, struct{ Low, High float64 }{e.Mean - e.Lo, e.Hi - e.Mean})
 			}

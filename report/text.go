@@ -3,7 +3,6 @@ package report
 import (
 	"fmt"
 	"io"
-	"slices"
 	"text/tabwriter"
 
 	"liftfuse/fuse"
@@ -71,9 +70,6 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 		}
 	}
 	tw.Flush()
-	if l := headlineOf(res).headlineLine(); l != "" && !slices.ContainsFunc(res.Warnings, saysRobust) {
-		fmt.Fprintf(w, "\n%s\n", l)
-	}
 	writeWarnings(w, res.Warnings)
 	if d := res.Diagnostics; d != nil {
 		fmt.Fprintf(w, "\nsampler: %s; %s, seed %d", d.Sampler, count(d.Draws, "draw"), d.Seed)

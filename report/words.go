@@ -56,13 +56,7 @@ func pluralWord(w string) string {
 
 // List writes items as in a sentence: "a", "a and b", "a, b and c"; no
 // items is "none".
-func List(items []string) string { return listWith(items, "and") }
-
-// ListOr writes alternatives as in a sentence: "a, b or c"; no items is
-// "none".
-func ListOr(items []string) string { return listWith(items, "or") }
-
-func listWith(items []string, conj string) string { return campaign.Words(items, conj) }
+func List(items []string) string { return campaign.Words(items, "and") }
 
 // join joins with commas and a final separator ("a, b" + last + "c"), for
 // the sentences that need one other than " and " ("; and ").

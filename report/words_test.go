@@ -38,22 +38,19 @@ func TestCount(t *testing.T) {
 // practice, no source), never Go's "[a b]".
 func TestList(t *testing.T) {
 	tests := []struct {
-		name    string
-		items   []string
-		and, or string
+		name  string
+		items []string
+		and   string
 	}{
-		{"none", nil, "none", "none"},
-		{"one", []string{"stock"}, "stock", "stock"},
-		{"two", []string{"stock", "extended"}, "stock and extended", "stock or extended"},
-		{"three", []string{"front", "rear", "total"}, "front, rear and total", "front, rear or total"},
+		{"none", nil, "none"},
+		{"one", []string{"stock"}, "stock"},
+		{"two", []string{"stock", "extended"}, "stock and extended"},
+		{"three", []string{"front", "rear", "total"}, "front, rear and total"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			if got := List(tt.items); got != tt.and {
 				t.Errorf("List = %q, want %q", got, tt.and)
-			}
-			if got := ListOr(tt.items); got != tt.or {
-				t.Errorf("ListOr = %q, want %q", got, tt.or)
 			}
 		})
 	}

@@ -72,13 +72,15 @@ func (e *estimate) total() {
 // pressureEstimates averages the readings' implied C_L·A per configuration
 // and axle and adds back the pitch of drag m = C_D·A·h/L (taps carry β_f − m
 // and β_r + m) and the uncovered patches' prior force −Cp·A·n_z per axle by
-// moments.
+// moments. m is log-normal (pressure.DragPitch): it enters with its mean
+// and sd, e^{μ+σ²/2} and that times √(e^{σ²} − 1) (gonum's
+// distuv.LogNormal), the Gaussian that matches its first two moments.
 func pressureEstimates(c *campaign.Campaign, r *pressure.Result) []estimate {
 	L := c.Vehicle.WheelbaseM
 	var m, msd float64
-	if d := c.Vehicle.Drag; d != nil {
-		m = d.CdAM2 * d.CentreHeightM / L
-		msd = m * d.SDPct / 100
+	if n, ok := pressure.DragPitch(c); ok {
+		ln := distuv.LogNormal{Mu: math.Log(n.Mean), Sigma: n.SD}
+		m, msd = ln.Mean(), ln.StdDev()
 	}
 	rel := r.Entry.ModelSDPct / 100
 	var out []estimate

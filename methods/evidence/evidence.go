@@ -52,7 +52,9 @@ const (
 // (each log-normal with median 1: stiffness, calibration gain, integration
 // scale), q(w) the dynamic pressure at the airspeed (see Airspeed), ν_j the
 // named additive nuisances with their priors (static offset, tyre growth,
-// reference offset, drift, …) and c_j their coefficients, and ε zero-mean
+// reference offset, drift, …; Gaussian, flat, or log-normal for a positive
+// quantity stated to within a factor, the pitch of drag) and c_j their
+// coefficients, and ε zero-mean
 // Gaussian with the covariance of the observation's Block (full within a
 // block, independent between blocks).
 //
@@ -178,7 +180,8 @@ type Sign struct {
 }
 
 // Nuisance is a named additive nuisance with a Gaussian prior N(Mean, SD²),
-// or a flat prior when Flat is set (a static offset, say).
+// a flat prior when Flat is set (a static offset, say), or a log-normal
+// prior when LogNormal is set.
 type Nuisance struct {
 	Name  string
 	Label string // in plain words, for notes: "rear laser tyre growth"
@@ -186,6 +189,13 @@ type Nuisance struct {
 	Mean  float64
 	SD    float64
 	Flat  bool
+	// LogNormal marks a positive quantity stated to within a factor (the
+	// pitch of drag from a stated C_D·A ± sd_pct): ν = Mean·s with
+	// log s ~ N(0, SD²), so Mean is the median and SD the log-sd (0: ν is
+	// Mean exactly). Its coefficients are read as for any nuisance, C·ν;
+	// fusion carries log s as a non-linear parameter like a scale group's.
+	// It is not a wind.
+	LogNormal bool
 	// PerRun marks a nuisance that belongs to one set of runs (a log's
 	// static offset and drift, the day's wind): repeating the runs brings a
 	// fresh copy of it, where a shared error (springs, gain, tyre growth,
@@ -260,6 +270,25 @@ func Diagonal(obs []Obs, sd []float64) (Block, error) {
 	return Block{Obs: obs, Var: v}, nil
 }
 
+// checkNuisances checks the declared nuisances and returns their names
+// and, by name, whether each is log-normal.
+func (e *Evidence) checkNuisances() (nuis, logn map[string]bool, err error) {
+	nuis, logn = map[string]bool{}, map[string]bool{}
+	for _, n := range e.Nuisances {
+		if n.Name == "" || nuis[n.Name] {
+			return nil, nil, badf("entry %q: nuisance %q empty or declared twice", e.Entry, n.Name)
+		}
+		switch {
+		case n.LogNormal && (n.Flat || !(n.Mean > 0) || !finite(n.Mean, n.SD) || n.SD < 0):
+			return nil, nil, badf("entry %q: log-normal nuisance %q needs a positive finite median and a finite log-sd ≥ 0", e.Entry, n.Name)
+		case !n.LogNormal && (!finite(n.Mean, n.SD) || (!n.Flat && n.SD <= 0)):
+			return nil, nil, badf("entry %q: nuisance %q needs a finite mean and a positive sd", e.Entry, n.Name)
+		}
+		nuis[n.Name], logn[n.Name] = true, n.LogNormal
+	}
+	return nuis, logn, nil
+}
+
 // Check reports the first way in which e is malformed: non-finite numbers,
 // terms on unknown axles, undeclared or inconsistently declared nuisances and
 // scale groups, bad probabilities, empty evidence. Adapters call it before
@@ -271,15 +300,9 @@ func (e *Evidence) Check() error {
 	if len(e.Blocks) == 0 && len(e.Signs) == 0 {
 		return badf("entry %q has no observations", e.Entry)
 	}
-	nuis := map[string]bool{}
-	for _, n := range e.Nuisances {
-		if n.Name == "" || nuis[n.Name] {
-			return badf("entry %q: nuisance %q empty or declared twice", e.Entry, n.Name)
-		}
-		if !finite(n.Mean, n.SD) || (!n.Flat && n.SD <= 0) {
-			return badf("entry %q: nuisance %q needs a finite mean and a positive sd", e.Entry, n.Name)
-		}
-		nuis[n.Name] = true
+	nuis, logn, err := e.checkNuisances()
+	if err != nil {
+		return err
 	}
 	scales := map[string]bool{}
 	for _, s := range e.Scales {
@@ -305,6 +328,9 @@ func (e *Evidence) Check() error {
 		}
 		if air.Wind != "" && !nuis[air.Wind] {
 			return badf("entry %q: %s names undeclared wind %q", e.Entry, what, air.Wind)
+		}
+		if air.Wind != "" && logn[air.Wind] {
+			return badf("entry %q: %s names log-normal nuisance %q as its wind", e.Entry, what, air.Wind)
 		}
 		return nil
 	}

@@ -94,3 +94,38 @@ func TestNewBlockRefusesIndefinite(t *testing.T) {
 		t.Errorf("indefinite covariance accepted: %v", err)
 	}
 }
+
+// TestCheckLogNormal: a log-normal nuisance needs a positive median and a
+// log-sd ≥ 0 (0: stated exactly), and is not a wind.
+func TestCheckLogNormal(t *testing.T) {
+	tests := []struct {
+		name    string
+		n       evidence.Nuisance
+		asWind  bool
+		wantErr bool
+	}{
+		{"stated to ±20 %", evidence.Nuisance{Name: "m", Mean: 0.12, SD: 0.2, LogNormal: true}, false, false},
+		{"stated exactly", evidence.Nuisance{Name: "m", Mean: 0.12, LogNormal: true}, false, false},
+		{"zero median", evidence.Nuisance{Name: "m", SD: 0.2, LogNormal: true}, false, true},
+		{"negative log-sd", evidence.Nuisance{Name: "m", Mean: 0.12, SD: -0.2, LogNormal: true}, false, true},
+		{"also flat", evidence.Nuisance{Name: "m", Mean: 0.12, SD: 0.2, LogNormal: true, Flat: true}, false, true},
+		{"as the wind", evidence.Nuisance{Name: "m", Mean: 0.12, SD: 0.2, LogNormal: true}, true, true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			o := obs("a")
+			o.Nuis = []evidence.Coef{{Name: "m", C: -100, PerQ: true}}
+			if tt.asWind {
+				o.Air.Wind = "m"
+			}
+			b, err := evidence.Diagonal([]evidence.Obs{o}, []float64{1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			e := evidence.Evidence{Entry: "e", Kind: evidence.KindPressure, Blocks: []evidence.Block{b}, Nuisances: []evidence.Nuisance{tt.n}}
+			if err := e.Check(); (err != nil) != tt.wantErr {
+				t.Errorf("Check() = %v, want error %v", err, tt.wantErr)
+			}
+		})
+	}
+}

@@ -12,7 +12,9 @@
 //
 //	β_f·q = s·F_f + U_f + q·m,    β_r·q = s·F_r + U_r − q·m,    m = C_D·A·h_D/L
 //
-// so with s = 1 + σ the taps measure (see builder for the linearisation)
+// with m log-normal about the stated C_D·A·h_D/L (median as stated, log-sd
+// vehicle.drag sd_pct/100; see DragPitch), as a C_D·A is known to within a
+// factor. So with s = 1 + σ the taps measure (see builder for the linearisation)
 //
 //	y_a = F_a = β_a·q − U_a ∓ q·m − σ·b̂_a·q + ε_a
 //

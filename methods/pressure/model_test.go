@@ -168,3 +168,35 @@ func TestRuns(t *testing.T) {
 		t.Errorf("gust sd %g, cross-reading covariance %g: the run's readings must share its wind", res.GustSDMs, res.Evidence.Blocks[0].At(1, 2))
 	}
 }
+
+// TestDragPitchPrior: the pitch of drag is declared log-normal with the
+// stated m = C_D·A·h_D/L as its median (0.6 m² · 0.5 m / 2.5 m = 0.12 m²,
+// hand-worked) and log-sd sd_pct/100, shared by name; sd_pct 0 (valid in
+// the campaign format) states m exactly and reduces.
+func TestDragPitchPrior(t *testing.T) {
+	for _, tc := range []struct {
+		name  string
+		sdPct float64
+	}{
+		{"stated to 20 %", 20},
+		{"stated exactly", 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, e := v2Campaign(1)
+			c.Vehicle.Drag.SDPct = tc.sdPct
+			res, err := pressure.Reduce(c, e, evidence.WindName)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got *evidence.Nuisance
+			for i, n := range res.Evidence.Nuisances {
+				if n.Name == pressure.DragPitchName {
+					got = &res.Evidence.Nuisances[i]
+				}
+			}
+			if got == nil || !got.LogNormal || math.Abs(got.Mean-0.12) > 1e-12 || math.Abs(got.SD-tc.sdPct/100) > 1e-12 || got.Unit != "m²" {
+				t.Errorf("drag pitch declared %+v, want log-normal, median 0.12 m², log-sd %g", got, tc.sdPct/100)
+			}
+		})
+	}
+}

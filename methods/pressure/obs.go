@@ -15,7 +15,8 @@ import (
 // covered force F_a of axle a (Integrate); the integration scale s says how
 // far the taps' integral is from the true covered force, s·F_a. The axle
 // lift adds what the taps do not see, the uncovered patches U_a and the
-// pitch of drag P_a (−q·m on the front, +q·m on the rear):
+// pitch of drag P_a (−q·m on the front, +q·m on the rear; m log-normal, see
+// DragPitch):
 //
 //	β_a·q = s·F_a + U_a + P_a,   U_a = −q·Σ_j Cp_j·A_j·n_j·share_{j,a}
 //
@@ -25,7 +26,9 @@ import (
 //	y_a = F_a = β_a·q − U_a − P_a − F_a·σ + ε_a
 //
 // so the scale multiplies only what the taps integrate, and the patches and
-// the drag pitch stay outside it. The coefficient of σ must not be the
+// the drag pitch stay outside it. The drag pitch's rows are linear in m; m
+// itself is a log-normal nuisance, which fusion carries as a factor on the
+// stated m (a known shift of the rows given that factor). The coefficient of σ must not be the
 // observed F_a itself: it equals y, so σ = −1 would fit every reading
 // exactly and the data would drag σ there (errors in variables). It is
 // the pilot's covered force b̂_a·q(w) instead (b̂_a the configuration's
@@ -63,9 +66,8 @@ func (b *builder) declare() []evidence.Nuisance {
 	if b.used[evidence.WindName] {
 		ns = append(ns, evidence.Nuisance{Name: evidence.WindName, Label: "along-road wind", Unit: "m/s", SD: b.c.Air.WindSDMs, PerRun: true})
 	}
-	if d := b.c.Vehicle.Drag; d != nil {
-		m := d.CdAM2 * d.CentreHeightM / b.c.Vehicle.WheelbaseM
-		ns = append(ns, evidence.Nuisance{Name: DragPitchName, Label: "pitch of drag C_D·A·h/L", Unit: "m²", Mean: m, SD: m * d.SDPct / 100})
+	if n, ok := DragPitch(b.c); ok {
+		ns = append(ns, n)
 	}
 	for j, u := range b.e.Uncovered {
 		ns = append(ns, evidence.Nuisance{Name: uncoveredName(b.e.ID, j),

@@ -101,18 +101,19 @@ func TestFaultsLocalised(t *testing.T) {
 
 // TestCleanFalseAlarms: on 50 clean default days (skipped under -short:
 // a rate of 1 % needs hundreds of entry-days to be seen) an entry is named
-// — by a model check or the agreement flag (p < 0.01 or P(off) > ½) — on
-// few entry-days. model.md ("Model checks") asks ≤ 1 % per entry; that is
-// not met yet, so the bound here is a regression guard at 2 % (4 of 200):
-// measured 3 in 200 entry-days (1.5 %): the front pot on the days whose
-// stated C_D·A was drawn 2.9 and 2.7 log-sd low (3.9 and 3.5 sd of the
-// pressure adapter's Gaussian drag pitch, which the taps' front figure
-// carries), and the taps on the first of them (p = 0.0094, at the
-// threshold); over 200 days 6 of 800 (0.75 %), the front pot 4 of 200.
-// The cause is the Gaussian drag-pitch prior against a log-normal truth
-// (issue 12, open). The plain headline's figures may stray beyond 3 sd by
-// chance alone (P = 0.27 % each, 1.1 expected in 400): more than 4 (P < 1 %,
-// binomial tail; common practice, no source) fails.
+// — by a model check or as an agreement suspect (p < 0.01 or P(off) > ½) — on
+// at most 1 % of the entry-days, model.md's budget ("Model checks": ≤ 1 %
+// per entry on a clean day), here pooled over the four entries: at most 2
+// of 200. Measured with the pressure adapter's log-normal drag pitch
+// (pressure.DragPitch): 1 of 200 (0.5 %), the front pot on the day whose
+// stated C_D·A was drawn 2.9 log-sd low (p = 0.007); with the Gaussian
+// drag pitch before it, 3 of 200. Over 200 days (days raised by hand, not
+// committed): 5 of 800 (0.62 %) — front pot 3 of 200 (p < 0.01 on the
+// days drawn 2.9, 2.7 and 2.5 log-sd low; 2 expected of a calibrated
+// test at 0.01), taps 2 (one with it, one a model check), rear pot and
+// rear laser none. The plain headline's figures may stray beyond 3 sd by
+// chance alone (P = 0.27 % each, 1.1 expected in 400): more than 4
+// (P < 1 %, binomial tail; common practice, no source) fails.
 func TestCleanFalseAlarms(t *testing.T) {
 	if testing.Short() {
 		t.Skip("50 simulated days")
@@ -137,10 +138,54 @@ func TestCleanFalseAlarms(t *testing.T) {
 	}
 	t.Logf("clean days: %d entries named in %d entry-days (%.2f %%); by entry %v; %d of %d headline figures beyond 3 sd",
 		flags, n, 100*float64(flags)/float64(n), byEntry, far, figs)
-	if float64(flags) > 0.02*float64(n) {
-		t.Errorf("%d entries named in %d clean entry-days, want ≤ 2 %% (the regression guard; the goal is 1 %%)", flags, n)
+	if float64(flags) > 0.01*float64(n) {
+		t.Errorf("%d entries named in %d clean entry-days, want ≤ 1 %%", flags, n)
 	}
 	if far > 4 {
 		t.Errorf("%d of %d headline figures beyond 3 sd, want ≤ 4", far, figs)
+	}
+}
+
+// TestTwoPotGainReality: a second front pot whose calibration is stated
+// 12 % off (issue 12's two-pot case) on 20 seeded default days (skipped
+// under -short). The leave-one-out agreement must reject the faulty pot
+// (p < 0.01) on at least 10 of the 20 days. This is a regression guard,
+// not the goal (every day): measured 12 of 20, median p 0.009, with the
+// correct pot also below 0.01 on 9 — with the taps as loose as they are,
+// the data cannot tell which of two pots on one axle is wrong, only that
+// they disagree. The same case on the model's own simulator reaches
+// p < 0.01 for both (fuse's TestTwoPotGainFault). What weakens it here is
+// measured in the window statistics: a hold's first and last samples,
+// still on the ramps (≈ 8 mm of pitch at 1.5 m/s²), inflate a window's
+// batch-means error several-fold.
+func TestTwoPotGainReality(t *testing.T) {
+	if testing.Short() {
+		t.Skip("20 simulated days")
+	}
+	const days = 20
+	var ps []float64
+	rejected := 0
+	for seed := int64(1); seed <= days; seed++ {
+		d := reality.Default()
+		second := d.Sensors[0]
+		second.ID = "front-pot-2"
+		d.Sensors = append(d.Sensors, second)
+		d.Faults.GainError = &reality.GainError{Sensor: "front-pot-2", Pct: 12}
+		dir, _ := write(t, d, seed)
+		res := fuseDay(t, dir)
+		for _, m := range res.Methods {
+			if m.ID == "front-pot-2" && m.Agreement != nil {
+				ps = append(ps, m.Agreement.PValue)
+				if m.Agreement.PValue < 0.01 {
+					rejected++
+				}
+			}
+		}
+		t.Logf("seed %d: suspects %v", seed, res.Suspects())
+	}
+	slices.Sort(ps)
+	t.Logf("faulty pot rejected (p < 0.01) on %d of %d days; median p %.3g", rejected, len(ps), ps[len(ps)/2])
+	if len(ps) != days || rejected < 10 {
+		t.Errorf("faulty pot rejected on %d of %d days (%d p-values), want ≥ 10", rejected, days, len(ps))
 	}
 }
