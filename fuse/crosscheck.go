@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -358,7 +357,7 @@ func (et errorTerm) within(shift, target float64) bool {
 		return math.Abs(target) <= maxWindMs
 	case et.logScale:
 		return math.Exp(target) >= minScale && math.Exp(target) <= maxScale
-	case strings.HasSuffix(et.label, "(Cp)"):
+	case et.unit == evidence.UnitCp:
 		return target >= minCp && target <= maxCp
 	}
 	return true

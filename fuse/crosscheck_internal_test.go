@@ -16,7 +16,7 @@ func TestExplanationBounds(t *testing.T) {
 	wind := errorTerm{label: "along-road wind", unit: "m/s", sd: 1, wind: true}
 	springs := errorTerm{label: "front spring rate", sd: 0.2, logScale: true}
 	growth := errorTerm{label: "rear tyre growth", unit: "mm at 100 km/h", mean: 0.5, sd: 0.5}
-	cp := errorTerm{label: "taps uncovered lower patch at x = 3.00 m (Cp)", mean: -0.1, sd: 0.4}
+	cp := errorTerm{label: "taps uncovered lower patch at x = 3.00 m", unit: evidence.UnitCp, mean: -0.1, sd: 0.4}
 	drag := errorTerm{label: "pitch of drag C_D·A·h/L", unit: "m²", sd: 0.2, logScale: true, median: 0.124}
 	cases := []struct {
 		name          string

@@ -179,13 +179,18 @@ type Sign struct {
 	Label    string
 }
 
+// UnitCp is the unit of a nuisance that is a pressure coefficient (an
+// uncovered patch's Cp): explanations hold it within what a surface can
+// read, −3 to 1.05.
+const UnitCp = "Cp"
+
 // Nuisance is a named additive nuisance with a Gaussian prior N(Mean, SD²),
 // a flat prior when Flat is set (a static offset, say), or a log-normal
 // prior when LogNormal is set.
 type Nuisance struct {
 	Name  string
 	Label string // in plain words, for notes: "rear laser tyre growth"
-	Unit  string // for notes: "mm at 100 km/h"
+	Unit  string // for notes: "mm at 100 km/h"; UnitCp for a pressure coefficient
 	Mean  float64
 	SD    float64
 	Flat  bool

@@ -71,7 +71,7 @@ func (b *builder) declare() []evidence.Nuisance {
 	}
 	for j, u := range b.e.Uncovered {
 		ns = append(ns, evidence.Nuisance{Name: uncoveredName(b.e.ID, j),
-			Label: fmt.Sprintf("%s uncovered %s patch at x = %.2f m (Cp)", b.e.ID, u.Surface, u.XM), Mean: u.CpMean, SD: math.Max(u.CpSD, 1e-6)})
+			Label: fmt.Sprintf("%s uncovered %s patch at x = %.2f m", b.e.ID, u.Surface, u.XM), Unit: evidence.UnitCp, Mean: u.CpMean, SD: math.Max(u.CpSD, 1e-6)})
 	}
 	if b.e.ModelSDPct > 0 {
 		ns = append(ns, evidence.Nuisance{Name: IntegrationName(b.e.ID), Label: b.e.ID + " integration scale s − 1", Unit: "fraction", SD: b.e.ModelSDPct / 100})
