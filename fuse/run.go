@@ -76,7 +76,7 @@ func Run(in Input) (*Fused, error) {
 		return nil, err
 	}
 	lo.compactRefitted(in.Evidence)
-	methodResults(res, out, full, in.Evidence, lo)
+	methodResults(res, out, in.Evidence, lo)
 	if err := robustHeadline(out, full, in, set, lo); err != nil {
 		return nil, err
 	}
@@ -164,8 +164,8 @@ func deltaResults(res *Result, P *Posterior, reference string, configs []string)
 // than one entry, its agreement with the others (named a suspect, with a
 // warning, when p < suspectP or P(off) > flagOff); it records the leave-one-out
 // posteriors in out.
-func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence, lo *looFits) {
-	ags, sts := agreements(full, evs, lo)
+func methodResults(res *Result, out *Fused, evs []evidence.Evidence, lo *looFits) {
+	ags, sts := agreements(evs, lo)
 	for ei, ev := range evs {
 		mr := MethodResult{ID: ev.Entry, Kind: string(ev.Kind), Standalone: standalone(lo.alone[ei], ev)}
 		out.Standalone[ev.Entry] = lo.alone[ei]
@@ -189,9 +189,9 @@ func methodResults(res *Result, out *Fused, full *model, evs []evidence.Evidence
 }
 
 // agreements computes every entry's agreement with the others (none with
-// a single entry), two entries at a time: each reads only the joint model
-// and its own others' posterior.
-func agreements(full *model, evs []evidence.Evidence, lo *looFits) ([]*Agreement, []*looStat) {
+// a single entry), two entries at a time: each reads its own others'
+// posterior (leaveout.go).
+func agreements(evs []evidence.Evidence, lo *looFits) ([]*Agreement, []*looStat) {
 	ags, sts := make([]*Agreement, len(evs)), make([]*looStat, len(evs))
 	if len(evs) < 2 {
 		return ags, sts
