@@ -15,9 +15,16 @@ import (
 	"go.yaml.in/yaml/v3"
 )
 
-// Options changes how a campaign is loaded. It has no settings today:
-// every caller loads as validate does (one loading path), logs read through.
-type Options struct{}
+// Options changes how a campaign is loaded.
+type Options struct {
+	// Stream leaves the logs' bodies to the adapters, so that a run reads
+	// each log once: Load reads only their headers (and the speed files
+	// and tables, whole); the adapters check every row through Rows and
+	// feed the input hash as they read (Campaign.Read), and Finish, called
+	// after them, completes validation. Without it Load reads every log
+	// through, as Parse always does.
+	Stream bool
+}
 
 // Load reads, decodes and validates the campaign at path. On any error it
 // returns Problems listing every one found, in file order; warnings are in
@@ -48,6 +55,9 @@ func parse(src io.Reader, name, dir string, opt Options, sum *digest, done func(
 		return nil, err
 	}
 	c := &Campaign{File: name, Dir: dir, Files: []string{name}, digest: sum}
+	if opt.Stream && sum != nil {
+		c.stream = &stream{opt: opt, reads: map[*LogSpec]*scanResult{}}
+	}
 	d := &decoder{file: name}
 	if p := otherDocument(d, root); p != nil {
 		return nil, Problems{p}
@@ -69,6 +79,9 @@ func parse(src io.Reader, name, dir string, opt Options, sum *digest, done func(
 		return nil, Problems(probs)
 	}
 	c.Warnings = v.warns
+	if c.stream != nil {
+		c.stream.informed = v.informed
+	}
 	return c, nil
 }
 
