@@ -2,7 +2,6 @@ package campaign
 
 import (
 	"fmt"
-	"math"
 
 	"liftfuse/methods/logs"
 )
@@ -37,8 +36,7 @@ const maxUnknownIDs = 5
 // read has no such column). c checks the configuration ids; nil takes
 // every id.
 func NewRows(c *Campaign, l *LogSpec, time, dir, cfg int) *Rows {
-	return &Rows{c: c, l: l, time: time, dir: dir, cfg: cfg, t0: math.Inf(1), t1: math.Inf(-1),
-		ids: map[string]string{}}
+	return &Rows{c: c, l: l, time: time, dir: dir, cfg: cfg, ids: map[string]string{}}
 }
 
 // Row checks the reader's current row and returns its configuration id
@@ -47,8 +45,10 @@ func NewRows(c *Campaign, l *LogSpec, time, dir, cfg int) *Rows {
 // than ±1 is an error (a *Problem at its cell): the read stops there.
 func (k *Rows) Row(r *logs.Reader) (config string, dir int, err error) {
 	k.n++
-	t := r.Float(k.time)
-	k.t0, k.t1 = min(k.t0, t), max(k.t1, t)
+	if k.n == 1 {
+		k.t0 = r.Float(k.time)
+	}
+	k.t1 = r.Float(k.time) // time increases strictly (the reader's rule)
 	if k.dir >= 0 {
 		d := r.Float(k.dir)
 		if err := RowDirection(d); err != nil {

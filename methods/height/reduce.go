@@ -96,6 +96,7 @@ type pass struct {
 	keep    float64 // next trace time
 	prevT   float64
 	firstDT float64
+	gapDT   float64            // a step longer than this is a gap: max(1 s, 10 first steps); +Inf until known
 	c       *campaign.Campaign // checks the logged configuration ids; nil: none
 	rows    *campaign.Rows     // the log's row rules, for this read
 	err     error
@@ -108,7 +109,7 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
 	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
-		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN()}
+		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
 }
 
 // readLog streams one log through every pass that reads it. The passes
@@ -199,7 +200,7 @@ const standstillKmh = 2.0
 // row feeds the reader's current row to the pass; joined is the speed
 // from a speed file (km/h), NaN when the log has its own speed column.
 func (p *pass) row(r *logs.Reader, joined float64) {
-	ix := p.ix
+	ix := &p.ix
 	t := r.Float(p.at[ix.Time])
 	v, h, err := p.speedAndHeight(r, joined)
 	if err != nil {
@@ -209,8 +210,11 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
 		p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
+		if p.firstDT > 0 {
+			p.gapDT = max(1, 10*p.firstDT)
+		}
 	}
-	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > max(1, 10*p.firstDT)
+	gap := t-p.prevT > p.gapDT // false on the first row (prevT is NaN)
 	p.prevT = t
 
 	// Which configuration and direction does this sample belong to? The
@@ -263,7 +267,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 // speed below −standstillKmh or a height beyond maxHeightMm is an error at
 // its cell; a small negative speed (GPS jitter at rest) reads as 0.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
-	ix := p.ix
+	ix := &p.ix
 	v = joined
 	if ix.Speed < 0 && math.IsNaN(joined) {
 		return 0, 0, fmt.Errorf("%s: log %s has no speed column and no speed file to join", p.e.ID, p.l.File)
