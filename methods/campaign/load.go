@@ -21,8 +21,10 @@ type Options struct {
 	// each log once: Load reads only their headers (and the speed files
 	// and tables, whole); the adapters check every row through Rows and
 	// feed the input hash as they read (Campaign.Read), and Finish, called
-	// after them, completes validation. Without it Load reads every log
-	// through, as Parse always does.
+	// after them, completes validation. On bad input, found by Load or by
+	// Finish, the campaign is loaded again with every log read through,
+	// so that every problem is listed at once, as without it. Without it
+	// Load reads every log through, as Parse always does.
 	Stream bool
 }
 
@@ -37,7 +39,14 @@ func Load(path string, opt Options) (*Campaign, error) {
 	defer f.Close()
 	d := &digest{h: sha256.New()}
 	src, done := d.start(f)
-	return parse(src, path, filepath.Dir(path), opt, d, done)
+	c, err := parse(src, path, filepath.Dir(path), opt, d, done)
+	if err != nil && opt.Stream {
+		// Bad input: load again with every log read through, so that
+		// the problems in the logs' bodies are listed with the others.
+		opt.Stream = false
+		return Load(path, opt)
+	}
+	return c, err
 }
 
 // Parse reads a campaign from src; name is used in messages and dir is the

@@ -14,6 +14,50 @@ import (
 	"liftfuse/methods/height"
 )
 
+// streamAndLoad loads the campaign at path both ways — streamed, its logs
+// read by the ride-height adapter alone, then Finish; and whole — and
+// fails the test unless they end alike: the same problems, or the same
+// files, warnings and input hash (that of hashing the files again).
+func streamAndLoad(t *testing.T, path string) {
+	t.Helper()
+	full, wantErr := campaign.Load(path, campaign.Options{})
+	c, err := campaign.Load(path, campaign.Options{Stream: true})
+	if err != nil {
+		if fmt.Sprint(err) != fmt.Sprint(wantErr) {
+			t.Fatalf("streamed load:\n%v\nloaded whole:\n%v", err, wantErr)
+		}
+		return
+	}
+	es := make([]*campaign.RideHeightEntry, len(c.Evidence.RideHeight))
+	for i := range es {
+		es[i] = &c.Evidence.RideHeight[i]
+	}
+	_, err = height.ReduceAll(c, es, height.Options{})
+	adapterErr := err
+	if err = c.Finish(err); wantErr != nil || err != nil {
+		if wantErr == nil {
+			if err != adapterErr {
+				t.Fatalf("streamed: %v; the adapter: %v; loaded whole: fine", err, adapterErr)
+			}
+			return // the adapter's own fault, on a campaign validation takes
+		}
+		if fmt.Sprint(err) != fmt.Sprint(wantErr) {
+			t.Fatalf("streamed:\n%v\nloaded whole:\n%v", err, wantErr)
+		}
+		return
+	}
+	if !slices.Equal(c.Files, full.Files) {
+		t.Errorf("files %v, loaded whole %v", c.Files, full.Files)
+	}
+	if fmt.Sprint(c.Warnings) != fmt.Sprint(full.Warnings) {
+		t.Errorf("warnings:\n%v\nloaded whole:\n%v", c.Warnings, full.Warnings)
+	}
+	got, err := c.Hash()
+	if want := sha256Files(t, full.Files); err != nil || got != want {
+		t.Errorf("hash %s, %v; want %s", got, err, want)
+	}
+}
+
 // miniCopy copies testdata/mini to a temporary folder, replacing in the
 // campaign and its log each pair of edits (old, new), and returns the
 // campaign's path.
@@ -84,34 +128,29 @@ func TestStreamLikeLoad(t *testing.T) {
 		{"cell not a number", nil, []string{first, "5.0,20.0x,5.556,1,"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			path := miniCopy(t, tc.yamlEdits, tc.logs)
-			full, wantErr := campaign.Load(path, campaign.Options{})
-			c, err := campaign.Load(path, campaign.Options{Stream: true})
-			if err != nil {
-				t.Fatalf("streamed load failed on the header pass: %v", err)
-			}
-			es := make([]*campaign.RideHeightEntry, len(c.Evidence.RideHeight))
-			for i := range es {
-				es[i] = &c.Evidence.RideHeight[i]
-			}
-			_, err = height.ReduceAll(c, es, height.Options{})
-			err = c.Finish(err)
-			if wantErr != nil || err != nil {
-				if fmt.Sprint(err) != fmt.Sprint(wantErr) {
-					t.Fatalf("streamed:\n%v\nloaded whole:\n%v", err, wantErr)
-				}
-				return
-			}
-			if !slices.Equal(c.Files, full.Files) {
-				t.Errorf("files %v, loaded whole %v", c.Files, full.Files)
-			}
-			if fmt.Sprint(c.Warnings) != fmt.Sprint(full.Warnings) {
-				t.Errorf("warnings:\n%v\nloaded whole:\n%v", c.Warnings, full.Warnings)
-			}
-			got, err := c.Hash()
-			if want := sha256Files(t, full.Files); err != nil || got != want {
-				t.Errorf("hash %s, %v; want %s", got, err, want)
-			}
+			streamAndLoad(t, miniCopy(t, tc.yamlEdits, tc.logs))
 		})
 	}
+}
+
+// FuzzStreamLikeLoad: whatever testdata/mini's log holds, a streamed load
+// (the adapter's read the only one) ends as a whole load does (see
+// streamAndLoad): same problems, or same files, warnings and hash.
+func FuzzStreamLikeLoad(f *testing.F) {
+	log, err := os.ReadFile("../../testdata/mini/logs/run.csv")
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(log)
+	for _, tc := range [][2]string{{"5.0,20.0,5.556,1,", "5.0,20.0,5.556,0,"}, {",base\n", ",wig\n"}, {"7.0,", "4.5,"}, {"\n9.0", "\n\n9.0"}} {
+		f.Add([]byte(strings.Replace(string(log), tc[0], tc[1], 1)))
+	}
+	f.Add([]byte("t,v,vms,d,fp,rl,cfg\n"))
+	f.Fuzz(func(t *testing.T, log []byte) {
+		path := miniCopy(t, nil, nil)
+		if err := os.WriteFile(filepath.Join(filepath.Dir(path), "logs", "run.csv"), log, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		streamAndLoad(t, path)
+	})
 }
