@@ -51,8 +51,8 @@ func (k *Rows) Row(r *logs.Reader) (config string, dir int, err error) {
 	k.t1 = r.Float(k.time) // time increases strictly (the reader's rule)
 	if k.dir >= 0 {
 		d := r.Float(k.dir)
-		if err := RowDirection(d); err != nil {
-			return "", 0, k.problem(r, k.dir, ".direction", k.l.Direction, err)
+		if err := rowDirection(d); err != nil {
+			return "", 0, k.problem(r, k.dir, "direction", k.l.Direction, err)
 		}
 		dir = int(d)
 	}
@@ -71,10 +71,10 @@ func (k *Rows) Row(r *logs.Reader) (config string, dir int, err error) {
 // at its first row (up to maxUnknownIDs) and reads as "".
 func (k *Rows) newID(r *logs.Reader, id string) string {
 	if k.c != nil {
-		if err := k.c.RowConfig(id); err != nil {
+		if err := k.c.rowConfig(id); err != nil {
 			k.ids[id] = ""
 			if k.unknown++; k.unknown <= maxUnknownIDs {
-				k.probs = append(k.probs, k.problem(r, k.cfg, ".config", k.l.Config, err))
+				k.probs = append(k.probs, k.problem(r, k.cfg, "config", k.l.Config, err))
 			}
 			return ""
 		}
@@ -84,7 +84,7 @@ func (k *Rows) newID(r *logs.Reader, id string) string {
 }
 
 func (k *Rows) problem(r *logs.Reader, col int, key, field string, err error) *Problem {
-	return &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(col)}, Path: k.l.path + key,
+	return &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(col)}, Path: join(k.l.path, key),
 		Err: fmt.Errorf("column %q: %w", field, err)}
 }
 
@@ -93,7 +93,7 @@ func (k *Rows) problem(r *logs.Reader, col int, key, field string, err error) *P
 // Problems. A clean read is kept for Finish.
 func (k *Rows) Done() error {
 	if k.n == 0 {
-		k.probs = append(k.probs, &Problem{Where: k.l.At.Of("file"), Path: k.l.path + ".file",
+		k.probs = append(k.probs, &Problem{Where: k.l.At.Of("file"), Path: join(k.l.path, "file"),
 			Err: wrapf(ErrFile, "log %q has a header but no data rows", k.l.File)})
 	}
 	if len(k.probs) > 0 {
@@ -116,10 +116,10 @@ func (k *Rows) result() *scanResult {
 	return res
 }
 
-// RowDirection checks one logged direction cell: +1 or −1. It is called
+// rowDirection checks one logged direction cell: +1 or −1. It is called
 // on every row, so it is small enough to inline; the message is built
 // apart.
-func RowDirection(d float64) error {
+func rowDirection(d float64) error {
 	if d != 1 && d != -1 {
 		return badDirection(d)
 	}
@@ -131,8 +131,8 @@ func badDirection(d float64) error {
 	return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
 }
 
-// RowConfig checks one logged configuration id cell.
-func (c *Campaign) RowConfig(id string) error {
+// rowConfig checks one logged configuration id cell.
+func (c *Campaign) rowConfig(id string) error {
 	if !c.HasConfig(id) {
 		return wrapf(ErrReference, "unknown configuration %q (known: %s)", id, WordList(c.ConfigIDs()))
 	}
