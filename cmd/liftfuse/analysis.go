@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strings"
 
 	"liftfuse/fuse"
@@ -26,10 +27,33 @@ func settings(c *campaign.Campaign) fuse.Settings {
 		Seed: uint64(c.Report.Seed), Credible: c.Report.Credible}
 }
 
-// load reads a campaign; the adapters stream the logs' bodies, so loading
-// checks only their headers.
+// load reads a campaign for the adapters: loading reads only the logs'
+// headers, and the adapters' read of each log is its only one (see
+// reduceLoaded).
 func load(file string) (*campaign.Campaign, error) {
-	return loadCampaign(file, campaign.Options{})
+	return loadCampaign(file, campaign.Options{Stream: true})
+}
+
+// reduceLoaded runs every adapter on a campaign from load and completes
+// its validation with what their reads found (campaign.Finish): on bad
+// input, the problems validation lists, all at once; else the adapters'
+// error. The warnings Finish adds join the campaign's, ahead of the
+// adapters'.
+func reduceLoaded(c *campaign.Campaign, opt methods.Options) (*methods.Reduced, error) {
+	n := len(c.Warnings)
+	r, err := methods.Reduce(c, opt)
+	if err := c.Finish(err); err != nil {
+		if _, ok := err.(campaign.Problems); ok {
+			return nil, err
+		}
+		return nil, inputError{err}
+	}
+	var ws []string
+	for _, w := range c.Warnings[n:] {
+		ws = append(ws, w.Error())
+	}
+	r.Warnings = slices.Insert(r.Warnings, n, ws...)
+	return r, nil
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
@@ -54,9 +78,9 @@ func reduce(file string, quiet bool, stderr io.Writer, check func(*campaign.Camp
 			}
 		}}
 	}
-	r, err := methods.Reduce(c, opt)
+	r, err := reduceLoaded(c, opt)
 	if err != nil {
-		return nil, nil, inputError{err}
+		return nil, nil, err
 	}
 	return c, r, nil
 }

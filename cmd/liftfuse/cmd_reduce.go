@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"io"
 
 	"github.com/spf13/cobra"
@@ -54,8 +55,15 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 	if err := stamp(res, c); err != nil {
 		return err
 	}
+	// One write for the whole text (it is written a cell at a time).
+	w := bufio.NewWriter(out)
 	if o.json {
-		return report.WriteJSON(out, res)
+		err = report.WriteJSON(w, res)
+	} else {
+		err = report.ReduceText(w, r, res, c.Report.ForceUnit)
 	}
-	return report.ReduceText(out, r, res, c.Report.ForceUnit)
+	if ferr := w.Flush(); err == nil {
+		err = ferr
+	}
+	return err
 }

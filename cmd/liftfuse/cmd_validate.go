@@ -7,7 +7,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"liftfuse/methods"
-	"liftfuse/methods/campaign"
 	"liftfuse/report"
 )
 
@@ -39,13 +38,13 @@ sensor that scatters ±3 mm) are printed but do not fail.`,
 }
 
 func runValidate(o validateOptions, out io.Writer) error {
-	c, err := loadCampaign(o.file, campaign.Options{})
+	c, err := load(o.file)
 	if err != nil {
 		return err
 	}
-	r, err := methods.Reduce(c, methods.Options{})
+	r, err := reduceLoaded(c, methods.Options{})
 	if err != nil {
-		return inputError{err}
+		return err
 	}
 	for _, w := range r.Warnings {
 		fmt.Fprintf(out, "warning: %s\n", w)

@@ -13,8 +13,9 @@ import (
 const benchCampaign = "../../testdata/bench/campaign-1khz.yaml"
 
 // BenchmarkReduceCommand: `liftfuse reduce testdata/bench/campaign-1khz.yaml -q`
-// in the process — loading (validation's read of the log and the input
-// hash), the adapters and the report. Reported as MB/s of log.
+// in the process — loading (the log's header), the adapter's read of the
+// log (the only one: its rows checked and the input hash fed on the way),
+// the end of validation and the report. Reported as MB/s of log.
 func BenchmarkReduceCommand(b *testing.B) {
 	if log := logtest.BenchLog(b); log != "/tmp/liftfuse-bench-1khz-30min.csv" {
 		b.Skipf("the campaign names /tmp/liftfuse-bench-1khz-30min.csv; the log was written to %s", log)

@@ -30,6 +30,7 @@ type Campaign struct {
 	Warnings []*Problem `yaml:"-"`
 
 	digest *digest // Hash of Files, as loading read them (Load only)
+	stream *stream // what Finish checks after the adapters (Options.Stream)
 }
 
 // Info names the campaign.
@@ -236,6 +237,8 @@ type LogSpec struct {
 	// (delimiter, decimal mark, header line, units row, time), filled by
 	// Load for a person to confirm.
 	Detected string `yaml:"-"`
+
+	path string // the log's place in the campaign, for messages ("evidence.ride_height[0].logs[1]")
 }
 
 // Time formats and empty-cell policies of a log (LogFormat).

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"testing"
 )
 
@@ -75,5 +76,37 @@ func TestHashWithoutLoad(t *testing.T) {
 	}
 	if h, err := c.Hash(); err != nil || h != reread(t, c.Files) {
 		t.Errorf("Hash = %s, %v; want %s", h, err, reread(t, c.Files))
+	}
+}
+
+// TestHashStreamNoAdapter: with Options.Stream, a log that no adapter
+// reads is read by Finish, and the hash still covers every file, byte for
+// byte the hash of reading them again; the files are those of a whole
+// load. Cases: the demo (a log and a readings table after it) and
+// testdata/mini.
+func TestHashStreamNoAdapter(t *testing.T) {
+	for _, tc := range []struct{ name, file string }{
+		{"demo", "../../examples/ducktail-fastback/campaign.yaml"},
+		{"mini", "../../testdata/mini/campaign.yaml"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			whole, err := Load(tc.file, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			c, err := Load(tc.file, Options{Stream: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := c.Finish(nil); err != nil {
+				t.Fatal(err)
+			}
+			if !slices.Equal(c.Files, whole.Files) {
+				t.Errorf("files %v, loaded whole %v", c.Files, whole.Files)
+			}
+			if h, err := c.Hash(); err != nil || h != reread(t, whole.Files) {
+				t.Errorf("Hash = %s, %v; want %s", h, err, reread(t, whole.Files))
+			}
+		})
 	}
 }

@@ -164,7 +164,10 @@ func logProblem(err error, at Where, path string) *Problem {
 // ids are known and segments lie inside the log's span.
 // A log named by several entries with the same columns is read once. What
 // the reader detected of the file's format is kept for validate to show.
+// With Options.Stream only the header is read here: the body is left to
+// the adapters' read, and Finish checks what it found.
 func (v *validator) scanLog(l *LogSpec, path string) {
+	l.path = path
 	if l.File == "" {
 		v.errf(l.At.Of("file"), path+".file", ErrFile, "the log's file name is empty")
 		return
@@ -187,15 +190,11 @@ func (v *validator) scanLog(l *LogSpec, path string) {
 		return
 	}
 	l.Detected = res.detected
-	for id := range res.configs {
-		v.informed[id] = true
+	if s := v.c.stream; s != nil {
+		s.pending = append(s.pending, pendingLog{l: l, path: path, key: key})
+		return
 	}
-	for k, s := range l.Segments {
-		if s.FromS < res.t0 || s.ToS > res.t1 {
-			v.errf(s.At.Where, fmt.Sprintf("%s.segments[%d]", path, k), ErrRange,
-				"segment %g–%g s lies outside the log's time span %g–%g s", s.FromS, s.ToS, res.t0, res.t1)
-		}
-	}
+	v.useScan(l, path, res)
 }
 
 // scanResult is what a read of a log's body found: its time span, the
@@ -224,14 +223,23 @@ func (v *validator) scanBody(l *LogSpec, path, name string, cols []logs.Column, 
 		return nil
 	}
 	defer f.Close()
-	src, done := v.c.track(name, f)
-	defer done()
+	var src io.Reader = f
+	if v.c.stream != nil {
+		v.c.addFile(name) // hashed as the adapters read it (Campaign.Read)
+	} else {
+		var done func()
+		src, done = v.c.track(name, f)
+		defer done()
+	}
 	r, err := logs.NewReaderFormat(src, name, cols, l.ReaderFormat())
 	if err != nil {
 		v.headerProblems(err, l, path, cols)
 		return nil
 	}
 	defer r.Close()
+	if v.c.stream != nil {
+		return &scanResult{detected: r.Detected().String()}
+	}
 	res := v.rows(r, l, path, ix)
 	if res != nil {
 		res.detected = r.Detected().String()
@@ -307,42 +315,26 @@ func (v *validator) scanSpeedFile(sf *SpeedFile, path string) {
 	}
 }
 
-// rows reads a log's body: cells, time order, directions, configuration ids.
+// rows reads a log's body, each row checked by Rows.
 func (v *validator) rows(r *logs.Reader, l *LogSpec, path string, ix LogIndex) *scanResult {
-	res := &scanResult{t0: math.Inf(1), t1: math.Inf(-1), configs: map[string]bool{}}
-	rows := 0
-	unknown := map[string]bool{}
+	k := NewRows(v.c, l, ix.Time, ix.Direction, ix.Config)
 	for r.Next() {
-		rows++
-		t := r.Float(ix.Time)
-		res.t0, res.t1 = min(res.t0, t), max(res.t1, t)
-		if ix.Direction >= 0 {
-			if err := RowDirection(r.Float(ix.Direction)); err != nil {
-				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Direction)}, Path: path + ".direction",
-					Err: fmt.Errorf("column %q: %w", l.Direction, err)})
-				return nil
-			}
-		}
-		if ix.Config >= 0 {
-			id := string(r.Text(ix.Config))
-			if err := v.c.RowConfig(id); err == nil {
-				res.configs[id] = true
-			} else if !unknown[id] && len(unknown) < 5 {
-				unknown[id] = true
-				v.errs = append(v.errs, &Problem{Where: Where{File: r.File(), Line: r.Line(), Column: r.Column(ix.Config)}, Path: path + ".config",
-					Err: fmt.Errorf("column %q: %w", l.Config, err)})
-			}
+		if _, _, err := k.Row(r); err != nil {
+			v.errs = append(append(v.errs, k.probs...), err.(*Problem))
+			return nil
 		}
 	}
 	if err := r.Err(); err != nil {
-		v.errs = append(v.errs, logProblem(err, l.At.Of("file"), path))
+		v.errs = append(append(v.errs, k.probs...), logProblem(err, l.At.Of("file"), path))
 		return nil
 	}
-	if rows == 0 {
-		v.errf(l.At.Of("file"), path+".file", ErrFile, "log %q has a header but no data rows", l.File)
+	if err := k.Done(); err != nil {
+		v.errs = append(v.errs, err.(Problems)...)
+	}
+	if k.n == 0 {
 		return nil
 	}
-	return res
+	return k.result()
 }
 
 // csvTable reads a small CSV table (taps_file, readings_file) with its header,
@@ -544,12 +536,15 @@ func (v *validator) loadReadings(e *PressureEntry, path string) {
 
 // Hash returns the hex SHA-256 of the campaign file and every file it read,
 // in the order read, each preceded by its length so that no two different
-// sets of files hash alike. A campaign from Load has it already, from the
-// bytes validation read (the files as they were then); otherwise, or if a
-// file was not read whole, the files are read again.
+// sets of files hash alike. A campaign from Load has it from the bytes
+// validation and the adapters read (the files as they were then), files
+// read by neither being read now; from Parse, or if a read stopped early,
+// the files are read again.
 func (c *Campaign) Hash() (string, error) {
-	if sum, ok := c.digest.sum(c.Files); ok {
-		return sum, nil
+	if d := c.digest; d != nil && d.upTo(c.Files) {
+		if sum, ok := d.sum(c.Files); ok {
+			return sum, nil
+		}
 	}
 	h := sha256.New()
 	for _, name := range c.Files {
@@ -570,31 +565,6 @@ func (c *Campaign) Hash() (string, error) {
 		}
 	}
 	return hex.EncodeToString(h.Sum(nil)), nil
-}
-
-// RowDirection checks one logged direction cell: +1 or −1. The validator
-// and the adapters that read a direction column both call it, so a fault
-// reads the same whoever finds it.
-// It is called on every row, so it is small enough to inline; the message
-// is built apart.
-func RowDirection(d float64) error {
-	if d != 1 && d != -1 {
-		return badDirection(d)
-	}
-	return nil
-}
-
-//go:noinline
-func badDirection(d float64) error {
-	return wrapf(ErrRange, "direction must be 1 or -1, got %g", d)
-}
-
-// RowConfig checks one logged configuration id cell.
-func (c *Campaign) RowConfig(id string) error {
-	if !c.HasConfig(id) {
-		return wrapf(ErrReference, "unknown configuration %q (known: %s)", id, WordList(c.ConfigIDs()))
-	}
-	return nil
 }
 
 // DetectedFormats lists, once per log file, how the reader read it — the

@@ -15,9 +15,18 @@ import (
 	"go.yaml.in/yaml/v3"
 )
 
-// Options changes how a campaign is loaded. It has no settings today:
-// every caller loads as validate does (one loading path), logs read through.
-type Options struct{}
+// Options changes how a campaign is loaded.
+type Options struct {
+	// Stream leaves the logs' bodies to the adapters, so that a run reads
+	// each log once: Load reads only their headers (and the speed files
+	// and tables, whole); the adapters check every row through Rows and
+	// feed the input hash as they read (Campaign.Read), and Finish, called
+	// after them, completes validation. On bad input, found by Load or by
+	// Finish, the campaign is loaded again with every log read through,
+	// so that every problem is listed at once, as without it. Without it
+	// Load reads every log through, as Parse always does.
+	Stream bool
+}
 
 // Load reads, decodes and validates the campaign at path. On any error it
 // returns Problems listing every one found, in file order; warnings are in
@@ -30,7 +39,14 @@ func Load(path string, opt Options) (*Campaign, error) {
 	defer f.Close()
 	d := &digest{h: sha256.New()}
 	src, done := d.start(f)
-	return parse(src, path, filepath.Dir(path), opt, d, done)
+	c, err := parse(src, path, filepath.Dir(path), opt, d, done)
+	if err != nil && opt.Stream {
+		// Bad input: load again with every log read through, so that
+		// the problems in the logs' bodies are listed with the others.
+		opt.Stream = false
+		return Load(path, opt)
+	}
+	return c, err
 }
 
 // Parse reads a campaign from src; name is used in messages and dir is the
@@ -48,6 +64,9 @@ func parse(src io.Reader, name, dir string, opt Options, sum *digest, done func(
 		return nil, err
 	}
 	c := &Campaign{File: name, Dir: dir, Files: []string{name}, digest: sum}
+	if opt.Stream && sum != nil {
+		c.stream = &stream{opt: opt, reads: map[*LogSpec]*scanResult{}}
+	}
 	d := &decoder{file: name}
 	if p := otherDocument(d, root); p != nil {
 		return nil, Problems{p}
@@ -69,6 +88,9 @@ func parse(src io.Reader, name, dir string, opt Options, sum *digest, done func(
 		return nil, Problems(probs)
 	}
 	c.Warnings = v.warns
+	if c.stream != nil {
+		c.stream.informed = v.informed
+	}
 	return c, nil
 }
 

@@ -151,10 +151,8 @@ func (v *validator) run() {
 	v.report()
 	v.plan()
 
-	for _, cf := range c.Configurations {
-		if !v.informed[cf.ID] {
-			v.warnf(cf.At.Where, "configurations", "configuration %q is informed by no method: its result is the prior alone", cf.ID)
-		}
+	if c.stream == nil {
+		v.uninformed() // else once the adapters have read the logs (Finish)
 	}
 }
 

@@ -2,7 +2,6 @@ package height
 
 import (
 	"fmt"
-	"io"
 	"sort"
 
 	"liftfuse/methods/campaign"
@@ -61,7 +60,7 @@ func ReduceAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, opt Options
 		owner[e] = results[i]
 	}
 	for _, g := range groups {
-		if err := g.read(opt, owner); err != nil {
+		if err := g.read(c, opt, owner); err != nil {
 			return nil, err
 		}
 	}
@@ -111,17 +110,19 @@ func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result,
 	return results, groups, nil
 }
 
-// read streams the group's file through its passes and hands each pass's
-// windows and trace to its entry's result.
-func (g *readGroup) read(opt Options, owner map[*campaign.RideHeightEntry]*Result) error {
+// read streams the group's file through its passes (feeding the
+// campaign's input hash, campaign.Read) and hands each pass's windows and
+// trace to its entry's result.
+func (g *readGroup) read(c *campaign.Campaign, opt Options, owner map[*campaign.RideHeightEntry]*Result) error {
 	f, size, err := openLog(g.path)
 	if err != nil {
 		return err
 	}
 	defer f.Close()
-	var src io.Reader = f
+	src, done := c.Read(g.path, f)
+	defer done()
 	if opt.Progress != nil {
-		src = &progressReader{r: f, total: size, report: opt.Progress}
+		src = &progressReader{r: src, total: size, report: opt.Progress}
 	}
 	if _, err := readLog(src, g.path, g.passes); err != nil {
 		return err

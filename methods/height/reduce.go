@@ -96,8 +96,9 @@ type pass struct {
 	keep    float64 // next trace time
 	prevT   float64
 	firstDT float64
-	configs map[string]string  // interned configuration ids
+	gapDT   float64            // a step longer than this is a gap: max(1 s, 10 first steps); +Inf until known
 	c       *campaign.Campaign // checks the logged configuration ids; nil: none
+	rows    *campaign.Rows     // the log's row rules, for this read
 	err     error
 }
 
@@ -108,27 +109,15 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
 	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
-		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), configs: map[string]string{}}
+		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
 }
 
 // readLog streams one log through every pass that reads it. The passes
-// must share the time column. A configuration id or a direction in the log
-// that the campaign cannot take is an error at its place in the file.
+// must share the time column. Each pass checks its log's rows
+// (campaign.Rows): a configuration id or a direction in the log that the
+// campaign cannot take is an error at its place in the file.
 func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
-	var cols []logs.Column
-	index := map[logs.Column]int{}
-	for _, p := range ps {
-		p.at = make([]int, len(p.cols))
-		for k, c := range p.cols {
-			i, ok := index[c]
-			if !ok {
-				i = len(cols)
-				index[c] = i
-				cols = append(cols, c)
-			}
-			p.at[k] = i
-		}
-	}
+	cols := shareColumns(ps)
 	r, err := logs.NewReaderFormat(src, name, cols, ps[0].l.ReaderFormat())
 	if err != nil {
 		return nil, err
@@ -161,9 +150,39 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 		return nil, err
 	}
 	for _, p := range ps {
+		if err := p.rows.Done(); err != nil {
+			return nil, err
+		}
 		p.f.close()
 	}
 	return ps, nil
+}
+
+// shareColumns returns the columns the passes ask for, each once, and
+// sets each pass's index of its columns among them and its row checks.
+func shareColumns(ps []*pass) []logs.Column {
+	var cols []logs.Column
+	index := map[logs.Column]int{}
+	for _, p := range ps {
+		p.at = make([]int, len(p.cols))
+		for k, c := range p.cols {
+			i, ok := index[c]
+			if !ok {
+				i = len(cols)
+				index[c] = i
+				cols = append(cols, c)
+			}
+			p.at[k] = i
+		}
+		at := func(k int) int {
+			if k < 0 {
+				return -1
+			}
+			return p.at[k]
+		}
+		p.rows = campaign.NewRows(p.c, p.l, at(p.ix.Time), at(p.ix.Direction), at(p.ix.Config))
+	}
+	return cols
 }
 
 // maxHeightMm bounds a calibrated height reading: ten metres is beyond any
@@ -181,7 +200,7 @@ const standstillKmh = 2.0
 // row feeds the reader's current row to the pass; joined is the speed
 // from a speed file (km/h), NaN when the log has its own speed column.
 func (p *pass) row(r *logs.Reader, joined float64) {
-	ix := p.ix
+	ix := &p.ix
 	t := r.Float(p.at[ix.Time])
 	v, h, err := p.speedAndHeight(r, joined)
 	if err != nil {
@@ -191,27 +210,24 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
 		p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
+		if p.firstDT > 0 {
+			p.gapDT = max(1, 10*p.firstDT)
+		}
 	}
-	gap := !math.IsNaN(p.prevT) && p.firstDT > 0 && t-p.prevT > max(1, 10*p.firstDT)
+	gap := t-p.prevT > p.gapDT // false on the first row (prevT is NaN)
 	p.prevT = t
 
-	// Which configuration and direction does this sample belong to?
-	config, dir := "", 0
+	// Which configuration and direction does this sample belong to? The
+	// log's columns when it has them (an unknown id reads as none, and
+	// fails the read at its end), else its segments, else the only one.
+	config, logged, err := p.rows.Row(r)
+	if err != nil {
+		p.err = err
+		return
+	}
+	dir := 0
 	switch {
 	case ix.Config >= 0:
-		b := r.Text(p.at[ix.Config])
-		id, ok := p.configs[string(b)]
-		if !ok {
-			id = string(b)
-			if p.c != nil {
-				if err := p.c.RowConfig(id); err != nil {
-					p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Config]), Field: p.l.Config, Err: err}
-					return
-				}
-			}
-			p.configs[id] = id
-		}
-		config = id
 	case len(p.segs) > 0:
 		for p.seg < len(p.segs) && t > p.segs[p.seg].ToS {
 			p.seg++
@@ -223,12 +239,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		config = p.only
 	}
 	if ix.Direction >= 0 {
-		d := r.Float(p.at[ix.Direction])
-		if err := campaign.RowDirection(d); err != nil {
-			p.err = &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Direction]), Field: p.l.Direction, Err: err}
-			return
-		}
-		dir = int(d)
+		dir = logged
 	}
 	if gap {
 		p.f.close()
@@ -256,7 +267,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 // speed below −standstillKmh or a height beyond maxHeightMm is an error at
 // its cell; a small negative speed (GPS jitter at rest) reads as 0.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
-	ix := p.ix
+	ix := &p.ix
 	v = joined
 	if ix.Speed < 0 && math.IsNaN(joined) {
 		return 0, 0, fmt.Errorf("%s: log %s has no speed column and no speed file to join", p.e.ID, p.l.File)

@@ -49,7 +49,9 @@ func FromLogs(c *campaign.Campaign, e *campaign.PressureEntry) (*Logged, error) 
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", name, err)
 		}
-		ws, err := readTapLog(f, name, c, e, li)
+		src, done := c.Read(name, f)
+		ws, err := readTapLog(src, name, c, e, li)
+		done()
 		f.Close()
 		if err != nil {
 			return nil, err

@@ -34,6 +34,7 @@ type tapReader struct {
 	ix       campaign.LogIndex
 	li       int
 	tol, dur float64
+	rows     *campaign.Rows // the log's row rules
 	segs     []campaign.Segment
 	seg      int
 	prevT    float64
@@ -69,7 +70,8 @@ func readTapLog(src io.Reader, name string, c *campaign.Campaign, e *campaign.Pr
 	}
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	tr := &tapReader{c: c, l: l, ix: ix, li: li, tol: e.Steady.SpeedTolKmh, dur: e.Steady.MinDurationS, segs: segs, prevT: math.NaN()}
+	tr := &tapReader{c: c, l: l, ix: ix, li: li, tol: e.Steady.SpeedTolKmh, dur: e.Steady.MinDurationS, segs: segs, prevT: math.NaN(),
+		rows: campaign.NewRows(c, l, ix.Time, ix.Direction, ix.Config)}
 	for r.Next() {
 		v := math.NaN()
 		if join != nil {
@@ -82,6 +84,9 @@ func readTapLog(src io.Reader, name string, c *campaign.Campaign, e *campaign.Pr
 		}
 	}
 	if err := r.Err(); err != nil {
+		return nil, err
+	}
+	if err := tr.rows.Done(); err != nil {
 		return nil, err
 	}
 	tr.close()
@@ -123,19 +128,17 @@ func (tr *tapReader) row(r *logs.Reader, joined float64) error {
 }
 
 // where returns the configuration and direction of the current row: from
-// the log's columns when named, else from the segments, else the
-// campaign's only configuration.
+// the log's columns when named (checked by campaign.Rows: an unknown id
+// reads as none and fails the read at its end), else from the segments,
+// else the campaign's only configuration.
 func (tr *tapReader) where(r *logs.Reader, t float64) (string, int, error) {
-	ix, l := tr.ix, tr.l
-	config, dir := "", 0
+	config, logged, err := tr.rows.Row(r)
+	if err != nil {
+		return "", 0, err
+	}
+	dir := 0
 	switch {
-	case ix.Config >= 0:
-		config = string(r.Text(ix.Config))
-		if config != tr.cur.config || !tr.open {
-			if err := tr.c.RowConfig(config); err != nil {
-				return "", 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(ix.Config), Field: l.Config, Err: err}
-			}
-		}
+	case tr.ix.Config >= 0:
 	case len(tr.segs) > 0:
 		for tr.seg < len(tr.segs) && t > tr.segs[tr.seg].ToS {
 			tr.seg++
@@ -146,12 +149,8 @@ func (tr *tapReader) where(r *logs.Reader, t float64) (string, int, error) {
 	case len(tr.c.Configurations) == 1:
 		config = tr.c.Configurations[0].ID
 	}
-	if ix.Direction >= 0 {
-		d := r.Float(ix.Direction)
-		if err := campaign.RowDirection(d); err != nil {
-			return "", 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(ix.Direction), Field: l.Direction, Err: err}
-		}
-		dir = int(d)
+	if tr.ix.Direction >= 0 {
+		dir = logged
 	}
 	return config, dir, nil
 }
