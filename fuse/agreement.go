@@ -138,8 +138,8 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 // Suspects lists the entries a reader should look at, most suspect first:
 // those a model check names (a check is a verdict on the data themselves),
 // by the smallest p-value of their checks (a rule's 0 first), then those
-// the agreement test flags, by P(off) and then by p-value. Entries neither
-// named nor flagged are not listed.
+// the agreement test names as suspects (Agreement.Suspect), by P(off) and
+// then by p-value. Entries neither are not listed.
 func (r *Result) Suspects() []string {
 	type suspect struct {
 		id       string

@@ -10,7 +10,7 @@ import (
 	"liftfuse/methods/evidence"
 )
 
-// Diagnose says which single error of a flagged entry would explain its
+// Diagnose says which single error of a suspect entry would explain its
 // disagreement with the others, from the entry's leave-one-out statistic
 // (predictive.go): t = A(y_e − μ_e(x̄)) with covariance V. If the entry's
 // own error j (prior sd σ_j) were off by δ, its data would move by J_j·δ
@@ -27,10 +27,10 @@ import (
 // pitch of drag) moves both sides alike. The document is a cross-check of
 // the quantity where the entry disagrees most (Agreement.Worst): the
 // others' estimate is the claim, the entry's standalone posterior the
-// prediction. An entry whose agreement p-value exceeds 0.1 (flagged by
+// prediction. An entry whose agreement p-value exceeds 0.1 (a suspect by
 // P(off) alone) is called consistent, with no list; with no explanation,
 // the summary is "no single modelled error explains it" and the trade's
-// checks for the entry's kind follow. nil when the entry is not flagged or
+// checks for the entry's kind follow. nil when the entry is not a suspect or
 // has no standalone and others' posteriors.
 func (f *Fused) Diagnose(entry string) (*Crosscheck, error) {
 	var ag *Agreement

@@ -129,6 +129,10 @@ func (ix *indexer) registerNuisance(ei int, n evidence.Nuisance) error {
 	if ix.winds[n.Name] {
 		return ix.addPhi(ei, phiParam{name: n.Name, label: n.Label, sd: n.SD, wind: true, perRun: n.PerRun, unit: n.Unit})
 	}
+	_, gauss := ix.nuisIdx[n.Name]
+	if _, logn := ix.logn[n.Name]; gauss && n.LogNormal || logn && !n.LogNormal {
+		return fmt.Errorf("fuse: nuisance %q is declared log-normal by one entry and not by another", n.Name)
+	}
 	if n.LogNormal {
 		if o, ok := ix.logn[n.Name]; ok && (o.Mean != n.Mean || o.SD != n.SD) {
 			return fmt.Errorf("fuse: log-normal nuisance %q is declared twice with different priors (median %g, log-sd %g and %g, %g)", n.Name, o.Mean, o.SD, n.Mean, n.SD)
@@ -156,13 +160,24 @@ func (ix *indexer) registerNuisance(ei int, n evidence.Nuisance) error {
 	return nil
 }
 
+// prior describes a non-linear parameter's prior for an error message.
+func (p phiParam) prior() string {
+	switch {
+	case p.wind:
+		return fmt.Sprintf("a wind of sd %g m/s", p.sd)
+	case p.median != 0:
+		return fmt.Sprintf("log-normal of median %g, log-sd %g", p.median, p.sd)
+	}
+	return fmt.Sprintf("a scale factor of log-sd %g", p.sd)
+}
+
 // addPhi declares a non-linear parameter of entry ei, or adds ei as an
 // owner of one already declared with the same prior.
 func (ix *indexer) addPhi(ei int, p phiParam) error {
 	m := ix.model
 	if i, ok := ix.phiIdx[p.name]; ok {
-		if m.phi[i].sd != p.sd || m.phi[i].median != p.median || m.phi[i].wind != p.wind {
-			return fmt.Errorf("fuse: %q is declared with sd %g and %g", p.name, m.phi[i].sd, p.sd)
+		if o := m.phi[i]; o.sd != p.sd || o.median != p.median || o.wind != p.wind {
+			return fmt.Errorf("fuse: %q is declared twice with different priors (%s and %s)", p.name, o.prior(), p.prior())
 		}
 		m.phi[i].owners[ei] = true
 		return nil

@@ -122,48 +122,11 @@ func (P *Posterior) jointMoments() ([]float64, *mat.SymDense) {
 		return mean, cov
 	}
 	mean := P.drawMean()
-	// Second pass for the covariance (two passes are stabler than one):
-	// blocks of centred draws as the columns of X (D × k), and
-	// C += X Xᵀ by the BLAS rank-k update (gonum's Dsyrk: dot products of
-	// contiguous rows, not one scattered update per draw and pair).
-	X := mat.NewDense(D, jointBlock, nil)
-	raw := X.RawMatrix()
-	k := 0 // draws in X
-	flush := func() {
-		if k > 0 {
-			cov.SymRankK(cov, 1, X.Slice(0, D, 0, k))
-			k = 0
-		}
+	cols := make([]int, D)
+	for j := range cols {
+		cols[j] = j
 	}
-	for c := range P.p.draws {
-		for b := 0; b*storeBlock < P.p.n; b++ {
-			tb, nb, ts := P.p.draws[c].span(b, P.p.n)
-			var fb []float64
-			fs := 0
-			if len(m.phi) > 0 {
-				fb, _, fs = P.p.phiDraws[c].span(b, P.p.n)
-			}
-			for j := range D {
-				var src []float64
-				if j < p {
-					src = tb[j*ts:]
-				} else {
-					src = fb[(j-p)*fs:]
-				}
-				mj := mean[j]
-				row := raw.Data[j*raw.Stride+k : j*raw.Stride+k+nb]
-				for i := range row {
-					row[i] = src[i] - mj
-				}
-			}
-			if k += nb; k+storeBlock > jointBlock {
-				flush()
-			}
-		}
-	}
-	flush()
-	cov.ScaleSym(1/float64(nChains*P.p.n-1), cov)
-	return mean, cov
+	return mean, P.drawCov(cols, mean)
 }
 
 // jointCov returns the posterior covariance of the parameters cols of
@@ -187,10 +150,19 @@ func (P *Posterior) jointCov(cols []int) *mat.SymDense {
 		}
 		return out
 	}
+	return P.drawCov(cols, P.jointMean())
+}
+
+// drawCov is the draws' covariance of the parameters cols of (θ, φ)
+// about mean (over all of them), in a second pass (two passes are stabler
+// than one): blocks of centred draws as the columns of X (len(cols) × k),
+// and C += X Xᵀ by the BLAS rank-k update (gonum's Dsyrk: dot products of
+// contiguous rows, not one scattered update per draw and pair).
+func (P *Posterior) drawCov(cols []int, mean []float64) *mat.SymDense {
 	m := P.p.m
 	p := len(m.lin)
-	mean := P.jointMean()
 	k, nr := 0, len(cols)
+	out := mat.NewSymDense(nr, nil)
 	X := mat.NewDense(nr, jointBlock, nil)
 	raw := X.RawMatrix()
 	flush := func() {
@@ -208,9 +180,11 @@ func (P *Posterior) jointCov(cols []int) *mat.SymDense {
 				fb, _, fs = P.p.phiDraws[c].span(b, P.p.n)
 			}
 			for a, j := range cols {
-				src := fb[max(j-p, 0)*fs:]
+				var src []float64
 				if j < p {
 					src = tb[j*ts:]
+				} else {
+					src = fb[(j-p)*fs:]
 				}
 				row := raw.Data[a*raw.Stride+k : a*raw.Stride+k+nb]
 				for i := range row {

@@ -139,6 +139,12 @@ func (lo *looFits) fitOthers(evs []evidence.Evidence, ei int) (*Posterior, error
 	}
 	lo.ag[ei], lo.st[ei] = agreement(lo.full, ei, evs[ei], P)
 	lo.agOf[ei] = P
+	if lo.ag[ei].PValue < suspectP {
+		// The planner reads a suspect's others' joint moments (repeatVar):
+		// taken now, from the draws at hand, they outlive the compaction,
+		// instead of a refit of the others' posterior later.
+		P.joint()
+	}
 	P.compact(fit, nil)
 	return P, nil
 }
@@ -173,8 +179,10 @@ func (lo *looFits) compactRefitted(evs []evidence.Evidence) {
 	}
 }
 
-// compactOthers computes the joint moments of an others' posterior where
-// the entry's agreement needs them (Gaussian data) and compacts it, keeping
+// compactOthers — for the others' posteriors the robust step refitted
+// (fitOthers compacts the first fits to β, γ and φ) — computes the joint
+// moments where the entry's agreement needs them (Gaussian data) and
+// compacts the posterior, keeping
 // the draws of the nuisances entry ei's data share with the others: its
 // agreement's replicates read them (reference.go), which would otherwise
 // cost the others' fit made again.

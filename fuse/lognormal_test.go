@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/integrate"
@@ -207,4 +208,48 @@ func lognormalPosterior(M, s, c, y1Beta, y2, sd1, sd2, sdBeta float64) (float64,
 	z := integrate.Simpsons(us, w0)
 	mean := integrate.Simpsons(us, w1) / z
 	return mean, math.Sqrt(integrate.Simpsons(us, w2)/z - mean*mean)
+}
+
+// TestMixedDeclarations: a nuisance name declared log-normal by one entry
+// and Gaussian by another, or a log-normal nuisance that shares its name
+// with a scale group, is refused with both priors named; it used to be
+// merged silently, the Gaussian entry's rows read as offsets of the other
+// entry's log-normal.
+func TestMixedDeclarations(t *testing.T) {
+	gauss := evidence.Nuisance{Name: "m", Label: "m", Mean: 0.12, SD: 0.02}
+	logn := evidence.Nuisance{Name: "m", Label: "m", Mean: 0.12, SD: 0.2, LogNormal: true}
+	entry := func(id string, n evidence.Nuisance, scale bool) evidence.Evidence {
+		o := evidence.Obs{Y: 1, Terms: []evidence.Term{{Config: "a", Axle: evidence.AxleFront, W: 1}},
+			Air: evidence.Airspeed{Q: 500, V: 28, Rho: 1.2}, Nuis: []evidence.Coef{{Name: "m", C: 1}}}
+		ev := evidence.Evidence{Entry: id, Kind: evidence.KindRideHeight, Nuisances: []evidence.Nuisance{n},
+			Informs: []evidence.Quantity{{Config: "a", Axle: evidence.AxleFront}}}
+		if scale {
+			o.Nuis, ev.Nuisances = nil, nil
+			o.Scales = []evidence.ScaleRef{{Name: "m", Pow: 1}}
+			ev.Scales = []evidence.ScaleGroup{{Name: "m", Label: "m", SD: 0.2}}
+		}
+		b, err := evidence.Diagonal([]evidence.Obs{o}, []float64{1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev.Blocks = []evidence.Block{b}
+		return ev
+	}
+	cases := []struct {
+		name string
+		a, b evidence.Evidence
+		want string
+	}{
+		{"Gaussian, then log-normal", entry("x", gauss, false), entry("y", logn, false), "log-normal by one entry and not by another"},
+		{"log-normal, then Gaussian", entry("x", logn, false), entry("y", gauss, false), "log-normal by one entry and not by another"},
+		{"scale group, then log-normal", entry("x", logn, true), entry("y", logn, false), "a scale factor of log-sd 0.2 and log-normal of median 0.12"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := newModel([]evidence.Evidence{tc.a, tc.b}, Settings{Configs: []string{"a"}})
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("err = %v, want one containing %q", err, tc.want)
+			}
+		})
+	}
 }

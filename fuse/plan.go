@@ -55,7 +55,7 @@ type Detectability struct {
 	SpeedForTarget float64 `json:"speed_kmh_for_target"`
 }
 
-// Discriminator names the repeat that would best tell whether a flagged
+// Discriminator names the repeat that would best tell whether a suspect
 // entry is off.
 type Discriminator struct {
 	Flagged string `json:"flagged"`
@@ -208,7 +208,7 @@ func (m *model) informs(e int) []evidence.Quantity {
 }
 
 // discriminate names the repeat that would most narrow the disagreement
-// of a flagged entry on its worst quantity: repeating the entry narrows its
+// of a suspect entry on its worst quantity: repeating the entry narrows its
 // own side, repeating another entry narrows the others' side.
 func (f *Fused) discriminate(id string, worst Disagreement, cost func(string) float64) *Discriminator {
 	alone, others := f.Standalone[id], f.Others[id]

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
@@ -153,6 +154,9 @@ func (P *Posterior) Draws(ts ...evidence.Term) []float64 {
 // closed-form posterior on first use (seeded, so output is reproducible;
 // under P.mu, so that concurrent readers make them once).
 func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
+	if P.compacted {
+		return P.compactSeries(w)
+	}
 	if !P.p.gaussian {
 		return P.p.series(w)
 	}
@@ -163,6 +167,33 @@ func (P *Posterior) seriesOf(w []entryRef) [][]float64 {
 	P.mu.Unlock()
 	out, _ := storesSeries(P.gdraws, P.gdraws[0].n, w, nil)
 	return out
+}
+
+// compactSeries is seriesOf on a compacted posterior: its stores hold the
+// kept columns in order, so each column of θ is looked up in P.kept; a
+// combination that reads a column not kept comes from the refit.
+func (P *Posterior) compactSeries(w []entryRef) [][]float64 {
+	at := make([]entryRef, len(w))
+	for i, e := range w {
+		k, ok := slices.BinarySearch(P.kept, e.col)
+		if !ok {
+			P.mu.Lock()
+			W := P.wholeLocked()
+			P.mu.Unlock()
+			if W == nil { // no refit: nothing sound to return (as jointMoments)
+				out, _ := P.p.seriesInto(nil, nil)
+				for _, c := range out {
+					for j := range c {
+						c[j] = math.NaN()
+					}
+				}
+				return out
+			}
+			return W.seriesOf(w)
+		}
+		at[i] = entryRef{k, e.v}
+	}
+	return P.p.series(at)
 }
 
 // gaussDraws makes 2000 draws per chain from a closed-form posterior,

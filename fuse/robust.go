@@ -281,7 +281,7 @@ func robustWhy(entries []string, cd condemned, widened []string) string {
 
 // agreements recomputes each entry's agreement against the others' fusion
 // with the condemned data distrusted (ck.lo.others), its P(off) in that
-// fusion, and the warnings of flagged entries in place of the plain
+// fusion, and the warnings of suspect entries in place of the plain
 // fusion's.
 func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) {
 	res := out.Result
@@ -297,7 +297,7 @@ func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) 
 	}
 }
 
-// replaceWarning puts the warning of agreement ag (none when not flagged)
+// replaceWarning puts the warning of agreement ag (none when not a suspect)
 // where old's stood, or at the end.
 func replaceWarning(ws []string, old, ag *Agreement, entry string) []string {
 	at := -1

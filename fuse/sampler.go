@@ -287,8 +287,7 @@ func (m *model) closedForm() (*posterior, error) {
 
 // drawUntilConverged runs the chains in batches until the bulk ESS of every
 // tracked quantity reaches MinESS with R̂ ≤ 1.01, or MaxDraws per chain.
-// Independence MH with this proposal keeps 60–85 % of its proposals, so a
-// first batch of 2.4 draws per wanted effective draw usually suffices
+// A first batch of 2.4 draws per wanted effective draw usually suffices
 // (1.6, tried for speed, made the simulation-based calibration's rank
 // histograms less uniform: mean χ² 11.5 against 9.7 over six seeds of
 // TestSimulationBasedCalibration, 9 expected — the chains' start is a

@@ -116,24 +116,30 @@ func (r *reporter) agreementBars() []bar {
 	return bars
 }
 
+// flagWord marks an agreement in a table: DISAGREES for a suspect (p <
+// 0.01 or P(off) > 0.5, what the tool acts on), "p < 0.05" for an entry
+// the result document flags but the tool does not act on, else nothing.
+func flagWord(a *fuse.Agreement) string {
+	switch {
+	case a.Suspect:
+		return "DISAGREES"
+	case a.Flag:
+		return "p < 0.05"
+	}
+	return ""
+}
+
 // agreementTable writes each entry's distance from the others, its p-value
 // and P(off), and its largest difference.
 func (r *reporter) agreementTable() {
 	var rows [][]string
 	for _, m := range r.res.Methods {
 		if a := m.Agreement; a != nil {
-			flag := ""
-			switch {
-			case a.Suspect:
-				flag = "DISAGREES"
-			case a.Flag:
-				flag = "p < 0.05"
-			}
 			worst := ""
 			if w := a.Worst; w != nil {
 				worst = fmt.Sprintf("%s %s %+.3f (%+.1f sd)", w.Config, w.Axle, w.DiffM2, w.Sigmas)
 			}
-			rows = append(rows, []string{m.ID, m.Kind, fmt.Sprintf("%.2f", a.Distance), fmt.Sprintf("%.3g", a.PValue), fmt.Sprintf("%.2f", a.POff), worst, flag})
+			rows = append(rows, []string{m.ID, m.Kind, fmt.Sprintf("%.2f", a.Distance), fmt.Sprintf("%.3g", a.PValue), fmt.Sprintf("%.2f", a.POff), worst, flagWord(a)})
 		} else {
 			rows = append(rows, []string{m.ID, m.Kind, "–", "–", "–", "no other entry", ""})
 		}

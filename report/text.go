@@ -55,11 +55,7 @@ func FuseText(w io.Writer, res *fuse.Result, unit string) error {
 	for _, m := range res.Methods {
 		ag := "\t\t\t"
 		if a := m.Agreement; a != nil {
-			flag := ""
-			if a.Suspect {
-				flag = "DISAGREES"
-			}
-			ag = fmt.Sprintf("%.2f\t%.3f\t%.2f\t%s", a.Distance, a.PValue, a.POff, flag)
+			ag = fmt.Sprintf("%.2f\t%.3f\t%.2f\t%s", a.Distance, a.PValue, a.POff, flagWord(a))
 		}
 		for i, s := range m.Standalone {
 			id, kind, a := m.ID, m.Kind, ag

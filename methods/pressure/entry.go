@@ -46,13 +46,15 @@ const DragPitchName = "drag-pitch"
 
 // DragPitch returns the nuisance of the pitch of drag m = C_D·A·h_D/L, m²,
 // and whether the campaign gives vehicle.drag. C_D·A is stated to within a
-// factor: m is log-normal with the stated value as its median and
+// factor, as a positive figure from a coast-down or a catalogue usually is
+// (common practice, no source): m is log-normal with the stated value as its median and
 // log-sd sd_pct/100 (sd_pct read as the springs' and tyres' are, a log-sd
 // in percent; 0: m as stated). A Gaussian of sd m·sd_pct/100 has too thin
-// an upper tail: a C_D·A stated 2.9 log-sd low (one day in about 270) put
+// an upper tail: a C_D·A stated 2.9 log-sd low (one day in about 540) put
 // the truth 3.9 sd out, and a correct front ride height was blamed for it
 // on the independent simulator's clean days (methods/sim/reality,
-// TestCleanFalseAlarms).
+// TestCleanFalseAlarms). That simulator states C_D·A log-normally about the
+// truth, so the gain there partly shows the prior now matching it.
 func DragPitch(c *campaign.Campaign) (evidence.Nuisance, bool) {
 	d := c.Vehicle.Drag
 	if d == nil {
