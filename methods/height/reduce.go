@@ -30,8 +30,8 @@ type Window struct {
 	SE        float64 // standard error of the mean height, mm (friction not included)
 	Scatter   float64 // standard deviation of the samples within the window, mm
 	// AccelMs2 is the window's mean longitudinal acceleration (m/s²),
-	// the change of ground speed over its span, and AccelSE its standard
-	// error (see speedTrend.accel).
+	// the least-squares slope of its ground speed, and AccelSE its
+	// standard error (see speedTrend.accel).
 	AccelMs2, AccelSE float64
 	// Probe is true when the log carries a measured airspeed: Q is then
 	// the mean of ½ρV_air² (or of the logged q) and AirKmh the mean
