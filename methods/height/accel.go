@@ -6,55 +6,41 @@ import (
 	"liftfuse/methods/campaign"
 )
 
-// speedTrend accumulates what a window's mean acceleration needs: the
-// least-squares sums of its speed against time and the sum of squared
-// steps between samples.
-type speedTrend struct {
-	n                int
-	t0               float64 // time of the first sample, s (sums are about it)
-	st, sv, stv, stt float64 // Σt, Σv, Σtv, Σt² (t from t0, v in km/h)
-	last, sumStep2   float64 // last speed; Σ (v_i − v_{i−1})², (km/h)²
+// speedEnds tracks what a window's mean acceleration needs: its first and
+// last speed and the sum of squared steps between samples.
+type speedEnds struct {
+	n           int
+	first, last float64 // km/h
+	sumStep2    float64 // Σ (v_i − v_{i−1})², (km/h)²
 }
 
-func (s *speedTrend) add(t, v float64) {
+func (s *speedEnds) add(v float64) {
 	if s.n == 0 {
-		s.t0 = t
+		s.first = v
 	} else {
 		d := v - s.last
 		s.sumStep2 += d * d
 	}
-	dt := t - s.t0
-	s.st += dt
-	s.sv += v
-	s.stv += dt * v
-	s.stt += dt * dt
 	s.last = v
 	s.n++
 }
 
-// accel returns the window's mean acceleration in km/h per s, the
-// least-squares slope of its speed against time, and its standard error
-// σ_v/√Σ(t − t̄)², with σ_v² = Σ(Δv)²/(2(n − 1)) the speed sensor's white
-// noise estimated from successive differences (von Neumann, Ann. Math.
-// Stat. 12, 1941 — from memory), which a smooth true speed barely enters.
-// A window's mean height carries the mean of a(t) over it; clear of the
-// ramps at its ends (EdgeS, edge.go) the speed is a straight line plus
-// noise, whose slope is that mean. The slope uses every sample where
-// (v_last − v_first)/T would use two: a speed logged at a lower rate and
-// held (2 Hz in a 10 Hz file) moves a window's ends by a whole step, its
-// slope hardly at all. Least squares: any regression text, e.g. Draper &
-// Smith, Applied Regression Analysis, ch. 1 (from memory).
-func (s *speedTrend) accel() (a, se float64) {
-	if s.n < 3 {
+// accel returns the window's mean acceleration over its span T (s), in
+// km/h per s, and its standard error. The height responds to the
+// acceleration at each instant, so a window's mean height carries the
+// mean of a(t), which is exactly (v_last − v_first)/T — not the
+// least-squares slope, which weights the middle of the window and misses a
+// ramp's first samples at the edge of a standstill window (they carry
+// several mm of pitch). The error is that of two speed samples,
+// √2·σ_v/T, with σ_v² = Σ(Δv)²/(2(n − 1)) the speed sensor's white noise
+// estimated from successive differences (von Neumann, Ann. Math. Stat.
+// 12, 1941 — from memory), which a smooth true speed barely enters.
+func (s *speedEnds) accel(T float64) (a, se float64) {
+	if s.n < 2 || T <= 0 {
 		return 0, 0
 	}
-	n := float64(s.n)
-	sxx := s.stt - s.st*s.st/n
-	if sxx <= 0 {
-		return 0, 0
-	}
-	sv2 := s.sumStep2 / (2 * (n - 1))
-	return (s.stv - s.st*s.sv/n) / sxx, math.Sqrt(sv2 / sxx)
+	sv2 := s.sumStep2 / (2 * float64(s.n-1))
+	return (s.last - s.first) / T, math.Sqrt(2*sv2) / T
 }
 
 // CGHeightName is the nuisance name of the centre-of-gravity height h_cg

@@ -125,48 +125,40 @@ func TestAccelCoef(t *testing.T) {
 	}
 }
 
-// TestMeanAccel: a window's mean acceleration is the slope of its speed
-// against time, exact for a straight line (a hold, a creep), and within
-// 2 % of it when the speed is logged at a lower rate and held (a 2 Hz
-// speed in a 10 Hz log: a staircase, whose ends may sit a whole step off
-// the line); its error is σ_v/√Σ(t − t̄)² for white speed noise of sd σ_v (worked
-// here by hand; the von Neumann estimate of σ_v is checked against the
-// noise drawn).
+// TestMeanAccel: a window's mean acceleration is the mean of a(t) over
+// it — a stand whose last 0.3 s is the start of a 1.5 m/s² ramp averages
+// 1.5·0.3/8 m/s² — and its error is √2·σ_v/T for white speed noise of sd
+// σ_v (worked here by hand; the von Neumann estimate of σ_v is checked
+// against the noise drawn).
 func TestMeanAccel(t *testing.T) {
 	cases := []struct {
 		name   string
 		speed  func(tt float64) float64 // km/h
 		wantMs float64
-		tol    float64 // m/s²
 	}{
-		{"constant speed", func(float64) float64 { return 120 }, 0, 1e-9},
-		{"creep 0.75 km/h/s", func(tt float64) float64 { return 120 + 0.75*tt }, 0.75 / 3.6, 1e-9},
-		{"creep held at 2 Hz", func(tt float64) float64 { return 120 + 0.75*math.Floor(2*tt+1e-9)/2 }, 0.75 / 3.6, 0.02 * 0.75 / 3.6},
+		{"constant speed", func(float64) float64 { return 120 }, 0},
+		{"creep 0.75 km/h/s", func(tt float64) float64 { return 120 + 0.75*tt }, 0.75 / 3.6},
+		{"stand ending in a ramp", func(tt float64) float64 { return 3.6 * 1.5 * max(0, tt-7.7) }, 1.5 * 0.3 / 8},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			var s speedTrend
+			var s speedEnds
 			for i := range 81 {
-				tt := 0.1 * float64(i)
-				s.add(100+tt, tc.speed(tt))
+				s.add(tc.speed(0.1 * float64(i)))
 			}
-			a, se := s.accel()
-			if math.Abs(a/3.6-tc.wantMs) > tc.tol || (tc.name == "constant speed" && se != 0) {
+			a, se := s.accel(8)
+			if math.Abs(a/3.6-tc.wantMs) > 1e-9 || (tc.name == "constant speed" && se != 0) {
 				t.Errorf("mean acceleration %.6f ± %.6f m/s², want %.6f", a/3.6, se/3.6, tc.wantMs)
 			}
 		})
 	}
 	rng := rand.New(rand.NewPCG(3, 4))
-	var s speedTrend
-	sxx := 0.0
-	for i := range 4001 {
-		tt := 0.1 * float64(i)
-		s.add(tt, 120+0.3*rng.NormFloat64())
-		sxx += (tt - 200) * (tt - 200)
+	var s speedEnds
+	for range 4001 {
+		s.add(120 + 0.3*rng.NormFloat64())
 	}
-	want := 0.3 / math.Sqrt(sxx)
-	if _, se := s.accel(); math.Abs(se-want) > 0.05*want {
-		t.Errorf("error %.3g km/h/s, want 0.3/√Σ(t − t̄)² = %.3g within 5 %%", se, want)
+	if _, se := s.accel(400); math.Abs(se-math.Sqrt2*0.3/400) > 0.05*math.Sqrt2*0.3/400 {
+		t.Errorf("error %.6f km/h/s, want √2·0.3/400 = %.6f within 5 %%", se, math.Sqrt2*0.3/400)
 	}
 }
 

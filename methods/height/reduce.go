@@ -30,8 +30,8 @@ type Window struct {
 	SE        float64 // standard error of the mean height, mm (friction not included)
 	Scatter   float64 // standard deviation of the samples within the window, mm
 	// AccelMs2 is the window's mean longitudinal acceleration (m/s²),
-	// the least-squares slope of its ground speed, and AccelSE its
-	// standard error (see speedTrend.accel).
+	// the change of ground speed over its span, and AccelSE its standard
+	// error (see speedEnds.accel).
 	AccelMs2, AccelSE float64
 	// Probe is true when the log carries a measured airspeed: Q is then
 	// the mean of ½ρV_air² (or of the logged q) and AirKmh the mean
@@ -292,9 +292,7 @@ func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err
 // the log has no airspeed).
 type sample struct{ t, v, h, qa float64 }
 
-// finder splits a stream of samples into steady windows. A window's span
-// (for its band and minimum duration) is every sample admitted; its
-// statistics leave out the first and last EdgeS seconds (edge.go).
+// finder splits a stream of samples into steady windows.
 type finder struct {
 	tol, minDur, rho float64
 	log              int
@@ -303,16 +301,14 @@ type finder struct {
 	cur     struct {
 		config       string
 		dir          int
-		opened, last float64 // the admitted span, s
-		from, to     float64 // the span of the samples used, s
+		from, to     float64
 		speed        steady.Band
-		sumV, sumV2  float64 // Σ V (km/h), Σ V² ((km/h)²) of the samples used
-		trend        speedTrend
+		sumV2        float64 // Σ V², (km/h)²
+		ends         speedEnds
 		sumQA, sumVA float64 // Σ q_air (Pa), Σ V_air (m/s)
 		probe        bool
 		h            steady.Stats
 	}
-	edge delay
 	open bool
 }
 
@@ -324,43 +320,22 @@ func (f *finder) add(s sample, config string, dir int) {
 	if config == "" {
 		return
 	}
-	if f.open && !c.speed.Admits(s.v, f.tol) {
+	v := s.v
+	if f.open && !c.speed.Admits(v, f.tol) {
 		f.close()
 	}
 	if !f.open {
 		f.open = true
-		c.config, c.dir, c.opened = config, dir, s.t
-		c.speed, c.sumV, c.sumV2 = steady.Band{}, 0, 0
-		c.trend = speedTrend{}
+		c.config, c.dir, c.from = config, dir, s.t
+		c.speed, c.sumV2 = steady.Band{}, 0
+		c.ends = speedEnds{}
 		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
 		c.h = steady.Stats{}
-		f.edge.reset()
-	}
-	c.last = s.t
-	c.speed.Add(s.v)
-	if s.t-c.opened < EdgeS-timeSlack {
-		return
-	}
-	f.edge.push(s)
-	for {
-		u, ok := f.edge.pop(s.t)
-		if !ok {
-			break
-		}
-		f.use(u)
-	}
-}
-
-// use adds a sample, clear of the window's edges, to its statistics.
-func (f *finder) use(s sample) {
-	c := &f.cur
-	if c.h.N() == 0 {
-		c.from = s.t
 	}
 	c.to = s.t
-	c.sumV += s.v
-	c.sumV2 += s.v * s.v // q and (V/100 km/h)² are both ∝ V²: summed once
-	c.trend.add(s.t, s.v)
+	c.speed.Add(v)
+	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
+	c.ends.add(v)
 	if c.probe {
 		qa := max(s.qa, 0)
 		c.sumQA += qa
@@ -375,15 +350,15 @@ func (f *finder) close() {
 	}
 	f.open = false
 	c := &f.cur
-	if c.last-c.opened < f.minDur || c.h.N() < 3 {
+	if c.to-c.from < f.minDur || c.h.N() < 3 {
 		return
 	}
 	n := float64(c.h.N())
 	se, neff := c.h.StandardError()
-	slope, slopeSE := c.trend.accel()
+	slope, slopeSE := c.ends.accel(c.to - c.from)
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
-		N: c.h.N(), NEff: neff, SpeedKmh: c.sumV / n,
+		N: c.h.N(), NEff: neff, SpeedKmh: c.speed.Mean(),
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),
