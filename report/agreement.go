@@ -30,7 +30,7 @@ func (r *reporter) agreement() {
 		for _, part := range barGroups(bars, maxBars) {
 			pg.chart(agreementChart(part), 30+4.2*float64(len(part)))
 		}
-		note := "Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when flagged). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table."
+		note := "Thick bar, filled marker: fused result of every entry. Thin bar, hollow marker: each entry alone (dashed when it disagrees, as marked in the table). Colour and marker are the configuration's, as in every chart. Sign-only entries (vortex sense) are left out of the chart: alone they say only lift or downforce; their check is in the table."
 		if n := len(r.configs()); n > maxCharted {
 			note += fmt.Sprintf(" The chart shows the first %d of the %d configurations.", maxCharted, n)
 		}

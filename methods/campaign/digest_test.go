@@ -1,31 +1,13 @@
 package campaign
 
 import (
-	"crypto/sha256"
-	"encoding/hex"
-	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
 	"testing"
-)
 
-// reread is Hash's layout computed directly with the standard library's
-// SHA-256 (FIPS 180-4): each file's size in decimal and a newline, then
-// its bytes, in the order of files.
-func reread(t *testing.T, files []string) string {
-	t.Helper()
-	h := sha256.New()
-	for _, name := range files {
-		data, err := os.ReadFile(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		fmt.Fprintf(h, "%d\n", len(data))
-		h.Write(data)
-	}
-	return hex.EncodeToString(h.Sum(nil))
-}
+	"liftfuse/methods/logs/logtest"
+)
 
 // TestHashFromLoadingRead: the hash Load gathers while validation reads the
 // files is byte for byte the hash of reading them again, and it covers
@@ -48,7 +30,7 @@ func TestHashFromLoadingRead(t *testing.T) {
 			if !ok {
 				t.Fatalf("the digest covers %d of %d files", c.digest.fed, len(c.Files))
 			}
-			if want := reread(t, c.Files); got != want {
+			if want := logtest.SHA256Files(t, c.Files); got != want {
 				t.Errorf("digest while loading = %s, reading again = %s", got, want)
 			}
 			if h, err := c.Hash(); err != nil || h != got {
@@ -74,8 +56,8 @@ func TestHashWithoutLoad(t *testing.T) {
 	if _, ok := c.digest.sum(c.Files); ok {
 		t.Fatal("Parse gathered a digest; its source need not be the file named")
 	}
-	if h, err := c.Hash(); err != nil || h != reread(t, c.Files) {
-		t.Errorf("Hash = %s, %v; want %s", h, err, reread(t, c.Files))
+	if h, err := c.Hash(); err != nil || h != logtest.SHA256Files(t, c.Files) {
+		t.Errorf("Hash = %s, %v; want %s", h, err, logtest.SHA256Files(t, c.Files))
 	}
 }
 
@@ -104,8 +86,8 @@ func TestHashStreamNoAdapter(t *testing.T) {
 			if !slices.Equal(c.Files, whole.Files) {
 				t.Errorf("files %v, loaded whole %v", c.Files, whole.Files)
 			}
-			if h, err := c.Hash(); err != nil || h != reread(t, whole.Files) {
-				t.Errorf("Hash = %s, %v; want %s", h, err, reread(t, whole.Files))
+			if h, err := c.Hash(); err != nil || h != logtest.SHA256Files(t, whole.Files) {
+				t.Errorf("Hash = %s, %v; want %s", h, err, logtest.SHA256Files(t, whole.Files))
 			}
 		})
 	}

@@ -14,19 +14,6 @@ import (
 // fusion and the result document take).
 type Check = evidence.ModelCheck
 
-// Check ids.
-const (
-	IDHeightNotLinear = "height-not-linear"
-	IDWindowResidual  = "window-residual"
-	IDTapBlocked      = "tap-blocked"
-	IDTapSpeed        = "tap-cp-speed"
-	IDTapCpHigh       = "tap-cp-high"
-	IDSpeedUnits      = "speed-units"
-	IDCLATooLarge     = "cla-too-large"
-	IDGainNegative    = "gain-negative"
-	IDMirror          = "entry-mirrored"
-)
-
 // Per-entry false-alarm budget of each test (see doc.go): the sum over one
 // entry's tests is at most 1 %.
 const (

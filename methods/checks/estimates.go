@@ -156,7 +156,7 @@ func claTooLarge(est []estimate) []Check {
 			continue
 		}
 		e := mine[best]
-		out = append(out, Check{Check: IDCLATooLarge, Entry: id, Config: e.Config, PValue: bestP,
+		out = append(out, Check{Check: evidence.IDCLATooLarge, Entry: id, Config: e.Config, PValue: bestP,
 			Where:  fmt.Sprintf("%s C_L·A %.2f ± %.2f m²", e.Axle, e.beta(), e.SD),
 			Cause:  "a C_L·A beyond 1.5 m² is out of reach for a road car: unit or sign slip? (speed in m/s under a km/h column, a calibration in the wrong unit, a tap table in the wrong unit)",
 			Action: fmt.Sprintf("check %s's units: speed column, calibration gain, stiffness, pressures in Pa", id)})
@@ -332,7 +332,7 @@ func mirrored(est []estimate) []Check {
 		if against || p >= alphaMirror || len(sup) == 0 || (len(sup) == 1 && !corroborated(est, sup[0], id)) {
 			continue
 		}
-		out = append(out, Check{Check: IDMirror, Entry: id, PValue: p,
+		out = append(out, Check{Check: evidence.IDMirror, Entry: id, PValue: p,
 			Where:  fmt.Sprintf("against %s", strings.Join(sup, ", ")),
 			Cause:  "the entry's lift is the mirror image of the other entries': unit or sign slip? (tap pressures with the wrong sign, a sensor's gain sign, a reference port swapped)",
 			Action: fmt.Sprintf("check the sign convention of the data of %s against the others' and re-reduce", id)})
@@ -345,7 +345,7 @@ func mirrored(est []estimate) []Check {
 func confirmGain(cs []Check, est []estimate) []Check {
 	var out []Check
 	for _, c := range cs {
-		if c.Check == IDGainNegative {
+		if c.Check == evidence.IDGainNegative {
 			if _, _, against := mirrorVerdict(est, c.Entry); against {
 				continue
 			}

@@ -27,7 +27,7 @@ func notLinear(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
 // notLinearCheck words a height-not-linear finding; by, when not empty,
 // names the entry on the same axle whose own finding this one confirms.
 func notLinearCheck(c *campaign.Campaign, r *height.Result, f cfgFit, by string) Check {
-	ch := Check{Check: IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
+	ch := Check{Check: evidence.IDHeightNotLinear, Entry: r.Entry.ID, Config: f.Config, PValue: f.PCurv,
 		Cause: "ride height is not linear in dynamic pressure: bump-stop or packer contact, progressive springs, or the sensor at its end stop"}
 	if c.Prior.SpeedModel != campaign.SpeedLinear {
 		ch.Cause += "; or the lift itself changes with speed (prior.speed_model: linear)"
@@ -67,13 +67,13 @@ type heightRun struct {
 func confirmNotLinear(c *campaign.Campaign, runs []heightRun, found []Check) []Check {
 	have := map[[2]string]bool{}
 	for _, ch := range found {
-		if ch.Check == IDHeightNotLinear {
+		if ch.Check == evidence.IDHeightNotLinear {
 			have[[2]string{ch.Entry, ch.Config}] = true
 		}
 	}
 	var out []Check
 	for _, ch := range found {
-		if ch.Check != IDHeightNotLinear {
+		if ch.Check != evidence.IDHeightNotLinear {
 			continue
 		}
 		src := runOf(runs, ch.Entry)
@@ -149,7 +149,7 @@ func residuals(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
 				break
 			}
 			w := r.Windows[kept[k]]
-			out = append(out, Check{Check: IDWindowResidual, Entry: r.Entry.ID, Config: f.Config, PValue: p,
+			out = append(out, Check{Check: evidence.IDWindowResidual, Entry: r.Entry.ID, Config: f.Config, PValue: p,
 				Where: fmt.Sprintf("log %s, %.0f–%.0f s at %.0f km/h (%+.2f mm, %.1f sd)", r.Entry.Logs[w.Log].File, w.From, w.To, w.SpeedKmh, fit.Resid[k], z),
 				Cause: "one window is off the line of the others: a gust, a bump or crest, traffic, or a driver input",
 				Action: fmt.Sprintf("look at the trace of %s over %.0f–%.0f s and cut that stretch from the log's segments if it was not steady",
@@ -186,7 +186,7 @@ func negativeGain(r *height.Result) []Check {
 	if r.Calibration.Gain >= 0 {
 		return nil
 	}
-	return []Check{{Check: IDGainNegative, Entry: r.Entry.ID, Where: "calibration",
+	return []Check{{Check: evidence.IDGainNegative, Entry: r.Entry.ID, Where: "calibration",
 		Cause:  fmt.Sprintf("the calibration gain is negative (%.3g mm per unit): unit or sign slip?", r.Calibration.Gain),
 		Action: fmt.Sprintf("check the sign of %s's calibration: height must rise when the body rises; if this sensor's signal falls as the body rises, the sign is right", r.Entry.ID)}}
 }

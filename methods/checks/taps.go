@@ -198,7 +198,7 @@ func blockedAgainst(c *campaign.Campaign, r *pressure.Result, k int, config stri
 			continue
 		}
 		bestP = p
-		best = Check{Check: IDTapBlocked, Entry: r.Entry.ID, Config: config, PValue: math.Min(1, p*m),
+		best = Check{Check: evidence.IDTapBlocked, Entry: r.Entry.ID, Config: config, PValue: math.Min(1, p*m),
 			Where: fmt.Sprintf("tap %s (%s, x = %.2f m): Cp %.3f in %s against %.3f in %s, where its neighbours moved by %+.3f",
 				pn.ID, pn.Surface, pn.X, t.Cp, config, was.Cp, o.ID, nd),
 			Cause:  "the tap reads ambient in this configuration where it read clearly in another and its neighbours did not change so: a blocked or pinched tube, or a tube off its port",
@@ -237,7 +237,7 @@ func tapSpeed(c *campaign.Campaign, r *pressure.Result) []Check {
 		if p*m >= alphaTapSpeed {
 			continue
 		}
-		out = append(out, Check{Check: IDTapSpeed, Entry: r.Entry.ID, Config: t.config, PValue: math.Min(1, p*m),
+		out = append(out, Check{Check: evidence.IDTapSpeed, Entry: r.Entry.ID, Config: t.config, PValue: math.Min(1, p*m),
 			Where:  fmt.Sprintf("tap %s: Cp changes by %+.3f per 100 km/h against the other taps", t.tap, t.d),
 			Cause:  "the tap's Cp changes with speed beyond its noise: a leaking tube or fitting, or a blocked tube holding a pressure",
 			Action: fmt.Sprintf("leak-test tap %s's tube and its connections, then re-run %s", t.tap, t.config)})
@@ -378,7 +378,7 @@ func tapCpHigh(c *campaign.Campaign, r *pressure.Result) []Check {
 			continue
 		}
 		rd := r.Readings[best]
-		out = append(out, Check{Check: IDTapCpHigh, Entry: r.Entry.ID, Config: rd.Config, PValue: math.Min(1, bestP*m),
+		out = append(out, Check{Check: evidence.IDTapCpHigh, Entry: r.Entry.ID, Config: rd.Config, PValue: math.Min(1, bestP*m),
 			Where:  fmt.Sprintf("tap %s: Cp %.2f at %.0f km/h", pn.ID, rd.Cp[pn.ID], rd.SpeedKmh),
 			Cause:  "Cp above 1.05 is impossible outside a stagnation point: the tube is leaking to a pressurised space, or the reference port or units are wrong",
 			Action: fmt.Sprintf("check tap %s's tube and the reference port, and that the pressures are in Pa", pn.ID)})

@@ -6,6 +6,7 @@ import (
 
 	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/height"
 	"liftfuse/methods/pressure"
 	"liftfuse/methods/vortex"
@@ -112,7 +113,7 @@ func unitSlip(entry, where string, top, ref float64) (Check, bool) {
 	if top <= 0 {
 		return Check{}, false
 	}
-	ch := Check{Check: IDSpeedUnits, Entry: entry}
+	ch := Check{Check: evidence.IDSpeedUnits, Entry: entry}
 	switch {
 	case top < ref/2 && within(top*3.6/ref):
 		ch.Cause = fmt.Sprintf("the top steady speed is %.0f, and ×3.6 = %.0f matches the campaign's %.0f km/h: speed in m/s under a km/h column?", top, top*3.6, ref)

@@ -1,8 +1,6 @@
 package height_test
 
 import (
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -12,6 +10,7 @@ import (
 
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/height"
+	"liftfuse/methods/logs/logtest"
 )
 
 // streamAndLoad loads the campaign at path both ways — streamed, its logs
@@ -53,7 +52,7 @@ func streamAndLoad(t *testing.T, path string) {
 		t.Errorf("warnings:\n%v\nloaded whole:\n%v", c.Warnings, full.Warnings)
 	}
 	got, err := c.Hash()
-	if want := sha256Files(t, full.Files); err != nil || got != want {
+	if want := logtest.SHA256Files(t, full.Files); err != nil || got != want {
 		t.Errorf("hash %s, %v; want %s", got, err, want)
 	}
 }
@@ -88,23 +87,6 @@ func miniCopy(t *testing.T, yamlEdits, logEdits []string) string {
 		}
 	}
 	return filepath.Join(dir, "campaign.yaml")
-}
-
-// sha256Files is the input hash's layout (result-format.md) computed
-// directly with the standard library's SHA-256 (FIPS 180-4): each file's
-// size in decimal and a newline, then its bytes, in order.
-func sha256Files(t *testing.T, files []string) string {
-	t.Helper()
-	h := sha256.New()
-	for _, name := range files {
-		data, err := os.ReadFile(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		fmt.Fprintf(h, "%d\n", len(data))
-		h.Write(data)
-	}
-	return hex.EncodeToString(h.Sum(nil))
 }
 
 // TestStreamLikeLoad: a campaign loaded with Options.Stream, whose logs
