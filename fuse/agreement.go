@@ -142,10 +142,9 @@ func signAgreement(full *model, ei int, others *Posterior) *Agreement {
 // then by p-value. Entries neither are not listed.
 func (r *Result) Suspects() []string {
 	type suspect struct {
-		id       string
-		checked  bool
-		p, pOff  float64
-		position int
+		id      string
+		checked bool
+		p, pOff float64
 	}
 	byID := map[string]*suspect{}
 	var list []*suspect
@@ -153,7 +152,7 @@ func (r *Result) Suspects() []string {
 		if s, ok := byID[id]; ok {
 			return s
 		}
-		s := &suspect{id: id, p: 1, position: len(list)}
+		s := &suspect{id: id, p: 1}
 		byID[id] = s
 		list = append(list, s)
 		return s
@@ -179,10 +178,8 @@ func (r *Result) Suspects() []string {
 			return a.checked
 		case !a.checked && a.pOff != b.pOff:
 			return a.pOff > b.pOff
-		case a.p != b.p:
-			return a.p < b.p
 		}
-		return a.position < b.position
+		return a.p < b.p // stable: ties keep the order they were added in
 	})
 	out := make([]string, len(list))
 	for i, s := range list {

@@ -204,15 +204,3 @@ func (ck *checked) offAmongOthers(ei int) map[int]bool {
 	}
 	return off
 }
-
-// offEntries returns the entries the headline widens ×κ: those that look
-// off, not counting the ones condemned entirely.
-func (ck *checked) offEntries() map[int]bool {
-	off := map[int]bool{}
-	for e, p := range ck.lo.pOff {
-		if p > flagOff && !ck.cd.all(ck.evs[e].Entry) {
-			off[e] = true
-		}
-	}
-	return off
-}

@@ -22,6 +22,19 @@ func (P *Posterior) jointDraws(fn func(theta, phi []float64)) {
 	P.drawsOf(nil, fn)
 }
 
+// nDraws is how many draws jointDraws and drawsOf pass to their callers.
+func (P *Posterior) nDraws() int {
+	if P.p.gaussian {
+		P.seriesOf(nil) // make the closed form's draws
+		n := 0
+		for _, ch := range P.gdraws {
+			n += ch.n
+		}
+		return n
+	}
+	return len(P.p.draws) * P.p.n
+}
+
 // drawsOf is jointDraws for a caller that reads only the columns need of
 // θ (nil: all of them): a compacted posterior that kept those columns
 // serves them without its refit, the others' columns NaN.

@@ -43,15 +43,7 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 	if len(ts) < referenceReps/2 {
 		return chi
 	}
-	var mu, v float64
-	for _, x := range ts {
-		mu += x
-	}
-	mu /= float64(len(ts))
-	for _, x := range ts {
-		v += (x - mu) * (x - mu)
-	}
-	v /= float64(len(ts) - 1)
+	mu, v := meanVar(ts)
 	if !(mu > 0 && v > 0) {
 		return chi
 	}
@@ -64,8 +56,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 	src := sharedIndex(full, others.p.m)
 	noise := entryNoise(full, e)
 	need := sharedCols(full, e, others.p.m)
-	draws := 0
-	others.drawsOf(need, func([]float64, []float64) { draws++ })
+	draws := others.nDraws()
 	if draws == 0 || noise == nil {
 		return nil
 	}
@@ -75,6 +66,7 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
 	var out, fs []float64
+	var design []entryRef
 	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
 			if len(out) == referenceReps {
@@ -86,7 +78,12 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 			for r, ri := range st.rows {
 				row := &full.rows[ri]
 				f, q := full.factorAt(row, x[p:], fs)
-				y[r] = eps[r] - st.mu[r] + full.rowOffset(row, x[p:]) + rowValue(row, f, q, x)
+				design = designAt(row, f, q, design[:0])
+				var v float64
+				for _, d := range design {
+					v += d.v * x[d.col]
+				}
+				y[r] = eps[r] - st.mu[r] + row.offset(x[p:], q) + v
 			}
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)
@@ -95,25 +92,6 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 		}
 	})
 	return out
-}
-
-// rowValue is Σ d·x[col] over the row's design at the factors s(φ)·q(w) = f
-// and q(w) = q (designAt), without building it.
-func rowValue(r *row, f, q float64, x []float64) float64 {
-	var y float64
-	for _, t := range r.lift {
-		y += f * t.v * x[t.col]
-	}
-	for _, t := range r.gamma {
-		y += f * t.v * x[t.col]
-	}
-	for _, t := range r.nuisPerQ {
-		y += q * t.v * x[t.col]
-	}
-	for _, t := range r.nuis {
-		y += t.v * x[t.col]
-	}
-	return y
 }
 
 // sharedIndex maps each parameter of the full model to its index in the

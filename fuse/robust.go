@@ -285,10 +285,14 @@ func robustWhy(entries []string, cd condemned, widened []string) string {
 // fusion's.
 func (ck *checked) agreements(out *Fused, full *model, evs []evidence.Evidence) {
 	res := out.Result
+	ags, sts := make([]*Agreement, len(evs)), make([]*looStat, len(evs))
+	parallel(len(evs), func(ei int) { // each entry's replicates have their own seed
+		ags[ei], sts[ei] = agreement(full, ei, evs[ei], ck.lo.others[ei])
+	})
 	for ei, ev := range evs {
 		mr := &res.Methods[ei]
 		old := mr.Agreement
-		ag, st := agreement(full, ei, ev, ck.lo.others[ei])
+		ag, st := ags[ei], sts[ei]
 		ag.POff = ck.lo.pOff[ei]
 		ag.judge()
 		mr.Agreement = ag

@@ -141,18 +141,6 @@ func (s *drawStore) combine(w []entryRef, dst []float64) {
 	}
 }
 
-// narrow keeps the first width columns of every draw.
-func (s *drawStore) narrow(width int) {
-	if width >= s.width {
-		return
-	}
-	cols := make([]int, width)
-	for j := range cols {
-		cols[j] = j
-	}
-	s.pick(cols)
-}
-
 // pick keeps the columns cols (ascending) of every draw, in that order.
 func (s *drawStore) pick(cols []int) {
 	if len(cols) == s.width {

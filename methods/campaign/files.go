@@ -546,25 +546,13 @@ func (c *Campaign) Hash() (string, error) {
 			return sum, nil
 		}
 	}
-	h := sha256.New()
+	d := &digest{h: sha256.New()}
 	for _, name := range c.Files {
-		f, err := OpenRegular(name)
-		if err != nil {
-			return "", err
-		}
-		st, err := f.Stat()
-		if err != nil {
-			f.Close()
-			return "", err
-		}
-		fmt.Fprintf(h, "%d\n", st.Size())
-		_, err = io.Copy(h, f)
-		f.Close()
-		if err != nil {
+		if err := d.add(name); err != nil {
 			return "", err
 		}
 	}
-	return hex.EncodeToString(h.Sum(nil)), nil
+	return hex.EncodeToString(d.h.Sum(nil)), nil
 }
 
 // DetectedFormats lists, once per log file, how the reader read it — the

@@ -38,10 +38,11 @@ func Run(c *campaign.Campaign, r *methods.Reduced) []Check {
 	for _, e := range r.Entries {
 		switch d := e.Detail.(type) {
 		case *height.Result:
-			fits := heightFits(c, d)
+			data := newEntryData(c, d)
+			fits := heightFits(c, d, data)
 			runs = append(runs, heightRun{d, fits})
 			out = append(out, notLinear(c, d, fits)...)
-			out = append(out, residuals(c, d, fits)...)
+			out = append(out, residuals(c, d, data, fits)...)
 			out = append(out, negativeGain(d)...)
 			est = append(est, heightEstimates(c, d, fits)...)
 		case *pressure.Result:

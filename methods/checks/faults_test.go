@@ -88,8 +88,9 @@ func highCp(t *testing.T, dir string) {
 var heights = []string{"front-pot", "rear-pot", "rear-laser"}
 
 // faults lists the planted errors. A bump stop belongs to the axle, so the
-// rear laser reads it too. The share of days is 95 %, 85 % for inverted
-// taps, which a pitch of drag stated 2–3 sd off can hide.
+// rear laser reads it too. The share of days each must be found on is
+// 95 %, 85 % for inverted taps, which a pitch of drag stated 2–3 sd off
+// can hide (detection-rate targets: common practice, no source).
 var faults = []fault{
 	{"bump stop", func(d *reality.Day) { d.Faults.BumpStop = &reality.BumpStop{Axle: "rear", GapMm: 0.5, RateNPerMm: 400} }, nil,
 		"height-not-linear", []string{"rear-pot", "rear-laser"}, 0.95},

@@ -132,13 +132,12 @@ const maxOutliers = 3
 // before the next is looked at, so that one upset window, pulling the line,
 // does not make a good one look off (swamping; Barnett & Lewis, Outliers in
 // Statistical Data, 3rd ed., §2.3).
-func residuals(c *campaign.Campaign, r *height.Result, fits []cfgFit) []Check {
+func residuals(c *campaign.Campaign, r *height.Result, d *entryData, fits []cfgFit) []Check {
 	n := 0
 	for _, f := range fits {
 		n += len(f.Kept)
 	}
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
-	d := newEntryData(c, r)
 	var out []Check
 	for _, f := range fits {
 		kept, fit := f.Kept, f.Lin

@@ -57,7 +57,7 @@ func TestHeightNotLinearSynthetic(t *testing.T) {
 	for _, c := range cases {
 		for seed := uint64(1); seed <= 5; seed++ {
 			cp, r := synthetic(seed, c.h)
-			got := notLinear(cp, r, heightFits(cp, r))
+			got := notLinear(cp, r, heightFits(cp, r, newEntryData(cp, r)))
 			switch {
 			case c.where == "" && len(got) > 0:
 				t.Errorf("%s (seed %d): tripped: %v", c.name, seed, got)
@@ -78,11 +78,15 @@ func TestResidualSynthetic(t *testing.T) {
 	line := func(q float64) float64 { return -q * 0.25 / 50 }
 	for seed := uint64(1); seed <= 5; seed++ {
 		c, r := synthetic(seed, line)
-		if got := residuals(c, r, heightFits(c, r)); len(got) > 0 {
+		check := func() []Check { // the windows as they stand now
+			d := newEntryData(c, r)
+			return residuals(c, r, d, heightFits(c, r, d))
+		}
+		if got := check(); len(got) > 0 {
 			t.Errorf("seed %d: clean line tripped %v", seed, got)
 		}
 		r.Windows[12].HeightMM += 1
-		got := residuals(c, r, heightFits(c, r))
+		got := check()
 		if len(got) != 1 || !strings.Contains(got[0].Where, "360–370 s") || math.IsNaN(got[0].PValue) {
 			t.Errorf("seed %d: %v, want the window at 360–370 s", seed, got)
 		}

@@ -170,9 +170,8 @@ func levels(ws []height.Window, idx []int) [][2]float64 {
 // curvature test trips, the fastest driven speed is dropped until what is
 // left is linear (at a lenient 5 %); the cut lies halfway between the last
 // speed kept and the first dropped, rounded to 5 km/h.
-func heightFits(c *campaign.Campaign, r *height.Result) []cfgFit {
+func heightFits(c *campaign.Campaign, r *height.Result, d *entryData) []cfgFit {
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
-	d := newEntryData(c, r)
 	var order []string
 	byCfg := map[string][]int{}
 	for i, w := range r.Windows {
