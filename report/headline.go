@@ -61,17 +61,7 @@ func checkName(c string) string { return strings.ReplaceAll(c, "-", " ") }
 // sentence is a model check as one sentence of page 1: where, what, how
 // sure, the likely cause and what to do.
 func (c modelCheck) sentence() string {
-	s := c.Place() + ": " + checkName(c.Check.Check)
-	if c.PValue > 0 { // rule-based checks carry no p-value
-		s += fmt.Sprintf(" (p = %.2g)", c.PValue)
-	}
-	if c.Cause != "" {
-		s += "; likely " + c.Cause
-	}
-	if c.Action != "" {
-		s += "; " + c.Action
-	}
-	return s + "."
+	return c.Text(checkName(c.Check.Check), "; likely ") + "."
 }
 
 // flaggedEffect is what page 1 says a flagged entry does to the headline

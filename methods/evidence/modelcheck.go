@@ -22,14 +22,20 @@ type ModelCheck struct {
 
 // Line is the check as one readable warning:
 //
-//	rear-pot, wing-mid, windows above 140 km/h: height-not-linear (p = 0.0004) — bump-stop contact or progressive springs; set max_speed_kmh: 140 on rear-pot
-func (c ModelCheck) Line() string {
-	msg := c.Place() + ": " + c.Check
-	if c.PValue > 0 { // rule-based checks carry no p-value
+//	rear-pot, wing-mid, windows above 140 km/h: height-not-linear (p = 0.0004) — likely bump-stop contact or progressive springs; set max_speed_kmh: 140 on rear-pot
+func (c ModelCheck) Line() string { return c.Text(c.Check, " — likely ") }
+
+// Text is the check in words: where, the check under the name given, how
+// sure (rule-based checks carry no p-value), the likely cause after
+// causeSep, and what to do. Line and the report's sentences differ only in
+// the name and causeSep.
+func (c ModelCheck) Text(name, causeSep string) string {
+	msg := c.Place() + ": " + name
+	if c.PValue > 0 {
 		msg += fmt.Sprintf(" (p = %.2g)", c.PValue)
 	}
 	if c.Cause != "" {
-		msg += " — likely " + c.Cause
+		msg += causeSep + c.Cause
 	}
 	if c.Action != "" {
 		msg += "; " + c.Action
