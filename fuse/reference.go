@@ -53,7 +53,6 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 
 // replicates draws d² of replicate data sets of entry e (see referenceP).
 func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.Rand) []float64 {
-	src := sharedIndex(full, others.p.m)
 	noise := entryNoise(full, e)
 	need := sharedCols(full, e, others.p.m)
 	draws := others.nDraws()
@@ -66,24 +65,17 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
 	var out, fs []float64
-	var design []entryRef
 	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
 			if len(out) == referenceReps {
 				return
 			}
-			full.predictiveDraw(x, src, theta, phi, op, rng)
+			full.predictiveDraw(x, st.src, theta, phi, op, rng)
 			eps := noise.draw(rng)
 			fs = full.scaleFactors(x[p:], fs)
 			for r, ri := range st.rows {
-				row := &full.rows[ri]
-				f, q := full.factorAt(row, x[p:], fs)
-				design = designAt(row, f, q, design[:0])
-				var v float64
-				for _, d := range design {
-					v += d.v * x[d.col]
-				}
-				y[r] = eps[r] - st.mu[r] + row.offset(x[p:], q) + v
+				o, v := full.meanAt(&full.rows[ri], x, fs)
+				y[r] = eps[r] - st.mu[r] + o + v
 			}
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)
@@ -92,6 +84,38 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 		}
 	})
 	return out
+}
+
+// meanAt returns a row's mean at x = (θ, φ) in two parts, the scale
+// factors fs of the model's scale sets at φ given: the log-normal
+// nuisances' offset o (row.offset's, its factors e^φ read from fs) and the
+// design's terms v (designAt's, in its order).
+func (m *model) meanAt(r *row, x, fs []float64) (o, v float64) {
+	p := len(m.lin)
+	f, q := m.factorAt(r, x[p:], fs)
+	for _, t := range r.lift {
+		v += f * t.v * x[t.col]
+	}
+	for _, t := range r.gamma {
+		v += f * t.v * x[t.col]
+	}
+	for _, t := range r.nuisPerQ {
+		v += q * t.v * x[t.col]
+	}
+	for _, t := range r.nuis {
+		v += t.v * x[t.col]
+	}
+	for _, t := range r.offs {
+		w := t.v
+		if t.idx >= 0 {
+			w *= fs[t.set] // e^{φ_idx}: the set {(idx, 1)}
+		}
+		if t.perQ {
+			w *= q
+		}
+		o += w
+	}
+	return o, v
 }
 
 // sharedIndex maps each parameter of the full model to its index in the
