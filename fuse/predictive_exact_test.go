@@ -191,3 +191,64 @@ func closeSlices(t *testing.T, what string, got, want []float64) {
 		}
 	}
 }
+
+// rowReplicates is the replicates' d² computed row by row, as before the
+// structured prediction term (repMean): y_r = ε_r − μ̄_r + μ_r(x) for each
+// row, t = A·y. Same seed, same draws.
+func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint64) []float64 {
+	rng := newRand(seed, 900+uint64(e))
+	noise := entryNoise(full, e)
+	draws := others.nDraws()
+	per := (referenceReps + draws - 1) / draws
+	p, op := len(full.lin), len(others.p.m.lin)
+	x := make([]float64, full.dim())
+	y := make([]float64, len(st.rows))
+	t := make([]float64, len(st.t))
+	var out []float64
+	others.drawsOf(sharedCols(full, e, others.p.m), func(theta, phi []float64) {
+		for range per {
+			if len(out) == referenceReps {
+				return
+			}
+			full.predictiveDraw(x, st.src, theta, phi, op, rng)
+			eps := noise.draw(rng)
+			for r, ri := range st.rows {
+				y[r] = eps[r] - st.mu[r] + full.rowMean(&full.rows[ri], x[:p], x[p:], nil)
+			}
+			for i := range t {
+				t[i] = floats.Dot(st.A.RawRowView(i), y)
+			}
+			out = append(out, quadForm(st.Vp, t))
+		}
+	})
+	return out
+}
+
+// TestReplicatesStructuredExact checks the replicates' d² computed with the
+// prediction term by terms (repMean) against the same replicates computed
+// row by row (rowReplicates), replicate by replicate, for every Gaussian
+// entry at 2 and 6 configurations: the same formulas in another order
+// (see closeSlices for the tolerance).
+func TestReplicatesStructuredExact(t *testing.T) {
+	for _, n := range []int{2, 6} {
+		c := scaleLoo(t, n)
+		for ei, ev := range c.evs {
+			if len(ev.Blocks) == 0 {
+				continue
+			}
+			t.Run(fmt.Sprintf("configs=%d/%s", n, ev.Entry), func(t *testing.T) {
+				O := c.lo.others[ei].wholeLocked()
+				_, st := agreement(c.full, ei, ev, O)
+				if st == nil {
+					t.Fatal("no statistic")
+				}
+				got := st.replicates(c.full, ei, O, newRand(c.full.set.Seed, 900+uint64(ei)))
+				want := rowReplicates(c.full, ei, st, O, c.full.set.Seed)
+				if len(got) != referenceReps {
+					t.Fatalf("%d replicates, want %d", len(got), referenceReps)
+				}
+				closeSlices(t, "d²", got, want)
+			})
+		}
+	}
+}

@@ -60,10 +60,10 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 		return nil
 	}
 	per := (referenceReps + draws - 1) / draws
-	p, op := len(full.lin), len(others.p.m.lin)
+	op := len(others.p.m.lin)
 	x := make([]float64, full.dim())
-	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
+	rm := full.newRepMean(st.A, st.rows, st.mu)
 	var out, fs []float64
 	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
@@ -72,50 +72,15 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 			}
 			full.predictiveDraw(x, st.src, theta, phi, op, rng)
 			eps := noise.draw(rng)
-			fs = full.scaleFactors(x[p:], fs)
-			for r, ri := range st.rows {
-				o, v := full.meanAt(&full.rows[ri], x, fs)
-				y[r] = eps[r] - st.mu[r] + o + v
-			}
+			fs = full.scaleFactors(x[len(full.lin):], fs)
+			rm.eval(full, x, fs, t)
 			for i := range t {
-				t[i] = floats.Dot(st.A.RawRowView(i), y)
+				t[i] += floats.Dot(st.A.RawRowView(i), eps)
 			}
 			out = append(out, quadForm(st.Vp, t))
 		}
 	})
 	return out
-}
-
-// meanAt returns a row's mean at x = (θ, φ) in two parts, the scale
-// factors fs of the model's scale sets at φ given: the log-normal
-// nuisances' offset o (row.offset's, its factors e^φ read from fs) and the
-// design's terms v (designAt's, in its order).
-func (m *model) meanAt(r *row, x, fs []float64) (o, v float64) {
-	p := len(m.lin)
-	f, q := m.factorAt(r, x[p:], fs)
-	for _, t := range r.lift {
-		v += f * t.v * x[t.col]
-	}
-	for _, t := range r.gamma {
-		v += f * t.v * x[t.col]
-	}
-	for _, t := range r.nuisPerQ {
-		v += q * t.v * x[t.col]
-	}
-	for _, t := range r.nuis {
-		v += t.v * x[t.col]
-	}
-	for _, t := range r.offs {
-		w := t.v
-		if t.idx >= 0 {
-			w *= fs[t.set] // e^{φ_idx}: the set {(idx, 1)}
-		}
-		if t.perQ {
-			w *= q
-		}
-		o += w
-	}
-	return o, v
 }
 
 // sharedIndex maps each parameter of the full model to its index in the
