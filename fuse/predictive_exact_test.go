@@ -139,23 +139,42 @@ func denseC(full *model, others *Posterior, src, cols []int) *mat.Dense {
 	return C
 }
 
+// exactCases are the campaigns of the exactness tests: the scaling
+// benchmark's of 2 and 6 configurations (the laser, the pots, the taps:
+// diagonal and full error blocks) and offsetModel's (log-normal nuisances
+// in and out of q, one stated exactly, a scale group on half a block).
+func exactCases(t *testing.T) map[string]*looCase {
+	t.Helper()
+	evs, set := offsetEvidence(t, 3, true)
+	full, err := newModel(evs, set.withDefaults())
+	if err != nil {
+		t.Fatal(err)
+	}
+	P, err := full.fit()
+	if err != nil {
+		t.Fatal(err)
+	}
+	lo, err := leaveOneOut(full, P, evs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return map[string]*looCase{"configs=2": scaleLoo(t, 2), "configs=6": scaleLoo(t, 6), "offsets": {full: full, evs: evs, lo: lo}}
+}
+
 // TestPredictiveStructuredExact checks the structured leave-one-out
 // statistic (sparse rows of J and G, the predictive covariance only through
-// A·J) against the dense computation it replaced, entry by entry, on the
-// scaling benchmark's campaigns of 2 and 6 configurations (the laser, the
-// pots, the taps: diagonal and full error blocks). Both are the same
-// formulas (predictive.go); they may differ only by rounding, so the
-// tolerance is 10⁻⁹ relative to each matrix's largest element (common
-// practice (no source): a reordered sum in double precision agrees to
-// about 10⁻¹³).
+// A·J) against the dense computation it replaced, entry by entry, on
+// exactCases. Both are the same formulas (predictive.go); they may differ
+// only by rounding, so the tolerance is 10⁻⁹ relative to each matrix's
+// largest element (common practice (no source): a reordered sum in double
+// precision agrees to about 10⁻¹³).
 func TestPredictiveStructuredExact(t *testing.T) {
-	for _, n := range []int{2, 6} {
-		c := scaleLoo(t, n)
+	for name, c := range exactCases(t) {
 		for ei, ev := range c.evs {
 			if len(ev.Blocks) == 0 {
 				continue
 			}
-			t.Run(fmt.Sprintf("configs=%d/%s", n, ev.Entry), func(t *testing.T) {
+			t.Run(name+"/"+ev.Entry, func(t *testing.T) {
 				O := c.lo.others[ei].wholeLocked()
 				st, ok := looPredictive(c.full, ei, O)
 				if !ok {
@@ -227,20 +246,22 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 // TestReplicatesStructuredExact checks the replicates' d² computed with the
 // prediction term by terms (repMean) against the same replicates computed
 // row by row (rowReplicates), replicate by replicate, for every Gaussian
-// entry at 2 and 6 configurations: the same formulas in another order
-// (see closeSlices for the tolerance).
+// entry of exactCases: the same formulas in another order (see
+// closeSlices for the tolerance).
 func TestReplicatesStructuredExact(t *testing.T) {
-	for _, n := range []int{2, 6} {
-		c := scaleLoo(t, n)
+	for name, c := range exactCases(t) {
 		for ei, ev := range c.evs {
 			if len(ev.Blocks) == 0 {
 				continue
 			}
-			t.Run(fmt.Sprintf("configs=%d/%s", n, ev.Entry), func(t *testing.T) {
+			t.Run(name+"/"+ev.Entry, func(t *testing.T) {
 				O := c.lo.others[ei].wholeLocked()
-				_, st := agreement(c.full, ei, ev, O)
-				if st == nil {
+				st, ok := looPredictive(c.full, ei, O)
+				if !ok {
 					t.Fatal("no statistic")
+				}
+				if st.Vp, _ = st.metric(); st.Vp == nil {
+					t.Fatal("no metric")
 				}
 				got := st.replicates(c.full, ei, O, newRand(c.full.set.Seed, 900+uint64(ei)))
 				want := rowReplicates(c.full, ei, st, O, c.full.set.Seed)
