@@ -172,17 +172,37 @@ func (P *Posterior) jointCov(cols []int) *mat.SymDense {
 // and C += X Xᵀ by the BLAS rank-k update (gonum's Dsyrk: dot products of
 // contiguous rows, not one scattered update per draw and pair).
 func (P *Posterior) drawCov(cols []int, mean []float64) *mat.SymDense {
+	return P.drawCovOf(cols, mean, nil)
+}
+
+// drawCovOf is drawCov of L·x, L (r × len(cols)) applied to the draws'
+// parameters cols: L C Lᵀ (r×r) from the draws L·X, which costs r·len(cols)
+// per draw instead of len(cols)²/2 when r is the smaller; nil L is the
+// identity (drawCov).
+func (P *Posterior) drawCovOf(cols []int, mean []float64, L *mat.Dense) *mat.SymDense {
 	m := P.p.m
 	p := len(m.lin)
 	k, nr := 0, len(cols)
-	out := mat.NewSymDense(nr, nil)
+	nout := nr
+	if L != nil {
+		nout, _ = L.Dims()
+	}
+	out := mat.NewSymDense(nout, nil)
 	X := mat.NewDense(nr, jointBlock, nil)
 	raw := X.RawMatrix()
+	var LX mat.Dense
 	flush := func() {
-		if k > 0 {
-			out.SymRankK(out, 1, X.Slice(0, nr, 0, k))
-			k = 0
+		if k == 0 {
+			return
 		}
+		Xk := X.Slice(0, nr, 0, k)
+		if L != nil {
+			LX.Reset()
+			LX.Mul(L, Xk)
+			Xk = &LX
+		}
+		out.SymRankK(out, 1, Xk)
+		k = 0
 	}
 	for c := range P.p.draws {
 		for b := 0; b*storeBlock < P.p.n; b++ {
@@ -211,6 +231,30 @@ func (P *Posterior) drawCov(cols []int, mean []float64) *mat.SymDense {
 	}
 	flush()
 	out.ScaleSym(1/float64(nChains*P.p.n-1), out)
+	return out
+}
+
+// jointCovOf is L C Lᵀ for C = jointCov(cols): from the draws projected by
+// L (drawCovOf) when jointCov would compute C from them, else from C.
+func (P *Posterior) jointCovOf(cols []int, L *mat.Dense) *mat.SymDense {
+	P.mu.Lock()
+	whole := P.jcov != nil || P.p.gaussian || P.compacted
+	P.mu.Unlock()
+	r, _ := L.Dims()
+	if len(cols) == 0 {
+		return mat.NewSymDense(r, nil)
+	}
+	if !whole {
+		return P.drawCovOf(cols, P.jointMean(), L)
+	}
+	var LC mat.Dense
+	LC.Mul(L, P.jointCov(cols))
+	out := mat.NewSymDense(r, nil)
+	for i := range r {
+		for j := i; j < r; j++ {
+			out.SetSym(i, j, mat.Dot(LC.RowView(i), L.RowView(j)))
+		}
+	}
 	return out
 }
 

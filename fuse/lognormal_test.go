@@ -26,6 +26,17 @@ import (
 // (addFullRows) instead of through the term table.
 func offsetModel(t *testing.T, seed uint64, rowByRow bool) *model {
 	t.Helper()
+	evs, set := offsetEvidence(t, seed, rowByRow)
+	m, err := newModel(evs, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
+}
+
+// offsetEvidence is offsetModel's evidence and settings.
+func offsetEvidence(t *testing.T, seed uint64, rowByRow bool) ([]evidence.Evidence, Settings) {
+	t.Helper()
 	rng := rand.New(rand.NewPCG(seed, 11))
 	configs := []string{"a", "b"}
 	wind := evidence.Nuisance{Name: evidence.WindName, Label: "wind", Unit: "m/s", SD: 1.5, PerRun: true}
@@ -81,11 +92,7 @@ func offsetModel(t *testing.T, seed uint64, rowByRow bool) *model {
 			Scales: []evidence.ScaleGroup{{Name: "taps/rear", Label: "rear", SD: 0.1}}},
 		{Entry: "sense", Kind: evidence.KindVortex, Signs: signs},
 	}
-	m, err := newModel(evs, Settings{Configs: configs, Seed: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
+	return evs, Settings{Configs: configs, Seed: 1}
 }
 
 // checkOffsetPaths fails unless offsetModel's model exercises what it

@@ -69,31 +69,34 @@ func (m *model) priorPrecision(i int) float64 {
 	return 1 / (sd * sd)
 }
 
-// predictiveMoments returns the mean over the full model's (θ, φ) of the
+// predictiveMean returns the mean over the full model's (θ, φ) of the
 // others' posterior of entry e, with e's own parameters (those no other
-// entry declares) at their priors, and the covariance over the parameters
-// cols only (in that order), e's own independent of the rest with their
-// prior variances; a flat prior gets variance 0 (it drops out of the test,
-// see above). The covariance is wanted over the parameters e's data touch
-// alone: over all of them it cost configurations² (and its draws' pass
-// configurations² × draws) for an entry that reads a few of them.
-func predictiveMoments(full *model, others *Posterior, cols []int) ([]float64, *mat.SymDense) {
-	om := others.p.m
+// entry declares) at their priors (a flat prior at its mean: the statistic
+// does not depend on it); src is sharedIndex(full, others' model).
+func predictiveMean(full *model, others *Posterior, src []int) []float64 {
 	oMean := others.jointMean()
-	D := full.dim()
 	p := len(full.lin)
-	mean := make([]float64, D)
-	src := sharedIndex(full, om)
-	for i := range D {
+	mean := make([]float64, full.dim())
+	for i := range mean {
 		if j := src[i]; j >= 0 {
 			mean[i] = oMean[j]
 		} else if i < p && full.lin[i].prec > 0 {
 			mean[i] = full.lin[i].mean
 		}
 	}
-	if len(cols) == 0 {
-		return mean, nil
-	}
+	return mean
+}
+
+// predictiveCov returns L C Lᵀ for C the predictive covariance over the
+// parameters cols (L has one column per parameter of cols, in that order):
+// the others' joint covariance over those they share, e's own independent
+// of the rest with their prior variances; a flat prior gets variance 0 (it
+// drops out of the test, see above). C is wanted over the parameters e's
+// data touch alone, and only through L = A·J, whose rows are few: C itself
+// cost len(cols)²/2 per draw, L·x costs rows × len(cols).
+func predictiveCov(full *model, others *Posterior, src, cols []int, L *mat.Dense) *mat.SymDense {
+	r, _ := L.Dims()
+	p := len(full.lin)
 	var shared []int // the others' index of each shared column of cols
 	var at []int     // its place in cols
 	for a, i := range cols {
@@ -101,24 +104,28 @@ func predictiveMoments(full *model, others *Posterior, cols []int) ([]float64, *
 			shared, at = append(shared, src[i]), append(at, a)
 		}
 	}
-	cov := mat.NewSymDense(len(cols), nil)
-	oCov := others.jointCov(shared)
+	Ls := mat.NewDense(r, max(len(at), 1), nil)
 	for x, a := range at {
-		for y := x; y < len(at); y++ {
-			cov.SetSym(a, at[y], oCov.At(x, y))
+		for i := range r {
+			Ls.Set(i, x, L.At(i, a))
 		}
 	}
+	out := others.jointCovOf(shared, Ls)
 	for a, i := range cols {
+		var v float64
 		switch {
 		case src[i] >= 0:
+			continue
 		case i >= p:
-			sd := full.phi[i-p].sd
-			cov.SetSym(a, a, sd*sd)
+			v = full.phi[i-p].sd * full.phi[i-p].sd
 		case full.lin[i].prec > 0:
-			cov.SetSym(a, a, 1/full.lin[i].prec)
+			v = 1 / full.lin[i].prec
+		}
+		if v > 0 {
+			out.SymRankOne(out, v, L.ColView(a))
 		}
 	}
-	return mean, cov
+	return out
 }
 
 // looStat is the predictive check's statistic of one entry: t and V over
@@ -138,128 +145,61 @@ type looStat struct {
 	d2   float64
 
 	// For the reference distribution (replicate): A (k×n) with
-	// t = A·(y − μ̄), the entry's rows in the order of A's columns and
-	// μ̄ = μ_e(x̄).
+	// t = A·(y − μ̄), the entry's rows in the order of A's columns,
+	// μ̄ = μ_e(x̄) and src = sharedIndex(full, others' model).
 	A    *mat.Dense
 	rows []int
 	mu   []float64
+	src  []int
 }
 
 // looPredictive computes the statistic of entry e's Gaussian data under the
 // others' posterior; ok is false when the entry has no Gaussian data or the
 // computation is singular.
 func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
-	mean, _ := predictiveMoments(full, others, nil)
+	src := sharedIndex(full, others.p.m)
+	mean := predictiveMean(full, others, src)
 	p := len(full.lin)
 	theta, phi := mean[:p], mean[p:]
-	sp := repeatSpace{D: full.dim(), newIdx: map[int]int{}}
-	D := sp.D
-	var Js []*mat.Dense
-	st := &looStat{}
-	var buf []entryRef
-	var res []float64
-	n := 0
-	for bi := range full.blocks {
-		bl := &full.blocks[bi]
-		if bl.entry != e {
-			continue
-		}
-		Js = append(Js, full.repeatJacobian(bl, sp, theta, phi))
-		for _, ri := range bl.rows {
-			r := &full.rows[ri]
-			m := full.rowMean(r, theta, phi, buf)
-			res = append(res, r.y-m)
-			st.rows = append(st.rows, ri)
-			st.mu = append(st.mu, m)
-		}
-		n += len(bl.rows)
-	}
+	lin := full.entryLinear(e, theta, phi)
+	n := len(lin.rows)
 	if n == 0 {
 		return nil, false
 	}
-	// G = Σ⁻¹J (n×D), block by block.
-	J := mat.NewDense(n, D, nil)
-	G := mat.NewDense(n, D, nil)
-	k := 0
-	for bi := range full.blocks {
-		bl := &full.blocks[bi]
-		if bl.entry != e {
-			continue
-		}
-		Jb := Js[0]
-		Js = Js[1:]
-		nb := len(bl.rows)
-		for a := range nb {
-			J.SetRow(k+a, Jb.RawRowView(a))
-			for b := range nb {
-				var w float64
-				switch {
-				case bl.diag != nil && a == b:
-					w = bl.diag[a]
-				case bl.diag == nil:
-					w = bl.precD[a*nb+b]
-				}
-				if w == 0 {
-					continue
-				}
-				ga, jb := G.RawRowView(k+a), Jb.RawRowView(b)
-				for i := range D {
-					ga[i] += w * jb[i]
-				}
-			}
-		}
-		k += nb
+	st := &looStat{rows: lin.rows, mu: make([]float64, n), src: src}
+	res := make([]float64, n)
+	var buf []entryRef
+	for k, ri := range lin.rows {
+		r := &full.rows[ri]
+		st.mu[k] = full.rowMean(r, theta, phi, buf)
+		res[k] = r.y - st.mu[k]
 	}
-	cols := touched(J, G)
-	_, C := predictiveMoments(full, others, cols)
-	if !st.finish(full, J, G, cols, C, res) {
+	cols := lin.touched(full.dim())
+	if !st.finish(full, lin, cols, res, func(AJ *mat.Dense) *mat.SymDense { return predictiveCov(full, others, src, cols, AJ) }) {
 		return nil, false
 	}
 	return st, true
 }
 
-// touched returns the parameters the entry's data touch: those whose
-// diagonal element of F = JᵀΣ⁻¹J = JᵀG is positive.
-func touched(J, G *mat.Dense) []int {
-	n, D := J.Dims()
-	var cols []int
-	for i := range D {
-		var f float64
-		for r := range n {
-			f += J.At(r, i) * G.At(r, i)
-		}
-		if f > 0 {
-			cols = append(cols, i)
-		}
-	}
-	return cols
-}
-
 // finish computes t, V and A·J over the parameters the entry's data touch,
 // cols (the others do not enter H⁻¹ restricted to them, the prior being
-// independent between parameters); C is the predictive covariance over
-// cols.
-func (st *looStat) finish(full *model, J, G *mat.Dense, cols []int, C *mat.SymDense, res []float64) bool {
-	n, _ := J.Dims()
-	pos := map[int]int{}
-	Js := mat.NewDense(n, len(cols), nil)
-	Gs := mat.NewDense(n, len(cols), nil)
+// independent between parameters); covOf(L) is L C Lᵀ for C the predictive
+// covariance over cols.
+func (st *looStat) finish(full *model, lin *entryLin, cols []int, res []float64, covOf func(L *mat.Dense) *mat.SymDense) bool {
+	nc := len(cols)
+	pos := make([]int, full.dim())
+	for i := range pos {
+		pos[i] = -1
+	}
 	for a, i := range cols {
 		pos[i] = a
-		for r := range n {
-			Js.Set(r, a, J.At(r, i))
-			Gs.Set(r, a, G.At(r, i))
-		}
 	}
-	var F mat.Dense
-	F.Mul(Js.T(), Gs)
-	W := st.weights(full, pos, len(cols))
+	F := mat.NewDense(nc, nc, lin.info(pos, nc))
+	W := st.weights(full, cols)
 	if len(W) == 0 {
 		return false
 	}
-	nc := len(cols)
 	H := mat.NewSymDense(nc, nil)
-	Fs, Cs := &F, C
 	for a, i := range cols {
 		for b := a; b < nc; b++ {
 			H.SetSym(a, b, 0.5*(F.At(a, b)+F.At(b, a)))
@@ -275,35 +215,47 @@ func (st *looStat) finish(full *model, J, G *mat.Dense, cols []int, C *mat.SymDe
 	for r, w := range W {
 		Wm.SetRow(r, w)
 	}
-	// B = W H⁻¹ (k×nc), A = B Gᵀ (k×n), AJ = B F.
+	// B = W H⁻¹ (k×nc), t = B·Gᵀ(y − μ̄), AJ = B F.
 	var HinvWt mat.Dense
 	if err := ch.SolveTo(&HinvWt, Wm.T()); err != nil {
 		return false
 	}
 	B := mat.DenseCopyOf(HinvWt.T())
-	var M mat.Dense
-	M.Mul(B, Gs.T())
+	st.A = applyG(B, lin.restrict(pos), len(lin.rows))
 	var t mat.VecDense
-	t.MulVec(&M, mat.NewVecDense(n, res))
-	st.A = &M
-	var AJ, V1, tmp, V2 mat.Dense
-	AJ.Mul(B, Fs)
+	t.MulVec(st.A, mat.NewVecDense(len(res), res))
+	st.t = t.RawVector().Data
+	var AJ, V1 mat.Dense
+	AJ.Mul(B, F)
 	V1.Mul(&AJ, B.T())
-	tmp.Mul(&AJ, Cs)
-	V2.Mul(&tmp, AJ.T())
+	V2 := covOf(&AJ)
 	st.AJ, st.cols = &AJ, cols
 	st.V = mat.NewSymDense(k, nil)
 	for i := range k {
 		for j := i; j < k; j++ {
-			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+0.5*(V2.At(i, j)+V2.At(j, i)))
+			st.V.SetSym(i, j, 0.5*(V1.At(i, j)+V1.At(j, i))+V2.At(i, j))
 		}
 	}
-	st.t = t.RawVector().Data
 	return true
 }
 
-// weights returns the rows of W over the touched parameters (pos maps a
-// full column to its place among nc): one row for the lift β and speed
+// applyG returns A = B·Gᵀ (k×n) for G's n rows given sparse over B's
+// columns: each column of A is B's columns weighted by a row of G.
+func applyG(B *mat.Dense, G [][]entryRef, n int) *mat.Dense {
+	k, _ := B.Dims()
+	A := mat.NewDense(k, n, nil)
+	for r, gr := range G {
+		for _, e := range gr {
+			for i := range k {
+				A.Set(i, r, A.At(i, r)+B.At(i, e.col)*e.v)
+			}
+		}
+	}
+	return A
+}
+
+// weights returns the rows of W over the touched parameters cols (each
+// row over their places): one row for the lift β and speed
 // slope γ the entry's data touch, and one for each of its own additive
 // errors with a proper prior (tyre growth, a patch's Cp), so that a
 // discrepancy the entry's data put into one of its own errors (a laser
@@ -322,9 +274,10 @@ func (st *looStat) finish(full *model, J, G *mat.Dense, cols []int, C *mat.SymDe
 // front pots a gain row survived the rank cut as a third degree of
 // freedom carrying nothing (d² 15.108 with or without it, p 0.0017 on
 // three degrees against 0.0005 on two).
-func (st *looStat) weights(full *model, pos map[int]int, nc int) [][]float64 {
+func (st *looStat) weights(full *model, cols []int) [][]float64 {
 	var W [][]float64
-	for i, k := range sortedCols(pos) {
+	nc := len(cols)
+	for i, k := range cols {
 		if full.priorPrecision(k) == 0 || full.sharedParam(k) || full.scaleParam(k) {
 			continue
 		}
@@ -357,15 +310,6 @@ func (m *model) sharedParam(k int) bool {
 		return len(m.phi[k-p].owners) > 1
 	}
 	return m.lin[k].kind == kindNuisance && len(m.lin[k].owners) > 1
-}
-
-// sortedCols returns the full columns of pos in the order of their places.
-func sortedCols(pos map[int]int) []int {
-	cols := make([]int, len(pos))
-	for c, i := range pos {
-		cols[i] = c
-	}
-	return cols
 }
 
 // metric returns the pseudo-inverse V⁺ of the statistic's covariance and

@@ -53,7 +53,6 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 
 // replicates draws d² of replicate data sets of entry e (see referenceP).
 func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.Rand) []float64 {
-	src := sharedIndex(full, others.p.m)
 	noise := entryNoise(full, e)
 	need := sharedCols(full, e, others.p.m)
 	draws := others.nDraws()
@@ -61,32 +60,22 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 		return nil
 	}
 	per := (referenceReps + draws - 1) / draws
-	p, op := len(full.lin), len(others.p.m.lin)
+	op := len(others.p.m.lin)
 	x := make([]float64, full.dim())
-	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
+	rm := full.newRepMean(st.A, st.rows, st.mu)
 	var out, fs []float64
-	var design []entryRef
 	others.drawsOf(need, func(theta, phi []float64) {
 		for range per {
 			if len(out) == referenceReps {
 				return
 			}
-			full.predictiveDraw(x, src, theta, phi, op, rng)
+			full.predictiveDraw(x, st.src, theta, phi, op, rng)
 			eps := noise.draw(rng)
-			fs = full.scaleFactors(x[p:], fs)
-			for r, ri := range st.rows {
-				row := &full.rows[ri]
-				f, q := full.factorAt(row, x[p:], fs)
-				design = designAt(row, f, q, design[:0])
-				var v float64
-				for _, d := range design {
-					v += d.v * x[d.col]
-				}
-				y[r] = eps[r] - st.mu[r] + row.offset(x[p:], q) + v
-			}
+			fs = full.scaleFactors(x[len(full.lin):], fs)
+			rm.eval(full, x, fs, t)
 			for i := range t {
-				t[i] = floats.Dot(st.A.RawRowView(i), y)
+				t[i] += floats.Dot(st.A.RawRowView(i), eps)
 			}
 			out = append(out, quadForm(st.Vp, t))
 		}
