@@ -169,6 +169,22 @@ func exactCases(t *testing.T) map[string]*looCase {
 // largest element (common practice (no source): a reordered sum in double
 // precision agrees to about 10⁻¹³).
 func TestPredictiveStructuredExact(t *testing.T) {
+	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat) {
+		ds := denseLoo(t, c.full, ei, O)
+		if fmt.Sprint(st.cols) != fmt.Sprint(ds.cols) {
+			t.Fatalf("touched columns %v, dense %v", st.cols, ds.cols)
+		}
+		closeSlices(t, "t", st.t, ds.t)
+		closeSlices(t, "V", mat.DenseCopyOf(st.V).RawMatrix().Data, ds.V.RawMatrix().Data)
+		closeSlices(t, "AJ", st.AJ.RawMatrix().Data, ds.AJ.RawMatrix().Data)
+		closeSlices(t, "A", st.A.RawMatrix().Data, ds.A.RawMatrix().Data)
+	})
+}
+
+// eachGaussianEntry runs fn, as a subtest, on every entry with Gaussian
+// data of every exactCases campaign, with the entry's others' posterior
+// (whole) and its structured statistic.
+func eachGaussianEntry(t *testing.T, fn func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat)) {
 	for name, c := range exactCases(t) {
 		for ei, ev := range c.evs {
 			if len(ev.Blocks) == 0 {
@@ -180,14 +196,7 @@ func TestPredictiveStructuredExact(t *testing.T) {
 				if !ok {
 					t.Fatal("no statistic")
 				}
-				ds := denseLoo(t, c.full, ei, O)
-				if fmt.Sprint(st.cols) != fmt.Sprint(ds.cols) {
-					t.Fatalf("touched columns %v, dense %v", st.cols, ds.cols)
-				}
-				closeSlices(t, "t", st.t, ds.t)
-				closeSlices(t, "V", mat.DenseCopyOf(st.V).RawMatrix().Data, ds.V.RawMatrix().Data)
-				closeSlices(t, "AJ", st.AJ.RawMatrix().Data, ds.AJ.RawMatrix().Data)
-				closeSlices(t, "A", st.A.RawMatrix().Data, ds.A.RawMatrix().Data)
+				fn(t, c, ei, O, st)
 			})
 		}
 	}
@@ -249,27 +258,15 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 // entry of exactCases: the same formulas in another order (see
 // closeSlices for the tolerance).
 func TestReplicatesStructuredExact(t *testing.T) {
-	for name, c := range exactCases(t) {
-		for ei, ev := range c.evs {
-			if len(ev.Blocks) == 0 {
-				continue
-			}
-			t.Run(name+"/"+ev.Entry, func(t *testing.T) {
-				O := c.lo.others[ei].wholeLocked()
-				st, ok := looPredictive(c.full, ei, O)
-				if !ok {
-					t.Fatal("no statistic")
-				}
-				if st.Vp, _ = st.metric(); st.Vp == nil {
-					t.Fatal("no metric")
-				}
-				got := st.replicates(c.full, ei, O, newRand(c.full.set.Seed, 900+uint64(ei)))
-				want := rowReplicates(c.full, ei, st, O, c.full.set.Seed)
-				if len(got) != referenceReps {
-					t.Fatalf("%d replicates, want %d", len(got), referenceReps)
-				}
-				closeSlices(t, "d²", got, want)
-			})
+	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat) {
+		if st.Vp, _ = st.metric(); st.Vp == nil {
+			t.Fatal("no metric")
 		}
-	}
+		got := st.replicates(c.full, ei, O, newRand(c.full.set.Seed, 900+uint64(ei)))
+		want := rowReplicates(c.full, ei, st, O, c.full.set.Seed)
+		if len(got) != referenceReps {
+			t.Fatalf("%d replicates, want %d", len(got), referenceReps)
+		}
+		closeSlices(t, "d²", got, want)
+	})
 }
