@@ -1,0 +1,134 @@
+package height
+
+import "math"
+
+// Window edges. A hold's first and last samples still belong to the ramps
+// on either side: the band of ±tol admits the speed while the car
+// accelerates towards it or brakes away from it, and the pitch that a
+// ramp's acceleration gives is several millimetres at the axle (8 mm at
+// 1.5 m/s² on the reality simulator's default car), far more than the
+// aerodynamic change. The mean height itself is not biased (the window's
+// mean acceleration carries it, speedEnds), but a few such samples
+// inflate the window's batch variance several-fold, so a correct window
+// would be weighted as a poor one. Discarding the transients at the ends
+// of a steady-state segment is common practice (no source).
+//
+// How long a ramp stays inside the band is read from the speed itself. A
+// ramp of rate r (km/h per s) crosses at most tol km/h inside the band
+// before the hold's level (a window's samples lie within tol of its mean
+// speed, steady.Band), so it lasts at most tol/r s there. The rate is the
+// speed's change over the RateSpanS just before the window's first sample
+// (the approach) and just after its last one (the departure), so each end
+// gets its own edge:
+//
+//	edge = clamp(tol/r, MinEdgeS, EdgeS(tol))
+//
+// A step (a near-instant change of speed) gives MinEdgeS; a ramp of
+// 1.5 m/s² (5.4 km/h/s) at ±1.5 km/h gives 0.28 s, so MinEdgeS; one of
+// 0.7 m/s² gives 0.60 s; one of GentleRampMs2 or gentler, or a rate that
+// cannot be read (the log's start or end, a gap), gives EdgeS(tol). A
+// ramp that began less than RateSpanS before the window reads gentler than
+// it is, so its edge errs long: data lost, not ramp kept.
+
+// GentleRampMs2 is the gentlest ramp whose samples the edge leaves out,
+// m/s²: a gentle, steady run-up on a test track (common practice, no
+// source).
+const GentleRampMs2 = 0.5
+
+// MinEdgeS is the least edge, s: a few samples of a fast log, for a
+// step's last sample and a held speed's lag.
+const MinEdgeS = 0.3
+
+// RateSpanS is the span over which the approach and departure rates are
+// read, s: two updates of a speed logged at 2 Hz (as EndSpanS).
+const RateSpanS = EndSpanS
+
+// EdgeS returns the longest edge of a steady window of speed tolerance
+// tol (km/h), s: the edge for a ramp of GentleRampMs2.
+func EdgeS(tol float64) float64 { return max(MinEdgeS, tol/(3.6*GentleRampMs2)) }
+
+// EdgeFor returns the edge left out at a window's end of speed tolerance
+// tol (km/h) when the speed approaches or leaves it at rate km/h per s;
+// a rate that is not positive (unknown) gives EdgeS(tol).
+func EdgeFor(tol, rate float64) float64 {
+	if !(rate > 0) {
+		return EdgeS(tol)
+	}
+	return min(EdgeS(tol), MinEdgeS+tol/rate)
+}
+
+// rateOver returns |v1 − v0|/(t1 − t0), km/h per s, or 0 (unknown) when
+// the two are less than half RateSpanS apart.
+func rateOver(t0, v0, t1, v1 float64) float64 {
+	if t1-t0 < RateSpanS/2-timeSlack {
+		return 0
+	}
+	return math.Abs(v1-v0) / (t1 - t0)
+}
+
+// timeSlack absorbs the rounding of sample times (s), so that a log's
+// sample period may divide the edge.
+const timeSlack = 1e-9
+
+// delay holds a window's samples until they are the longest edge older
+// than the newest one, so that the samples of a window's last edge seconds
+// — perhaps the start of the ramp that closes it — wait until the
+// departure rate is known (drain). Amortised O(1) per sample; its memory
+// is one edge of samples.
+type delay struct {
+	edge float64 // s
+	buf  []sample
+	head int
+}
+
+// push queues s.
+func (d *delay) push(s sample) { d.buf = append(d.buf, s) }
+
+// pop returns the oldest queued sample if it is at least edge older than
+// now.
+func (d *delay) pop(now, edge float64) (sample, bool) {
+	if d.head == len(d.buf) || now-d.buf[d.head].t < edge-timeSlack {
+		return sample{}, false
+	}
+	s := d.buf[d.head]
+	d.head++
+	if d.head >= 1024 && 2*d.head >= len(d.buf) {
+		d.buf = d.buf[:copy(d.buf, d.buf[d.head:])]
+		d.head = 0
+	}
+	return s, true
+}
+
+// reset drops every queued sample.
+func (d *delay) reset() { d.buf, d.head = d.buf[:0], 0 }
+
+// recent keeps the speeds of the last RateSpanS of samples, for the rate
+// at which the speed approaches a window. Amortised O(1) per sample.
+type recent struct {
+	t, v []float64
+	head int
+}
+
+// push adds a sample and drops those more than RateSpanS older.
+func (r *recent) push(t, v float64) {
+	r.t, r.v = append(r.t, t), append(r.v, v)
+	for r.head < len(r.t) && t-r.t[r.head] > RateSpanS+timeSlack {
+		r.head++
+	}
+	if r.head >= 1024 && 2*r.head >= len(r.t) {
+		r.t = r.t[:copy(r.t, r.t[r.head:])]
+		r.v = r.v[:copy(r.v, r.v[r.head:])]
+		r.head = 0
+	}
+}
+
+// approach returns the rate (km/h per s) from the oldest kept sample no
+// more than RateSpanS before t to a speed v at t; 0 when unknown.
+func (r *recent) approach(t, v float64) float64 {
+	for i := r.head; i < len(r.t); i++ {
+		if t-r.t[i] <= RateSpanS+timeSlack {
+			return rateOver(r.t[i], r.v[i], t, v)
+		}
+	}
+	return 0
+}
