@@ -391,18 +391,21 @@ func (c *win) use(s sample, rho float64) {
 }
 
 // close ends the current window; one long enough waits for the speed
-// after it (settle). A window still pending is settled first with what is
-// known of the speed after it.
+// after it (settle). Only then is a window still pending settled early,
+// with what is known of the speed after it: a short fragment closing
+// (a ramp crossing bands) leaves it pending until add reads RateSpanS of
+// speed after it, or finish ends the log. Settling it on every close read
+// a ramp's first 0.3 s as an unknown rate, so EdgeS (TestWindowEdges).
 func (f *finder) close() {
-	if f.pending {
-		f.settle(f.lastT, f.lastV)
-	}
 	if !f.open {
 		return
 	}
 	f.open = false
 	if f.cur.last-f.cur.opened < f.minDur {
 		return
+	}
+	if f.pending {
+		f.settle(f.lastT, f.lastV)
 	}
 	f.cur, f.pend = f.pend, f.cur
 	f.pending = true
