@@ -197,12 +197,14 @@ func TestMeanAccelError(t *testing.T) {
 				s.add(tt, v)
 			}
 			a, e := s.accel()
-			got, _ := pooledBatchVar([]ends{{sxx: e.sxx, rss: e.rss, dof: e.dof, atSpeed: true}})
+			e.atSpeed = true
+			n := pooledBatchNoise([]ends{e})
+			got := n.v
 			want := tc.wantVar * 0.09
 			if math.Abs(got/want-1) > tc.tol {
 				t.Errorf("batch-mean variance %.4g (km/h)², want %.4g within %.0f %%", got, want, 100*tc.tol)
 			}
-			if se := e.errorOf(got, true); math.Abs(a-tc.rate) > 4*se {
+			if se := e.errorOf(n); math.Abs(a-tc.rate) > 4*se {
 				t.Errorf("acceleration %.5f ± %.3g km/h/s, want %.5f", a, se, tc.rate)
 			}
 		})

@@ -448,15 +448,15 @@ func (f *finder) settle(t, v float64) {
 }
 
 // finish sets each window's acceleration error once the log is read: the
-// variance of a batch mean of the speed is pooled over the log's windows
-// at speed (speedEnds).
+// variance of a batch mean of the speed and the correlation of adjacent
+// ones are pooled over the log's windows at speed (batchnoise.go).
 func (f *finder) finish() {
 	if f.pending {
 		f.settle(f.lastT, f.lastV)
 	}
-	v, ok := pooledBatchVar(f.ends)
+	n := pooledBatchNoise(f.ends)
 	for i := range f.windows {
-		f.windows[i].AccelSE = air.KmhToMs(f.ends[i].errorOf(v, ok))
+		f.windows[i].AccelSE = air.KmhToMs(f.ends[i].errorOf(n))
 	}
 }
 

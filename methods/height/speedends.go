@@ -31,23 +31,23 @@ const EndSpanS = 1.0
 // a(t); a ramp left inside a window (gentler than the edges leave out,
 // edge.go) is under-read, as the slope weights the middle of the window.
 //
+// Adjacent batch means of a correlated speed (a GPS speed, AR(1)) still
+// correlate, so the slope's error allows for it (batchnoise.go).
+//
 // A window shorter than two batches falls back to its first and last
 // speed updates (a sample whose speed differs from the one before: a held
-// value is the speed where it first appears), with the white-noise error
-// of two samples from the steps between updates (von Neumann, Ann. Math.
-// Stat. 12, 1941 — from memory).
+// value is the speed where it first appears); its error is built from the
+// pooled batch variance (batchNoise.errorOf).
 type speedEnds struct {
 	bt0, bst, bsv float64 // the batch being filled: start time, Σt, Σv
 	bn            int
 
-	b                  int     // complete batches
-	t0, v0, t1, v1     float64 // first and last batch means: time (s), speed (km/h)
-	st, sv, stt, stv   float64 // Σx, Σv, Σx², Σxv over batch means, x = t̄ − t0
-	svv                float64 // Σv² over batch means
-	n, m               int     // samples; updates after the first sample
-	last               float64 // last speed, km/h
-	ut0, uv0, ut1, uv1 float64 // first and last update
-	sumStep, sumStep2  float64 // Σ Δv, Σ (Δv)² over the steps between updates
+	bx, bv             []float64 // complete batches' mean times (s), speeds (km/h)
+	inBatches          int       // samples in complete batches
+	n, m               int       // samples; updates after the first sample
+	last               float64   // last speed, km/h
+	ut0, uv0, ut1, uv1 float64   // first and last update
+	sumStep, sumStep2  float64   // Σ Δv, Σ (Δv)² over the steps between updates
 }
 
 func (s *speedEnds) add(t, v float64) {
@@ -77,75 +77,72 @@ func (s *speedEnds) add(t, v float64) {
 
 // batch closes the batch being filled.
 func (s *speedEnds) batch() {
-	tm, vm := s.bst/float64(s.bn), s.bsv/float64(s.bn)
+	s.bx = append(s.bx, s.bst/float64(s.bn))
+	s.bv = append(s.bv, s.bsv/float64(s.bn))
+	s.inBatches += s.bn
 	s.bn, s.bst, s.bsv = 0, 0, 0
-	if s.b == 0 {
-		s.t0, s.v0 = tm, vm
-	}
-	x := tm - s.t0
-	s.st += x
-	s.sv += vm
-	s.stt += x * x
-	s.stv += x * vm
-	s.svv += vm * vm
-	s.t1, s.v1 = tm, vm
-	s.b++
 }
 
 // ends is what a closed window keeps of its speed for its acceleration's
-// error: Σ(t̄_b − t̄)² of its batch means (s²; 0 when it had fewer than
-// two), the residual sum of squares of its batch means about their line
-// ((km/h)²) and its degrees of freedom, and the fallback's error (km/h/s).
+// error: its batch means' times about their mean (s; nil when it had
+// fewer than two), Σ(t̄_b − t̄)², the residual sum of squares of its batch
+// means about their line and the sum of products of adjacent residuals
+// ((km/h)²), its degrees of freedom and samples a batch; for the fallback, the span and count
+// of its speed updates and their step variance ((km/h)², NaN when
+// unknown); and its acceleration (km/h/s).
 type ends struct {
-	sxx, rss   float64
-	dof        int
-	fallbackSE float64
-	atSpeed    bool
+	xc           []float64
+	sxx, rss, c1 float64
+	dof          int
+	perBatch     float64
+	upT          float64
+	upM          int
+	stepVar, a   float64
+	atSpeed      bool
 }
 
 // accel returns the window's mean acceleration in km/h per s and what its
 // error needs.
 func (s *speedEnds) accel() (a float64, e ends) {
+	e.stepVar = math.NaN()
 	if s.m >= 2 && s.ut1 > s.ut0 {
-		T := s.ut1 - s.ut0
-		a = (s.uv1 - s.uv0) / T
+		e.upT, e.upM = s.ut1-s.ut0, s.m-1
+		a = (s.uv1 - s.uv0) / e.upT
 		if k := float64(s.m - 1); k >= 2 {
-			sv2 := max(0, s.sumStep2-s.sumStep*s.sumStep/k) / (2 * (k - 1))
-			e.fallbackSE = math.Sqrt(2*sv2) / T
+			e.stepVar = max(0, s.sumStep2-s.sumStep*s.sumStep/k) / (2 * (k - 1))
 		}
 	}
-	if s.b >= 2 && s.t1 > s.t0 {
-		b := float64(s.b)
-		e.sxx = s.stt - s.st*s.st/b
-		sxv := s.stv - s.st*s.sv/b
+	if b := len(s.bx); b >= 2 && s.bx[b-1] > s.bx[0] {
+		xm, vm := mean(s.bx), mean(s.bv)
+		e.xc = make([]float64, b)
+		sxv := 0.0
+		for i, x := range s.bx {
+			e.xc[i] = x - xm
+			e.sxx += e.xc[i] * e.xc[i]
+			sxv += e.xc[i] * (s.bv[i] - vm)
+		}
 		a = sxv / e.sxx
-		e.rss = max(0, s.svv-s.sv*s.sv/b-sxv*sxv/e.sxx)
-		e.dof = s.b - 2
+		prev := 0.0
+		for i, v := range s.bv {
+			r := v - vm - a*e.xc[i]
+			e.rss += r * r
+			if i > 0 {
+				e.c1 += prev * r
+			}
+			prev = r
+		}
+		e.dof = b - 2
+		e.perBatch = float64(s.inBatches) / float64(b)
 	}
+	e.a = a
 	return a, e
 }
 
-// pooledBatchVar returns the variance of a batch mean pooled over the
-// windows at speed, (km/h)², and whether any window could tell it.
-func pooledBatchVar(es []ends) (float64, bool) {
-	rss, dof := 0.0, 0
-	for _, e := range es {
-		if e.atSpeed && e.dof > 0 {
-			rss += e.rss
-			dof += e.dof
-		}
+// mean returns the mean of xs.
+func mean(xs []float64) float64 {
+	s := 0.0
+	for _, x := range xs {
+		s += x
 	}
-	if dof == 0 {
-		return 0, false
-	}
-	return rss / float64(dof), true
-}
-
-// errorOf returns a window's acceleration error (km/h/s) given the pooled
-// batch variance v (ok: there is one).
-func (e ends) errorOf(v float64, ok bool) float64 {
-	if e.sxx > 0 && ok {
-		return math.Sqrt(v / e.sxx)
-	}
-	return e.fallbackSE
+	return s / float64(len(xs))
 }
