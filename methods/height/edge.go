@@ -21,14 +21,24 @@ import "math"
 // (the approach) and just after its last one (the departure), so each end
 // gets its own edge:
 //
-//	edge = clamp(tol/r, MinEdgeS, EdgeS(tol))
+//	edge = min(EdgeS(tol), MinEdgeS + tol/r)
 //
-// A step (a near-instant change of speed) gives MinEdgeS; a ramp of
-// 1.5 m/s² (5.4 km/h/s) at ±1.5 km/h gives 0.28 s, so MinEdgeS; one of
-// 0.7 m/s² gives 0.60 s; one of GentleRampMs2 or gentler, or a rate that
-// cannot be read (the log's start or end, a gap), gives EdgeS(tol). A
-// ramp that began less than RateSpanS before the window reads gentler than
-// it is, so its edge errs long: data lost, not ramp kept.
+// MinEdgeS keeps a margin for a ramp's corner, which a 1 s look reads
+// slower than its steepest part. At ±1.5 km/h a step (a near-instant
+// change of speed) gives 0.30–0.34 s, a ramp of 1.5 m/s² (5.4 km/h/s)
+// 0.58 s, one of 0.7 m/s² or GentleRampMs2 or gentler, or a rate that
+// cannot be read (the log's start or end), EdgeS(tol) = 0.83 s. A window
+// closed by a gap in the log is settled by the first sample across it:
+// its departure rate is |Δv| over the gap's span (over 1 s), so a gap
+// with little change of speed reads gentle and gives EdgeS(tol). The rule
+// bounds a ramp of constant rate; one that eases in (jerk-limited) is
+// kept until its speed has moved about tol, not for a fixed time: in a
+// scratch run of smoothstep ramps of 40 km/h peaking at 0.5–3 m/s², logged
+// at 10 Hz, the window kept 3.0–0.15 s of the ramp's start, up to where
+// its acceleration reached about 0.35 m/s²; with the speed held at 2 Hz,
+// 3.4–0.48 s, up to 0.9 m/s² at the steepest. The window's slope
+// (speedEnds) carries that mean acceleration; it is ramp kept, not data
+// lost.
 
 // GentleRampMs2 is the gentlest ramp whose samples the edge leaves out,
 // m/s²: a gentle, steady run-up on a test track (common practice, no
