@@ -142,3 +142,50 @@ func (r *recent) approach(t, v float64) float64 {
 	}
 	return 0
 }
+
+// holdLag measures how long a logged speed is held between updates: a
+// speed logged at a lower rate than the file (a 2 Hz GPS speed in a 10 Hz
+// file, its cells held) shows a hold's level for up to one update interval
+// after the car has left it, so a window's last admitted sample may be
+// that far into the ramp. The lag is the shortest interval between
+// changes of the speed no longer than RateSpanS, less the shortest sample
+// step: 0 for a speed that changes every sample (noise, a ramp), 0.1 s at
+// 5 Hz and 0.4 s at 2 Hz in a 10 Hz file. Until the speed has changed
+// twice within RateSpanS it is 0. MinEdgeS already covers a lag up to
+// itself, so the departure edge is max(MinEdgeS, lag) + tol/r (capped as
+// EdgeFor, plus the excess): TestWindowEdges over 7 phases used a ramp
+// sample at 2 Hz without it (1 of 7 phases, 0.03 s in). Adding the whole
+// lag to MinEdgeS was tried: the 2 Hz day of
+// TestLoggerFormatsGiveTheSameDay then moved 0.272 sd (bar 0.25), against
+// 0.158 sd so.
+type holdLag struct {
+	t, v, upd          float64 // the last sample and the last change, s and km/h
+	n                  int     // samples seen
+	changed            bool    // upd is set
+	sampleDT, updateDT float64 // shortest step, shortest interval between changes (s; 0 unknown)
+}
+
+// observe takes a sample's time t (s) and speed v (km/h).
+func (h *holdLag) observe(t, v float64) {
+	if h.n > 0 {
+		if dt := t - h.t; dt > 0 && (h.sampleDT == 0 || dt < h.sampleDT) {
+			h.sampleDT = dt
+		}
+		if v != h.v {
+			if iv := t - h.upd; h.changed && iv <= RateSpanS+timeSlack && (h.updateDT == 0 || iv < h.updateDT) {
+				h.updateDT = iv
+			}
+			h.upd, h.changed = t, true
+		}
+	}
+	h.t, h.v = t, v
+	h.n++
+}
+
+// lag returns the hold's lag, s.
+func (h *holdLag) lag() float64 {
+	if h.updateDT == 0 {
+		return 0
+	}
+	return max(0, h.updateDT-h.sampleDT)
+}

@@ -307,6 +307,7 @@ type finder struct {
 	open      bool
 	pending   bool
 	hist      recent  // the last RateSpanS of speeds, for the approach rate
+	held      holdLag // a held speed's lag, added to the departure edge
 	lastT     float64 // the latest sample: time (s), speed (km/h)
 	lastV     float64
 	ends      []ends // of each window, for its acceleration's error (finish)
@@ -326,13 +327,14 @@ type win struct {
 	sumQA, sumVA float64 // Σ q_air (Pa), Σ V_air (m/s)
 	probe        bool
 	h            steady.Stats
-	tail         delay // its last EdgeS(tol) of samples, not yet used
+	tail         delay // its last EdgeS(tol) + held lag of samples, not yet used
 }
 
 func (f *finder) add(s sample, config string, dir int) {
 	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
 		f.settle(s.t, s.v)
 	}
+	f.held.observe(s.t, s.v)
 	f.admit(s, config, dir)
 	f.hist.push(s.t, s.v)
 	f.lastT, f.lastV = s.t, s.v
@@ -356,8 +358,8 @@ func (f *finder) admit(s sample, config string, dir int) {
 		tail.reset()
 		*c = win{config: config, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
 			lead: EdgeFor(f.tol, f.hist.approach(s.t, s.v))}
-		c.tail.edge = EdgeS(f.tol)
 	}
+	c.tail.edge = EdgeS(f.tol) + f.held.lag()
 	c.last, c.lastV = s.t, s.v
 	c.speed.Add(s.v)
 	if s.t-c.opened < c.lead-timeSlack {
@@ -412,11 +414,12 @@ func (f *finder) close() {
 }
 
 // settle uses the pending window's last samples but its departure edge,
-// read from the speed v at t after it, and keeps the window.
+// read from the speed v at t after it (and a held speed's lag beyond
+// MinEdgeS, holdLag), and keeps the window.
 func (f *finder) settle(t, v float64) {
 	f.pending = false
 	c := &f.pend
-	edge := EdgeFor(f.tol, rateOver(c.last, c.lastV, t, v))
+	edge := min(EdgeFor(f.tol, rateOver(c.last, c.lastV, t, v))+max(0, f.held.lag()-MinEdgeS), c.tail.edge)
 	for {
 		u, ok := c.tail.pop(c.last, edge)
 		if !ok {
