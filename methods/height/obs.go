@@ -22,10 +22,9 @@ import (
 // drift, plus c_i·d_r, the run-to-run wind deviation d_r ~ N(0, σ_g²) of
 // the window's run (package gust), a nuisance shared by every sensor of
 // the log, with c_i the pilot's sensitivity. ε has the window's variance
-// (standard error², the friction band's f²/3 at speed and the
-// acceleration estimate's share). Windows at rest share instead one more
-// nuisance per axle, the offset at which friction holds the body after a
-// stop (RestName).
+// (standard error², the friction band's f²/3 and the acceleration
+// estimate's share). Windows at rest share one more nuisance per axle, the
+// offset at which friction holds the body after a stop (RestName).
 type builder struct {
 	c     *campaign.Campaign
 	e     *campaign.RideHeightEntry
@@ -251,15 +250,10 @@ func (b *builder) airspeed(w Window) evidence.Airspeed {
 }
 
 // variance is a window's own error variance (mm²): its standard error², the
-// friction band's f²/3 (a uniform error of half-width f) at speed and the
-// share of its acceleration estimate's error. A window at rest has no f²/3:
-// its friction is the shared rest offset of sd f (RestName), and both
-// would give it 4/3·f², more than the band allows.
+// friction band's f²/3 (a uniform error of half-width f) and the share of
+// its acceleration estimate's error.
 func (b *builder) variance(w Window) float64 {
 	f := b.e.FrictionMm
-	if w.SpeedKmh < standstillKmh {
-		f = 0
-	}
 	return w.SE*w.SE + f*f/3 + accelVar(b.c.Vehicle, b.res.Lever, w) + 1e-12
 }
 
