@@ -1,47 +1,8 @@
 package height
 
 import (
-	"math"
-
 	"liftfuse/methods/campaign"
 )
-
-// speedEnds tracks what a window's mean acceleration needs: its first and
-// last speed and the sum of squared steps between samples.
-type speedEnds struct {
-	n           int
-	first, last float64 // km/h
-	sumStep2    float64 // Σ (v_i − v_{i−1})², (km/h)²
-}
-
-func (s *speedEnds) add(v float64) {
-	if s.n == 0 {
-		s.first = v
-	} else {
-		d := v - s.last
-		s.sumStep2 += d * d
-	}
-	s.last = v
-	s.n++
-}
-
-// accel returns the window's mean acceleration over its span T (s), in
-// km/h per s, and its standard error. The height responds to the
-// acceleration at each instant, so a window's mean height carries the
-// mean of a(t), which is exactly (v_last − v_first)/T — not the
-// least-squares slope, which weights the middle of the window and misses a
-// ramp's first samples at the edge of a standstill window (they carry
-// several mm of pitch). The error is that of two speed samples,
-// √2·σ_v/T, with σ_v² = Σ(Δv)²/(2(n − 1)) the speed sensor's white noise
-// estimated from successive differences (von Neumann, Ann. Math. Stat.
-// 12, 1941 — from memory), which a smooth true speed barely enters.
-func (s *speedEnds) accel(T float64) (a, se float64) {
-	if s.n < 2 || T <= 0 {
-		return 0, 0
-	}
-	sv2 := s.sumStep2 / (2 * float64(s.n-1))
-	return (s.last - s.first) / T, math.Sqrt(2*sv2) / T
-}
 
 // CGHeightName is the nuisance name of the centre-of-gravity height h_cg
 // (m), shared by every ride-height entry of the car.

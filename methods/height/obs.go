@@ -23,7 +23,8 @@ import (
 // the window's run (package gust), a nuisance shared by every sensor of
 // the log, with c_i the pilot's sensitivity. ε has the window's variance
 // (standard error², the friction band's f²/3 and the acceleration
-// estimate's share).
+// estimate's share). Windows at rest share one more nuisance per axle, the
+// offset at which friction holds the body after a stop (RestName).
 type builder struct {
 	c     *campaign.Campaign
 	e     *campaign.RideHeightEntry
@@ -128,6 +129,12 @@ func (b *builder) declare(used map[string]bool) ([]evidence.ScaleGroup, []eviden
 			}
 		}
 	}
+	for _, s := range b.res.Lever.Axles {
+		if used[RestName(s.Axle)] {
+			ns = append(ns, evidence.Nuisance{Name: RestName(s.Axle), Label: s.Axle + " axle's height where friction holds it at rest",
+				Unit: "mm", SD: RestSD(b.c, s.Axle)})
+		}
+	}
 	for li := range b.e.Logs {
 		if !used[b.offsetName(li)] {
 			continue
@@ -138,6 +145,34 @@ func (b *builder) declare(used map[string]bool) ([]evidence.ScaleGroup, []eviden
 		}
 	}
 	return sc, ns
+}
+
+// RestName names an axle's rest offset: where the friction band holds the
+// body at rest. Braking to a stop moves load forward; when the car stands
+// the load returns, and the suspension follows it only until friction
+// holds it, at the same side of the band after every stop (the front low,
+// the rear high). So the windows at rest share an offset within ±f, which
+// is not the f²/3 of independent scatter a window at speed has (road
+// inputs shake the body about inside the band there). It is the body's,
+// so every sensor reading the axle shares it: a nuisance of sd f on the
+// windows at rest, with the sensor's lever weight, so that the standstill
+// windows do not pin the static offset tighter than friction allows, and
+// two sensors on one axle are still compared as tightly as their own
+// errors allow. Play (backlash) in a suspension with Coulomb friction:
+// common practice (no source).
+func RestName(axle string) string { return "rest-stick/" + axle }
+
+// RestSD is the sd of an axle's rest offset (mm): the widest friction band
+// friction_mm states among the ride-height entries on the axle, so that
+// every entry declares the shared nuisance alike.
+func RestSD(c *campaign.Campaign, axle string) float64 {
+	f := 0.0
+	for _, e := range c.Evidence.RideHeight {
+		if e.Axle == axle {
+			f = max(f, e.FrictionMm)
+		}
+	}
+	return f
 }
 
 func (b *builder) offsetName(li int) string { return fmt.Sprintf("%s/offset[%d]", b.e.ID, li) }
@@ -191,6 +226,13 @@ func (b *builder) obs(li, i int, w Window, tbar float64) evidence.Obs {
 	}
 	if b.e.Drift {
 		o.Nuis = append(o.Nuis, evidence.Coef{Name: b.driftName(li), C: (w.From+w.To)/2 - tbar})
+	}
+	if w.SpeedKmh < standstillKmh {
+		for _, s := range b.res.Lever.Axles {
+			if RestSD(b.c, s.Axle) > 0 {
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: RestName(s.Axle), C: s.W})
+			}
+		}
 	}
 	if k := accelCoef(b.c.Vehicle, b.res.Lever, w.AccelMs2); k != 0 {
 		o.Nuis = append(o.Nuis, evidence.Coef{Name: CGHeightName, C: k})

@@ -30,8 +30,8 @@ type Window struct {
 	SE        float64 // standard error of the mean height, mm (friction not included)
 	Scatter   float64 // standard deviation of the samples within the window, mm
 	// AccelMs2 is the window's mean longitudinal acceleration (m/s²),
-	// the change of ground speed over its span, and AccelSE its standard
-	// error (see speedEnds.accel).
+	// the slope of its speed's 1 s means, and AccelSE its standard error
+	// (see speedEnds).
 	AccelMs2, AccelSE float64
 	// Probe is true when the log carries a measured airspeed: Q is then
 	// the mean of ½ρV_air² (or of the logged q) and AirKmh the mean
@@ -154,6 +154,7 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 			return nil, err
 		}
 		p.f.close()
+		p.f.finish()
 	}
 	return ps, nil
 }
@@ -292,27 +293,55 @@ func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err
 // the log has no airspeed).
 type sample struct{ t, v, h, qa float64 }
 
-// finder splits a stream of samples into steady windows.
+// finder splits a stream of samples into steady windows. A window's span
+// (for its band and minimum duration) is every sample admitted; its
+// statistics leave out an edge at each end, read from the rates at which
+// the speed approaches and leaves it (edge.go). So a closed window waits
+// (pending) until RateSpanS of the speed after it is known.
 type finder struct {
 	tol, minDur, rho float64
 	log              int
 
-	windows []Window
-	cur     struct {
-		config       string
-		dir          int
-		from, to     float64
-		speed        steady.Band
-		sumV2        float64 // Σ V², (km/h)²
-		ends         speedEnds
-		sumQA, sumVA float64 // Σ q_air (Pa), Σ V_air (m/s)
-		probe        bool
-		h            steady.Stats
-	}
-	open bool
+	windows   []Window
+	cur, pend win
+	open      bool
+	pending   bool
+	hist      recent  // the last RateSpanS of speeds, for the approach rate
+	held      holdLag // a held speed's lag, added to the departure edge
+	lastT     float64 // the latest sample: time (s), speed (km/h)
+	lastV     float64
+	ends      []ends // of each window, for its acceleration's error (finish)
+}
+
+// win is a window being read.
+type win struct {
+	config       string
+	dir          int
+	opened, last float64 // the admitted span, s
+	lastV        float64 // the last admitted speed, km/h
+	lead         float64 // the edge left out at its start, s
+	from, to     float64 // the span of the samples used, s
+	speed        steady.Band
+	sumV, sumV2  float64 // Σ V (km/h), Σ V² ((km/h)²) of the samples used
+	ends         speedEnds
+	sumQA, sumVA float64 // Σ q_air (Pa), Σ V_air (m/s)
+	probe        bool
+	h            steady.Stats
+	tail         delay // its last EdgeS(tol) + held lag of samples, not yet used
 }
 
 func (f *finder) add(s sample, config string, dir int) {
+	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
+		f.settle(s.t, s.v)
+	}
+	f.held.observe(s.t, s.v)
+	f.admit(s, config, dir)
+	f.hist.push(s.t, s.v)
+	f.lastT, f.lastV = s.t, s.v
+}
+
+// admit puts a sample in the current window, opening one if need be.
+func (f *finder) admit(s sample, config string, dir int) {
 	c := &f.cur
 	if f.open && (config != c.config || dir != c.dir) {
 		f.close()
@@ -320,55 +349,118 @@ func (f *finder) add(s sample, config string, dir int) {
 	if config == "" {
 		return
 	}
-	v := s.v
-	if f.open && !c.speed.Admits(v, f.tol) {
+	if f.open && !c.speed.Admits(s.v, f.tol) {
 		f.close()
 	}
 	if !f.open {
 		f.open = true
-		c.config, c.dir, c.from = config, dir, s.t
-		c.speed, c.sumV2 = steady.Band{}, 0
-		c.ends = speedEnds{}
-		c.sumQA, c.sumVA, c.probe = 0, 0, !math.IsNaN(s.qa)
-		c.h = steady.Stats{}
+		tail := c.tail
+		tail.reset()
+		*c = win{config: config, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
+			lead: EdgeFor(f.tol, f.hist.approach(s.t, s.v))}
+	}
+	c.tail.edge = EdgeS(f.tol) + f.held.lag()
+	c.last, c.lastV = s.t, s.v
+	c.speed.Add(s.v)
+	if s.t-c.opened < c.lead-timeSlack {
+		return
+	}
+	c.tail.push(s)
+	for {
+		u, ok := c.tail.pop(s.t, c.tail.edge)
+		if !ok {
+			break
+		}
+		c.use(u, f.rho)
+	}
+}
+
+// use adds a sample, clear of the window's edges, to its statistics.
+func (c *win) use(s sample, rho float64) {
+	if c.h.N() == 0 {
+		c.from = s.t
 	}
 	c.to = s.t
-	c.speed.Add(v)
-	c.sumV2 += v * v // q and (V/100 km/h)² are both ∝ V²: summed once
-	c.ends.add(v)
+	c.sumV += s.v
+	c.sumV2 += s.v * s.v // q and (V/100 km/h)² are both ∝ V²: summed once
+	c.ends.add(s.t, s.v)
 	if c.probe {
 		qa := max(s.qa, 0)
 		c.sumQA += qa
-		c.sumVA += math.Sqrt(2 * qa / f.rho)
+		c.sumVA += math.Sqrt(2 * qa / rho)
 	}
 	c.h.Add(s.h)
 }
 
+// close ends the current window; one long enough waits for the speed
+// after it (settle). Only then is a window still pending settled early,
+// with what is known of the speed after it: a short fragment closing
+// (a ramp crossing bands) leaves it pending until add reads RateSpanS of
+// speed after it, or finish ends the log. Settling it on every close read
+// a ramp's first 0.3 s as an unknown rate, so EdgeS (TestWindowEdges).
 func (f *finder) close() {
 	if !f.open {
 		return
 	}
 	f.open = false
-	c := &f.cur
-	if c.to-c.from < f.minDur || c.h.N() < 3 {
+	if f.cur.last-f.cur.opened < f.minDur {
+		return
+	}
+	if f.pending {
+		f.settle(f.lastT, f.lastV)
+	}
+	f.cur, f.pend = f.pend, f.cur
+	f.pending = true
+}
+
+// settle uses the pending window's last samples but its departure edge,
+// read from the speed v at t after it (and a held speed's lag beyond
+// MinEdgeS, holdLag), and keeps the window.
+func (f *finder) settle(t, v float64) {
+	f.pending = false
+	c := &f.pend
+	edge := min(EdgeFor(f.tol, rateOver(c.last, c.lastV, t, v))+max(0, f.held.lag()-MinEdgeS), c.tail.edge)
+	for {
+		u, ok := c.tail.pop(c.last, edge)
+		if !ok {
+			break
+		}
+		c.use(u, f.rho)
+	}
+	if c.h.N() < 3 {
 		return
 	}
 	n := float64(c.h.N())
 	se, neff := c.h.StandardError()
-	slope, slopeSE := c.ends.accel(c.to - c.from)
+	slope, e := c.ends.accel()
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
-		N: c.h.N(), NEff: neff, SpeedKmh: c.speed.Mean(),
+		N: c.h.N(), NEff: neff, SpeedKmh: c.sumV / n,
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),
-		AccelMs2: air.KmhToMs(slope), AccelSE: air.KmhToMs(slopeSE),
+		AccelMs2: air.KmhToMs(slope),
 	}
+	e.atSpeed = w.SpeedKmh >= standstillKmh
+	f.ends = append(f.ends, e)
 	w.AirKmh = w.SpeedKmh
 	if c.probe {
 		w.Probe, w.Q, w.AirKmh = true, c.sumQA/n, air.MsToKmh(c.sumVA/n)
 	}
 	f.windows = append(f.windows, w)
+}
+
+// finish sets each window's acceleration error once the log is read: the
+// variance of a batch mean of the speed and the correlation of adjacent
+// ones are pooled over the log's windows at speed (batchnoise.go).
+func (f *finder) finish() {
+	if f.pending {
+		f.settle(f.lastT, f.lastV)
+	}
+	n := pooledBatchNoise(f.ends)
+	for i := range f.windows {
+		f.windows[i].AccelSE = air.KmhToMs(f.ends[i].errorOf(n))
+	}
 }
 
 // openLog opens a log and reports its size for progress.

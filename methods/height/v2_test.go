@@ -82,12 +82,15 @@ func TestProbe(t *testing.T) {
 	c := simulate(t, 3, truth{fs: 1, rs: 1, growSD: 0.5})
 	c.Air.ProbeSDPct = 3
 	name := probeLog(t, c.Density())
-	// The mean of ½ρV² over the hold, worked here from the same samples.
+	// The mean of ½ρV² over the hold, worked here from the same samples:
+	// those of 12–27.9 s but the edge at each end: the speed steps by
+	// 100 km/h, read as a rate over RateSpanS (edge.go).
+	edge := height.EdgeFor(c.Evidence.RideHeight[0].Steady.SpeedTolKmh, 100/height.RateSpanS)
 	var sum float64
 	n := 0
 	for i := range 400 {
 		tt := 0.1 * float64(i)
-		if tt >= 12 && tt < 28 {
+		if tt >= 12+edge-1e-9 && tt <= 27.9-edge+1e-9 {
 			sum += air.DynamicPressure(c.Density(), air.KmhToMs(110+2*math.Sin(tt)))
 			n++
 		}
