@@ -52,8 +52,9 @@ func agreementOf(t *testing.T, res *fuse.Result, id string) *fuse.Agreement {
 // and others' covariances are added); on the same day without the fault
 // neither pot is rejected. With the fault, the data cannot tell which of
 // the two pots is wrong (the taps are too loose to say): both are
-// suspects. The headline is the robust fusion's, down-weighting the pots
-// whose P(off) exceeds ½, if any (model.md's rule), else the plain one;
+// suspects, each with P(off) ≥ 0.2 (0.02 on the clean day). The headline
+// is the robust fusion's, down-weighting the pots whose P(off) exceeds ½,
+// if any (model.md's rule; no data are condemned here), else the plain one;
 // either way it covers the truth (0.10 and 0.12 m², the spec's values)
 // within 3 sd. (P(off) of both pots was 0.73 while a window's acceleration
 // error read 1.6 times too small; with it honest it is 0.41, p 0.004 and
@@ -82,6 +83,11 @@ func TestTwoPotGainFault(t *testing.T) {
 				}
 				if ag.POff > 0.5 {
 					off = append(off, id)
+				}
+				// The robust layer must see the fault too: P(off) 0.41 with
+				// it, 0.02 without (measured); 0.2 is ten clean days' worth.
+				if tc.reject && ag.POff < 0.2 {
+					t.Errorf("%s: P(off) = %.2f with the fault, want ≥ 0.2", id, ag.POff)
 				}
 			}
 			res := f.Result
