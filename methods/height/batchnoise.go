@@ -42,7 +42,14 @@ import "math"
 // JRSS Suppl. 8, 1946, effective number of observations — from memory).
 // A negative correlation is read as none (no deflation). A window of
 // three batches tells nothing of φ (its residuals are ∝ (1, −2, 1)), so a
-// log of only such windows reads its speed as white.
+// log of only such windows cannot read it; rather than take its speed as
+// white (at φ = 0.9 that stated the error 1.6× too small), it takes the
+// noise's correlation time to be EndSpanS, the span chosen as about a GPS
+// speed's (above): φ = exp(−1/n̄) a sample, n̄ the mean samples a batch
+// (0.905 at 10 Hz, adjacent batch means correlating about 0.5). That is
+// conservative for a white speed (its error reads too large) and right
+// for the noise EndSpanS was chosen for; a speed correlated for much
+// longer than EndSpanS would still read too small an error.
 type batchNoise struct {
 	v, phi float64 // σ_b² ((km/h)²), φ a sample
 	ok     bool    // some window at speed had a degree of freedom
@@ -67,6 +74,11 @@ func pooledBatchNoise(es []ends) batchNoise {
 	if len(use) == 0 {
 		return batchNoise{}
 	}
+	readable, nbar := false, 0.0
+	for _, e := range use {
+		readable = readable || len(e.xc) >= 4
+		nbar += e.perBatch / float64(len(use))
+	}
 	moments := func(phi float64) (e0, e1 float64) {
 		for _, e := range use {
 			m0, m1, _ := e.residualMoments(phi)
@@ -76,7 +88,10 @@ func pooledBatchNoise(es []ends) batchNoise {
 		return e0, e1
 	}
 	phi := 0.0
-	if c0 > 0 {
+	switch {
+	case !readable:
+		phi = math.Exp(-1 / nbar)
+	case c0 > 0:
 		r := c1 / c0
 		ratio := func(phi float64) float64 { e0, e1 := moments(phi); return e1 / e0 }
 		if r > ratio(0)+1e-9 { // windows of three batches give r = ratio(φ) for all φ
@@ -177,6 +192,13 @@ func lagDot(p, q []float64) float64 {
 // updates (white noise: von Neumann, Ann. Math. Stat. 12, 1941 — from
 // memory), and with nothing known to |a|: an acceleration is never
 // stated exact when its error cannot be read.
+//
+// The slope's variance is floored at that of white rounding noise of the
+// window's speed quantum q (its least step), q²/12 a sample (a uniform
+// rounding error: Sheppard's correction — from memory) over the samples
+// a batch, over Sxx, so that a held, quantised speed whose batch means
+// lie on a line is not stated exact (the residuals are then 0, or
+// rounding, from which no φ can be read).
 func (e ends) errorOf(n batchNoise) float64 {
 	tau := 0.0
 	if e.upM > 0 {
@@ -186,7 +208,7 @@ func (e ends) errorOf(n batchNoise) float64 {
 		switch {
 		case n.ok:
 			_, _, wRw := e.residualMoments(n.phi)
-			return math.Sqrt(n.v * wRw / e.sxx)
+			return math.Sqrt(max(n.v*wRw, e.q*e.q/12/e.perBatch) / e.sxx)
 		case tau > 0 && !math.IsNaN(e.stepVar):
 			return math.Sqrt(e.stepVar * tau / EndSpanS / e.sxx)
 		}

@@ -170,8 +170,11 @@ func TestReduceWindowsAndWarnings(t *testing.T) {
 		// A window's admitted span is at least its 4 s, but its
 		// statistics leave out up to EdgeS (0.83 s here) at each end, so
 		// the span used is at least 4 − 2·EdgeS less one 0.1 s sample
-		// period: 2.23 s, by construction (shortest measured 2.60 s,
-		// wing at rest, 27 samples). A window at rest whose height still
+		// period: 2.23 s for a speed logged every sample, as this log's
+		// is (shortest measured 2.60 s, wing at rest, 27 samples); a
+		// speed logged slower would move the departure edge by its lag
+		// as well (EdgeS + lag, up to 1.23 s at 2 Hz), and this bound
+		// would not hold. A window at rest whose height still
 		// settles reads a lag-one correlation of 0.99 or more, and
 		// steady.EffectiveN floors n_eff at 1 (SE = scatter): measured
 		// least 1.000 (base at rest, 191.6-196.6 s, 51 samples), next

@@ -39,8 +39,8 @@ const EndSpanS = 1.0
 // value is the speed where it first appears); its error is built from the
 // pooled batch variance (batchNoise.errorOf).
 type speedEnds struct {
-	bt0, bst, bsv float64 // the batch being filled: start time, Σt, Σv
-	bn            int
+	bt0, bt1, bst, bsv float64 // the batch being filled: first and last time, Σt, Σv
+	bn                 int
 
 	bx, bv             []float64 // complete batches' mean times (s), speeds (km/h)
 	inBatches          int       // samples in complete batches
@@ -48,6 +48,7 @@ type speedEnds struct {
 	last               float64   // last speed, km/h
 	ut0, uv0, ut1, uv1 float64   // first and last update
 	sumStep, sumStep2  float64   // Σ Δv, Σ (Δv)² over the steps between updates
+	t0, minStep        float64   // first time (s); least |Δv| of an update (km/h)
 }
 
 func (s *speedEnds) add(t, v float64) {
@@ -57,6 +58,10 @@ func (s *speedEnds) add(t, v float64) {
 	if s.bn == 0 {
 		s.bt0 = t
 	}
+	if s.n == 0 {
+		s.t0 = t
+	}
+	s.bt1 = t
 	s.bn++
 	s.bst += t
 	s.bsv += v
@@ -65,6 +70,9 @@ func (s *speedEnds) add(t, v float64) {
 			s.ut0, s.uv0 = t, v
 		} else {
 			d := v - s.last
+			if s.minStep == 0 || math.Abs(d) < s.minStep {
+				s.minStep = math.Abs(d)
+			}
 			s.sumStep += d
 			s.sumStep2 += d * d
 		}
@@ -85,11 +93,13 @@ func (s *speedEnds) batch() {
 
 // ends is what a closed window keeps of its speed for its acceleration's
 // error: its batch means' times about their mean (s; nil when it had
-// fewer than two), Σ(t̄_b − t̄)², the residual sum of squares of its batch
-// means about their line and the sum of products of adjacent residuals
-// ((km/h)²), its degrees of freedom and samples a batch; for the fallback, the span and count
-// of its speed updates and their step variance ((km/h)², NaN when
-// unknown); and its acceleration (km/h/s).
+// fewer than two), Σ(t̄_b − t̄)², the residual sum of squares of its
+// batch means about their line and the sum of products of adjacent
+// residuals ((km/h)²), its degrees of freedom and samples a batch; for
+// the fallback, the span and count of its speed updates and their step
+// variance ((km/h)², NaN when unknown); its least speed step (the
+// speed's quantum q, km/h; 0 when it never changed); and its
+// acceleration (km/h/s).
 type ends struct {
 	xc           []float64
 	sxx, rss, c1 float64
@@ -98,13 +108,26 @@ type ends struct {
 	upT          float64
 	upM          int
 	stepVar, a   float64
+	q            float64
 	atSpeed      bool
 }
 
 // accel returns the window's mean acceleration in km/h per s and what its
-// error needs.
+// error needs. The batch still being filled counts when it spans at
+// least EndSpanS less one sample period (the window's mean), so that a
+// complete last batch (10 samples at 10 Hz span 0.9 s) is not dropped.
 func (s *speedEnds) accel() (a float64, e ends) {
 	e.stepVar = math.NaN()
+	e.q = s.minStep
+	bx, bv, inBatches := s.bx, s.bv, s.inBatches
+	if s.n > 1 && s.bn > 0 {
+		dt := (s.bt1 - s.t0) / float64(s.n-1)
+		if s.bt1-s.bt0 >= EndSpanS-dt-timeSlack {
+			bx = append(bx[:len(bx):len(bx)], s.bst/float64(s.bn))
+			bv = append(bv[:len(bv):len(bv)], s.bsv/float64(s.bn))
+			inBatches += s.bn
+		}
+	}
 	if s.m >= 2 && s.ut1 > s.ut0 {
 		e.upT, e.upM = s.ut1-s.ut0, s.m-1
 		a = (s.uv1 - s.uv0) / e.upT
@@ -112,18 +135,18 @@ func (s *speedEnds) accel() (a float64, e ends) {
 			e.stepVar = max(0, s.sumStep2-s.sumStep*s.sumStep/k) / (2 * (k - 1))
 		}
 	}
-	if b := len(s.bx); b >= 2 && s.bx[b-1] > s.bx[0] {
-		xm, vm := mean(s.bx), mean(s.bv)
+	if b := len(bx); b >= 2 && bx[b-1] > bx[0] {
+		xm, vm := mean(bx), mean(bv)
 		e.xc = make([]float64, b)
 		sxv := 0.0
-		for i, x := range s.bx {
+		for i, x := range bx {
 			e.xc[i] = x - xm
 			e.sxx += e.xc[i] * e.xc[i]
-			sxv += e.xc[i] * (s.bv[i] - vm)
+			sxv += e.xc[i] * (bv[i] - vm)
 		}
 		a = sxv / e.sxx
 		prev := 0.0
-		for i, v := range s.bv {
+		for i, v := range bv {
 			r := v - vm - a*e.xc[i]
 			e.rss += r * r
 			if i > 0 {
@@ -132,7 +155,7 @@ func (s *speedEnds) accel() (a float64, e ends) {
 			prev = r
 		}
 		e.dof = b - 2
-		e.perBatch = float64(s.inBatches) / float64(b)
+		e.perBatch = float64(inBatches) / float64(b)
 	}
 	e.a = a
 	return a, e
