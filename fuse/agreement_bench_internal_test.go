@@ -2,13 +2,10 @@ package fuse
 
 import (
 	"fmt"
-	"strings"
 	"sync"
 	"testing"
 
-	"liftfuse/methods"
 	"liftfuse/methods/evidence"
-	"liftfuse/methods/sim"
 )
 
 // looCase is a campaign of n configurations reduced and fitted once per
@@ -33,21 +30,17 @@ func scaleLoo(tb testing.TB, n int) *looCase {
 	if c, ok := looCases[n]; ok {
 		return c
 	}
-	cp, _, err := sim.Build(strings.NewReader(scaleSpec(tb, n)), "scale.yaml", tb.TempDir())
-	if err != nil {
-		tb.Fatal(err)
-	}
-	r, err := methods.Reduce(cp, methods.Options{})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	var ids []string
-	for _, cf := range cp.Configurations {
-		ids = append(ids, cf.ID)
-	}
+	evs, ids := scaleEvidence(tb, n)
 	set := Settings{Configs: ids, Seed: 1, Credible: 0.9}.withDefaults()
 	set.reference = "baseline"
-	evs := r.Evidence()
+	c := newLooCase(tb, evs, set)
+	looCases[n] = c
+	return c
+}
+
+// newLooCase fits the campaign of evs and its leave-one-out fits.
+func newLooCase(tb testing.TB, evs []evidence.Evidence, set Settings) *looCase {
+	tb.Helper()
 	full, err := newModel(evs, set)
 	if err != nil {
 		tb.Fatal(err)
@@ -60,9 +53,7 @@ func scaleLoo(tb testing.TB, n int) *looCase {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	c := &looCase{full: full, evs: evs, lo: lo}
-	looCases[n] = c
-	return c
+	return &looCase{full: full, evs: evs, lo: lo}
 }
 
 // BenchmarkAgreementParts times the agreement of each entry of the

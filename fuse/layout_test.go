@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"liftfuse/methods"
+	"liftfuse/methods/evidence"
 	"liftfuse/methods/sim"
 )
 
@@ -17,23 +18,31 @@ import (
 // of scaleSpec.
 func scaleModel(t *testing.T, n int, linear bool) *model {
 	t.Helper()
-	c, _, err := sim.Build(strings.NewReader(scaleSpec(t, n)), "scale.yaml", t.TempDir())
+	evs, ids := scaleEvidence(t, n)
+	m, err := newModel(evs, Settings{Configs: ids, Seed: 1, Linear: linear})
 	if err != nil {
 		t.Fatal(err)
 	}
+	return m
+}
+
+// scaleEvidence simulates and reduces the n-configuration campaign of
+// scaleSpec and returns its evidence and configuration ids.
+func scaleEvidence(tb testing.TB, n int) ([]evidence.Evidence, []string) {
+	tb.Helper()
+	c, _, err := sim.Build(strings.NewReader(scaleSpec(tb, n)), "scale.yaml", tb.TempDir())
+	if err != nil {
+		tb.Fatal(err)
+	}
 	r, err := methods.Reduce(c, methods.Options{})
 	if err != nil {
-		t.Fatal(err)
+		tb.Fatal(err)
 	}
 	var ids []string
 	for _, cf := range c.Configurations {
 		ids = append(ids, cf.ID)
 	}
-	m, err := newModel(r.Evidence(), Settings{Configs: ids, Seed: 1, Linear: linear})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
+	return r.Evidence(), ids
 }
 
 // denseCond is the reference for cond: Λ = Λ₀ + Xᵀ Σ⁻¹ X and

@@ -146,19 +146,8 @@ func denseC(full *model, others *Posterior, src, cols []int) *mat.Dense {
 func exactCases(t *testing.T) map[string]*looCase {
 	t.Helper()
 	evs, set := offsetEvidence(t, 3, true)
-	full, err := newModel(evs, set.withDefaults())
-	if err != nil {
-		t.Fatal(err)
-	}
-	P, err := full.fit()
-	if err != nil {
-		t.Fatal(err)
-	}
-	lo, err := leaveOneOut(full, P, evs)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return map[string]*looCase{"configs=2": scaleLoo(t, 2), "configs=6": scaleLoo(t, 6), "offsets": {full: full, evs: evs, lo: lo}}
+	offsets := newLooCase(t, evs, set.withDefaults())
+	return map[string]*looCase{"configs=2": scaleLoo(t, 2), "configs=6": scaleLoo(t, 6), "offsets": offsets}
 }
 
 // TestPredictiveStructuredExact checks the structured leave-one-out
