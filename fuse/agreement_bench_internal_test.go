@@ -61,7 +61,9 @@ func newLooCase(tb testing.TB, evs []evidence.Evidence, set Settings) *looCase {
 func BenchmarkAgreementParts(b *testing.B) {
 	c := scaleLoo(b, 24)
 	for ei, ev := range c.evs {
+		c.lo.others[ei].mu.Lock()
 		O := c.lo.others[ei].wholeLocked()
+		c.lo.others[ei].mu.Unlock()
 		if len(ev.Blocks) > 0 {
 			b.Run(fmt.Sprintf("entry=%d/predictive", ei), func(b *testing.B) {
 				for b.Loop() {

@@ -235,7 +235,10 @@ func (P *Posterior) drawCovOf(cols []int, mean []float64, L *mat.Dense) *mat.Sym
 }
 
 // jointCovOf is L C Lᵀ for C = jointCov(cols): from the draws projected by
-// L (drawCovOf) when jointCov would compute C from them, else from C.
+// L (drawCovOf) when jointCov would compute C from them, else from C. The
+// draws are read after P.mu is let go: safe because a posterior is
+// compacted only after its agreement, in the same goroutine (fitOthers),
+// or before the agreements start (compactRefitted, then agreements).
 func (P *Posterior) jointCovOf(cols []int, L *mat.Dense) *mat.SymDense {
 	P.mu.Lock()
 	whole := P.jcov != nil || P.p.gaussian || P.compacted

@@ -187,6 +187,9 @@ func looPredictive(full *model, e int, others *Posterior) (*looStat, bool) {
 // covariance over cols.
 func (st *looStat) finish(full *model, lin *entryLin, cols []int, res []float64, covOf func(L *mat.Dense) *mat.SymDense) bool {
 	nc := len(cols)
+	if nc == 0 { // data that touch no parameter say nothing to compare
+		return false
+	}
 	pos := make([]int, full.dim())
 	for i := range pos {
 		pos[i] = -1

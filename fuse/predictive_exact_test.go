@@ -158,8 +158,8 @@ func exactCases(t *testing.T) map[string]*looCase {
 // largest element (common practice (no source): a reordered sum in double
 // precision agrees to about 10⁻¹³).
 func TestPredictiveStructuredExact(t *testing.T) {
-	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat) {
-		ds := denseLoo(t, c.full, ei, O)
+	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O, W *Posterior, st *looStat) {
+		ds := denseLoo(t, c.full, ei, W)
 		if fmt.Sprint(st.cols) != fmt.Sprint(ds.cols) {
 			t.Fatalf("touched columns %v, dense %v", st.cols, ds.cols)
 		}
@@ -171,22 +171,36 @@ func TestPredictiveStructuredExact(t *testing.T) {
 }
 
 // eachGaussianEntry runs fn, as a subtest, on every entry with Gaussian
-// data of every exactCases campaign, with the entry's others' posterior
-// (whole) and its structured statistic.
-func eachGaussianEntry(t *testing.T, fn func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat)) {
+// data of every exactCases campaign, twice: with the entry's others'
+// posterior whole, and as the fusion keeps it — compacted to the columns
+// the agreement reads, its joint covariance computed from them (the path
+// of the robust refits, compactOthers) — each time with that posterior's
+// structured statistic, O, and the whole posterior, W, for the reference.
+func eachGaussianEntry(t *testing.T, fn func(t *testing.T, c *looCase, ei int, O, W *Posterior, st *looStat)) {
 	for name, c := range exactCases(t) {
 		for ei, ev := range c.evs {
 			if len(ev.Blocks) == 0 {
 				continue
 			}
-			t.Run(name+"/"+ev.Entry, func(t *testing.T) {
-				O := c.lo.others[ei].wholeLocked()
-				st, ok := looPredictive(c.full, ei, O)
-				if !ok {
-					t.Fatal("no statistic")
-				}
-				fn(t, c, ei, O, st)
-			})
+			kept := c.lo.others[ei]
+			kept.mu.Lock()
+			W := kept.wholeLocked()
+			kept.mu.Unlock()
+			for _, v := range []struct {
+				name string
+				O    *Posterior
+			}{{"whole", W}, {"compacted", kept}} {
+				t.Run(name+"/"+ev.Entry+"/"+v.name, func(t *testing.T) {
+					if v.name == "compacted" {
+						v.O.joint()
+					}
+					st, ok := looPredictive(c.full, ei, v.O)
+					if !ok {
+						t.Fatal("no statistic")
+					}
+					fn(t, c, ei, v.O, W, st)
+				})
+			}
 		}
 	}
 }
@@ -247,15 +261,25 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 // entry of exactCases: the same formulas in another order (see
 // closeSlices for the tolerance).
 func TestReplicatesStructuredExact(t *testing.T) {
-	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O *Posterior, st *looStat) {
+	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O, W *Posterior, st *looStat) {
 		if st.Vp, _ = st.metric(); st.Vp == nil {
 			t.Fatal("no metric")
 		}
 		got := st.replicates(c.full, ei, O, newRand(c.full.set.Seed, 900+uint64(ei)))
-		want := rowReplicates(c.full, ei, st, O, c.full.set.Seed)
+		want := rowReplicates(c.full, ei, st, W, c.full.set.Seed)
 		if len(got) != referenceReps {
 			t.Fatalf("%d replicates, want %d", len(got), referenceReps)
 		}
 		closeSlices(t, "d²", got, want)
 	})
+}
+
+// TestFinishNoTouchedColumns: data that touch no parameter give no
+// statistic (ok false) instead of a zero-sized matrix, which gonum refuses
+// with a panic.
+func TestFinishNoTouchedColumns(t *testing.T) {
+	c := scaleLoo(t, 2)
+	if (&looStat{}).finish(c.full, &entryLin{}, nil, nil, nil) {
+		t.Fatal("a statistic over no parameters")
+	}
 }

@@ -27,8 +27,8 @@ type repMean struct {
 }
 
 // repTerm is one term: factor fs[set] (set −1: 1) times w^pow for the wind
-// φ_wind (wind −1: 1), times M·x[cols], or times vec when cols is empty (a
-// log-normal nuisance's offset).
+// φ_wind (wind −1: 1), times M·x[cols], or, for a log-normal nuisance's
+// offset, times vec (set when the term is made; cols then stays empty).
 type repTerm struct {
 	set, wind, pow int
 	cols           []int
