@@ -165,6 +165,16 @@ func TestPredictiveStructuredExact(t *testing.T) {
 		}
 		closeSlices(t, "t", st.t, ds.t)
 		closeSlices(t, "V", mat.DenseCopyOf(st.V).RawMatrix().Data, ds.V.RawMatrix().Data)
+		// V's diagonal spans five decades: its small rows are held on the
+		// correlation scale too, as metric reads them.
+		for i := range ds.V.RawMatrix().Rows {
+			for j := range ds.V.RawMatrix().Cols {
+				s := math.Sqrt(ds.V.At(i, i) * ds.V.At(j, j))
+				if d := math.Abs(st.V.At(i, j) - ds.V.At(i, j)); !(d <= 1e-9*s) {
+					t.Fatalf("V[%d][%d] = %.15g, dense %.15g (scale %.3g)", i, j, st.V.At(i, j), ds.V.At(i, j), s)
+				}
+			}
+		}
 		closeSlices(t, "AJ", st.AJ.RawMatrix().Data, ds.AJ.RawMatrix().Data)
 		closeSlices(t, "A", st.A.RawMatrix().Data, ds.A.RawMatrix().Data)
 	})

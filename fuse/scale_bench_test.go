@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"sync"
 	"testing"
@@ -52,13 +53,16 @@ func scaleInput(tb testing.TB, n int) fuse.Input {
 // BenchmarkScale fuses campaigns of 2 to 48 configurations side by side
 // (issue 15): go test ./fuse -run XXX -bench Scale -benchtime 3x. Beside
 // the wall time it reports the process's CPU time per fusion (cpu-ms/op,
-// user + system, getrusage(2)), which another job on a shared machine
-// moves less than the wall time (on unix systems; see cpuTime).
+// user + system, getrusage(2), summed over every thread — the chains, the
+// agreements two at a time, the collector — so up to twice the wall time
+// on two cores; on unix systems, see cpuTime). The heap is collected
+// before the clock starts, so the setup's garbage is not charged to it.
 func BenchmarkScale(b *testing.B) {
 	for _, n := range scaleSizes {
 		b.Run(fmt.Sprintf("configs=%d", n), func(b *testing.B) {
 			in := scaleInput(b, n)
 			b.ReportAllocs()
+			runtime.GC()
 			cpu0 := cpuTime(b)
 			for b.Loop() {
 				if _, err := fuse.Run(in); err != nil {
