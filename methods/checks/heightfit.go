@@ -172,7 +172,10 @@ func levels(ws []height.Window, idx []int) [][2]float64 {
 // heightFits fits every configuration of a ride-height entry. When the
 // curvature test trips, the fastest driven speed is dropped until what is
 // left is linear (at a lenient 5 %); the cut lies halfway between the last
-// speed kept and the first dropped, rounded to 5 km/h.
+// speed kept and the first dropped, rounded to 5 km/h. It first adds each
+// window's run-to-run wind to its variance in d (addGust, from the
+// configuration's first fit): the residual check that follows reads d
+// with it, so heightFits runs once per entry's data, before residuals.
 func heightFits(c *campaign.Campaign, r *height.Result, d *entryData) []cfgFit {
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
 	var order []string
