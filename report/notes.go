@@ -23,7 +23,7 @@ func (r *reporter) notes() {
 	pg.h2("Modelled approximately, or not at all", 25)
 	approx := []string{"Anti-dive and anti-squat geometry, which lets drive and braking forces lift or squat the body, is not modelled: compare steady-speed windows only."}
 	if len(c.Evidence.RideHeight) > 0 {
-		approx = append(approx, fmt.Sprintf("Load moved from front to rear by a window's mean acceleration is modelled through the centre-of-gravity height (%.2f ± %.2f m).", c.Vehicle.CGHeightM, c.Vehicle.CGHeightSDM))
+		approx = append(approx, fmt.Sprintf("Load moved from front to rear by a window's mean acceleration (the slope of its speed) is modelled through the centre-of-gravity height (%.2f ± %.2f m); the first and last moments of each steady window, still on the speed ramps, are left out.", c.Vehicle.CGHeightM, c.Vehicle.CGHeightSDM))
 	}
 	if c.Air.WindSDMs > 0 {
 		wind := "The along-road wind is a session mean estimated from runs in both directions"
@@ -48,7 +48,7 @@ func (r *reporter) notes() {
 	}
 	for _, e := range c.Evidence.RideHeight {
 		if e.FrictionMm > 0 {
-			approx = append(approx, "Suspension friction is a band of stated width.")
+			approx = append(approx, "Suspension friction is a band of stated width; at rest after a stop the body sticks at one side of it, modelled as one offset per axle.")
 			break
 		}
 	}
