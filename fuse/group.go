@@ -93,36 +93,31 @@ type group struct {
 // signature writes into b the key of a row's structure in entry's
 // block (strconv, not fmt: a key per row of every fit's model).
 func (m *model) signature(entry int, r *row, b []byte) []byte {
-	b = append(b[:0], 'e')
-	b = strconv.AppendInt(b, int64(entry), 10)
-	b = append(b, "|w"...)
-	b = strconv.AppendInt(b, int64(r.wind), 10)
+	b = appendTagged(b[:0], 'e', entry)
+	b = appendTagged(append(b, '|'), 'w', r.wind)
 	b = append(b, '|')
 	for _, s := range r.scales {
-		b = append(b, 's')
-		b = strconv.AppendInt(b, int64(s.idx), 10)
-		b = append(b, '^')
-		b = strconv.AppendFloat(b, s.pow, 'g', -1, 64)
-		b = append(b, ',')
+		b = append(appendTagged(b, 's', s.idx), '^')
+		b = append(strconv.AppendFloat(b, s.pow, 'g', -1, 64), ',')
 	}
 	for _, part := range []struct {
 		tag  byte
 		cols []entryRef
 	}{{'L', r.lift}, {'G', r.gamma}, {'Q', r.nuisPerQ}, {'N', r.nuis}} {
 		for _, c := range part.cols {
-			b = append(b, part.tag)
-			b = strconv.AppendInt(b, int64(c.col), 10)
-			b = append(b, ',')
+			b = append(appendTagged(b, part.tag, c.col), ',')
 		}
 	}
 	for _, o := range r.offs {
-		b = append(b, 'O')
-		b = strconv.AppendInt(b, int64(o.idx), 10)
-		b = append(b, ':')
-		b = strconv.AppendBool(b, o.perQ)
-		b = append(b, ',')
+		b = append(appendTagged(b, 'O', o.idx), ':')
+		b = append(strconv.AppendBool(b, o.perQ), ',')
 	}
 	return b
+}
+
+// appendTagged appends tag and the decimal n.
+func appendTagged(b []byte, tag byte, n int) []byte {
+	return strconv.AppendInt(append(b, tag), int64(n), 10)
 }
 
 // rowValues returns a row's design columns and values (before F and q).
