@@ -83,9 +83,14 @@ func TestProbe(t *testing.T) {
 	c.Air.ProbeSDPct = 3
 	name := probeLog(t, c.Density())
 	// The mean of ½ρV² over the hold, worked here from the same samples:
-	// those of 12–27.9 s but the edge at each end: the speed steps by
-	// 100 km/h, read as a rate over RateSpanS (edge.go).
-	edge := height.EdgeFor(c.Evidence.RideHeight[0].Steady.SpeedTolKmh, 100/height.RateSpanS)
+	// those of 12–27.9 s but the edge at each end. The speed steps by
+	// 100 km/h within the 1 s the rate is read over, so by edge.go's rule
+	// (0.3 s plus the band's width over the rate) the edge is, by hand,
+	// 0.3 + 1.5 km/h ÷ 100 km/h/s = 0.315 s at the default ±1.5 km/h.
+	if tol := c.Evidence.RideHeight[0].Steady.SpeedTolKmh; tol != 1.5 {
+		t.Fatalf("speed tolerance %g km/h, the edge below is worked for 1.5", tol)
+	}
+	const edge = 0.315
 	var sum float64
 	n := 0
 	for i := range 400 {
