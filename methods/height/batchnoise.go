@@ -65,7 +65,7 @@ func pooledBatchNoise(es []ends) batchNoise {
 	var c0, c1 float64
 	var use []ends
 	for _, e := range es {
-		if e.atSpeed && e.dof > 0 {
+		if e.atSpeed && len(e.xc) > 2 { // a degree of freedom
 			c0 += e.rss
 			c1 += e.c1
 			use = append(use, e)

@@ -95,15 +95,14 @@ func (s *speedEnds) batch() {
 // error: its batch means' times about their mean (s; nil when it had
 // fewer than two), Σ(t̄_b − t̄)², the residual sum of squares of its
 // batch means about their line and the sum of products of adjacent
-// residuals ((km/h)²), its degrees of freedom and samples a batch; for
-// the fallback, the span and count of its speed updates and their step
-// variance ((km/h)², NaN when unknown); its least speed step (the
-// speed's quantum q, km/h; 0 when it never changed); and its
-// acceleration (km/h/s).
+// residuals ((km/h)²) and its samples a batch (its degrees of freedom
+// are len(xc) − 2); for the fallback, the span and count of its speed
+// updates and their step variance ((km/h)², NaN when unknown); its least
+// speed step (the speed's quantum q, km/h; 0 when it never changed); and
+// its acceleration (km/h/s).
 type ends struct {
 	xc           []float64
 	sxx, rss, c1 float64
-	dof          int
 	perBatch     float64
 	upT          float64
 	upM          int
@@ -154,7 +153,6 @@ func (s *speedEnds) accel() (a float64, e ends) {
 			}
 			prev = r
 		}
-		e.dof = b - 2
 		e.perBatch = float64(inBatches) / float64(b)
 	}
 	e.a = a
