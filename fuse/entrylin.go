@@ -46,6 +46,15 @@ func (m *model) entryLinear(e int, theta, phi []float64) *entryLin {
 		}
 		nb := len(bl.rows)
 		for a := range nb {
+			if bl.diag != nil {
+				if w := bl.diag[a]; w != 0 {
+					for _, t := range lin.J[at+a] {
+						acc.add(t.col, w*t.v)
+					}
+				}
+				lin.G = append(lin.G, acc.take())
+				continue
+			}
 			for b := range nb {
 				var w float64
 				switch {

@@ -206,6 +206,7 @@ func (m *model) buildGroups() {
 		}
 	}
 	m.buildTerms()
+	m.groups = nil
 }
 
 // qPoly returns the coefficients in w of q(w)^pw for a row, pw ≤ 2.

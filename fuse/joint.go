@@ -373,8 +373,9 @@ func (P *Posterior) wholeLocked() *Posterior {
 // rowMean is the expected value of a row's observation at (θ, φ), the
 // log-normal nuisances' terms included.
 func (m *model) rowMean(r *row, theta, phi []float64, buf []entryRef) float64 {
-	y := m.rowOffset(r, phi)
-	for _, e := range m.design(r, phi, buf[:0]) {
+	f, q := m.liftFactor(r, phi)
+	y := r.offset(phi, q)
+	for _, e := range designAt(r, f, q, buf[:0]) {
 		y += e.v * theta[e.col]
 	}
 	return y

@@ -108,16 +108,22 @@ func checkOffsetPaths(t *testing.T, m *model) {
 		}
 	}
 	twoG, diag, full := false, false, false
-	for _, g := range m.groups {
-		n := 0
-		for _, c := range g.cols {
-			if c.kind == colOffset && c.set >= 0 {
-				n++
+	rowByRow := map[int]bool{}
+	for _, bi := range m.fullBlocks {
+		rowByRow[bi] = true
+	}
+	for bi, bl := range m.blocks {
+		for _, ri := range bl.rows {
+			n := 0
+			for _, o := range m.rows[ri].offs {
+				if o.set >= 0 {
+					n++
+				}
 			}
+			twoG = twoG || n >= 2
+			diag = diag || n > 0 && bl.diag != nil
+			full = full || n > 0 && bl.diag == nil && !rowByRow[bi]
 		}
-		twoG = twoG || n >= 2
-		diag = diag || n > 0 && m.kinds[g.entry] == evidence.KindRideHeight
-		full = full || n > 0 && m.kinds[g.entry] == evidence.KindPressure
 	}
 	if logn != 2 || !twoG || !diag || !full || !m.hasGradient() || len(m.signs) == 0 {
 		t.Fatalf("log-normal φ %d (want 2), two factors in a row %v, diagonal %v, full %v, gradient %v, signs %d",

@@ -114,19 +114,6 @@ type offRef struct {
 	set  int // {(idx, 1)} among the model's scaleSets, or −1
 }
 
-// rowOffset returns a row's terms of log-normal nuisances at φ.
-func (m *model) rowOffset(r *row, phi []float64) float64 {
-	if len(r.offs) == 0 {
-		return 0
-	}
-	q := r.q0
-	if r.wind >= 0 {
-		w := phi[r.wind]
-		q += r.a*w + r.c*w*w
-	}
-	return r.offset(phi, q)
-}
-
 // offset returns a row's terms of log-normal nuisances at φ, q = q(w).
 func (r *row) offset(phi []float64, q float64) float64 {
 	var o float64

@@ -11,7 +11,7 @@ import (
 
 // denseStat is the predictive check's statistic computed as it was before
 // the entry's rows were kept sparse: J and G = Σ⁻¹J dense over all D
-// parameters (repeatJacobian), F = JᵀG by a dense product, the predictive
+// parameters (denseJacobian), F = JᵀG by a dense product, the predictive
 // covariance C over the touched parameters in full, V = W H⁻¹ F H⁻¹ Wᵀ +
 // (A J) C (A J)ᵀ and A = W H⁻¹ Gᵀ dense. It is the reference the
 // structured computation (entryLin, predictiveCov) is checked against.
@@ -36,7 +36,7 @@ func denseLoo(t *testing.T, full *model, e int, others *Posterior) *denseStat {
 		if bl.entry != e {
 			continue
 		}
-		Jb := full.repeatJacobian(bl, sp, theta, phi)
+		Jb := denseJacobian(full, bl, sp, theta, phi)
 		nb := len(bl.rows)
 		for a, ri := range bl.rows {
 			res = append(res, full.rows[ri].y-full.rowMean(&full.rows[ri], theta, phi, nil))
@@ -292,4 +292,32 @@ func TestFinishNoTouchedColumns(t *testing.T) {
 	if (&looStat{}).finish(c.full, &entryLin{}, nil, nil, nil) {
 		t.Fatal("a statistic over no parameters")
 	}
+}
+
+// denseJacobian is J = ∂μ/∂(θ, φ) of a block's observation means over
+// the repeat's parameters as computed before the sparse rows (entrylin.go)
+// and kept here as the reference: the design row for θ, and central
+// differences over every φ (zero for those a row does not read) with step
+// 10⁻⁵·max(1, |φ_j|).
+func denseJacobian(m *model, bl *block, sp repeatSpace, theta, phi []float64) *mat.Dense {
+	p := len(m.lin)
+	J := mat.NewDense(len(bl.rows), sp.n(), nil)
+	var buf []entryRef
+	for k, ri := range bl.rows {
+		r := &m.rows[ri]
+		Jk := J.RawRowView(k)
+		buf = m.design(r, phi, buf[:0])
+		for _, d := range buf {
+			Jk[sp.col(d.col)] += d.v
+		}
+		for j := range m.phi {
+			h := 1e-5 * math.Max(1, math.Abs(phi[j]))
+			up := append([]float64(nil), phi...)
+			dn := append([]float64(nil), phi...)
+			up[j] += h
+			dn[j] -= h
+			Jk[sp.col(p+j)] += (m.rowMean(r, theta, up, buf) - m.rowMean(r, theta, dn, buf)) / (2 * h)
+		}
+	}
+	return J
 }

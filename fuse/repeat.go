@@ -3,6 +3,7 @@ package fuse
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -102,23 +103,15 @@ func (m *model) repeatInfo(e int, sp repeatSpace, mean []float64) *mat.SymDense 
 // per observation, over the repeat's N parameters: exact in θ (the design
 // row), by central differences in φ with step h = 10⁻⁵·max(1, |φ_j|).
 func (m *model) repeatJacobian(bl *block, sp repeatSpace, theta, phi []float64) *mat.Dense {
-	p := len(m.lin)
 	J := mat.NewDense(len(bl.rows), sp.n(), nil)
+	acc := newSparseAcc(m.dim())
+	up, dn := slices.Clone(phi), slices.Clone(phi)
 	var buf []entryRef
 	for k, ri := range bl.rows {
-		r := &m.rows[ri]
+		buf = m.jacobianRow(&m.rows[ri], theta, phi, up, dn, acc, buf)
 		Jk := J.RawRowView(k)
-		buf = m.design(r, phi, buf[:0])
-		for _, d := range buf {
-			Jk[sp.col(d.col)] += d.v
-		}
-		for j := range m.phi {
-			h := 1e-5 * math.Max(1, math.Abs(phi[j]))
-			up := append([]float64(nil), phi...)
-			dn := append([]float64(nil), phi...)
-			up[j] += h
-			dn[j] -= h
-			Jk[sp.col(p+j)] += (m.rowMean(r, theta, up, buf) - m.rowMean(r, theta, dn, buf)) / (2 * h)
+		for _, t := range acc.take() {
+			Jk[sp.col(t.col)] += t.v
 		}
 	}
 	return J
