@@ -28,7 +28,8 @@ type entryData struct {
 // the variance gains (κ_i·σ_hcg)² for its prior sd and (κ(SE_a,i)·h̄)² for
 // the error of the acceleration estimate (κ is linear in a), as the adapter's window variance does. The prior's part is
 // common to the windows; taking it as independent costs little, as it is
-// a few hundredths of a millimetre.
+// a few hundredths of a millimetre. Each window's variance also gains the
+// run-to-run wind (addGust), per configuration.
 func newEntryData(c *campaign.Campaign, r *height.Result) *entryData {
 	d := &entryData{ws: r.Windows, e: r.Entry, y: make([]float64, len(r.Windows)), v: windowVars(r.Windows, r.Entry.FrictionMm)}
 	h, sd := c.Vehicle.CGHeightM, c.Vehicle.CGHeightSDM
@@ -37,6 +38,13 @@ func newEntryData(c *campaign.Campaign, r *height.Result) *entryData {
 		d.y[i] = w.HeightMM - kappa*h
 		se := r.AccelCoef(c.Vehicle, w.AccelSE) * h
 		d.v[i] += math.Pow(kappa*sd, 2) + se*se
+	}
+	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
+	order, byCfg := configWindows(r)
+	for _, cfg := range order {
+		if qs := qScale(r, byCfg[cfg]); qs > 0 {
+			addGust(c, r, d, byCfg[cfg], linearSpeed, qs)
+		}
 	}
 	return d
 }

@@ -172,32 +172,18 @@ func levels(ws []height.Window, idx []int) [][2]float64 {
 // heightFits fits every configuration of a ride-height entry. When the
 // curvature test trips, the fastest driven speed is dropped until what is
 // left is linear (at a lenient 5 %); the cut lies halfway between the last
-// speed kept and the first dropped, rounded to 5 km/h. It first adds each
-// window's run-to-run wind to its variance in d (addGust, from the
-// configuration's first fit): the residual check that follows reads d
-// with it, so heightFits runs once per entry's data, before residuals.
+// speed kept and the first dropped, rounded to 5 km/h.
 func heightFits(c *campaign.Campaign, r *height.Result, d *entryData) []cfgFit {
 	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
-	var order []string
-	byCfg := map[string][]int{}
-	for i, w := range r.Windows {
-		if _, ok := byCfg[w.Config]; !ok {
-			order = append(order, w.Config)
-		}
-		byCfg[w.Config] = append(byCfg[w.Config], i)
-	}
+	order, byCfg := configWindows(r)
 	alpha := alphaNotLinear / float64(len(order))
 	var out []cfgFit
 	for _, cfg := range order {
 		idx := byCfg[cfg]
-		qs := 0.0
-		for _, i := range idx {
-			qs = math.Max(qs, r.Windows[i].Q)
-		}
+		qs := qScale(r, idx)
 		if qs == 0 {
 			continue
 		}
-		addGust(c, r, d, idx, linearSpeed, qs)
 		f := cfgFit{Config: cfg, All: idx, Kept: idx, QScale: qs}
 		f.PCurv, f.Lin = curvature(d, idx, linearSpeed, qs)
 		if f.PCurv < alpha && f.Lin != nil {
@@ -213,6 +199,28 @@ func heightFits(c *campaign.Campaign, r *height.Result, d *entryData) []cfgFit {
 		out = append(out, f)
 	}
 	return out
+}
+
+// configWindows returns the configurations of an entry's windows in order
+// of first appearance, and the indices of each one's windows.
+func configWindows(r *height.Result) (order []string, byCfg map[string][]int) {
+	byCfg = map[string][]int{}
+	for i, w := range r.Windows {
+		if _, ok := byCfg[w.Config]; !ok {
+			order = append(order, w.Config)
+		}
+		byCfg[w.Config] = append(byCfg[w.Config], i)
+	}
+	return order, byCfg
+}
+
+// qScale is the largest q of the windows idx (Pa), the scale of their fit.
+func qScale(r *height.Result, idx []int) float64 {
+	qs := 0.0
+	for _, i := range idx {
+		qs = math.Max(qs, r.Windows[i].Q)
+	}
+	return qs
 }
 
 // addGust adds to the variance of each window of idx the run-to-run wind
