@@ -80,6 +80,28 @@ func rateOver(t0, v0, t1, v1 float64) float64 {
 // sample period may divide the edge.
 const timeSlack = 1e-9
 
+// fifo is a queue with amortised O(1) push and pop: the popped front is
+// dropped by copying the rest down once it is at least 1024 items and half
+// the buffer.
+type fifo[T any] struct {
+	buf  []T
+	head int
+}
+
+func (q *fifo[T]) push(x T)    { q.buf = append(q.buf, x) }
+func (q *fifo[T]) len() int    { return len(q.buf) - q.head }
+func (q *fifo[T]) at(i int) *T { return &q.buf[q.head+i] }
+func (q *fifo[T]) reset()      { q.buf, q.head = q.buf[:0], 0 }
+
+// pop drops the front item (the queue not empty).
+func (q *fifo[T]) pop() {
+	q.head++
+	if q.head >= 1024 && 2*q.head >= len(q.buf) {
+		q.buf = q.buf[:copy(q.buf, q.buf[q.head:])]
+		q.head = 0
+	}
+}
+
 // delay holds a window's samples until they are the longest edge older
 // than the newest one, so that the samples of a window's last edge seconds
 // — perhaps the start of the ramp that closes it — wait until the
@@ -87,57 +109,38 @@ const timeSlack = 1e-9
 // is one edge of samples.
 type delay struct {
 	edge float64 // s
-	buf  []sample
-	head int
+	fifo[sample]
 }
-
-// push queues s.
-func (d *delay) push(s sample) { d.buf = append(d.buf, s) }
 
 // pop returns the oldest queued sample if it is at least edge older than
 // now.
 func (d *delay) pop(now, edge float64) (sample, bool) {
-	if d.head == len(d.buf) || now-d.buf[d.head].t < edge-timeSlack {
+	if d.len() == 0 || now-d.at(0).t < edge-timeSlack {
 		return sample{}, false
 	}
-	s := d.buf[d.head]
-	d.head++
-	if d.head >= 1024 && 2*d.head >= len(d.buf) {
-		d.buf = d.buf[:copy(d.buf, d.buf[d.head:])]
-		d.head = 0
-	}
+	s := *d.at(0)
+	d.fifo.pop()
 	return s, true
 }
 
-// reset drops every queued sample.
-func (d *delay) reset() { d.buf, d.head = d.buf[:0], 0 }
-
 // recent keeps the speeds of the last RateSpanS of samples, for the rate
 // at which the speed approaches a window. Amortised O(1) per sample.
-type recent struct {
-	t, v []float64
-	head int
-}
+type recent struct{ fifo[[2]float64] } // (t, v)
 
 // push adds a sample and drops those more than RateSpanS older.
 func (r *recent) push(t, v float64) {
-	r.t, r.v = append(r.t, t), append(r.v, v)
-	for r.head < len(r.t) && t-r.t[r.head] > RateSpanS+timeSlack {
-		r.head++
-	}
-	if r.head >= 1024 && 2*r.head >= len(r.t) {
-		r.t = r.t[:copy(r.t, r.t[r.head:])]
-		r.v = r.v[:copy(r.v, r.v[r.head:])]
-		r.head = 0
+	r.fifo.push([2]float64{t, v})
+	for r.len() > 0 && t-r.at(0)[0] > RateSpanS+timeSlack {
+		r.fifo.pop()
 	}
 }
 
 // approach returns the rate (km/h per s) from the oldest kept sample no
 // more than RateSpanS before t to a speed v at t; 0 when unknown.
 func (r *recent) approach(t, v float64) float64 {
-	for i := r.head; i < len(r.t); i++ {
-		if t-r.t[i] <= RateSpanS+timeSlack {
-			return rateOver(r.t[i], r.v[i], t, v)
+	for i := range r.len() {
+		if s := r.at(i); t-s[0] <= RateSpanS+timeSlack {
+			return rateOver(s[0], s[1], t, v)
 		}
 	}
 	return 0
