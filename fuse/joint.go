@@ -135,11 +135,7 @@ func (P *Posterior) jointMoments() ([]float64, *mat.SymDense) {
 		return mean, cov
 	}
 	mean := P.drawMean()
-	cols := make([]int, D)
-	for j := range cols {
-		cols[j] = j
-	}
-	return mean, P.drawCov(cols, mean)
+	return mean, P.drawCov(firstCols(D), mean)
 }
 
 // jointCov returns the posterior covariance of the parameters cols of

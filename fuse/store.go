@@ -158,3 +158,12 @@ func (s *drawStore) pick(cols []int) {
 	}
 	s.width = len(cols)
 }
+
+// firstCols returns the columns 0…n−1.
+func firstCols(n int) []int {
+	cols := make([]int, n)
+	for j := range cols {
+		cols[j] = j
+	}
+	return cols
+}

@@ -116,12 +116,3 @@ func TestCompactKeepsFigures(t *testing.T) {
 		t.Errorf("joint draws differ after compaction (refits %d)", refits)
 	}
 }
-
-// firstCols is 0, 1, …, n−1.
-func firstCols(n int) []int {
-	cols := make([]int, n)
-	for j := range cols {
-		cols[j] = j
-	}
-	return cols
-}
