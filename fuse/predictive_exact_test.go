@@ -103,8 +103,11 @@ func denseLoo(t *testing.T, full *model, e int, others *Posterior) *denseStat {
 	var tv mat.VecDense
 	tv.MulVec(ds.A, mat.NewVecDense(n, res))
 	ds.t = tv.RawVector().Data
-	var V1, tmp, V2 mat.Dense
+	var V1, V1t, tmp, V2 mat.Dense
 	V1.Mul(ds.AJ, B.T())
+	V1t.CloneFrom(V1.T())
+	V1.Add(&V1, &V1t) // symmetrised, as finish does: ½(V1 + V1ᵀ)
+	V1.Scale(0.5, &V1)
 	tmp.Mul(ds.AJ, denseC(full, others, src, cols))
 	V2.Mul(&tmp, ds.AJ.T())
 	ds.V.Add(&V1, &V2)
@@ -165,7 +168,7 @@ func TestPredictiveStructuredExact(t *testing.T) {
 		}
 		closeSlices(t, "t", st.t, ds.t)
 		closeSlices(t, "V", mat.DenseCopyOf(st.V).RawMatrix().Data, ds.V.RawMatrix().Data)
-		// V's diagonal spans five decades: its small rows are held on the
+		// V's diagonal spans decades: its small rows are held on the
 		// correlation scale too, as metric reads them.
 		for i := range ds.V.RawMatrix().Rows {
 			for j := range ds.V.RawMatrix().Cols {

@@ -13,8 +13,35 @@ import (
 // constant, the log-density of the residuals' contrasts: for a full-rank
 // K (n−p × n) with KX = 0, log N(Ky; 0, KVKᵀ) differs from it by a
 // constant independent of σ² (Harville 1977 — from memory). Checked
-// against gonum's distmv at two values of σ².
+// against gonum's distmv at two values of σ², for one dense block and for
+// an arrowhead of shared columns and three configurations' local ones
+// (whose blocks the likelihood factorises one at a time).
 func TestRestrictedLogLik(t *testing.T) {
+	tests := []struct {
+		name string
+		g    Group
+	}{
+		{"one block", oneBlockGroup()},
+		{"shared and local columns", arrowheadGroup()},
+		{"a run across local columns", runJoinGroup()},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			a, okA := tt.g.restrictedLogLik(0.2)
+			b, okB := tt.g.restrictedLogLik(3)
+			if !okA || !okB {
+				t.Fatal("restricted likelihood not formed")
+			}
+			want := contrastLogLik(t, tt.g, 0.2) - contrastLogLik(t, tt.g, 3)
+			if got := a - b; math.Abs(got-want) > 1e-9 {
+				t.Errorf("restricted log-likelihood difference %.12f, contrasts give %.12f", got, want)
+			}
+		})
+	}
+}
+
+// oneBlockGroup is eight observations in two runs, an offset and a slope.
+func oneBlockGroup() Group {
 	rng := rand.New(rand.NewPCG(5, 6))
 	n := 8
 	X := mat.NewDense(n, 2, nil)
@@ -26,46 +53,109 @@ func TestRestrictedLogLik(t *testing.T) {
 		g.Var[i] = 0.5 + 0.1*float64(i)
 		g.C[i] = 0.2 + 0.1*float64(i%4)
 	}
-	// K: rows spanning the orthogonal complement of X's columns.
+	return g
+}
+
+// arrowheadGroup is three configurations of two runs of four observations
+// and a standstill row each: an offset and a drift shared, and per
+// configuration a slope and a wind column; one run of the last
+// configuration sees its slope only, the standstill rows make one run that
+// sees the shared columns only, and an all-zero column is left out.
+func arrowheadGroup() Group {
+	rng := rand.New(rand.NewPCG(7, 8))
+	const cfgs, per = 3, 9
+	n := cfgs * per
+	X := mat.NewDense(n, 2+2*cfgs+1, nil)
+	g := Group{X: X, Y: make([]float64, n), Var: make([]float64, n), C: make([]float64, n), Shared: 2}
+	for c := range cfgs {
+		for r := range 2 {
+			var run []int
+			for k := range 4 {
+				i := c*per + 4*r + k
+				X.Set(i, 2+2*c, 1+float64(k))
+				if c < cfgs-1 || r == 0 {
+					X.Set(i, 3+2*c, float64(1-2*r)*(0.5+0.3*float64(k)))
+				}
+				g.C[i] = 0.3 + 0.2*float64(k)
+				run = append(run, i)
+			}
+			g.Runs = append(g.Runs, run)
+			g.Base = append(g.Base, 0.2*float64(r))
+		}
+	}
+	var still []int
+	for c := range cfgs {
+		i := c*per + per - 1
+		g.C[i] = 0.1 + 0.1*float64(c)
+		still = append(still, i)
+	}
+	g.Runs = append(g.Runs, still)
+	g.Base = append(g.Base, 0.5)
+	for i := range n {
+		X.Set(i, 0, 1)
+		X.Set(i, 1, float64(i)/float64(n)-0.5)
+		g.Y[i] = rng.NormFloat64()
+		g.Var[i] = 0.4 + 0.05*float64(i%7)
+	}
+	return g
+}
+
+// runJoinGroup is an offset shared and two local slopes that no row
+// carries together, one run covering rows of both: the run alone puts the
+// two slopes in one block.
+func runJoinGroup() Group {
+	rng := rand.New(rand.NewPCG(9, 10))
+	n := 12
+	X := mat.NewDense(n, 3, nil)
+	g := Group{X: X, Y: make([]float64, n), Var: make([]float64, n), C: make([]float64, n), Shared: 1,
+		Runs: [][]int{{2, 3, 8, 9}, {0, 1, 4}, {6, 7, 10}}, Base: []float64{0, 0.1, 0.4}}
+	for i := range n {
+		X.Set(i, 0, 1)
+		X.Set(i, 1+i/6, 1+float64(i%6))
+		g.Y[i] = rng.NormFloat64()
+		g.Var[i] = 0.3 + 0.04*float64(i)
+		g.C[i] = 0.2 + 0.15*float64(i%5)
+	}
+	return g
+}
+
+// contrastLogLik is log N(Ky; 0, KVKᵀ) for K spanning the complement of
+// X's non-zero columns.
+func contrastLogLik(t *testing.T, g Group, s2 float64) float64 {
+	X, _ := nonZeroColumns(g.X, g.X.RawMatrix().Rows, g.X.RawMatrix().Cols, 0)
+	n, p := X.Dims()
 	var svd mat.SVD
 	svd.Factorize(X, mat.SVDFull)
 	var U mat.Dense
 	svd.UTo(&U)
-	K := U.Slice(0, n, 2, n).(*mat.Dense).T()
-	contrast := func(s2 float64) float64 {
-		V := mat.NewDense(n, n, nil)
-		for i := range n {
-			V.Set(i, i, g.Var[i])
-		}
-		for r, run := range g.Runs {
-			for _, i := range run {
-				for _, j := range run {
-					V.Set(i, j, V.At(i, j)+(s2+g.Base[r])*g.C[i]*g.C[j])
-				}
+	K := U.Slice(0, n, p, n).(*mat.Dense).T()
+	V := mat.NewDense(n, n, nil)
+	for i := range n {
+		V.Set(i, i, g.Var[i])
+	}
+	for r, run := range g.Runs {
+		for _, i := range run {
+			for _, j := range run {
+				V.Set(i, j, V.At(i, j)+(s2+g.Base[r])*g.C[i]*g.C[j])
 			}
 		}
-		var KV, KVK mat.Dense
-		KV.Mul(K, V)
-		KVK.Mul(&KV, K.T())
-		S := mat.NewSymDense(n-2, nil)
-		for i := range n - 2 {
-			for j := i; j < n-2; j++ {
-				S.SetSym(i, j, KVK.At(i, j))
-			}
-		}
-		var ky mat.VecDense
-		ky.MulVec(K, mat.NewVecDense(n, g.Y))
-		d, ok := distmv.NewNormal(make([]float64, n-2), S, nil)
-		if !ok {
-			t.Fatal("contrast covariance not positive definite")
-		}
-		return d.LogProb(ky.RawVector().Data)
 	}
-	a, _ := g.restrictedLogLik(0.2)
-	b, _ := g.restrictedLogLik(3)
-	if got, want := a-b, contrast(0.2)-contrast(3); math.Abs(got-want) > 1e-9 {
-		t.Errorf("restricted log-likelihood difference %.12f, contrasts give %.12f", got, want)
+	var KV, KVK mat.Dense
+	KV.Mul(K, V)
+	KVK.Mul(&KV, K.T())
+	S := mat.NewSymDense(n-p, nil)
+	for i := range n - p {
+		for j := i; j < n-p; j++ {
+			S.SetSym(i, j, KVK.At(i, j))
+		}
 	}
+	var ky mat.VecDense
+	ky.MulVec(K, mat.NewVecDense(n, g.Y))
+	d, ok := distmv.NewNormal(make([]float64, n-p), S, nil)
+	if !ok {
+		t.Fatal("contrast covariance not positive definite")
+	}
+	return d.LogProb(ky.RawVector().Data)
 }
 
 // TestScatterREML: days of eight runs with fitted offsets, slopes and

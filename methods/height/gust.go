@@ -54,7 +54,7 @@ func (b *builder) gusts(perLog [][]int) gustModel {
 		g.runs[li] = gust.Runs(keys)
 		X, y, wt, col := b.pilotDesign(idx)
 		g.sens[li] = b.sensitivities(idx, X, y, wt, col)
-		grp := gust.Group{X: X, Y: y, Var: make([]float64, len(idx)), C: g.sens[li], Runs: g.runs[li]}
+		grp := gust.Group{X: X, Y: y, Var: make([]float64, len(idx)), C: g.sens[li], Runs: g.runs[li], Shared: b.pilotShared()}
 		for k := range idx {
 			grp.Var[k] = 1 / wt[k]
 		}
@@ -103,10 +103,7 @@ func (b *builder) pilotDesign(idx []int) (X *mat.Dense, y, wt []float64, col map
 	ws := b.res.Windows
 	n := len(idx)
 	col = map[string][2]int{}
-	p := 2 // offset, h_cg
-	if b.e.Drift {
-		p++
-	}
+	p := b.pilotShared()
 	for _, i := range idx {
 		w := ws[i]
 		c, ok := col[w.Config]
@@ -140,6 +137,16 @@ func (b *builder) pilotDesign(idx []int) (X *mat.Dense, y, wt []float64, col map
 		}
 	}
 	return X, y, wt, col
+}
+
+// pilotShared is the number of the pilot's columns common to every
+// configuration, which come first: the offset, h_cg and the drift if
+// modelled.
+func (b *builder) pilotShared() int {
+	if b.e.Drift {
+		return 3
+	}
+	return 2
 }
 
 // sensitivities fits the pilot and returns each window's gust sensitivity
