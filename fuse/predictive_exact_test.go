@@ -237,11 +237,14 @@ func closeSlices(t *testing.T, what string, got, want []float64) {
 }
 
 // rowReplicates is the replicates' d² computed row by row, as before the
-// structured prediction term (repMean): y_r = ε_r − μ̄_r + μ_r(x) for each
-// row, t = A·y. Same seed, same draws.
+// structured prediction term (repMean): t = A·(μ(x) − μ̄) from each row's
+// mean, plus the same error draw C·z (statNoise). Same seed, same draws.
 func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint64) []float64 {
 	rng := newRand(seed, 900+uint64(e))
-	noise := entryNoise(full, e)
+	noise := newStatNoise(full, e, st.A)
+	if noise == nil {
+		return nil
+	}
 	draws := others.nDraws()
 	per := (referenceReps + draws - 1) / draws
 	p, op := len(full.lin), len(others.p.m.lin)
@@ -255,17 +258,58 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 				return
 			}
 			full.predictiveDraw(x, st.src, theta, phi, op, rng)
-			eps := noise.draw(rng)
 			for r, ri := range st.rows {
-				y[r] = eps[r] - st.mu[r] + full.rowMean(&full.rows[ri], x[:p], x[p:], nil)
+				y[r] = full.rowMean(&full.rows[ri], x[:p], x[p:], nil) - st.mu[r]
 			}
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)
 			}
+			noise.add(t, rng)
 			out = append(out, quadForm(st.Vp, t))
 		}
 	})
 	return out
+}
+
+// TestStatNoiseCovariance: the replicates' error term C·z has the
+// covariance of A·ε, C·Cᵀ = A·Σ·Aᵀ, with Σ formed densely here from the
+// inverse of each of the entry's block precisions (gonum's Inverse; a
+// diagonal block's 1/P_ii), for every Gaussian entry of exactCases.
+func TestStatNoiseCovariance(t *testing.T) {
+	eachGaussianEntry(t, func(t *testing.T, c *looCase, ei int, O, W *Posterior, st *looStat) {
+		sn := newStatNoise(c.full, ei, st.A)
+		if sn == nil {
+			t.Fatal("no error draws")
+		}
+		k, n := st.A.Dims()
+		sigma := mat.NewDense(n, n, nil)
+		off := 0
+		for bi := range c.full.blocks {
+			bl := &c.full.blocks[bi]
+			if bl.entry != ei {
+				continue
+			}
+			nb := len(bl.rows)
+			if bl.diag != nil {
+				for a, p := range bl.diag {
+					sigma.Set(off+a, off+a, 1/p)
+				}
+			} else {
+				var inv mat.Dense
+				if err := inv.Inverse(bl.prec); err != nil {
+					t.Fatal(err)
+				}
+				sigma.Slice(off, off+nb, off, off+nb).(*mat.Dense).Copy(&inv)
+			}
+			off += nb
+		}
+		var AS, want, got mat.Dense
+		AS.Mul(st.A, sigma)
+		want.Mul(&AS, st.A.T())
+		C := mat.NewDense(k, k, sn.c)
+		got.Mul(C, C.T())
+		closeSlices(t, "C·Cᵀ", got.RawMatrix().Data, want.RawMatrix().Data)
+	})
 }
 
 // TestReplicatesStructuredExact checks the replicates' d² computed with the

@@ -53,7 +53,7 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 
 // replicates draws d² of replicate data sets of entry e (see referenceP).
 func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.Rand) []float64 {
-	noise := entryNoise(full, e)
+	noise := newStatNoise(full, e, st.A)
 	need := sharedCols(full, e, others.p.m)
 	draws := others.nDraws()
 	if draws == 0 || noise == nil {
@@ -71,12 +71,9 @@ func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.R
 				return
 			}
 			full.predictiveDraw(x, st.src, theta, phi, op, rng)
-			eps := noise.draw(rng)
 			fs = full.scaleFactors(x[len(full.lin):], fs)
 			rm.eval(full, x, fs, t)
-			for i := range t {
-				t[i] += floats.Dot(st.A.RawRowView(i), eps)
-			}
+			noise.add(t, rng)
 			out = append(out, quadForm(st.Vp, t))
 		}
 	})
@@ -122,84 +119,89 @@ func (m *model) predictiveDraw(x []float64, src []int, theta, phi []float64, op 
 	}
 }
 
-// noiseDraws draws an entry's observation errors, block by block in the
-// order of its rows: N(0, Σ_b) as L⁻ᵀz with Σ_b⁻¹ = LLᵀ, or σ·z.
-type noiseDraws struct {
-	blocks []*block
-	u      [][]float64 // U = Lᵀ row-major, L of a full block's precision; nil when diagonal
-	sd     [][]float64 // 1/√P_ii of a diagonal block
-	out    []float64
+// statNoise draws an entry's observation errors as the statistic sees
+// them. With ε ~ N(0, Σ) the entry's errors (Σ block-diagonal: each block
+// the inverse of its precision, in the order of A's columns), A·ε is
+// N(0, AΣAᵀ), drawn as C·z with C·Cᵀ = AΣAᵀ and z standard normal in the
+// statistic's k dimensions: k² per replicate, not n errors drawn and A·ε
+// formed (n·k, n the entry's rows). C = Q·Λ^½ from the eigendecomposition
+// AΣAᵀ = QΛQᵀ, which a rank-deficient AΣAᵀ (eigenvalues at rounding
+// level, clamped at 0) does not stop.
+type statNoise struct {
+	c []float64 // k×k row-major
+	z []float64
 }
 
-// entryNoise prepares the error draws of entry e's blocks (nil when a
-// precision cannot be factorised).
-func entryNoise(m *model, e int) *noiseDraws {
-	nd := &noiseDraws{}
+// newStatNoise prepares the error draws of entry e of m for the
+// statistic's matrix A (nil when a block's precision cannot be
+// factorised or A's columns are not the entry's rows).
+func newStatNoise(m *model, e int, A *mat.Dense) *statNoise {
+	k, n := A.Dims()
+	if k == 0 {
+		return nil
+	}
+	M := mat.NewSymDense(k, nil)
+	off := 0
 	for bi := range m.blocks {
 		bl := &m.blocks[bi]
 		if bl.entry != e {
 			continue
 		}
-		nd.blocks = append(nd.blocks, bl)
+		nb := len(bl.rows)
+		if off+nb > n {
+			return nil
+		}
+		Ab := A.Slice(0, k, off, off+nb)
+		off += nb
 		if bl.diag != nil {
-			sd := make([]float64, len(bl.diag))
+			col := make([]float64, k)
 			for a, p := range bl.diag {
-				sd[a] = 1 / math.Sqrt(p)
+				mat.Col(col, a, Ab)
+				M.SymRankOne(M, 1/p, mat.NewVecDense(k, col))
 			}
-			nd.u, nd.sd = append(nd.u, nil), append(nd.sd, sd)
 			continue
 		}
+		// A_b·P⁻¹·A_bᵀ = WᵀW with W = L⁻¹·A_bᵀ, P = L·Lᵀ.
 		var ch mat.Cholesky
 		if !ch.Factorize(bl.prec) {
 			return nil
 		}
 		var L mat.TriDense
 		ch.LTo(&L)
-		n := len(bl.rows)
-		u := make([]float64, n*n)
-		for i := range n {
-			for k := i; k < n; k++ {
-				u[i*n+k] = L.At(k, i)
-			}
+		var W mat.Dense
+		if err := W.Solve(&L, Ab.T()); err != nil {
+			return nil
 		}
-		nd.u, nd.sd = append(nd.u, u), append(nd.sd, nil)
+		var S mat.SymDense
+		S.SymOuterK(1, W.T())
+		M.AddSym(M, &S)
 	}
-	return nd
-}
-
-// draw returns one draw of the entry's errors, block by block: for a block
-// whose precision is P = L·Lᵀ, ε = L⁻ᵀ·z with z standard normal has
-// covariance P⁻¹ (back substitution in U = Lᵀ); a diagonal block scales z
-// by 1/√P_ii.
-func (nd *noiseDraws) draw(rng *rand.Rand) []float64 {
-	nd.out = nd.out[:0]
-	for b, bl := range nd.blocks {
-		k := len(nd.out)
-		for range bl.rows {
-			nd.out = append(nd.out, rng.NormFloat64())
-		}
-		z := nd.out[k:]
-		if u := nd.u[b]; u != nil {
-			backSubst(u, z)
-			continue
-		}
-		for a, s := range nd.sd[b] {
-			z[a] *= s
+	if off != n {
+		return nil
+	}
+	var es mat.EigenSym
+	if !es.Factorize(M, true) {
+		return nil
+	}
+	vals := es.Values(nil)
+	var Q mat.Dense
+	es.VectorsTo(&Q)
+	sn := &statNoise{c: make([]float64, k*k), z: make([]float64, k)}
+	for i := range k {
+		for j, v := range vals {
+			sn.c[i*k+j] = Q.At(i, j) * math.Sqrt(math.Max(v, 0))
 		}
 	}
-	return nd.out
+	return sn
 }
 
-// backSubst solves U·x = z in place for x, U upper triangular and
-// non-singular (n×n row-major, n = len(z)).
-func backSubst(u, z []float64) {
-	n := len(z)
-	for i := n - 1; i >= 0; i-- {
-		row := u[i*n : (i+1)*n]
-		s := z[i]
-		for k := i + 1; k < n; k++ {
-			s -= row[k] * z[k]
-		}
-		z[i] = s / row[i]
+// add adds one draw of A·ε, C·z, to t.
+func (sn *statNoise) add(t []float64, rng *rand.Rand) {
+	for j := range sn.z {
+		sn.z[j] = rng.NormFloat64()
+	}
+	k := len(sn.z)
+	for i := range t {
+		t[i] += floats.Dot(sn.c[i*k:(i+1)*k], sn.z)
 	}
 }
