@@ -1,6 +1,10 @@
 package fuse
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/floats"
+)
 
 // A small envelope (profile) Cholesky factorisation for the conditional
 // posterior's precision matrix: Λ = L·Lᵀ with L lower triangular, each
@@ -12,6 +16,11 @@ import "math"
 // number of configurations. Hand-written because the general
 // factorisation also estimates a condition number and ignores the
 // envelope. Entries of l outside the envelope are never written nor read.
+
+// longDot is the length from which a row's dot product is left to
+// gonum's vectorised one (the shared nuisances' rows, which span every
+// configuration); shorter ones stay inline, where a call would cost more.
+const longDot = 32
 
 // cholesky factorises the symmetric positive-definite a (its lower
 // triangle's envelope, stored as l is) into l. It reports false if a is
@@ -25,14 +34,22 @@ func cholesky(a, l []float64, lay *layout) bool {
 		for j := fi; j < i; j++ {
 			lj := l[base[j] : base[j]+j+1]
 			s := ai[j]
-			for k := max(fi, first[j]); k < j; k++ {
-				s -= li[k] * lj[k]
+			if k0 := max(fi, first[j]); j-k0 >= longDot {
+				s -= floats.Dot(li[k0:j], lj[k0:j])
+			} else {
+				for k := k0; k < j; k++ {
+					s -= li[k] * lj[k]
+				}
 			}
 			li[j] = s / lj[j]
 		}
 		s := ai[i]
-		for k := fi; k < i; k++ {
-			s -= li[k] * li[k]
+		if i-fi >= longDot {
+			s -= floats.Dot(li[fi:i], li[fi:i])
+		} else {
+			for k := fi; k < i; k++ {
+				s -= li[k] * li[k]
+			}
 		}
 		if !(s > 0) {
 			return false
@@ -48,8 +65,12 @@ func forward(l, x []float64, lay *layout) {
 	for i := range len(first) {
 		s := x[i]
 		li := l[base[i] : base[i]+i+1]
-		for k := first[i]; k < i; k++ {
-			s -= li[k] * x[k]
+		if fi := first[i]; i-fi >= longDot {
+			s -= floats.Dot(li[fi:i], x[fi:i])
+		} else {
+			for k := fi; k < i; k++ {
+				s -= li[k] * x[k]
+			}
 		}
 		x[i] = s / li[i]
 	}
@@ -62,8 +83,12 @@ func backward(l, x []float64, lay *layout) {
 		li := l[base[i] : base[i]+i+1]
 		x[i] /= li[i]
 		xi := x[i]
-		for k := first[i]; k < i; k++ {
-			x[k] -= li[k] * xi
+		if fi := first[i]; i-fi >= longDot {
+			floats.AddScaled(x[fi:i], -xi, li[fi:i])
+		} else {
+			for k := fi; k < i; k++ {
+				x[k] -= li[k] * xi
+			}
 		}
 	}
 }
