@@ -79,9 +79,10 @@ func pooledBatchNoise(es []ends) batchNoise {
 		readable = readable || len(e.xc) >= 4
 		nbar += e.perBatch / float64(len(use))
 	}
+	var buf momentBuf
 	moments := func(phi float64) (e0, e1 float64) {
-		for _, e := range use {
-			m0, m1, _ := e.residualMoments(phi)
+		for i := range use {
+			m0, m1, _ := use[i].residualMoments(phi, &buf)
 			e0 += m0
 			e1 += m1
 		}
@@ -127,17 +128,22 @@ func batchCorr(phi, n float64) (rho1, psi float64) {
 	return c / v, pn
 }
 
+// momentBuf is residualMoments' scratch, reused over the windows and the
+// search for φ.
+type momentBuf struct{ u, w, ru, rw []float64 }
+
 // residualMoments returns tr(MR), tr(AMRM) and w'Rw (above) for the
 // window at a sample's AR(1) coefficient phi.
-func (e ends) residualMoments(phi float64) (e0, e1, wRw float64) {
+func (e *ends) residualMoments(phi float64, buf *momentBuf) (e0, e1, wRw float64) {
 	rho1, psi := batchCorr(phi, e.perBatch)
-	b := float64(len(e.xc))
-	u := make([]float64, len(e.xc))
-	w := make([]float64, len(e.xc))
+	n := len(e.xc)
+	b := float64(n)
+	u, w := resize(buf.u, n), resize(buf.w, n)
 	for i, x := range e.xc {
 		u[i], w[i] = 1/math.Sqrt(b), x/math.Sqrt(e.sxx)
 	}
-	ru, rw := corrTimes(u, rho1, psi), corrTimes(w, rho1, psi)
+	ru, rw := corrTimes(u, rho1, psi, resize(buf.ru, n)), corrTimes(w, rho1, psi, resize(buf.rw, n))
+	buf.u, buf.w, buf.ru, buf.rw = u, w, ru, rw
 	uRu, wRw, wRu := dot(u, ru), dot(w, rw), dot(w, ru)
 	e0 = b - uRu - wRw
 	e1 = (b-1)*rho1 - 2*(lagDot(u, ru)+lagDot(w, rw)) +
@@ -145,11 +151,11 @@ func (e ends) residualMoments(phi float64) (e0, e1, wRw float64) {
 	return e0, e1, wRw
 }
 
-// corrTimes returns R·p, R_ii = 1, R_ij = ρ₁ψ^(|i−j|−1), in O(len(p)):
-// f_i = ψf_{i−1} + ρ₁p_{i−1} sums the lags below, g_i the lags above.
-func corrTimes(p []float64, rho1, psi float64) []float64 {
+// corrTimes returns R·p in out (len(p)), R_ii = 1, R_ij = ρ₁ψ^(|i−j|−1),
+// in O(len(p)): f_i = ψf_{i−1} + ρ₁p_{i−1} sums the lags below, g_i the
+// lags above.
+func corrTimes(p []float64, rho1, psi float64, out []float64) []float64 {
 	n := len(p)
-	out := make([]float64, n)
 	copy(out, p)
 	f := 0.0
 	for i := 1; i < n; i++ {
@@ -162,6 +168,14 @@ func corrTimes(p []float64, rho1, psi float64) []float64 {
 		out[i] += g
 	}
 	return out
+}
+
+// resize returns b with length n, reallocated if too short.
+func resize(b []float64, n int) []float64 {
+	if cap(b) < n {
+		return make([]float64, n)
+	}
+	return b[:n]
 }
 
 // dot returns p'q.
@@ -207,7 +221,7 @@ func (e ends) errorOf(n batchNoise) float64 {
 	if e.xc != nil {
 		switch {
 		case n.ok:
-			_, _, wRw := e.residualMoments(n.phi)
+			_, _, wRw := e.residualMoments(n.phi, &momentBuf{})
 			return math.Sqrt(max(n.v*wRw, e.q*e.q/12/e.perBatch) / e.sxx)
 		case tau > 0 && !math.IsNaN(e.stepVar):
 			return math.Sqrt(e.stepVar * tau / EndSpanS / e.sxx)
