@@ -1,6 +1,9 @@
 package height
 
-import "math"
+import (
+	"math"
+	"sort"
+)
 
 // Window edges. A hold's first and last samples still belong to the ramps
 // on either side: the band of ±tol admits the speed while the car
@@ -123,25 +126,45 @@ func (d *delay) pop(now, edge float64) (sample, bool) {
 	return s, true
 }
 
-// recent keeps the speeds of the last RateSpanS of samples, for the rate
-// at which the speed approaches a window. Amortised O(1) per sample.
-type recent struct{ fifo[[2]float64] } // (t, v)
+// recent keeps the speeds of at least the last RateSpanS of samples, for
+// the rate at which the speed approaches a window (read only when one
+// opens). push only appends: the samples more than RateSpanS older than
+// the newest are dropped together once they fill the buffer, which
+// doubles when they are fewer than half of it. Amortised O(1) per sample.
+type recent struct{ s [][2]float64 } // (t, v), t increasing
 
-// push adds a sample and drops those more than RateSpanS older.
+// push adds a sample.
 func (r *recent) push(t, v float64) {
-	r.fifo.push([2]float64{t, v})
-	for r.len() > 0 && t-r.at(0)[0] > RateSpanS+timeSlack {
-		r.fifo.pop()
+	if len(r.s) == cap(r.s) {
+		r.prune()
 	}
+	r.s = append(r.s, [2]float64{t, v})
+}
+
+// prune drops the samples more than RateSpanS older than the newest one
+// (none of them counts for a later time) and makes room for as many again
+// as are kept.
+func (r *recent) prune() {
+	if len(r.s) > 0 {
+		n := copy(r.s, r.s[r.first(r.s[len(r.s)-1][0]):])
+		r.s = r.s[:n]
+	}
+	if 2*len(r.s) >= cap(r.s) {
+		r.s = append(make([][2]float64, 0, max(1024, 2*cap(r.s))), r.s...)
+	}
+}
+
+// first returns the index of the oldest kept sample no more than
+// RateSpanS before t (len when there is none): t − tᵢ falls as i grows.
+func (r *recent) first(t float64) int {
+	return sort.Search(len(r.s), func(i int) bool { return t-r.s[i][0] <= RateSpanS+timeSlack })
 }
 
 // approach returns the rate (km/h per s) from the oldest kept sample no
 // more than RateSpanS before t to a speed v at t; 0 when unknown.
 func (r *recent) approach(t, v float64) float64 {
-	for i := range r.len() {
-		if s := r.at(i); t-s[0] <= RateSpanS+timeSlack {
-			return rateOver(s[0], s[1], t, v)
-		}
+	if i := r.first(t); i < len(r.s) {
+		return rateOver(r.s[i][0], r.s[i][1], t, v)
 	}
 	return 0
 }
