@@ -83,46 +83,48 @@ func rateOver(t0, v0, t1, v1 float64) float64 {
 // sample period may divide the edge.
 const timeSlack = 1e-9
 
-// fifo is a queue with amortised O(1) push and pop: the popped front is
-// dropped by copying the rest down once it is at least 1024 items and half
-// the buffer.
-type fifo[T any] struct {
-	buf  []T
-	head int
-}
-
-func (q *fifo[T]) push(x T)    { q.buf = append(q.buf, x) }
-func (q *fifo[T]) len() int    { return len(q.buf) - q.head }
-func (q *fifo[T]) at(i int) *T { return &q.buf[q.head+i] }
-func (q *fifo[T]) reset()      { q.buf, q.head = q.buf[:0], 0 }
-
-// pop drops the front item (the queue not empty).
-func (q *fifo[T]) pop() {
-	q.head++
-	if q.head >= 1024 && 2*q.head >= len(q.buf) {
-		q.buf = q.buf[:copy(q.buf, q.buf[q.head:])]
-		q.head = 0
-	}
-}
-
 // delay holds a window's samples until they are the longest edge older
 // than the newest one, so that the samples of a window's last edge seconds
 // — perhaps the start of the ramp that closes it — wait until the
-// departure rate is known (drain). Amortised O(1) per sample; its memory
-// is one edge of samples.
+// departure rate is known (drain). Its queue is a ring whose size, a power
+// of two, doubles when it is full: O(1) per sample and nothing copied once
+// it has grown to one edge of samples, its memory.
 type delay struct {
-	edge float64 // s
-	fifo[sample]
+	edge    float64  // s
+	buf     []sample // len 0 or a power of two
+	head, n int      // the oldest sample's index in buf, samples queued
+}
+
+// reset empties the queue, keeping its buffer.
+func (d *delay) reset() { d.head, d.n = 0, 0 }
+
+// push queues s.
+func (d *delay) push(s sample) {
+	if d.n == len(d.buf) {
+		d.grow()
+	}
+	d.buf[(d.head+d.n)&(len(d.buf)-1)] = s
+	d.n++
+}
+
+// grow doubles the ring (to at least 64), its samples first in order.
+func (d *delay) grow() {
+	buf := make([]sample, max(64, 2*len(d.buf)))
+	for i := range d.n {
+		buf[i] = d.buf[(d.head+i)&(len(d.buf)-1)]
+	}
+	d.buf, d.head = buf, 0
 }
 
 // pop returns the oldest queued sample if it is at least edge older than
 // now.
 func (d *delay) pop(now, edge float64) (sample, bool) {
-	if d.len() == 0 || now-d.at(0).t < edge-timeSlack {
+	if d.n == 0 || now-d.buf[d.head].t < edge-timeSlack {
 		return sample{}, false
 	}
-	s := *d.at(0)
-	d.fifo.pop()
+	s := d.buf[d.head]
+	d.head = (d.head + 1) & (len(d.buf) - 1)
+	d.n--
 	return s, true
 }
 
@@ -189,6 +191,7 @@ type holdLag struct {
 	n                  int     // samples seen
 	changed            bool    // upd is set
 	sampleDT, updateDT float64 // shortest step, shortest interval between changes (s; 0 unknown)
+	lagS               float64 // lag's value, set when either changes
 }
 
 // observe takes a sample's time t (s) and speed v (km/h).
@@ -196,10 +199,12 @@ func (h *holdLag) observe(t, v float64) {
 	if h.n > 0 {
 		if dt := t - h.t; dt > 0 && (h.sampleDT == 0 || dt < h.sampleDT) {
 			h.sampleDT = dt
+			h.setLag()
 		}
 		if v != h.v {
 			if iv := t - h.upd; h.changed && iv <= RateSpanS+timeSlack && (h.updateDT == 0 || iv < h.updateDT) {
 				h.updateDT = iv
+				h.setLag()
 			}
 			h.upd, h.changed = t, true
 		}
@@ -209,9 +214,12 @@ func (h *holdLag) observe(t, v float64) {
 }
 
 // lag returns the hold's lag, s.
-func (h *holdLag) lag() float64 {
-	if h.updateDT == 0 {
-		return 0
+func (h *holdLag) lag() float64 { return h.lagS }
+
+// setLag sets the lag from the shortest step and update interval.
+func (h *holdLag) setLag() {
+	h.lagS = 0
+	if h.updateDT != 0 {
+		h.lagS = max(0, h.updateDT-h.sampleDT)
 	}
-	return max(0, h.updateDT-h.sampleDT)
 }

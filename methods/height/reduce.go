@@ -253,11 +253,14 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 
 	// Smoothed trace for plots; the estimates use the raw samples.
 	y := p.lp.Step(t, h)
-	avg := h
 	if p.ma != nil {
-		avg = p.ma.Step(h)
+		p.ma.Add(h)
 	}
 	if t >= p.keep && len(p.trace) < maxTrace {
+		avg := h
+		if p.ma != nil {
+			avg = p.ma.Mean()
+		}
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
@@ -308,6 +311,7 @@ type finder struct {
 	pending   bool
 	hist      recent  // the last RateSpanS of speeds, for the approach rate
 	held      holdLag // a held speed's lag, added to the departure edge
+	longest   float64 // EdgeS(tol), set when a window opens
 	lastT     float64 // the latest sample: time (s), speed (km/h)
 	lastV     float64
 	ends      []ends // of each window, for its acceleration's error (finish)
@@ -358,8 +362,9 @@ func (f *finder) admit(s sample, config string, dir int) {
 		tail.reset()
 		*c = win{config: config, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
 			lead: EdgeFor(f.tol, f.hist.approach(s.t, s.v))}
+		f.longest = EdgeS(f.tol)
 	}
-	c.tail.edge = EdgeS(f.tol) + f.held.lag()
+	c.tail.edge = f.longest + f.held.lag()
 	c.last, c.lastV = s.t, s.v
 	c.speed.Add(s.v)
 	if s.t-c.opened < c.lead-timeSlack {
