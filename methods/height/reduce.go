@@ -269,8 +269,26 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed
 // file when the log has no speed column) and calibrated height (mm). A
 // speed below −standstillKmh or a height beyond maxHeightMm is an error at
-// its cell; a small negative speed (GPS jitter at rest) reads as 0.
+// its cell; a small negative speed (GPS jitter at rest) reads as 0. The
+// common case is a few instructions; checkRow has every rule.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
+	v = joined
+	if p.ix.Speed >= 0 {
+		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[p.ix.Speed])))
+	}
+	h = p.cal.MM(r.Float(p.at[p.ix.Signal]))
+	if !(v >= -standstillKmh) || math.Abs(h) > maxHeightMm {
+		return p.checkRow(r, joined)
+	}
+	if !(v > 0) { // max(v, 0), v not NaN here
+		v = 0
+	}
+	return v, h, nil
+}
+
+// checkRow is speedAndHeight with every rule in order, for a row with
+// a speed that is NaN or below −standstillKmh or a height out of range.
+func (p *pass) checkRow(r *logs.Reader, joined float64) (v, h float64, err error) {
 	ix := &p.ix
 	v = joined
 	if ix.Speed < 0 && math.IsNaN(joined) {
