@@ -357,13 +357,33 @@ func (f *finder) add(s sample, config string, dir int) {
 		f.settle(s.t, s.v)
 	}
 	f.held.observe(s.t, s.v)
-	f.admit(s, config, dir)
+	c := &f.cur
+	if !f.open || dir != c.dir || config != c.config || !c.speed.Admits(s.v, f.tol) {
+		f.reopen(s, config, dir)
+	}
+	if f.open { // the sample joins the current window
+		c.tail.edge = f.longest + f.held.lag()
+		c.last, c.lastV = s.t, s.v
+		c.speed.Add(s.v)
+		if s.t-c.opened >= c.lead-timeSlack {
+			c.tail.push(s)
+			for {
+				u, ok := c.tail.pop(s.t, c.tail.edge)
+				if !ok {
+					break
+				}
+				c.use(u, f.rho)
+			}
+		}
+	}
 	f.hist.push(s.t, s.v)
 	f.lastT, f.lastV = s.t, s.v
 }
 
-// admit puts a sample in the current window, opening one if need be.
-func (f *finder) admit(s sample, config string, dir int) {
+// reopen closes the current window for a sample of another configuration
+// or direction, or outside its band, and opens one for the sample unless
+// it has no configuration.
+func (f *finder) reopen(s sample, config string, dir int) {
 	c := &f.cur
 	if f.open && (config != c.config || dir != c.dir) {
 		f.close()
@@ -381,20 +401,6 @@ func (f *finder) admit(s sample, config string, dir int) {
 		*c = win{config: config, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
 			lead: EdgeFor(f.tol, f.hist.approach(s.t, s.v))}
 		f.longest = EdgeS(f.tol)
-	}
-	c.tail.edge = f.longest + f.held.lag()
-	c.last, c.lastV = s.t, s.v
-	c.speed.Add(s.v)
-	if s.t-c.opened < c.lead-timeSlack {
-		return
-	}
-	c.tail.push(s)
-	for {
-		u, ok := c.tail.pop(s.t, c.tail.edge)
-		if !ok {
-			break
-		}
-		c.use(u, f.rho)
 	}
 }
 

@@ -117,6 +117,7 @@ type Reader struct {
 
 	cur      *block
 	i        int
+	fast     int     // the last row of cur that Next steps to alone: −1 with the post pass or after an error
 	base     int     // index of the current row's first cell in cur.vals
 	prev     float64 // the Increasing column's last value; −Inf at first
 	blank    int     // first line of trailing blank lines of the previous block
@@ -255,14 +256,14 @@ func (r *Reader) Names() []string { return r.names }
 // first error (see Err). The row accessors (Float, Text, Line, Column)
 // then no longer apply.
 func (r *Reader) Next() bool {
-	// the common case, small enough to be inlined in the caller's loop
-	if b := r.cur; b != nil && r.i+1 < b.rows && !r.post && r.err == nil {
+	// the common case: a row of the current block, no post pass, no error
+	if r.i < r.fast {
 		base, k := r.base+len(r.cols), r.Increasing
 		if k < 0 {
 			r.i, r.base = r.i+1, base
 			return true
 		}
-		if x := b.vals[base+k]; x > r.prev {
+		if x := r.cur.vals[base+k]; x > r.prev {
 			r.i, r.base, r.prev = r.i+1, base, x
 			return true
 		}
@@ -312,6 +313,7 @@ func (r *Reader) next() bool {
 func (r *Reader) notIncreasing(k int, x float64) bool {
 	r.err = &ParseError{File: r.file, Line: r.Line(), Column: r.Column(k), Field: r.cols[k].Name,
 		Err: fmt.Errorf("%w: %g after %g", ErrNotIncreasing, x, r.prev)}
+	r.fast = -1
 	return false
 }
 
@@ -353,7 +355,10 @@ func (r *Reader) advance() bool {
 			r.err = &ParseError{File: r.file, Line: r.blank, Err: ErrBlankLine}
 			return false
 		}
-		r.cur, r.i = b, -1
+		r.cur, r.i, r.fast = b, -1, b.rows-1
+		if r.post {
+			r.fast = -1
+		}
 		if b.rows == 0 && b.err != nil {
 			r.err = b.err
 			return false
