@@ -211,10 +211,19 @@ const standstillKmh = 2.0
 func (p *pass) row(r *logs.Reader, joined float64) {
 	ix := &p.ix
 	t := r.Float(p.tk)
-	v, h, err := p.speedAndHeight(r, joined)
-	if err != nil {
-		p.err = err
-		return
+	v := joined // speedAndHeight, inline for the common row
+	if p.vk >= 0 {
+		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.vk)))
+	}
+	h := p.cal.MM(r.Float(p.hk))
+	if !(v >= -standstillKmh) || math.Abs(h) > maxHeightMm {
+		var err error
+		if v, h, err = p.speedAndHeight(r, joined); err != nil {
+			p.err = err
+			return
+		}
+	} else if !(v > 0) { // max(v, 0), v not NaN here
+		v = 0
 	}
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
@@ -278,26 +287,9 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed
 // file when the log has no speed column) and calibrated height (mm). A
 // speed below −standstillKmh or a height beyond maxHeightMm is an error at
-// its cell; a small negative speed (GPS jitter at rest) reads as 0. The
-// common case is a few instructions; checkRow has every rule.
+// its cell; a small negative speed (GPS jitter at rest) reads as 0. row
+// reads the common row itself and calls it for any other.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
-	v = joined
-	if p.vk >= 0 {
-		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.vk)))
-	}
-	h = p.cal.MM(r.Float(p.hk))
-	if !(v >= -standstillKmh) || math.Abs(h) > maxHeightMm {
-		return p.checkRow(r, joined)
-	}
-	if !(v > 0) { // max(v, 0), v not NaN here
-		v = 0
-	}
-	return v, h, nil
-}
-
-// checkRow is speedAndHeight with every rule in order, for a row with
-// a speed that is NaN or below −standstillKmh or a height out of range.
-func (p *pass) checkRow(r *logs.Reader, joined float64) (v, h float64, err error) {
 	ix := &p.ix
 	v = joined
 	if ix.Speed < 0 && math.IsNaN(joined) {
