@@ -119,13 +119,25 @@ func (d *delay) grow() {
 // pop returns the oldest queued sample if it is at least edge older than
 // now.
 func (d *delay) pop(now, edge float64) (sample, bool) {
-	if d.n == 0 || now-d.buf[d.head].t < edge-timeSlack {
+	if !d.ready(now, edge) {
 		return sample{}, false
 	}
+	return d.shift(), true
+}
+
+// ready reports whether the oldest queued sample is at least edge older
+// than now.
+func (d *delay) ready(now, edge float64) bool {
+	return d.n > 0 && !(now-d.buf[d.head].t < edge-timeSlack)
+}
+
+// shift removes the oldest queued sample (the queue not empty) and
+// returns it.
+func (d *delay) shift() sample {
 	s := d.buf[d.head]
 	d.head = (d.head + 1) & (len(d.buf) - 1)
 	d.n--
-	return s, true
+	return s
 }
 
 // recent keeps the speeds of at least the last RateSpanS of samples, for

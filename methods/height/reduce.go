@@ -389,12 +389,8 @@ func (f *finder) feed(s sample, dir int) {
 		c.speed.Add(s.v)
 		if s.t-c.opened >= c.lead-timeSlack {
 			c.tail.push(s)
-			for {
-				u, ok := c.tail.pop(s.t, c.tail.edge)
-				if !ok {
-					break
-				}
-				c.use(u, f.rho)
+			for c.tail.ready(s.t, c.tail.edge) {
+				c.use(c.tail.shift(), f.rho)
 			}
 		}
 	}
