@@ -103,7 +103,11 @@ func (d *delay) push(s sample) {
 	if d.n == len(d.buf) {
 		d.grow()
 	}
-	d.buf[(d.head+d.n)&(len(d.buf)-1)] = s
+	// field by field: a whole sample would be copied from where the
+	// caller spilled it in two 16-byte loads over four 8-byte stores,
+	// which the processor cannot forward (a stall on every sample)
+	q := &d.buf[(d.head+d.n)&(len(d.buf)-1)]
+	q.t, q.v, q.h, q.qa = s.t, s.v, s.h, s.qa
 	d.n++
 }
 
@@ -152,7 +156,9 @@ func (r *recent) push(t, v float64) {
 	if len(r.s) == cap(r.s) {
 		r.prune()
 	}
-	r.s = append(r.s, [2]float64{t, v})
+	n := len(r.s)
+	r.s = r.s[:n+1]
+	r.s[n][0], r.s[n][1] = t, v // apart, as in delay.push
 }
 
 // prune drops the samples more than RateSpanS older than the newest one
