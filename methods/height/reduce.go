@@ -80,7 +80,6 @@ type pass struct {
 	li   int
 	l    *campaign.LogSpec
 	cal  Calibration
-	only string
 	cols []logs.Column
 	ix   campaign.LogIndex // into cols
 	at   []int             // cols[k] → index in the shared reader
@@ -110,7 +109,7 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	cols, ix := l.LogColumns()
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	p := &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
+	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
 	if ix.Config < 0 && len(segs) == 0 {
