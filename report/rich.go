@@ -3,6 +3,7 @@ package report
 import (
 	"regexp"
 	"strings"
+	"sync"
 )
 
 // The report's symbols, with their subscripts marked "_{…}" for the rich
@@ -69,19 +70,24 @@ func plain(s string) string {
 
 // unitAfter matches a space between a number (or "±") and a unit or a
 // percent sign that follows it, so that the two are never broken apart.
-var unitAfter = regexp.MustCompile(`([0-9±≤≥<>~]) (%|‰|mm|m²|m|km/h|N/mm|N|kgf|lbf|kg|Pa|hPa|h|s|sd|°C|ppm|kg/m³)([^\p{L}]|$)`)
+// Compiled when first needed: every command starts the process, only
+// report writes rich text.
+var unitAfter = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`([0-9±≤≥<>~]) (%|‰|mm|m²|m|km/h|N/mm|N|kgf|lbf|kg|Pa|hPa|h|s|sd|°C|ppm|kg/m³)([^\p{L}]|$)`)
+})
 
 // plainSymbol matches a symbol written with an underscore by text from
-// other packages ("C_D·A", "C_LF"), not yet marked up.
-var plainSymbol = regexp.MustCompile(`C_(LF|LR|L|D)([^{]|$)`)
+// other packages ("C_D·A", "C_LF"), not yet marked up (compiled as
+// unitAfter).
+var plainSymbol = sync.OnceValue(func() *regexp.Regexp { return regexp.MustCompile(`C_(LF|LR|L|D)([^{]|$)`) })
 
 // bind marks up plainly written symbols, joins numbers to their units with
 // no-break spaces ("6.5 %", "150 km/h"), and "±" to the number after it.
 func bind(s string) string {
-	s = plainSymbol.ReplaceAllString(s, "C_{$1}$2")
+	s = plainSymbol().ReplaceAllString(s, "C_{$1}$2")
 	s = strings.ReplaceAll(s, "± ", "±"+nbsp)
 	for range 2 { // overlapping matches ("1 h 2 s") need a second pass
-		s = unitAfter.ReplaceAllStringFunc(s, func(m string) string {
+		s = unitAfter().ReplaceAllStringFunc(s, func(m string) string {
 			return strings.Replace(m, " ", nbsp, 1)
 		})
 	}

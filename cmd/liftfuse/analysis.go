@@ -29,9 +29,11 @@ func settings(c *campaign.Campaign) fuse.Settings {
 
 // load reads a campaign for the adapters: loading reads only the logs'
 // headers, and the adapters' read of each log is its only one (see
-// reduceLoaded).
-func load(file string) (*campaign.Campaign, error) {
-	return loadCampaign(file, campaign.Options{Stream: true})
+// reduceLoaded). hashed says the output carries the input hash: the
+// adapters' reads then feed it; else it is left out of them
+// (campaign.Options.HashLater).
+func load(file string, hashed bool) (*campaign.Campaign, error) {
+	return loadCampaign(file, campaign.Options{Stream: true, HashLater: !hashed})
 }
 
 // reduceLoaded runs every adapter on a campaign from load and completes
@@ -57,10 +59,11 @@ func reduceLoaded(c *campaign.Campaign, opt methods.Options) (*methods.Reduced, 
 }
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
-// stderr when it is a terminal and not silenced. check, if not nil, is
-// called on the loaded campaign before the (long) reduction.
-func reduce(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
-	c, err := load(file)
+// stderr when it is a terminal and not silenced. hashed says the output
+// carries the input hash (see load). check, if not nil, is called on the
+// loaded campaign before the (long) reduction.
+func reduce(file string, hashed, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
+	c, err := load(file, hashed)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -93,7 +96,7 @@ func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
 // analyseChecked is analyse with a check of the loaded campaign before the
 // long work (see reduce).
 func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*analysis, error) {
-	c, r, err := reduce(file, quiet, stderr, check)
+	c, r, err := reduce(file, true, quiet, stderr, check)
 	if err != nil {
 		return nil, err
 	}

@@ -42,7 +42,7 @@ each entry says on its own. --json prints a result document with only
 }
 
 func runReduce(o reduceOptions, out, stderr io.Writer) error {
-	c, r, err := reduce(o.file, o.quiet, stderr, nil)
+	c, r, err := reduce(o.file, o.json, o.quiet, stderr, nil)
 	if err != nil {
 		return err
 	}
@@ -52,14 +52,14 @@ func runReduce(o reduceOptions, out, stderr io.Writer) error {
 	}
 	res.Warnings = append(r.Warnings, res.Warnings...)
 	res.AddChecks(checks.Run(c, r))
-	if err := stamp(res, c); err != nil {
-		return err
-	}
 	// One write for the whole text (it is written a cell at a time).
 	w := bufio.NewWriter(out)
 	if o.json {
+		if err := stamp(res, c); err != nil {
+			return err
+		}
 		err = report.WriteJSON(w, res)
-	} else {
+	} else { // the text carries no campaign stamp: no input hash to compute
 		err = report.ReduceText(w, r, res, c.Report.ForceUnit)
 	}
 	if ferr := w.Flush(); err == nil {

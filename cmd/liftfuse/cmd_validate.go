@@ -38,7 +38,7 @@ sensor that scatters ±3 mm) are printed but do not fail.`,
 }
 
 func runValidate(o validateOptions, out io.Writer) error {
-	c, err := load(o.file)
+	c, err := load(o.file, false)
 	if err != nil {
 		return err
 	}

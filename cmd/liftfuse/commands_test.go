@@ -81,7 +81,7 @@ var demoEntries = []string{"front-pot", "rear-pot", "rear-laser", "body-taps", "
 // fuse.Result (no unknown keys) and hold the demo's configurations and
 // entries, its input hash, and forces consistent with C_L·A.
 func TestResultDocuments(t *testing.T) {
-	c, err := load(demo)
+	c, err := load(demo, true)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -14,7 +14,8 @@ import (
 // campaign file, then each file in the order Files lists them, each
 // preceded by its size (Hash's layout). fed counts the files of Files
 // hashed whole. A file is hashed as validation reads it, or as an adapter
-// reads it (Campaign.Read) when validation read only its header; a file
+// reads it (Campaign.Read) when validation read only its header, unless
+// later (Options.HashLater): then the adapters' reads feed nothing. A file
 // read by neither before a later one is needed is read again for the hash
 // alone (upTo). A read that stops early breaks the digest, and Hash then
 // reads every file again. One digest per loaded campaign.
@@ -23,6 +24,7 @@ type digest struct {
 	h      hash.Hash
 	fed    int
 	broken bool
+	later  bool
 }
 
 // sum returns the digest's hex SHA-256 if it covers every file of files.
@@ -118,11 +120,12 @@ func (c *Campaign) track(name string, f *os.File) (io.Reader, func()) {
 // Files open as f, and a function to call once the read is over (after
 // the log reader is closed). A file not hashed yet (a log whose body
 // validation left to the adapters, Options.Stream) is hashed as it is
-// read, the files before it in Files being hashed first if they are not.
+// read, the files before it in Files being hashed first if they are not;
+// with Options.HashLater it is read as it is, and Hash reads it again.
 func (c *Campaign) Read(name string, f *os.File) (io.Reader, func()) {
 	d := c.digest
 	i := slices.Index(c.Files, name)
-	if d == nil || i < 0 || !d.upTo(c.Files[:i]) {
+	if d == nil || d.later || i < 0 || !d.upTo(c.Files[:i]) {
 		return f, func() {}
 	}
 	return d.start(f)

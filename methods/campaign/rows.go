@@ -43,12 +43,28 @@ func NewRows(c *Campaign, l *LogSpec, time, dir, cfg int) *Rows {
 // ("" without a config column, or for an unknown id, which is listed by
 // Done) and direction (0 without a direction column). A direction other
 // than ±1 is an error (a *Problem at its cell): the read stops there.
+// It is called on every row: its common case (no config column, a valid
+// direction or none) is a few instructions, and row does the rest.
 func (k *Rows) Row(r *logs.Reader) (config string, dir int, err error) {
 	k.n++
-	if k.n == 1 {
-		k.t0 = r.Float(k.time)
-	}
 	k.t1 = r.Float(k.time) // time increases strictly (the reader's rule)
+	if k.n > 1 && k.cfg < 0 {
+		if k.dir < 0 {
+			return "", 0, nil
+		}
+		if d := r.Float(k.dir); d == 1 || d == -1 {
+			return "", int(d), nil
+		}
+	}
+	return k.row(r)
+}
+
+// row is Row past the count and the time: the first row's time, the
+// direction, the configuration id.
+func (k *Rows) row(r *logs.Reader) (config string, dir int, err error) {
+	if k.n == 1 {
+		k.t0 = k.t1
+	}
 	if k.dir >= 0 {
 		d := r.Float(k.dir)
 		if err := rowDirection(d); err != nil {

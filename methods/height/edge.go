@@ -1,6 +1,9 @@
 package height
 
-import "math"
+import (
+	"math"
+	"sort"
+)
 
 // Window edges. A hold's first and last samples still belong to the ramps
 // on either side: the band of ±tol admits the speed while the car
@@ -80,68 +83,108 @@ func rateOver(t0, v0, t1, v1 float64) float64 {
 // sample period may divide the edge.
 const timeSlack = 1e-9
 
-// fifo is a queue with amortised O(1) push and pop: the popped front is
-// dropped by copying the rest down once it is at least 1024 items and half
-// the buffer.
-type fifo[T any] struct {
-	buf  []T
-	head int
-}
-
-func (q *fifo[T]) push(x T)    { q.buf = append(q.buf, x) }
-func (q *fifo[T]) len() int    { return len(q.buf) - q.head }
-func (q *fifo[T]) at(i int) *T { return &q.buf[q.head+i] }
-func (q *fifo[T]) reset()      { q.buf, q.head = q.buf[:0], 0 }
-
-// pop drops the front item (the queue not empty).
-func (q *fifo[T]) pop() {
-	q.head++
-	if q.head >= 1024 && 2*q.head >= len(q.buf) {
-		q.buf = q.buf[:copy(q.buf, q.buf[q.head:])]
-		q.head = 0
-	}
-}
-
 // delay holds a window's samples until they are the longest edge older
 // than the newest one, so that the samples of a window's last edge seconds
 // — perhaps the start of the ramp that closes it — wait until the
-// departure rate is known (drain). Amortised O(1) per sample; its memory
-// is one edge of samples.
+// departure rate is known (drain). Its queue is a ring whose size, a power
+// of two, doubles when it is full: O(1) per sample and nothing copied once
+// it has grown to one edge of samples, its memory.
 type delay struct {
-	edge float64 // s
-	fifo[sample]
+	edge    float64  // s
+	buf     []sample // len 0 or a power of two
+	head, n int      // the oldest sample's index in buf, samples queued
+}
+
+// reset empties the queue, keeping its buffer.
+func (d *delay) reset() { d.head, d.n = 0, 0 }
+
+// push queues s.
+func (d *delay) push(s sample) {
+	if d.n == len(d.buf) {
+		d.grow()
+	}
+	// field by field: a whole sample would be copied from where the
+	// caller spilled it in two 16-byte loads over four 8-byte stores,
+	// which the processor cannot forward (a stall on every sample)
+	q := &d.buf[(d.head+d.n)&(len(d.buf)-1)]
+	q.t, q.v, q.h, q.qa = s.t, s.v, s.h, s.qa
+	d.n++
+}
+
+// grow doubles the ring (to at least 64), its samples first in order.
+func (d *delay) grow() {
+	buf := make([]sample, max(64, 2*len(d.buf)))
+	for i := range d.n {
+		buf[i] = d.buf[(d.head+i)&(len(d.buf)-1)]
+	}
+	d.buf, d.head = buf, 0
 }
 
 // pop returns the oldest queued sample if it is at least edge older than
 // now.
 func (d *delay) pop(now, edge float64) (sample, bool) {
-	if d.len() == 0 || now-d.at(0).t < edge-timeSlack {
+	if !d.ready(now, edge) {
 		return sample{}, false
 	}
-	s := *d.at(0)
-	d.fifo.pop()
-	return s, true
+	return d.shift(), true
 }
 
-// recent keeps the speeds of the last RateSpanS of samples, for the rate
-// at which the speed approaches a window. Amortised O(1) per sample.
-type recent struct{ fifo[[2]float64] } // (t, v)
+// ready reports whether the oldest queued sample is at least edge older
+// than now.
+func (d *delay) ready(now, edge float64) bool {
+	return d.n > 0 && !(now-d.buf[d.head].t < edge-timeSlack)
+}
 
-// push adds a sample and drops those more than RateSpanS older.
+// shift removes the oldest queued sample (the queue not empty) and
+// returns it.
+func (d *delay) shift() sample {
+	s := d.buf[d.head]
+	d.head = (d.head + 1) & (len(d.buf) - 1)
+	d.n--
+	return s
+}
+
+// recent keeps the speeds of at least the last RateSpanS of samples, for
+// the rate at which the speed approaches a window (read only when one
+// opens). push only appends: the samples more than RateSpanS older than
+// the newest are dropped together once they fill the buffer, which
+// doubles when they are fewer than half of it. Amortised O(1) per sample.
+type recent struct{ s [][2]float64 } // (t, v), t increasing
+
+// push adds a sample.
 func (r *recent) push(t, v float64) {
-	r.fifo.push([2]float64{t, v})
-	for r.len() > 0 && t-r.at(0)[0] > RateSpanS+timeSlack {
-		r.fifo.pop()
+	if len(r.s) == cap(r.s) {
+		r.prune()
 	}
+	n := len(r.s)
+	r.s = r.s[:n+1]
+	r.s[n][0], r.s[n][1] = t, v // apart, as in delay.push
+}
+
+// prune drops the samples more than RateSpanS older than the newest one
+// (none of them counts for a later time) and makes room for as many again
+// as are kept.
+func (r *recent) prune() {
+	if len(r.s) > 0 {
+		n := copy(r.s, r.s[r.first(r.s[len(r.s)-1][0]):])
+		r.s = r.s[:n]
+	}
+	if 2*len(r.s) >= cap(r.s) {
+		r.s = append(make([][2]float64, 0, max(1024, 2*cap(r.s))), r.s...)
+	}
+}
+
+// first returns the index of the oldest kept sample no more than
+// RateSpanS before t (len when there is none): t − tᵢ falls as i grows.
+func (r *recent) first(t float64) int {
+	return sort.Search(len(r.s), func(i int) bool { return t-r.s[i][0] <= RateSpanS+timeSlack })
 }
 
 // approach returns the rate (km/h per s) from the oldest kept sample no
 // more than RateSpanS before t to a speed v at t; 0 when unknown.
 func (r *recent) approach(t, v float64) float64 {
-	for i := range r.len() {
-		if s := r.at(i); t-s[0] <= RateSpanS+timeSlack {
-			return rateOver(s[0], s[1], t, v)
-		}
+	if i := r.first(t); i < len(r.s) {
+		return rateOver(r.s[i][0], r.s[i][1], t, v)
 	}
 	return 0
 }
@@ -166,6 +209,7 @@ type holdLag struct {
 	n                  int     // samples seen
 	changed            bool    // upd is set
 	sampleDT, updateDT float64 // shortest step, shortest interval between changes (s; 0 unknown)
+	lagS               float64 // lag's value, set when either changes
 }
 
 // observe takes a sample's time t (s) and speed v (km/h).
@@ -173,10 +217,12 @@ func (h *holdLag) observe(t, v float64) {
 	if h.n > 0 {
 		if dt := t - h.t; dt > 0 && (h.sampleDT == 0 || dt < h.sampleDT) {
 			h.sampleDT = dt
+			h.setLag()
 		}
 		if v != h.v {
 			if iv := t - h.upd; h.changed && iv <= RateSpanS+timeSlack && (h.updateDT == 0 || iv < h.updateDT) {
 				h.updateDT = iv
+				h.setLag()
 			}
 			h.upd, h.changed = t, true
 		}
@@ -186,9 +232,12 @@ func (h *holdLag) observe(t, v float64) {
 }
 
 // lag returns the hold's lag, s.
-func (h *holdLag) lag() float64 {
-	if h.updateDT == 0 {
-		return 0
+func (h *holdLag) lag() float64 { return h.lagS }
+
+// setLag sets the lag from the shortest step and update interval.
+func (h *holdLag) setLag() {
+	h.lagS = 0
+	if h.updateDT != 0 {
+		h.lagS = max(0, h.updateDT-h.sampleDT)
 	}
-	return max(0, h.updateDT-h.sampleDT)
 }

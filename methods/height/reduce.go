@@ -80,12 +80,14 @@ type pass struct {
 	li   int
 	l    *campaign.LogSpec
 	cal  Calibration
-	only string
 	cols []logs.Column
 	ix   campaign.LogIndex // into cols
 	at   []int             // cols[k] → index in the shared reader
 	air  int               // index in cols of the airspeed column, or -1
-	rho  float64
+	// the shared reader's indices of the time, speed, signal and airspeed
+	// columns (−1: none), read on every row
+	tk, vk, hk, ak int
+	rho            float64
 
 	segs    []campaign.Segment
 	seg     int
@@ -107,9 +109,13 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	cols, ix := l.LogColumns()
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	return &pass{e: e, li: li, l: l, cal: cal, only: only, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
+	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
+	if ix.Config < 0 && len(segs) == 0 {
+		p.f.setConfig(only) // every sample's
+	}
+	return p
 }
 
 // readLog streams one log through every pass that reads it. The passes
@@ -182,6 +188,7 @@ func shareColumns(ps []*pass) []logs.Column {
 			return p.at[k]
 		}
 		p.rows = campaign.NewRows(p.c, p.l, at(p.ix.Time), at(p.ix.Direction), at(p.ix.Config))
+		p.tk, p.vk, p.hk, p.ak = at(p.ix.Time), at(p.ix.Speed), at(p.ix.Signal), at(p.air)
 	}
 	return cols
 }
@@ -202,11 +209,20 @@ const standstillKmh = 2.0
 // from a speed file (km/h), NaN when the log has its own speed column.
 func (p *pass) row(r *logs.Reader, joined float64) {
 	ix := &p.ix
-	t := r.Float(p.at[ix.Time])
-	v, h, err := p.speedAndHeight(r, joined)
-	if err != nil {
-		p.err = err
-		return
+	t := r.Float(p.tk)
+	v := joined // speedAndHeight, inline for the common row
+	if p.vk >= 0 {
+		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.vk)))
+	}
+	h := p.cal.MM(r.Float(p.hk))
+	if !(v >= -standstillKmh) || math.Abs(h) > maxHeightMm {
+		var err error
+		if v, h, err = p.speedAndHeight(r, joined); err != nil {
+			p.err = err
+			return
+		}
+	} else if !(v > 0) { // max(v, 0), v not NaN here
+		v = 0
 	}
 	if p.ma == nil && !math.IsNaN(p.prevT) {
 		p.firstDT = t - p.prevT
@@ -220,7 +236,8 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 
 	// Which configuration and direction does this sample belong to? The
 	// log's columns when it has them (an unknown id reads as none, and
-	// fails the read at its end), else its segments, else the only one.
+	// fails the read at its end), else its segments, else the only one
+	// (set once, newPass).
 	config, logged, err := p.rows.Row(r)
 	if err != nil {
 		p.err = err
@@ -229,6 +246,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	dir := 0
 	switch {
 	case ix.Config >= 0:
+		p.f.setConfig(config)
 	case len(p.segs) > 0:
 		for p.seg < len(p.segs) && t > p.segs[p.seg].ToS {
 			p.seg++
@@ -236,8 +254,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		if p.seg < len(p.segs) && t >= p.segs[p.seg].FromS {
 			config, dir = p.segs[p.seg].Config, p.segs[p.seg].Direction
 		}
-	default:
-		config = p.only
+		p.f.setConfig(config)
 	}
 	if ix.Direction >= 0 {
 		dir = logged
@@ -246,18 +263,21 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		p.f.close()
 	}
 	qa := math.NaN()
-	if p.air >= 0 {
-		qa = airspeedQ(p.l, r.Float(p.at[p.air]), p.rho)
+	if p.ak >= 0 {
+		qa = airspeedQ(p.l, r.Float(p.ak), p.rho)
 	}
-	p.f.add(sample{t: t, v: v, h: h, qa: qa}, config, dir)
+	p.f.feed(sample{t: t, v: v, h: h, qa: qa}, dir)
 
 	// Smoothed trace for plots; the estimates use the raw samples.
 	y := p.lp.Step(t, h)
-	avg := h
 	if p.ma != nil {
-		avg = p.ma.Step(h)
+		p.ma.Add(h)
 	}
 	if t >= p.keep && len(p.trace) < maxTrace {
+		avg := h
+		if p.ma != nil {
+			avg = p.ma.Mean()
+		}
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
@@ -266,7 +286,8 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed
 // file when the log has no speed column) and calibrated height (mm). A
 // speed below −standstillKmh or a height beyond maxHeightMm is an error at
-// its cell; a small negative speed (GPS jitter at rest) reads as 0.
+// its cell; a small negative speed (GPS jitter at rest) reads as 0. row
+// reads the common row itself and calls it for any other.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
 	ix := &p.ix
 	v = joined
@@ -306,8 +327,11 @@ type finder struct {
 	cur, pend win
 	open      bool
 	pending   bool
+	id        string  // the configuration of the samples fed (setConfig)
+	epoch     int     // counts the changes of id
 	hist      recent  // the last RateSpanS of speeds, for the approach rate
 	held      holdLag // a held speed's lag, added to the departure edge
+	longest   float64 // EdgeS(tol), set when a window opens
 	lastT     float64 // the latest sample: time (s), speed (km/h)
 	lastV     float64
 	ends      []ends // of each window, for its acceleration's error (finish)
@@ -316,6 +340,7 @@ type finder struct {
 // win is a window being read.
 type win struct {
 	config       string
+	epoch        int // the finder's epoch when it opened: config is still its id while they are equal
 	dir          int
 	opened, last float64 // the admitted span, s
 	lastV        float64 // the last admitted speed, km/h
@@ -330,23 +355,57 @@ type win struct {
 	tail         delay // its last EdgeS(tol) + held lag of samples, not yet used
 }
 
+// add feeds a sample of configuration config ("" for none) and direction
+// dir.
 func (f *finder) add(s sample, config string, dir int) {
+	f.setConfig(config)
+	f.feed(s, dir)
+}
+
+// setConfig sets the configuration of the samples fed next ("" for
+// none). A feed of every sample takes them as add does, without comparing
+// their ids.
+func (f *finder) setConfig(id string) {
+	if id != f.id {
+		f.id = id
+		f.epoch++
+	}
+}
+
+// feed is add for a sample of the configuration last set.
+func (f *finder) feed(s sample, dir int) {
 	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
 		f.settle(s.t, s.v)
 	}
 	f.held.observe(s.t, s.v)
-	f.admit(s, config, dir)
+	c := &f.cur
+	if !f.open || dir != c.dir || f.epoch != c.epoch || !c.speed.Admits(s.v, f.tol) {
+		f.reopen(s, dir)
+	}
+	if f.open { // the sample joins the current window
+		c.tail.edge = f.longest + f.held.lag()
+		c.last, c.lastV = s.t, s.v
+		c.speed.Add(s.v)
+		if s.t-c.opened >= c.lead-timeSlack {
+			c.tail.push(s)
+			for c.tail.ready(s.t, c.tail.edge) {
+				c.use(c.tail.shift(), f.rho)
+			}
+		}
+	}
 	f.hist.push(s.t, s.v)
 	f.lastT, f.lastV = s.t, s.v
 }
 
-// admit puts a sample in the current window, opening one if need be.
-func (f *finder) admit(s sample, config string, dir int) {
+// reopen closes the current window for a sample of another configuration
+// or direction, or outside its band, and opens one for the sample unless
+// it has no configuration.
+func (f *finder) reopen(s sample, dir int) {
 	c := &f.cur
-	if f.open && (config != c.config || dir != c.dir) {
+	if f.open && (f.epoch != c.epoch || dir != c.dir) {
 		f.close()
 	}
-	if config == "" {
+	if f.id == "" {
 		return
 	}
 	if f.open && !c.speed.Admits(s.v, f.tol) {
@@ -356,22 +415,9 @@ func (f *finder) admit(s sample, config string, dir int) {
 		f.open = true
 		tail := c.tail
 		tail.reset()
-		*c = win{config: config, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
+		*c = win{config: f.id, epoch: f.epoch, dir: dir, opened: s.t, probe: !math.IsNaN(s.qa), tail: tail,
 			lead: EdgeFor(f.tol, f.hist.approach(s.t, s.v))}
-	}
-	c.tail.edge = EdgeS(f.tol) + f.held.lag()
-	c.last, c.lastV = s.t, s.v
-	c.speed.Add(s.v)
-	if s.t-c.opened < c.lead-timeSlack {
-		return
-	}
-	c.tail.push(s)
-	for {
-		u, ok := c.tail.pop(s.t, c.tail.edge)
-		if !ok {
-			break
-		}
-		c.use(u, f.rho)
+		f.longest = EdgeS(f.tol)
 	}
 }
 

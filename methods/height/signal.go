@@ -56,6 +56,12 @@ func NewMovingAverage(n int) *MovingAverage {
 
 // Step adds x and returns the mean of the samples held.
 func (m *MovingAverage) Step(x float64) float64 {
+	m.Add(x)
+	return m.Mean()
+}
+
+// Add adds x; Mean then reads what Step would have returned.
+func (m *MovingAverage) Add(x float64) {
 	if m.full {
 		m.sum -= m.buf[m.next]
 	}
@@ -65,6 +71,10 @@ func (m *MovingAverage) Step(x float64) float64 {
 	if m.next == len(m.buf) {
 		m.next, m.full = 0, true
 	}
+}
+
+// Mean returns the mean of the samples held (NaN before the first).
+func (m *MovingAverage) Mean() float64 {
 	if m.full {
 		return m.sum / float64(len(m.buf))
 	}

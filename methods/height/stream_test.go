@@ -17,10 +17,11 @@ import (
 // read by the ride-height adapter alone, then Finish; and whole — and
 // fails the test unless they end alike: the same problems, or the same
 // files, warnings and input hash (that of hashing the files again).
-func streamAndLoad(t *testing.T, path string) {
+// later sets Options.HashLater on the streamed load.
+func streamAndLoad(t *testing.T, path string, later bool) {
 	t.Helper()
 	full, wantErr := campaign.Load(path, campaign.Options{})
-	c, err := campaign.Load(path, campaign.Options{Stream: true})
+	c, err := campaign.Load(path, campaign.Options{Stream: true, HashLater: later})
 	if err != nil {
 		if fmt.Sprint(err) != fmt.Sprint(wantErr) {
 			t.Fatalf("streamed load:\n%v\nloaded whole:\n%v", err, wantErr)
@@ -94,7 +95,7 @@ func miniCopy(t *testing.T, yamlEdits, logEdits []string) string {
 // with every log read by validation: the same problems, listed the same
 // way, on bad logs; on a clean one the same files, warnings and input
 // hash, the latter equal to hashing the files again with the standard
-// library.
+// library; and so with Options.HashLater, whose hash is read afterwards.
 func TestStreamLikeLoad(t *testing.T) {
 	const first, second = "5.0,20.0,5.556,1,", "9.0,20.0,5.556,1,"
 	for _, tc := range []struct {
@@ -109,9 +110,11 @@ func TestStreamLikeLoad(t *testing.T) {
 		{"segment outside the log", []string{"to_s: 59}", "to_s: 99}"}, nil},
 		{"cell not a number", nil, []string{first, "5.0,20.0x,5.556,1,"}},
 	} {
-		t.Run(tc.name, func(t *testing.T) {
-			streamAndLoad(t, miniCopy(t, tc.yamlEdits, tc.logs))
-		})
+		for _, later := range []bool{false, true} {
+			t.Run(fmt.Sprintf("%s/later=%v", tc.name, later), func(t *testing.T) {
+				streamAndLoad(t, miniCopy(t, tc.yamlEdits, tc.logs), later)
+			})
+		}
 	}
 }
 
@@ -133,6 +136,6 @@ func FuzzStreamLikeLoad(f *testing.F) {
 		if err := os.WriteFile(filepath.Join(filepath.Dir(path), "logs", "run.csv"), log, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		streamAndLoad(t, path)
+		streamAndLoad(t, path, false)
 	})
 }

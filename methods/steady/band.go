@@ -12,13 +12,25 @@ type Band struct {
 // included, within ±tol of the new mean: with n samples and sum s,
 // max − s/n ≤ tol and s/n − min ≤ tol, multiplied by n. An empty band
 // admits any v.
+//
+// The extremes are kept with plain comparisons rather than min and max,
+// whose NaN and signed-zero rules cost a dozen instructions each on every
+// sample: the answers are the same, as a NaN makes the sum NaN, which
+// admits nothing, and −0 and +0 compare equal.
 func (b *Band) Admits(v, tol float64) bool {
 	if b.n == 0 {
 		return true
 	}
 	n := float64(b.n + 1)
 	sum := b.sum + v
-	return n*max(b.max, v)-sum <= n*tol && sum-n*min(b.min, v) <= n*tol
+	hi, lo := b.max, b.min
+	if v > hi {
+		hi = v
+	}
+	if v < lo {
+		lo = v
+	}
+	return n*hi-sum <= n*tol && sum-n*lo <= n*tol
 }
 
 // Add puts v in the band.
@@ -28,7 +40,12 @@ func (b *Band) Add(v float64) {
 	}
 	b.n++
 	b.sum += v
-	b.min, b.max = min(b.min, v), max(b.max, v)
+	if v > b.max {
+		b.max = v
+	}
+	if v < b.min {
+		b.min = v
+	}
 }
 
 // Mean returns the band's mean speed (0 when empty).

@@ -1,6 +1,10 @@
 package steady
 
-import "testing"
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
 
 // TestBandAdmits: the steady-window rule (model.md, "Steady windows":
 // every sample within ±tol of the window mean), worked by hand on a band
@@ -29,5 +33,68 @@ func TestBandAdmits(t *testing.T) {
 	var empty Band
 	if !empty.Admits(1e9, 0) || empty.Mean() != 0 {
 		t.Errorf("an empty band must admit anything and have mean 0")
+	}
+}
+
+// refBand is Band as first written, with min and max: the reference that
+// TestBandComparisons holds the plain comparisons to.
+type refBand struct {
+	n             int
+	sum, min, max float64
+}
+
+func (b *refBand) admits(v, tol float64) bool {
+	if b.n == 0 {
+		return true
+	}
+	n := float64(b.n + 1)
+	sum := b.sum + v
+	return n*max(b.max, v)-sum <= n*tol && sum-n*min(b.min, v) <= n*tol
+}
+
+func (b *refBand) add(v float64) {
+	if b.n == 0 {
+		b.min, b.max = v, v
+	}
+	b.n++
+	b.sum += v
+	b.min, b.max = min(b.min, v), max(b.max, v)
+}
+
+// TestBandComparisons: Band answers as the reference with min and max on
+// every sample of streams that mix speeds with NaN, ±0 and ±Inf, fed as a
+// window finder feeds it (a sample not admitted starts a new band) and
+// also added regardless; seeded.
+func TestBandComparisons(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	special := []float64{math.NaN(), 0, math.Copysign(0, -1), math.Inf(1), math.Inf(-1)}
+	for _, tc := range []struct {
+		name   string
+		always bool // add every sample, admitted or not
+	}{{"as a finder feeds it", false}, {"every sample added", true}} {
+		t.Run(tc.name, func(t *testing.T) {
+			for stream := range 200 {
+				var b Band
+				var r refBand
+				for i := range 300 {
+					v := 100 + 3*rng.NormFloat64()
+					if rng.IntN(20) == 0 {
+						v = special[rng.IntN(len(special))]
+					}
+					got, want := b.Admits(v, 1.5), r.admits(v, 1.5)
+					if got != want {
+						t.Fatalf("stream %d sample %d: Admits(%g) = %v, reference %v", stream, i, v, got, want)
+					}
+					if !got && !tc.always {
+						b, r = Band{}, refBand{}
+					}
+					b.Add(v)
+					r.add(v)
+					if m, rm := b.Mean(), r.sum/float64(r.n); m != rm && !(math.IsNaN(m) && math.IsNaN(rm)) {
+						t.Fatalf("stream %d sample %d: Mean %g, reference %g", stream, i, m, rm)
+					}
+				}
+			}
+		})
 	}
 }
