@@ -275,3 +275,22 @@ func FuzzReaderFormat(f *testing.F) {
 		}
 	})
 }
+
+// TestNextStopsAfterError: once a row fails (here a time that goes back),
+// Next stays false: the rows after the error are not handed out.
+func TestNextStopsAfterError(t *testing.T) {
+	r, err := logs.NewReader(strings.NewReader("t,v\n0,1\n1,1\n0.5,1\n2,1\n3,1\n"), "x.csv", []logs.Column{{Name: "t", Time: true}, {Name: "v"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for r.Next() {
+		n++
+	}
+	if n != 2 || !errors.Is(r.Err(), logs.ErrNotIncreasing) {
+		t.Fatalf("%d rows, error %v; want 2 rows, then a time that is not increasing", n, r.Err())
+	}
+	if r.Next() {
+		t.Errorf("Next after the error steps on to t = %g", r.Float(0))
+	}
+}
