@@ -151,13 +151,11 @@ func newStatNoise(m *model, e int, A *mat.Dense) *statNoise {
 		if off+nb > n {
 			return nil
 		}
-		Ab := A.Slice(0, k, off, off+nb)
+		Ab := A.Slice(0, k, off, off+nb).(*mat.Dense)
 		off += nb
 		if bl.diag != nil {
-			col := make([]float64, k)
 			for a, p := range bl.diag {
-				mat.Col(col, a, Ab)
-				M.SymRankOne(M, 1/p, mat.NewVecDense(k, col))
+				M.SymRankOne(M, 1/p, Ab.ColView(a))
 			}
 			continue
 		}

@@ -1,46 +1,42 @@
 package gust
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
+)
 
 // The small dense algebra of the restricted likelihood's blocks (a few
 // columns each), on row-major slices, without allocation.
 
 // cholesky factorises the symmetric positive definite n×n matrix a (its
-// lower triangle read) in place into L, a = L·Lᵀ, and returns log det a.
-// ok is false if a is not positive definite (Golub & Van Loan, Matrix
-// Computations, Algorithm 4.2.1 — from memory).
+// lower triangle read) in place into L, a = L·Lᵀ (LAPACK's dpotrf, through
+// gonum), and returns log det a = 2·Σ log L_ii. ok is false if a is not
+// positive definite.
 func cholesky(a []float64, n int) (logDet float64, ok bool) {
+	if n == 0 {
+		return 0, true
+	}
+	t, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: n, Data: a[:n*n]})
+	if !ok {
+		return 0, false
+	}
 	for j := range n {
-		d := a[j*n+j]
-		for k := range j {
-			d -= a[j*n+k] * a[j*n+k]
-		}
-		if !(d > 0) {
-			return 0, false
-		}
-		d = math.Sqrt(d)
-		a[j*n+j] = d
-		logDet += 2 * math.Log(d)
-		for i := j + 1; i < n; i++ {
-			v := a[i*n+j]
-			for k := range j {
-				v -= a[i*n+k] * a[j*n+k]
-			}
-			a[i*n+j] = v / d
-		}
+		logDet += 2 * math.Log(t.Data[j*n+j])
 	}
 	return logDet, true
 }
 
-// forwardSolve overwrites x with L⁻¹x, L the n×n lower factor in l.
+// forwardSolve overwrites x with L⁻¹x, L the n×n lower factor in l
+// (dtrsv, through gonum).
 func forwardSolve(l []float64, n int, x []float64) {
-	for i := range n {
-		v := x[i]
-		for k := range i {
-			v -= l[i*n+k] * x[k]
-		}
-		x[i] = v / l[i*n+i]
+	if n == 0 {
+		return
 	}
+	L := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: l[:n*n]}
+	blas64.Trsv(blas.NoTrans, L, blas64.Vector{N: n, Inc: 1, Data: x[:n]})
 }
 
 // rankOne adds alpha·x·yᵀ to the r×c matrix a.
@@ -52,19 +48,4 @@ func rankOne(a []float64, r, c int, alpha float64, x, y []float64) {
 			row[j] += ax * y[j]
 		}
 	}
-}
-
-// axpy adds alpha·x to y.
-func axpy(y []float64, alpha float64, x []float64) {
-	for i := range y {
-		y[i] += alpha * x[i]
-	}
-}
-
-func dot(x, y []float64) float64 {
-	var s float64
-	for i := range x {
-		s += x[i] * y[i]
-	}
-	return s
 }

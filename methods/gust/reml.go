@@ -3,6 +3,7 @@ package gust
 import (
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -182,7 +183,7 @@ func (r *reml) logLik(s2 float64) (ll float64, ok bool) {
 	for _, rr := range r.runs {
 		k := r.runTerms(&rr, s2, &ldv, &quad)
 		rankOne(w.s, ns, ns, -k, rr.us, rr.us)
-		axpy(w.bS, -k*rr.w, rr.us)
+		floats.AddScaled(w.bS, -k*rr.w, rr.us)
 	}
 	for bi := range r.blocks {
 		b := &r.blocks[bi]
@@ -194,8 +195,8 @@ func (r *reml) logLik(s2 float64) (ll float64, ok bool) {
 			rankOne(w.bb, b.nb, b.nb, -k, rr.ub, rr.ub)
 			rankOne(w.bs, b.nb, ns, -k, rr.ub, rr.us)
 			rankOne(w.s, ns, ns, -k, rr.us, rr.us)
-			axpy(w.yb, -k*rr.w, rr.ub)
-			axpy(w.bS, -k*rr.w, rr.us)
+			floats.AddScaled(w.yb, -k*rr.w, rr.ub)
+			floats.AddScaled(w.bS, -k*rr.w, rr.us)
 		}
 		ld, ok := cholesky(w.bb, b.nb)
 		if !ok {
@@ -203,7 +204,7 @@ func (r *reml) logLik(s2 float64) (ll float64, ok bool) {
 		}
 		ldA += ld
 		eliminate(w, b.nb, ns)
-		bAb += dot(w.yb, w.yb)
+		bAb += floats.Dot(w.yb, w.yb)
 	}
 	ld, ok := cholesky(w.s, ns)
 	if !ok {
@@ -211,7 +212,7 @@ func (r *reml) logLik(s2 float64) (ll float64, ok bool) {
 	}
 	w.z = append(w.z[:0], w.bS...)
 	forwardSolve(w.s, ns, w.z)
-	return -0.5 * (ldv + ldA + ld + quad - bAb - dot(w.z, w.z)), true
+	return -0.5 * (ldv + ldA + ld + quad - bAb - floats.Dot(w.z, w.z)), true
 }
 
 // runTerms adds a run's terms to log det V and yᵀV⁻¹y at σ_g² = s2 and

@@ -1,6 +1,10 @@
 package height
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/floats"
+)
 
 // Batch noise. The 1 s batch means of a window's speed scatter about
 // their line with variance σ_b², and adjacent ones correlate: the noise of
@@ -144,7 +148,7 @@ func (e *ends) residualMoments(phi float64, buf *momentBuf) (e0, e1, wRw float64
 	}
 	ru, rw := corrTimes(u, rho1, psi, resize(buf.ru, n)), corrTimes(w, rho1, psi, resize(buf.rw, n))
 	buf.u, buf.w, buf.ru, buf.rw = u, w, ru, rw
-	uRu, wRw, wRu := dot(u, ru), dot(w, rw), dot(w, ru)
+	uRu, wRw, wRu := floats.Dot(u, ru), floats.Dot(w, rw), floats.Dot(w, ru)
 	e0 = b - uRu - wRw
 	e1 = (b-1)*rho1 - 2*(lagDot(u, ru)+lagDot(w, rw)) +
 		lagDot(u, u)*uRu + lagDot(w, w)*wRw + 2*lagDot(u, w)*wRu
@@ -176,15 +180,6 @@ func resize(b []float64, n int) []float64 {
 		return make([]float64, n)
 	}
 	return b[:n]
-}
-
-// dot returns p'q.
-func dot(p, q []float64) float64 {
-	s := 0.0
-	for i := range p {
-		s += p[i] * q[i]
-	}
-	return s
 }
 
 // lagDot returns p'Aq = ½ Σ (p_i q_{i+1} + p_{i+1} q_i).
