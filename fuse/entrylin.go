@@ -56,13 +56,7 @@ func (m *model) entryLinear(e int, theta, phi []float64) *entryLin {
 				continue
 			}
 			for b := range nb {
-				var w float64
-				switch {
-				case bl.diag != nil && a == b:
-					w = bl.diag[a]
-				case bl.diag == nil:
-					w = bl.precD[a*nb+b]
-				}
+				w := bl.precD[a*nb+b]
 				if w == 0 {
 					continue
 				}

@@ -60,7 +60,7 @@ func TestSlopeErrorCalibrated(t *testing.T) {
 						x = tc.phi*x + math.Sqrt(1-tc.phi*tc.phi)*rng.NormFloat64()
 						s.add(0.1*float64(i), 120+0.3*x)
 					}
-					_, es[k] = s.accel()
+					es[k] = s.accel()
 					es[k].atSpeed = true
 				}
 				n := pooledBatchNoise(es)
@@ -99,7 +99,7 @@ func TestQuantisedSpeedNotExact(t *testing.T) {
 			tt := 0.1 * float64(i)
 			s.add(tt, 100+math.Floor(tt+1e-9))
 		}
-		_, es[k] = s.accel()
+		es[k] = s.accel()
 		es[k].atSpeed = true
 	}
 	n := pooledBatchNoise(es)

@@ -149,7 +149,6 @@ func edgeRun(t *testing.T, tol, dt, accel, holdHz, t0 float64) (ws []Window, sta
 		}
 		f.add(sample{t: tt, v: speed(at), h: 50 + 0.01*math.Sin(7*tt), qa: math.NaN()}, "base", 1)
 	}
-	f.close()
 	f.finish()
 	for _, x := range f.windows {
 		if math.Abs(x.SpeedKmh-100) < 5 {

@@ -7,6 +7,7 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/gust"
 )
 
 // builder turns an entry's windows into evidence. For window i of log l in
@@ -24,7 +25,7 @@ import (
 // the log, with c_i the pilot's sensitivity. ε has the window's variance
 // (standard error², the friction band's f²/3 and the acceleration
 // estimate's share). Windows at rest share one more nuisance per axle, the
-// offset at which friction holds the body after a stop (RestName).
+// offset at which friction holds the body after a stop (restName).
 type builder struct {
 	c     *campaign.Campaign
 	e     *campaign.RideHeightEntry
@@ -130,9 +131,9 @@ func (b *builder) declare(used map[string]bool) ([]evidence.ScaleGroup, []eviden
 		}
 	}
 	for _, s := range b.res.Lever.Axles {
-		if used[RestName(s.Axle)] {
-			ns = append(ns, evidence.Nuisance{Name: RestName(s.Axle), Label: s.Axle + " axle's height where friction holds it at rest",
-				Unit: "mm", SD: RestSD(b.c, s.Axle)})
+		if used[restName(s.Axle)] {
+			ns = append(ns, evidence.Nuisance{Name: restName(s.Axle), Label: s.Axle + " axle's height where friction holds it at rest",
+				Unit: "mm", SD: restSD(b.c, s.Axle)})
 		}
 	}
 	for li := range b.e.Logs {
@@ -147,25 +148,25 @@ func (b *builder) declare(used map[string]bool) ([]evidence.ScaleGroup, []eviden
 	return sc, ns
 }
 
-// RestName names an axle's rest offset: where the friction band holds the
+// restName names an axle's rest offset: where the friction band holds the
 // body at rest. Braking to a stop moves load forward; when the car stands
 // the load returns, and the suspension follows it only until friction
 // holds it, at the same side of the band after every stop (the front low,
-// the rear high). So the windows at rest share an offset within ±f, which
-// is not the f²/3 of independent scatter a window at speed has (road
-// inputs shake the body about inside the band there). It is the body's,
+// the rear high). So the windows at rest share an offset within ±f, beside
+// the f²/3 of independent scatter every window keeps (leaving it out at
+// rest made the bump-stop day of the reality tests fail). It is the body's,
 // so every sensor reading the axle shares it: a nuisance of sd f on the
 // windows at rest, with the sensor's lever weight, so that the standstill
 // windows do not pin the static offset tighter than friction allows, and
 // two sensors on one axle are still compared as tightly as their own
 // errors allow. Play (backlash) in a suspension with Coulomb friction:
 // common practice (no source).
-func RestName(axle string) string { return "rest-stick/" + axle }
+func restName(axle string) string { return "rest-stick/" + axle }
 
-// RestSD is the sd of an axle's rest offset (mm): the widest friction band
+// restSD is the sd of an axle's rest offset (mm): the widest friction band
 // friction_mm states among the ride-height entries on the axle, so that
 // every entry declares the shared nuisance alike.
-func RestSD(c *campaign.Campaign, axle string) float64 {
+func restSD(c *campaign.Campaign, axle string) float64 {
 	f := 0.0
 	for _, e := range c.Evidence.RideHeight {
 		if e.Axle == axle {
@@ -227,10 +228,10 @@ func (b *builder) obs(li, i int, w Window, tbar float64) evidence.Obs {
 	if b.e.Drift {
 		o.Nuis = append(o.Nuis, evidence.Coef{Name: b.driftName(li), C: (w.From+w.To)/2 - tbar})
 	}
-	if w.SpeedKmh < standstillKmh {
+	if w.SpeedKmh < gust.Stop { // at rest: the standstill of the run-to-run wind and the taps
 		for _, s := range b.res.Lever.Axles {
-			if RestSD(b.c, s.Axle) > 0 {
-				o.Nuis = append(o.Nuis, evidence.Coef{Name: RestName(s.Axle), C: s.W})
+			if restSD(b.c, s.Axle) > 0 {
+				o.Nuis = append(o.Nuis, evidence.Coef{Name: restName(s.Axle), C: s.W})
 			}
 		}
 	}

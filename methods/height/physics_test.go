@@ -148,7 +148,8 @@ func TestMeanAccel(t *testing.T) {
 				tt := 0.1 * float64(i)
 				s.add(100+tt, tc.speed(tt))
 			}
-			a, e := s.accel()
+			e := s.accel()
+			a := e.a
 			if math.Abs(a/3.6-tc.wantMs) > 1e-9 || e.rss > 1e-9 {
 				t.Errorf("mean acceleration %.6f m/s² (rss %.3g), want %.6f", a/3.6, e.rss, tc.wantMs)
 			}
@@ -196,7 +197,8 @@ func TestMeanAccelError(t *testing.T) {
 				}
 				s.add(tt, v)
 			}
-			a, e := s.accel()
+			e := s.accel()
+			a := e.a
 			e.atSpeed = true
 			n := pooledBatchNoise([]ends{e})
 			got := n.v

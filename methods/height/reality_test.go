@@ -82,7 +82,7 @@ func fuseReality(t *testing.T, d *reality.Day, seed int64) []realityFigure {
 // hold (the default steady tolerance allows it), and a gusty day (the wind
 // changes by 2 m/s sd from run to run). The simulator's default
 // suspension friction is on, as on a real day: each axle's rest offset
-// (RestName, sd friction_mm) carries what it does to the static height.
+// (restName, sd friction_mm) carries what it does to the static height.
 // The laser day is also run with friction off, the idealised setting the
 // test used before, so that it stays checked.
 //

@@ -10,6 +10,7 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/gust"
 	"liftfuse/methods/logs"
 	"liftfuse/methods/steady"
 )
@@ -159,7 +160,6 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 		if err := p.rows.Done(); err != nil {
 			return nil, err
 		}
-		p.f.close()
 		p.f.finish()
 	}
 	return ps, nil
@@ -478,16 +478,16 @@ func (f *finder) settle(t, v float64) {
 	}
 	n := float64(c.h.N())
 	se, neff := c.h.StandardError()
-	slope, e := c.ends.accel()
+	e := c.ends.accel()
 	w := Window{
 		Log: f.log, Config: c.config, Direction: c.dir, From: c.from, To: c.to,
 		N: c.h.N(), NEff: neff, SpeedKmh: c.sumV / n,
 		SpeedSq:  c.sumV2 / n / (evidence.RefSpeedKmh * evidence.RefSpeedKmh),
 		Q:        air.DynamicPressure(f.rho, 1) * c.sumV2 / n / (3.6 * 3.6),
 		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),
-		AccelMs2: air.KmhToMs(slope),
+		AccelMs2: air.KmhToMs(e.a),
 	}
-	e.atSpeed = w.SpeedKmh >= standstillKmh
+	e.atSpeed = w.SpeedKmh >= gust.Stop
 	f.ends = append(f.ends, e)
 	w.AirKmh = w.SpeedKmh
 	if c.probe {
@@ -496,10 +496,11 @@ func (f *finder) settle(t, v float64) {
 	f.windows = append(f.windows, w)
 }
 
-// finish sets each window's acceleration error once the log is read: the
-// variance of a batch mean of the speed and the correlation of adjacent
+// finish closes the open window and settles the pending one at the log's
+// end, then sets each window's acceleration error: the variance of a batch mean of the speed and the correlation of adjacent
 // ones are pooled over the log's windows at speed (batchnoise.go).
 func (f *finder) finish() {
+	f.close()
 	if f.pending {
 		f.settle(f.lastT, f.lastV)
 	}

@@ -1,6 +1,10 @@
 package height
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/stat"
+)
 
 // EndSpanS is the span of the batches whose mean speeds give a window's
 // mean acceleration, s: longer than the hold of a speed logged at
@@ -21,6 +25,8 @@ const EndSpanS = 1.0
 //
 //	a = Σ(t̄_b − t̄)(v̄_b − v̄)/Σ(t̄_b − t̄)²,  SE = σ_b/√Σ(t̄_b − t̄)²
 //
+// for uncorrelated batch means (with their AR(1) correlation R,
+// √(σ_b²·w'Rw/Sxx), floored at the speed's quantum: batchnoise.go)
 // exact for a straight line (a hold, a creep), with σ_b the sd of a batch
 // mean, read from the scatter of the window's batch means about their
 // line (the batch-means method: Law & Kelton, Simulation Modeling and
@@ -111,11 +117,11 @@ type ends struct {
 	atSpeed      bool
 }
 
-// accel returns the window's mean acceleration in km/h per s and what its
-// error needs. The batch still being filled counts when it spans at
+// accel returns the window's mean acceleration in km/h per s (e.a) and
+// what its error needs. The batch still being filled counts when it spans at
 // least EndSpanS less one sample period (the window's mean), so that a
 // complete last batch (10 samples at 10 Hz span 0.9 s) is not dropped.
-func (s *speedEnds) accel() (a float64, e ends) {
+func (s *speedEnds) accel() (e ends) {
 	e.stepVar = math.NaN()
 	e.q = s.minStep
 	bx, bv, inBatches := s.bx, s.bv, s.inBatches
@@ -129,13 +135,13 @@ func (s *speedEnds) accel() (a float64, e ends) {
 	}
 	if s.m >= 2 && s.ut1 > s.ut0 {
 		e.upT, e.upM = s.ut1-s.ut0, s.m-1
-		a = (s.uv1 - s.uv0) / e.upT
+		e.a = (s.uv1 - s.uv0) / e.upT
 		if k := float64(s.m - 1); k >= 2 {
 			e.stepVar = max(0, s.sumStep2-s.sumStep*s.sumStep/k) / (2 * (k - 1))
 		}
 	}
 	if b := len(bx); b >= 2 && bx[b-1] > bx[0] {
-		xm, vm := mean(bx), mean(bv)
+		xm, vm := stat.Mean(bx, nil), stat.Mean(bv, nil)
 		e.xc = make([]float64, b)
 		sxv := 0.0
 		for i, x := range bx {
@@ -143,10 +149,10 @@ func (s *speedEnds) accel() (a float64, e ends) {
 			e.sxx += e.xc[i] * e.xc[i]
 			sxv += e.xc[i] * (bv[i] - vm)
 		}
-		a = sxv / e.sxx
+		e.a = sxv / e.sxx
 		prev := 0.0
 		for i, v := range bv {
-			r := v - vm - a*e.xc[i]
+			r := v - vm - e.a*e.xc[i]
 			e.rss += r * r
 			if i > 0 {
 				e.c1 += prev * r
@@ -155,15 +161,5 @@ func (s *speedEnds) accel() (a float64, e ends) {
 		}
 		e.perBatch = float64(inBatches) / float64(b)
 	}
-	e.a = a
-	return a, e
-}
-
-// mean returns the mean of xs.
-func mean(xs []float64) float64 {
-	s := 0.0
-	for _, x := range xs {
-		s += x
-	}
-	return s / float64(len(xs))
+	return e
 }
