@@ -29,7 +29,14 @@ type entryData struct {
 // the error of the acceleration estimate (κ is linear in a), as the adapter's window variance does. The prior's part is
 // common to the windows; taking it as independent costs little, as it is
 // a few hundredths of a millimetre. Each window's variance also gains the
-// run-to-run wind (addGust), per configuration.
+// run-to-run wind the adapter models: a run's wind deviation g moves the
+// height by the window's GustSens·g (the adapter's nuisance coefficient),
+// so var ε_i += (GustSens_i·σ_g)², σ_g the adapter's estimate
+// (Result.GustSDMs). The windows of one run share their deviation; taken
+// as independent here, the variance errs wide for one window off the line
+// of the others. Without it, a window at the top speed reads a few sd off
+// on a clean day of the independent simulator whenever its run's wind is
+// a sd or two from the mean.
 func newEntryData(c *campaign.Campaign, r *height.Result) *entryData {
 	d := &entryData{ws: r.Windows, e: r.Entry, y: make([]float64, len(r.Windows)), v: windowVars(r.Windows, r.Entry.FrictionMm)}
 	h, sd := c.Vehicle.CGHeightM, c.Vehicle.CGHeightSDM
@@ -38,13 +45,8 @@ func newEntryData(c *campaign.Campaign, r *height.Result) *entryData {
 		d.y[i] = w.HeightMM - kappa*h
 		se := r.AccelCoef(c.Vehicle, w.AccelSE) * h
 		d.v[i] += math.Pow(kappa*sd, 2) + se*se
-	}
-	linearSpeed := c.Prior.SpeedModel == campaign.SpeedLinear
-	order, byCfg := configWindows(r)
-	for _, cfg := range order {
-		if qs := qScale(r, byCfg[cfg]); qs > 0 {
-			addGust(c, r, d, byCfg[cfg], linearSpeed, qs)
-		}
+		g := w.GustSens * r.GustSDMs
+		d.v[i] += g * g
 	}
 	return d
 }

@@ -4,10 +4,8 @@ import (
 	"math"
 	"sort"
 
-	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
-	"liftfuse/methods/gust"
 	"liftfuse/methods/height"
 )
 
@@ -15,8 +13,8 @@ import (
 // configuration, directions pooled:
 //
 //	h_i − κ_i·h̄_cg = o_log + b·q_i [+ b₁·q_i·(V_i/100 − 1)] [+ c·dir_i·V_i] [+ d_log·t_i] + ε_i,
-//	var ε_i = SE_i² + friction²/3 (+ the load transfer's share, see newEntryData,
-//	          + the run-to-run wind's, see addGust),
+//	var ε_i = SE_i² + friction²/3 (+ the load transfer's share and the
+//	          run-to-run wind's, see newEntryData),
 //
 // with a static offset per log, the deflection linear in the ground dynamic
 // pressure q (lift, and a laser's tyre growth, which is ∝ V² ∝ q too), the
@@ -221,41 +219,6 @@ func qScale(r *height.Result, idx []int) float64 {
 		qs = math.Max(qs, r.Windows[i].Q)
 	}
 	return qs
-}
-
-// addGust adds to the variance of each window of idx the run-to-run wind
-// the adapter models (Result.GustSDMs, its restricted-likelihood estimate
-// of the scatter over the day's entries, package gust): a run's wind
-// deviation g moves the air's q by ρ·V·g, so the height by p·ρ·V·g, with p
-// the configuration's height per Pa (a first linear fit):
-//
-//	var ε_i += (p·ρ·V_i·σ_g)²
-//
-// as the adapter's own gust sensitivities (height/gust.go). Windows read
-// with an airspeed probe, which measures the wind, and those at
-// standstill gain nothing. The windows of one run share their deviation;
-// taken as independent here, the variance errs wide for one window off
-// the line of the others. Without it, a window at the top speed reads a
-// few sd off on a clean day of the independent simulator whenever its
-// run's wind is a sd or two from the mean.
-func addGust(c *campaign.Campaign, r *height.Result, d *entryData, idx []int, linearSpeed bool, qs float64) {
-	if r.GustSDMs <= 0 {
-		return
-	}
-	x, y, w := design(d, idx, linearSpeed, nil, qs)
-	lin, err := wls(x, y, w)
-	if err != nil {
-		return
-	}
-	p, rho := lin.Beta[0]/qs, c.Density()
-	for _, i := range idx {
-		win := d.ws[i]
-		if win.Probe || win.SpeedKmh < gust.Stop {
-			continue
-		}
-		s := p * rho * air.KmhToMs(win.SpeedKmh) * r.GustSDMs
-		d.v[i] += s * s
-	}
 }
 
 // oneWindow repeats the curvature test without the window farthest off the

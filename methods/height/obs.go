@@ -62,6 +62,11 @@ func (b *builder) split() {
 		b.perLog[w.Log] = append(b.perLog[w.Log], i)
 	}
 	b.gust = b.gusts(b.perLog)
+	for li, sens := range b.gust.sens {
+		for k, c := range sens {
+			b.res.Windows[b.perLog[li][k]].GustSens = c
+		}
+	}
 }
 
 // evidence turns the windows into Gaussian observations, one block per

@@ -39,6 +39,11 @@ type Window struct {
 	// airspeed; otherwise AirKmh is the ground speed.
 	Probe  bool
 	AirKmh float64
+	// GustSens is how far the run's wind deviation moves the window's
+	// height (mm per m/s, p_c·ρ·V·Dir from the adapter's pilot fit; 0 for
+	// probe and standstill windows, or with no gust prior): the
+	// run-to-run wind nuisance's coefficient (gust.go).
+	GustSens float64
 }
 
 // TracePoint is one sample of the decimated trace kept for plots.
