@@ -185,28 +185,40 @@ func TestPredictiveStructuredExact(t *testing.T) {
 
 // eachGaussianEntry runs fn, as a subtest, on every entry with Gaussian
 // data of every exactCases campaign, twice: with the entry's others'
-// posterior whole, and as the fusion keeps it — compacted to the columns
-// the agreement reads, its joint covariance computed from them (the path
-// of the robust refits, compactOthers) — each time with that posterior's
-// structured statistic, O, and the whole posterior, W, for the reference.
+// posterior whole, and compacted as the robust refits keep it
+// (compactOthers: the columns the agreement reads and the nuisances the
+// entry shares, its joint covariance computed before) — each time with
+// that posterior's structured statistic, O, and the whole posterior, W,
+// for the reference. The others are fitted afresh for each (the same
+// seed, so the same draws), so the shared cases' posteriors are left as
+// they were.
 func eachGaussianEntry(t *testing.T, fn func(t *testing.T, c *looCase, ei int, O, W *Posterior, st *looStat)) {
 	for name, c := range exactCases(t) {
 		for ei, ev := range c.evs {
 			if len(ev.Blocks) == 0 {
 				continue
 			}
-			kept := c.lo.others[ei]
-			kept.mu.Lock()
-			W := kept.wholeLocked()
-			kept.mu.Unlock()
+			fit := func() (*Posterior, error) {
+				om, err := c.lo.othersModel(c.evs, ei)
+				if err != nil {
+					return nil, err
+				}
+				return om.fit()
+			}
+			W, err := fit()
+			if err != nil {
+				t.Fatal(err)
+			}
+			kept, err := fit()
+			if err != nil {
+				t.Fatal(err)
+			}
+			compactOthers(kept, c.full, ei, ev, fit)
 			for _, v := range []struct {
 				name string
 				O    *Posterior
 			}{{"whole", W}, {"compacted", kept}} {
 				t.Run(name+"/"+ev.Entry+"/"+v.name, func(t *testing.T) {
-					if v.name == "compacted" {
-						v.O.joint()
-					}
 					st, ok := looPredictive(c.full, ei, v.O)
 					if !ok {
 						t.Fatal("no statistic")
