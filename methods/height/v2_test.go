@@ -12,6 +12,7 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
+	"liftfuse/methods/gust"
 	"liftfuse/methods/height"
 )
 
@@ -168,6 +169,57 @@ func TestGustShared(t *testing.T) {
 	for name, n := range a {
 		if m, ok := b[name]; !ok || m != n || !n.PerRun || n.SD <= 0 {
 			t.Errorf("run nuisance %q: %+v and %+v", name, n, m)
+		}
+	}
+}
+
+// TestRestOffset: the windows at rest, and only they, carry their axle's
+// rest offset with the sensor's lever weight (1 for a sensor at its axle),
+// and its sd is the friction band the axle's entry states
+// (the model of restName; common practice (no source): Coulomb friction
+// holds a suspension anywhere in its band).
+func TestRestOffset(t *testing.T) {
+	c := simulate(t, 5, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
+	es := []*campaign.RideHeightEntry{&c.Evidence.RideHeight[0], &c.Evidence.RideHeight[1]}
+	es[0].FrictionMm, es[1].FrictionMm = 0.1, 0.3
+	rs, err := height.ReduceAll(c, es, height.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []struct {
+		name string
+		sd   float64
+	}{{"rest-stick/front", 0.1}, {"rest-stick/rear", 0.3}} {
+		ev, atRest := rs[i].Evidence, 0
+		for _, w := range rs[i].Windows {
+			if w.SpeedKmh < gust.Stop {
+				atRest++
+			}
+		}
+		carried := 0
+		for _, bl := range ev.Blocks {
+			for _, o := range bl.Obs {
+				for _, k := range o.Nuis {
+					if k.Name == want.name {
+						carried++
+						if k.C != 1 {
+							t.Errorf("%s: %s coefficient %g, want the lever weight 1", ev.Entry, k.Name, k.C)
+						}
+					}
+				}
+			}
+		}
+		if atRest == 0 || carried != atRest {
+			t.Errorf("%s: %d observations carry %s, want the %d windows at rest", ev.Entry, carried, want.name, atRest)
+		}
+		sd := -1.0
+		for _, n := range ev.Nuisances {
+			if n.Name == want.name {
+				sd = n.SD
+			}
+		}
+		if sd != want.sd {
+			t.Errorf("%s: %s sd %g, want %g", ev.Entry, want.name, sd, want.sd)
 		}
 	}
 }
