@@ -3,6 +3,7 @@ package steady
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -36,29 +37,26 @@ func TestBandAdmits(t *testing.T) {
 	}
 }
 
-// refBand is Band as first written, with min and max: the reference that
-// TestBandComparisons holds the plain comparisons to.
-type refBand struct {
-	n             int
-	sum, min, max float64
+// refBand keeps every sample and applies the band's rule to them afresh
+// (slices.Max and Min, whose NaN and signed-zero rules are the builtins'):
+// the reference that TestBandComparisons holds Band's running extremes to.
+type refBand struct{ xs []float64 }
+
+func (r *refBand) sum() float64 {
+	s := 0.0
+	for _, x := range r.xs {
+		s += x
+	}
+	return s
 }
 
-func (b *refBand) admits(v, tol float64) bool {
-	if b.n == 0 {
+func (r *refBand) admits(v, tol float64) bool {
+	if len(r.xs) == 0 {
 		return true
 	}
-	n := float64(b.n + 1)
-	sum := b.sum + v
-	return n*max(b.max, v)-sum <= n*tol && sum-n*min(b.min, v) <= n*tol
-}
-
-func (b *refBand) add(v float64) {
-	if b.n == 0 {
-		b.min, b.max = v, v
-	}
-	b.n++
-	b.sum += v
-	b.min, b.max = min(b.min, v), max(b.max, v)
+	all := append(r.xs[:len(r.xs):len(r.xs)], v)
+	n, sum := float64(len(all)), r.sum()+v
+	return n*slices.Max(all)-sum <= n*tol && sum-n*slices.Min(all) <= n*tol
 }
 
 // TestBandComparisons: Band answers as the reference with min and max on
@@ -89,8 +87,8 @@ func TestBandComparisons(t *testing.T) {
 						b, r = Band{}, refBand{}
 					}
 					b.Add(v)
-					r.add(v)
-					if m, rm := b.Mean(), r.sum/float64(r.n); m != rm && !(math.IsNaN(m) && math.IsNaN(rm)) {
+					r.xs = append(r.xs, v)
+					if m, rm := b.Mean(), r.sum()/float64(len(r.xs)); m != rm && !(math.IsNaN(m) && math.IsNaN(rm)) {
 						t.Fatalf("stream %d sample %d: Mean %g, reference %g", stream, i, m, rm)
 					}
 				}
