@@ -32,9 +32,16 @@ func cholesky(a, l []float64, lay *layout) bool {
 		li := l[base[i] : base[i]+i+1]
 		ai := a[base[i] : base[i]+i+1]
 		for j := fi; j < i; j++ {
+			fj := first[j]
+			if fj == j {
+				// Row j is its diagonal alone (a run's wind, say): there
+				// is nothing to subtract, L_jj is all.
+				li[j] = ai[j] / l[base[j]+j]
+				continue
+			}
 			lj := l[base[j] : base[j]+j+1]
 			s := ai[j]
-			if k0 := max(fi, first[j]); j-k0 >= longDot {
+			if k0 := max(fi, fj); j-k0 >= longDot {
 				s -= floats.Dot(li[k0:j], lj[k0:j])
 			} else {
 				for k := k0; k < j; k++ {
@@ -98,10 +105,24 @@ func backward(l, x []float64, lay *layout) {
 func logDetChol(l []float64, lay *layout) float64 {
 	m, e := 1.0, 0
 	for i, b := range lay.base {
-		f, x := math.Frexp(m * l[b+i])
+		f, x := frexp(m * l[b+i])
 		m, e = f, e+x
 	}
 	return 2 * (math.Log(m) + float64(e)*math.Ln2)
+}
+
+// frexp is math.Frexp, its exponent read from the bits where x is a
+// normal number (math.Frexp's checks for zero, subnormals, infinities and
+// NaN cost a call each; they are left to it).
+func frexp(x float64) (float64, int) {
+	const mask, shift, bias = 0x7ff, 52, 1023
+	b := math.Float64bits(x)
+	e := int(b>>shift) & mask
+	if e == 0 || e == mask {
+		return math.Frexp(x)
+	}
+	b = b&^(mask<<shift) | (bias-1)<<shift
+	return math.Float64frombits(b), e - bias + 1
 }
 
 // cholRev is the reverse mode of cholesky: given lbar = ∂f/∂L on the
