@@ -150,6 +150,10 @@ type prior struct {
 	n                        int
 	phiNorm                  float64   // Σ −log(sd) − ½log 2π of the φ priors
 	phiSD                    []float64 // prior sd of each φ, inflated where owned
+	// lam0 and b0 are where every conditioning starts Λ (envelope
+	// storage) and b (layout order): the prior, then the terms that do
+	// not change with φ (see splitConstant)
+	lam0, b0 []float64
 }
 
 // priorTerms returns the model's prior terms, computing them on first use
@@ -180,9 +184,28 @@ func (m *model) priorTerms() *prior {
 			pr.logDetSigma += bl.logdet + 2*float64(len(bl.rows))*math.Log(k)
 			pr.n += len(bl.rows)
 		}
+		m.startTerms(pr)
 		m.prior = pr
 	})
 	return m.prior
+}
+
+// startTerms computes the prior's lam0 and b0: the prior precisions on
+// Λ's diagonal and Λ₀μ₀ in b, then the pairs of the constant bases that
+// come first in their elements' sums (splitConstant), at the basis values
+// a conditioning computes.
+func (m *model) startTerms(pr *prior) {
+	lay := m.lay
+	pr.lam0, pr.b0 = make([]float64, lay.size), make([]float64, len(m.lin))
+	for i := range m.lin {
+		at := lay.pos[i]
+		pr.lam0[lay.base[at]+at] = pr.prec[i]
+		pr.b0[at] = pr.prec[i] * m.lin[i].mean
+	}
+	// The constant bases read neither φ nor the factors.
+	phi := make([]float64, len(m.phi))
+	vals := m.basisValues(phi, m.scaleFactors(phi, nil), nil)
+	m.addConstant(vals, pr.lam0, pr.b0)
 }
 
 // condition computes the conditional posterior at φ into c, reusing c's
@@ -196,13 +219,9 @@ func (m *model) condition(phi []float64, c *cond) error {
 	}
 	c.lay = lay
 	lam, b := c.lam, c.b
-	clear(lam)
 	pr := m.priorTerms()
-	for i := range p {
-		at := lay.pos[i]
-		lam[lay.base[at]+at] = pr.prec[i]
-		b[at] = pr.prec[i] * m.lin[i].mean
-	}
+	copy(lam, pr.lam0)
+	copy(b, pr.b0)
 	yWy, mu0, logDetPrior, logDetSigma, n := 0.0, pr.mu0, pr.logDet, pr.logDetSigma, pr.n
 	c.fs = m.scaleFactors(phi, c.fs)
 	// Diagonal blocks through their merged sufficient statistics.

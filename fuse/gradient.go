@@ -134,6 +134,9 @@ func (m *model) signAdjoint(si int, c *cond, gb *gradBuf) float64 {
 func (m *model) basisAdjoint(phi []float64, c *cond, gb *gradBuf, dF []float64) {
 	t, mL, u := m.terms, gb.mL, gb.u
 	for k, bs := range t.bases {
+		if bs.constant() {
+			continue // its value, and so its adjoint's weight, is fixed
+		}
 		var s float64
 		for n := t.lamPtr[k]; n < t.lamPtr[k+1]; n++ {
 			i, j := t.lamRow[n], t.lamCol[n]

@@ -46,6 +46,77 @@ type termTable struct {
 	// lamRow, lamCol are the positions (i ≥ j) of each element of lamIdx
 	lamRow, lamCol []int32
 	yCoef          []float64 // per basis: its coefficient of yᵀΣ⁻¹y
+
+	// The pairs a conditioning adds at every φ (see splitConstant):
+	// lamIdxV[lamPtrV[k]:lamPtrV[k+1]] and so on; lamPre and bPre mark
+	// the pairs of lamIdx and bIdx left out, which the prior's start
+	// (prior.lam0, prior.b0) holds instead.
+	lamPtrV, bPtrV   []int
+	lamIdxV, bIdxV   []int32
+	lamCoefV, bCoefV []float64
+	lamPre, bPre     []bool
+}
+
+// constant reports whether a basis function does not depend on φ: no
+// factor and no power of the wind (its value is the entry's κ⁻², fixed
+// for a model).
+func (bs basis) constant() bool { return bs.f1 < 0 && bs.f2 < 0 && bs.deg == 0 }
+
+// splitConstant finds the pairs of the table whose sum does not change
+// with φ: those of a constant basis on an element of Λ (or b) that no
+// varying basis before it touches. Each element's sum runs over the bases
+// in order, so those pairs come first in it, and a model adds them once,
+// into its prior's start (priorTerms), leaving the others to every
+// conditioning: the same additions in the same order, so the same Λ and b
+// to the bit. Most such pairs are a sensor's offsets, seen at every run.
+func (t *termTable) splitConstant(lamSize, p int) {
+	t.lamPtrV, t.lamIdxV, t.lamCoefV, t.lamPre = splitPairs(t.bases, t.lamPtr, t.lamIdx, t.lamCoef, lamSize)
+	t.bPtrV, t.bIdxV, t.bCoefV, t.bPre = splitPairs(t.bases, t.bPtr, t.bIdx, t.bCoef, p)
+}
+
+// splitPairs is splitConstant for one of Λ and b, of size elements.
+func splitPairs(bases []basis, ptr []int, idx []int32, coef []float64, size int) ([]int, []int32, []float64, []bool) {
+	varied := make([]bool, size) // touched by a varying basis so far
+	pre := make([]bool, len(idx))
+	ptrV := make([]int, 1, len(bases)+1)
+	var idxV []int32
+	var coefV []float64
+	for k, bs := range bases {
+		c := bs.constant()
+		for n := ptr[k]; n < ptr[k+1]; n++ {
+			i := idx[n]
+			if c && !varied[i] {
+				pre[n] = true
+				continue
+			}
+			varied[i] = varied[i] || !c
+			idxV, coefV = append(idxV, i), append(coefV, coef[n])
+		}
+		ptrV = append(ptrV, len(idxV))
+	}
+	return ptrV, idxV, coefV, pre
+}
+
+// addConstant adds the pairs splitConstant left out, Σ v_k·C_k over them,
+// to lam and b: the values vals of the constant bases are all it reads.
+func (m *model) addConstant(vals, lam, b []float64) {
+	t := m.terms
+	for k, bs := range t.bases {
+		if !bs.constant() {
+			continue
+		}
+		v := vals[k]
+		for n := t.lamPtr[k]; n < t.lamPtr[k+1]; n++ {
+			if t.lamPre[n] {
+				lam[t.lamIdx[n]] += v * t.lamCoef[n]
+			}
+		}
+		for n := t.bPtr[k]; n < t.bPtr[k+1]; n++ {
+			if t.bPre[n] {
+				b[t.bIdx[n]] += v * t.bCoef[n]
+			}
+		}
+	}
 }
 
 // termBuilder merges coefficients by basis and element.
@@ -106,6 +177,7 @@ func (m *model) buildTerms() {
 	t.lamPtr, t.lamIdx, t.lamCoef = flattenTerms(tb.lam)
 	t.bPtr, t.bIdx, t.bCoef = flattenTerms(tb.b)
 	t.lamRow, t.lamCol = m.lay.elements(t.lamIdx)
+	t.splitConstant(m.lay.size, len(m.lin))
 	m.terms = t
 }
 
@@ -208,17 +280,18 @@ func (bs basis) factors(fs []float64) float64 {
 	return 1
 }
 
-// addTerms adds Σ_k v_k·C_k to lam and Σ_k v_k·c_k to b, and returns the
+// addTerms adds Σ_k v_k·C_k to lam and Σ_k v_k·c_k to b, but for the pairs
+// that the prior's start holds (see splitConstant), and returns the
 // grouped rows' (y − o)ᵀΣ⁻¹(y − o), Σ_k v_k·y_k.
 func (m *model) addTerms(vals, lam, b []float64) float64 {
 	t := m.terms
 	var yWy float64
 	for k, v := range vals {
-		idx, coef := t.lamIdx[t.lamPtr[k]:t.lamPtr[k+1]], t.lamCoef[t.lamPtr[k]:t.lamPtr[k+1]]
+		idx, coef := t.lamIdxV[t.lamPtrV[k]:t.lamPtrV[k+1]], t.lamCoefV[t.lamPtrV[k]:t.lamPtrV[k+1]]
 		for j, i := range idx {
 			lam[i] += v * coef[j]
 		}
-		idx, coef = t.bIdx[t.bPtr[k]:t.bPtr[k+1]], t.bCoef[t.bPtr[k]:t.bPtr[k+1]]
+		idx, coef = t.bIdxV[t.bPtrV[k]:t.bPtrV[k+1]], t.bCoefV[t.bPtrV[k]:t.bPtrV[k+1]]
 		for j, i := range idx {
 			b[i] += v * coef[j]
 		}
