@@ -37,6 +37,7 @@ func newModel(evs []evidence.Evidence, set Settings) (*model, error) {
 			return nil, err
 		}
 	}
+	m.presize(evs)
 	for ei, ev := range evs {
 		if err := ix.indexObservations(ei, ev); err != nil {
 			return nil, err
@@ -47,6 +48,22 @@ func newModel(evs []evidence.Evidence, set Settings) (*model, error) {
 		return nil, err
 	}
 	return m, nil
+}
+
+// presize gives the model's rows, blocks and signs the capacity of the
+// evidence's, so that indexing them does not copy them as they grow.
+func (m *model) presize(evs []evidence.Evidence) {
+	var rows, blocks, signs int
+	for _, ev := range evs {
+		for _, b := range ev.Blocks {
+			rows += len(b.Obs)
+		}
+		blocks += len(ev.Blocks)
+		signs += len(ev.Signs)
+	}
+	m.rows = make([]row, 0, rows)
+	m.blocks = make([]block, 0, blocks)
+	m.signs = make([]sign, 0, signs)
 }
 
 // indexLift lays out the lift columns of θ: β of front and rear of every
@@ -193,7 +210,7 @@ func (ix *indexer) addPhi(ei int, p phiParam) error {
 func (ix *indexer) indexObservations(ei int, ev evidence.Evidence) error {
 	m := ix.model
 	for _, b := range ev.Blocks {
-		bl := block{entry: ei}
+		bl := block{entry: ei, rows: make([]int, 0, len(b.Obs))}
 		for _, o := range b.Obs {
 			r, err := ix.indexRow(ei, o)
 			if err != nil {
