@@ -260,21 +260,30 @@ func ess(chains [][]float64) float64 {
 	// usually comes after a few lags; past directLags, all at once by FFT.
 	const directLags = 64
 	var acovs [][]float64
-	rho := func(t int) float64 {
-		var a float64
+	// rhos returns the autocorrelations at lags t and t + 1, which Geyer's
+	// sequence always takes together: one pass over each chain sums both,
+	// each in its own order (that of one lag alone).
+	rhos := func(t int) (float64, float64) {
+		var a0, a1 float64
 		for c, ch := range chains {
 			if acovs != nil {
-				a += acovs[c][t]
+				a0 += acovs[c][t]
+				a1 += acovs[c][t+1]
 				continue
 			}
-			var s float64
-			for i := t; i < n; i++ {
-				s += (ch[i] - means[c]) * (ch[i-t] - means[c])
+			m := means[c]
+			var s0, s1 float64
+			s0 += (ch[t] - m) * (ch[0] - m)
+			for i := t + 1; i < n; i++ {
+				s0 += (ch[i] - m) * (ch[i-t] - m)
+				s1 += (ch[i] - m) * (ch[i-t-1] - m)
 			}
-			a += s / float64(n)
+			a0 += s0 / float64(n)
+			a1 += s1 / float64(n)
 		}
-		a /= float64(M)
-		return 1 - (W-a)/vplus
+		a0 /= float64(M)
+		a1 /= float64(M)
+		return 1 - (W-a0)/vplus, 1 - (W-a1)/vplus
 	}
 	tau := -1.0
 	prev := math.Inf(1)
@@ -286,7 +295,8 @@ func ess(chains [][]float64) float64 {
 				acovs[c] = autocov(fft, ch)
 			}
 		}
-		p := rho(2*k) + rho(2*k+1)
+		r0, r1 := rhos(2 * k)
+		p := r0 + r1
 		if p < 0 {
 			break
 		}
