@@ -294,6 +294,13 @@ func (e *Evidence) checkNuisances() (nuis, logn map[string]bool, err error) {
 	return nuis, logn, nil
 }
 
+// item names an observation or a sign in Check's messages; it is written
+// out only for a message (Check runs on every fusion's evidence, and
+// formatting each label up front was most of its time).
+type item struct{ kind, label string }
+
+func (it item) String() string { return fmt.Sprintf("%s %q", it.kind, it.label) }
+
 // Check reports the first way in which e is malformed: non-finite numbers,
 // terms on unknown axles, undeclared or inconsistently declared nuisances and
 // scale groups, bad probabilities, empty evidence. Adapters call it before
@@ -319,7 +326,7 @@ func (e *Evidence) Check() error {
 		}
 		scales[s.Name] = true
 	}
-	checkTerms := func(what string, ts []Term, air Airspeed) error {
+	checkTerms := func(what item, ts []Term, air Airspeed) error {
 		if len(ts) == 0 {
 			return badf("entry %q: %s sees no lift parameter", e.Entry, what)
 		}
@@ -344,7 +351,7 @@ func (e *Evidence) Check() error {
 			return badf("entry %q: block %d covariance has the wrong size", e.Entry, bi)
 		}
 		for _, o := range b.Obs {
-			what := fmt.Sprintf("observation %q", o.Label)
+			what := item{"observation", o.Label}
 			if !finite(o.Y) {
 				return badf("entry %q: %s is not finite", e.Entry, what)
 			}
@@ -364,7 +371,7 @@ func (e *Evidence) Check() error {
 		}
 	}
 	for _, s := range e.Signs {
-		what := fmt.Sprintf("sign %q", s.Label)
+		what := item{"sign", s.Label}
 		if err := checkTerms(what, s.Terms, s.Air); err != nil {
 			return err
 		}

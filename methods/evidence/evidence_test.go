@@ -129,3 +129,41 @@ func TestCheckLogNormal(t *testing.T) {
 		})
 	}
 }
+
+// TestCheckNamesItem: Check's message names the observation or the sign
+// at fault by its quoted label (common practice (no source): a message
+// says where the fault is).
+func TestCheckNamesItem(t *testing.T) {
+	bad := obs(`window "3"`)
+	bad.Y = math.NaN()
+	noTerms := obs("w7")
+	noTerms.Terms = nil
+	diag := func(o evidence.Obs) evidence.Block {
+		b, err := evidence.Diagonal([]evidence.Obs{obs("a"), o}, []float64{1, 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return b
+	}
+	tests := []struct {
+		name string
+		e    evidence.Evidence
+		want string
+	}{
+		{"observation not finite", evidence.Evidence{Entry: "e", Blocks: []evidence.Block{diag(bad)}},
+			`malformed evidence: entry "e": observation "window \"3\"" is not finite`},
+		{"observation without terms", evidence.Evidence{Entry: "e", Blocks: []evidence.Block{diag(noTerms)}},
+			`malformed evidence: entry "e": observation "w7" sees no lift parameter`},
+		{"sign with a bad misread", evidence.Evidence{Entry: "e", Signs: []evidence.Sign{{Label: "tuft 2", Misread: 0.7, Softness: 1,
+			Terms: obs("").Terms, Air: evidence.Airspeed{Q: 100}}}},
+			`malformed evidence: entry "e": sign "tuft 2" needs misread in [0, 0.5) and softness > 0`},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			err := tt.e.Check()
+			if err == nil || err.Error() != tt.want {
+				t.Errorf("Check() = %v, want %s", err, tt.want)
+			}
+		})
+	}
+}
