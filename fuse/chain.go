@@ -70,6 +70,7 @@ type chainState struct {
 	accept                int
 	tries                 int
 	draws, phis           *drawStore
+	stage                 staged // draws not yet in draws and phis
 }
 
 // newChains returns nChains chains, chain c seeded with stream c+1.
@@ -185,9 +186,38 @@ func (pr *proposal) step(ch *chainState, n int) {
 		for k := range pr.comps {
 			pr.refresh(ch, &pr.comps[k])
 		}
-		ch.draws.add(ch.theta)
-		ch.phis.add(ch.phi)
+		ch.stage.add(ch.theta, ch.phi)
+		if ch.stage.n == stageDraws {
+			ch.stage.flush(ch.draws, ch.phis)
+		}
 	}
+	ch.stage.flush(ch.draws, ch.phis)
+}
+
+// stageDraws is how many draws a chain holds before it stores them: the
+// draw stores keep each column's draws together, and a run of eight is one
+// cache line written at once instead of eight lines touched by every draw.
+const stageDraws = 8
+
+// staged holds a chain's latest draws of θ and φ, one after another, until
+// they are stored (flush).
+type staged struct {
+	theta, phi []float64
+	n          int
+}
+
+// add stages one draw.
+func (st *staged) add(theta, phi []float64) {
+	st.theta = append(st.theta[:st.n*len(theta)], theta...)
+	st.phi = append(st.phi[:st.n*len(phi)], phi...)
+	st.n++
+}
+
+// flush stores the staged draws, in order, and empties the stage.
+func (st *staged) flush(draws, phis *drawStore) {
+	draws.addRows(st.theta, st.n)
+	phis.addRows(st.phi, st.n)
+	st.n = 0
 }
 
 // runBatch advances every chain by batch proposals, one goroutine per

@@ -72,6 +72,32 @@ func (s *drawStore) add(x []float64) {
 	s.n++
 }
 
+// addRows appends n draws given one after another in rows (n·width
+// values), as n calls of add would, but column by column: each column's
+// run of consecutive draws within a block is written at once.
+func (s *drawStore) addRows(rows []float64, n int) {
+	w := s.width
+	for done := 0; done < n; {
+		k := s.n % storeBlock
+		if k == 0 && w > 0 {
+			s.blocks = append(s.blocks, newBlock(w*storeBlock))
+			s.lastStride = storeBlock
+		}
+		r := min(n-done, storeBlock-k)
+		if w > 0 {
+			blk, src := s.blocks[len(s.blocks)-1], rows[done*w:(done+r)*w]
+			for j := range w {
+				dst := blk[j*storeBlock+k : j*storeBlock+k+r]
+				for q := range dst {
+					dst[q] = src[q*w+j]
+				}
+			}
+		}
+		s.n += r
+		done += r
+	}
+}
+
 // at writes draw i into dst (len width) and returns it.
 func (s *drawStore) at(i int, dst []float64) []float64 {
 	dst = grow(dst, s.width)

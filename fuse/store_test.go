@@ -9,28 +9,55 @@ import (
 	"liftfuse/methods/evidence"
 )
 
-// TestDrawStore: draws written to the block store read back as they were
-// written to a plain row-major slice (the reference) — one by one, as a
-// linear combination of columns, after trimming to fewer draws and after
-// keeping fewer columns — across block boundaries.
+// TestDrawStore: draws written to the block store — one by one (add), or
+// staged by a chain and stored in runs (staged, addRows), flushed when
+// full and at the end of a chain's steps — read back as they were written
+// to a plain row-major slice (the reference) — one by one, as a linear
+// combination of columns, after trimming to fewer draws and after keeping
+// fewer columns — across block boundaries.
 func TestDrawStore(t *testing.T) {
-	for _, tc := range []struct{ width, n, trim, narrow int }{
-		{3, 10, 7, 2},
-		{5, storeBlock, storeBlock - 1, 5},
-		{4, 2*storeBlock + 17, storeBlock + 3, 1},
-		{0, 300, 200, 0},
+	for _, tc := range []struct {
+		width, n, trim, narrow int
+		staged                 bool
+	}{
+		{3, 10, 7, 2, false},
+		{5, storeBlock, storeBlock - 1, 5, false},
+		{4, 2*storeBlock + 17, storeBlock + 3, 1, false},
+		{0, 300, 200, 0, false},
+		{3, 10, 7, 2, true},
+		{5, storeBlock, storeBlock - 1, 5, true},
+		{4, 3*storeBlock + 17, storeBlock + 3, 1, true},
+		{0, 300, 200, 0, true},
 	} {
-		t.Run(fmt.Sprintf("w%d-n%d-trim%d-narrow%d", tc.width, tc.n, tc.trim, tc.narrow), func(t *testing.T) {
+		t.Run(fmt.Sprintf("w%d-n%d-trim%d-narrow%d-staged%v", tc.width, tc.n, tc.trim, tc.narrow, tc.staged), func(t *testing.T) {
 			rng := rand.New(rand.NewPCG(1, uint64(tc.n)))
-			s := newDrawStore(tc.width)
+			s, phis := newDrawStore(tc.width), newDrawStore(1)
+			var st staged
 			var ref []float64
-			for range tc.n {
+			for i := range tc.n {
 				x := make([]float64, tc.width)
 				for j := range x {
 					x[j] = rng.NormFloat64()
 				}
-				s.add(x)
 				ref = append(ref, x...)
+				if !tc.staged {
+					s.add(x)
+					continue
+				}
+				st.add(x, []float64{float64(i)})
+				// full, or a chain's steps ending at odd places
+				if st.n == stageDraws || i%13 == 12 {
+					st.flush(s, phis)
+				}
+			}
+			if tc.staged {
+				st.flush(s, phis)
+				var buf []float64
+				for i := range tc.n {
+					if buf = phis.at(i, buf); buf[0] != float64(i) {
+						t.Fatalf("staged φ of draw %d = %v", i, buf[0])
+					}
+				}
 			}
 			w := []entryRef{}
 			if tc.width > 0 {
