@@ -121,9 +121,10 @@ func appendTagged(b []byte, tag byte, n int) []byte {
 }
 
 // rowValues returns a row's design columns and values (before F and q).
-func rowValues(r *row) ([]gcol, []float64) {
-	var cols []gcol
-	var vals []float64
+func rowValues(r *row) ([]gcol, []float64) { return rowValuesInto(r, nil, nil) }
+
+// rowValuesInto is rowValues appending to cols and vals (from empty).
+func rowValuesInto(r *row, cols []gcol, vals []float64) ([]gcol, []float64) {
 	for _, c := range r.lift {
 		cols, vals = append(cols, gcol{col: c.col, kind: colLift}), append(vals, c.v)
 	}
@@ -148,6 +149,8 @@ func (m *model) buildGroups() {
 	m.indexScaleSets()
 	index := map[string]int{}
 	var sig []byte
+	var cols []gcol // a row's columns and values, reused from row to row
+	var vals []float64
 	for bi := range m.blocks {
 		bl := &m.blocks[bi]
 		if bl.diag == nil {
@@ -160,12 +163,12 @@ func (m *model) buildGroups() {
 			r := &m.rows[ri]
 			sig = m.signature(bl.entry, r, sig)
 			gi, ok := index[string(sig)]
-			cols, vals := rowValues(r)
+			cols, vals = rowValuesInto(r, cols[:0], vals[:0])
 			if !ok {
 				gi = len(m.groups)
 				index[string(sig)] = gi
 				nc := len(cols)
-				m.groups = append(m.groups, group{entry: bl.entry, scales: r.scales, set: r.scaleSet, wind: r.wind, cols: cols,
+				m.groups = append(m.groups, group{entry: bl.entry, scales: r.scales, set: r.scaleSet, wind: r.wind, cols: slices.Clone(cols),
 					lam: make([][5]float64, nc*nc), b: make([][5]float64, nc)})
 			}
 			g := &m.groups[gi]
