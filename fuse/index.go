@@ -21,7 +21,36 @@ type indexer struct {
 	// logn are the log-normal nuisances: their log factor is a φ (none
 	// when stated exactly), their terms the rows' offsets.
 	logn map[string]evidence.Nuisance
+	// refs and phis hold the rows' short lists of terms (see arena);
+	// lift, gam, nuis, perQ and scales are one row's, built before they
+	// are kept there
+	refs                  arena[entryRef]
+	phis                  arena[phiRef]
+	lift, gam, nuis, perQ []entryRef
+	scales                []phiRef
 }
+
+// arena hands out short slices from shared chunks: one allocation per
+// chunk, not one per row's list of terms (a 24-configuration model has
+// some ten thousand such lists, and a fusion builds eleven models).
+type arena[T any] []T
+
+// keep returns a copy of s in the arena (nil for none), its capacity its
+// length, so that an append to it moves it rather than overwrite the next.
+func (a *arena[T]) keep(s []T) []T {
+	if len(s) == 0 {
+		return nil
+	}
+	if cap(*a)-len(*a) < len(s) {
+		*a = make([]T, 0, max(arenaChunk, len(s)))
+	}
+	n := len(*a)
+	*a = append(*a, s...)
+	return (*a)[n : n+len(s) : n+len(s)]
+}
+
+// arenaChunk is the number of values an arena allocates at a time.
+const arenaChunk = 2048
 
 // newModel indexes the evidence in three steps: the lift columns, every
 // entry's nuisances and scale groups, and the observations. Nuisances and
@@ -244,7 +273,7 @@ func (ix *indexer) indexObservations(ei int, ev evidence.Evidence) error {
 func (ix *indexer) indexRow(ei int, o evidence.Obs) (row, error) {
 	r := row{y: o.Y, entry: ei, label: o.Label, wind: -1, q0: o.Air.Q, v: o.Air.V}
 	var err error
-	if r.lift, r.gamma, err = ix.liftTerms(o.Terms, o.Air.V); err != nil {
+	if ix.lift, ix.gam, err = ix.liftTermsInto(o.Terms, o.Air.V, ix.lift[:0], ix.gam[:0]); err != nil {
 		return row{}, err
 	}
 	if o.Air.Wind != "" {
@@ -252,9 +281,10 @@ func (ix *indexer) indexRow(ei int, o evidence.Obs) (row, error) {
 		r.a = o.Air.Rho * o.Air.Dir * o.Air.V
 		r.c = 0.5 * o.Air.Rho
 	}
+	ix.scales, ix.nuis, ix.perQ = ix.scales[:0], ix.nuis[:0], ix.perQ[:0]
 	for _, s := range o.Scales {
 		if i, ok := ix.phiIdx[s.Name]; ok {
-			r.scales = append(r.scales, phiRef{i, s.Pow})
+			ix.scales = append(ix.scales, phiRef{i, s.Pow})
 		}
 	}
 	for _, c := range o.Nuis {
@@ -263,11 +293,13 @@ func (ix *indexer) indexRow(ei int, o evidence.Obs) (row, error) {
 			continue
 		}
 		if c.PerQ && r.wind >= 0 && r.q0 > 0 {
-			r.nuisPerQ = append(r.nuisPerQ, entryRef{ix.nuisIdx[c.Name], c.C / r.q0})
+			ix.perQ = append(ix.perQ, entryRef{ix.nuisIdx[c.Name], c.C / r.q0})
 			continue
 		}
-		r.nuis = append(r.nuis, entryRef{ix.nuisIdx[c.Name], c.C})
+		ix.nuis = append(ix.nuis, entryRef{ix.nuisIdx[c.Name], c.C})
 	}
+	r.lift, r.gamma, r.scales = ix.refs.keep(ix.lift), ix.refs.keep(ix.gam), ix.phis.keep(ix.scales)
+	r.nuis, r.nuisPerQ = ix.refs.keep(ix.nuis), ix.refs.keep(ix.perQ)
 	return r, nil
 }
 
@@ -294,6 +326,11 @@ func (ix *indexer) addOffset(r *row, c evidence.Coef, M float64) {
 // with the linear speed model, the γ columns with weights
 // w_k·(V − V_ref)/V_ref.
 func (ix *indexer) liftTerms(ts []evidence.Term, v float64) (lift, gam []entryRef, err error) {
+	return ix.liftTermsInto(ts, v, nil, nil)
+}
+
+// liftTermsInto is liftTerms appending to lift and gam.
+func (ix *indexer) liftTermsInto(ts []evidence.Term, v float64, lift, gam []entryRef) ([]entryRef, []entryRef, error) {
 	m := ix.model
 	for _, t := range ts {
 		k := [2]string{t.Config, t.Axle}
