@@ -283,6 +283,9 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		if p.ma != nil {
 			avg = p.ma.Mean()
 		}
+		if p.trace == nil {
+			p.trace = make([]TracePoint, 0, maxTrace)
+		}
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
