@@ -49,6 +49,9 @@ func (m *model) components() []component {
 // sign; a sign that repeats the one before it (see sameAsPrev) repeats its
 // probability.
 func (m *model) signLogProb(signs []int, theta []float64) float64 {
+	if len(signs) == 0 {
+		return 0 // log 1: spares the logarithm for a component without signs
+	}
 	var s, p float64
 	prod, prev := 1.0, -2
 	for _, si := range signs {
