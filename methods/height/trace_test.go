@@ -11,7 +11,8 @@ import (
 // sample at least traceStep after the one kept before (at 10 Hz, every
 // second or third sample as the times round), and stops at maxTrace
 // points however long the log — a 40 s log and one 10 % past the cap
-// (common practice (no source): a plot's excerpt is bounded).
+// (common practice (no source): a plot's excerpt is bounded); a short
+// log's trace is kept at its own length, not in the whole room.
 func TestTraceDecimation(t *testing.T) {
 	cal := Calibration{Gain: 10}
 	for _, tc := range []struct {
@@ -31,6 +32,9 @@ func TestTraceDecimation(t *testing.T) {
 			_, tr, err := Windows(strings.NewReader(b.String()), "x.csv", rulesEntry(false), 0, cal, 1.2, "only")
 			if err != nil {
 				t.Fatal(err)
+			}
+			if 2*len(tr) < cap(tr) {
+				t.Fatalf("%d trace points kept in room for %d", len(tr), cap(tr))
 			}
 			if len(tr) < tc.min || len(tr) > tc.max || tr[0].T != 0 {
 				t.Fatalf("%d trace points from %g s, want %d to %d from 0 s", len(tr), tr[0].T, tc.min, tc.max)
