@@ -58,9 +58,9 @@ func (sc *scratch) pooledOrder(chains [][]float64) ([]float64, []int32) {
 // argsort returns the indices that sort vals ascending (vals hold no NaN),
 // equal values in their order in vals: an LSD radix sort on the
 // order-preserving bit pattern of each float, in six passes of 11 bits
-// (a pass whose digit is the same everywhere is skipped, such as the
-// sign's and exponent's of draws in one binade), which for the few
-// thousand draws diagnosed here beats a comparison sort. The digits'
+// (the last of 9; a pass whose digit is the same everywhere is skipped,
+// such as the sign's and exponent's of draws in one binade), which for
+// the few thousand draws diagnosed here beats a comparison sort. The digits'
 // counts do not depend on the order, so all six are taken in one pass
 // over the keys, not one before each pass.
 func (sc *scratch) argsort(vals []float64) []int32 {

@@ -7,11 +7,14 @@ import (
 	"liftfuse/methods/evidence"
 )
 
-// TestEstimateBuffers: estimates that reuse each other's draw buffers
-// (estimateBufs), two goroutines at a time as the configurations' results
-// are made, equal those from fresh buffers — every axle of every
-// configuration of a 3-configuration campaign, the wider totals between
-// narrower ones so that a buffer is reused both longer and shorter.
+// TestEstimateBuffers: estimates made with recycled draw buffers
+// (estimateBufs), on two goroutines as the configurations' results are
+// made, equal those from fresh buffers — every axle of every configuration
+// of a 3-configuration campaign, the wider totals between narrower ones so
+// that a buffer is reused both longer and shorter. It holds a buffer's
+// stale contents (a combine that does not clear it fails it); whether a
+// buffer is handed back while still read is not something two goroutines
+// reliably show, and estimate returns values only.
 func TestEstimateBuffers(t *testing.T) {
 	evs, ids := scaleEvidence(t, 3)
 	P, err := Fit(evs, Settings{Configs: ids, Seed: 2, MinESS: 400})

@@ -57,20 +57,7 @@ func freeBlock(b []float64) {
 }
 
 // add appends one draw (len(x) == width).
-func (s *drawStore) add(x []float64) {
-	k := s.n % storeBlock
-	if k == 0 && s.width > 0 {
-		s.blocks = append(s.blocks, newBlock(s.width*storeBlock))
-		s.lastStride = storeBlock
-	}
-	if s.width > 0 {
-		blk := s.blocks[len(s.blocks)-1]
-		for j, v := range x {
-			blk[j*storeBlock+k] = v
-		}
-	}
-	s.n++
-}
+func (s *drawStore) add(x []float64) { s.addRows(x, 1) }
 
 // addRows appends n draws given one after another in rows (n·width
 // values), as n calls of add would, but column by column: each column's

@@ -143,3 +143,29 @@ func TestCompactKeepsFigures(t *testing.T) {
 		t.Errorf("joint draws differ after compaction (refits %d)", refits)
 	}
 }
+
+// TestStepStoresEveryDraw: a chain's steps store every draw they make,
+// the last few that do not fill a stage of stageDraws too — 13 steps of a
+// begun chain of the 2-configuration model add 13 draws and 13 φ, none
+// left staged (a step that does not flush at its end adds 8 or 16).
+func TestStepStoresEveryDraw(t *testing.T) {
+	m := scaleModel(t, 2, false)
+	mode, cov, _, err := m.laplace()
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr, err := m.newProposal(mode, cov)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ch := pr.newChains()[0]
+	pr.step(ch, 13)
+	if !ch.begun {
+		t.Fatal("the chain has not begun in 13 steps")
+	}
+	n, nphi := ch.draws.n, ch.phis.n
+	pr.step(ch, 13)
+	if got, gotPhi := ch.draws.n-n, ch.phis.n-nphi; got != 13 || gotPhi != 13 || ch.stage.n != 0 {
+		t.Fatalf("13 steps stored %d draws and %d φ, %d left staged", got, gotPhi, ch.stage.n)
+	}
+}

@@ -13,8 +13,10 @@ import (
 // prior, then every pair of the term table in basis order — on campaigns
 // of 2 and 5 configurations, with an entry's errors inflated by the
 // robust layer (constant bases then worth κ⁻², not 1), and on
-// offsetModel's log-normal nuisances, at random φ. A pair added twice,
-// dropped or out of its element's order fails it.
+// offsetModel's log-normal nuisances, at random φ. A pair added twice or
+// dropped, or the constant pairs added in another order, fails it; these
+// models have no constant pair after a varying one on the same element,
+// which TestSplitPairs works by hand.
 func TestConstantTermsExact(t *testing.T) {
 	for _, tc := range []struct {
 		name    string
