@@ -241,61 +241,20 @@ func ess(chains [][]float64) float64 {
 	if n < 4 {
 		return float64(M * n)
 	}
-	var W float64
-	means := make([]float64, M)
-	for c, ch := range chains {
-		m, v := meanVar(ch)
-		means[c] = m
-		W += v / float64(M)
-	}
-	vplus := W * float64(n-1) / float64(n)
-	if M > 1 {
-		_, b := meanVar(means)
-		vplus += b
-	}
-	if vplus == 0 {
+	a := newAutocorr(chains)
+	if a.vplus == 0 {
 		return float64(M * n)
 	}
 	// Autocovariances are computed directly lag by lag, as the truncation
 	// usually comes after a few lags; past directLags, all at once by FFT.
 	const directLags = 64
-	var acovs [][]float64
-	// rhos returns the autocorrelations at lags t and t + 1, which Geyer's
-	// sequence always takes together: one pass over each chain sums both,
-	// each in its own order (that of one lag alone).
-	rhos := func(t int) (float64, float64) {
-		var a0, a1 float64
-		for c, ch := range chains {
-			if acovs != nil {
-				a0 += acovs[c][t]
-				a1 += acovs[c][t+1]
-				continue
-			}
-			m := means[c]
-			var s0, s1 float64
-			s0 += (ch[t] - m) * (ch[0] - m)
-			for i := t + 1; i < n; i++ {
-				s0 += (ch[i] - m) * (ch[i-t] - m)
-				s1 += (ch[i] - m) * (ch[i-t-1] - m)
-			}
-			a0 += s0 / float64(n)
-			a1 += s1 / float64(n)
-		}
-		a0 /= float64(M)
-		a1 /= float64(M)
-		return 1 - (W-a0)/vplus, 1 - (W-a1)/vplus
-	}
 	tau := -1.0
 	prev := math.Inf(1)
 	for k := 0; 2*k+1 < n; k++ {
-		if 2*k+1 >= directLags && acovs == nil {
-			fft := fourier.NewFFT(fftSize(n))
-			acovs = make([][]float64, M)
-			for c, ch := range chains {
-				acovs[c] = autocov(fft, ch)
-			}
+		if 2*k+1 >= directLags && a.acovs == nil {
+			a.byFFT()
 		}
-		r0, r1 := rhos(2 * k)
+		r0, r1 := a.pair(2 * k)
 		p := r0 + r1
 		if p < 0 {
 			break
@@ -307,6 +266,69 @@ func ess(chains [][]float64) float64 {
 	S := float64(M * n)
 	tau = math.Max(tau, 1/math.Log10(S))
 	return S / tau
+}
+
+// autocorr gives the autocorrelations of chains combined across them,
+// ρ_t = 1 − (W − ā_t)/var⁺ with ā_t the chains' mean autocovariance at
+// lag t (Vehtari et al. 2021, the bulk ESS).
+type autocorr struct {
+	chains   [][]float64
+	means    []float64
+	acovs    [][]float64 // every lag of each chain, by FFT (byFFT); nil: summed directly
+	w, vplus float64     // mean within-chain variance W and var⁺
+}
+
+// newAutocorr returns the chains' autocorrelations, summed directly.
+func newAutocorr(chains [][]float64) *autocorr {
+	M, n := len(chains), len(chains[0])
+	a := &autocorr{chains: chains, means: make([]float64, M)}
+	for c, ch := range chains {
+		m, v := meanVar(ch)
+		a.means[c] = m
+		a.w += v / float64(M)
+	}
+	a.vplus = a.w * float64(n-1) / float64(n)
+	if M > 1 {
+		_, b := meanVar(a.means)
+		a.vplus += b
+	}
+	return a
+}
+
+// byFFT computes every lag's autocovariance of each chain at once.
+func (a *autocorr) byFFT() {
+	fft := fourier.NewFFT(fftSize(len(a.chains[0])))
+	a.acovs = make([][]float64, len(a.chains))
+	for c, ch := range a.chains {
+		a.acovs[c] = autocov(fft, ch)
+	}
+}
+
+// pair returns the autocorrelations at lags t and t + 1, which Geyer's
+// sequence always takes together: one pass over each chain sums both,
+// each in its own order (that of one lag alone).
+func (a *autocorr) pair(t int) (float64, float64) {
+	M, n := len(a.chains), len(a.chains[0])
+	var a0, a1 float64
+	for c, ch := range a.chains {
+		if a.acovs != nil {
+			a0 += a.acovs[c][t]
+			a1 += a.acovs[c][t+1]
+			continue
+		}
+		m := a.means[c]
+		var s0, s1 float64
+		s0 += (ch[t] - m) * (ch[0] - m)
+		for i := t + 1; i < n; i++ {
+			s0 += (ch[i] - m) * (ch[i-t] - m)
+			s1 += (ch[i] - m) * (ch[i-t-1] - m)
+		}
+		a0 += s0 / float64(n)
+		a1 += s1 / float64(n)
+	}
+	a0 /= float64(M)
+	a1 /= float64(M)
+	return 1 - (a.w-a0)/a.vplus, 1 - (a.w-a1)/a.vplus
 }
 
 // fftSize is the zero-padded FFT length for autocovariances of n draws.
