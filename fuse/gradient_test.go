@@ -48,10 +48,7 @@ func TestObjectiveGradient(t *testing.T) {
 			}
 			rng := rand.New(rand.NewPCG(7, uint64(tc.n)))
 			for range 3 {
-				phi := make([]float64, len(m.phi))
-				for i, p := range m.phi {
-					phi[i] = 0.7 * p.sd * rng.NormFloat64()
-				}
+				phi := randomPhi(m, 0.7, rng)
 				checkGradient(t, m, phi)
 			}
 		})

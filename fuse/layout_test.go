@@ -180,11 +180,9 @@ func TestLayoutConditioning(t *testing.T) {
 			}
 			rng := rand.New(rand.NewPCG(3, uint64(tc.n)))
 			for trial := range 2 {
-				phi := make([]float64, len(m.phi))
-				for i := range phi {
-					if trial > 0 {
-						phi[i] = 0.5 * m.phi[i].sd * rng.NormFloat64()
-					}
+				phi := make([]float64, len(m.phi)) // the prior's mode first
+				if trial > 0 {
+					phi = randomPhi(m, 0.5, rng)
 				}
 				checkConditioning(t, m, phi, rng)
 			}
@@ -265,3 +263,13 @@ func checkConditioning(t *testing.T, m *model, phi []float64, rng *rand.Rand) {
 }
 
 func cloneFloats(x []float64) []float64 { return append([]float64(nil), x...) }
+
+// randomPhi draws φ about the prior's centre, each parameter at k times
+// its prior sd.
+func randomPhi(m *model, k float64, rng *rand.Rand) []float64 {
+	phi := make([]float64, len(m.phi))
+	for i, p := range m.phi {
+		phi[i] = k * p.sd * rng.NormFloat64()
+	}
+	return phi
+}

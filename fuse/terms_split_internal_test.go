@@ -43,10 +43,7 @@ func TestConstantTermsExact(t *testing.T) {
 			}
 			rng := rand.New(rand.NewPCG(5, uint64(tc.n)))
 			for range 3 {
-				phi := make([]float64, len(m.phi))
-				for i, p := range m.phi {
-					phi[i] = 0.5 * p.sd * rng.NormFloat64()
-				}
+				phi := randomPhi(m, 0.5, rng)
 				var c cond
 				if err := m.condition(phi, &c); err != nil {
 					t.Fatal(err)
