@@ -130,7 +130,7 @@ func (g *readGroup) read(c *campaign.Campaign, opt Options, owner map[*campaign.
 	for _, p := range g.passes {
 		res := owner[p.e]
 		res.Windows = append(res.Windows, p.f.windows...)
-		res.Traces[p.li] = p.keptTrace()
+		res.Traces[p.li] = p.trace
 	}
 	return nil
 }

@@ -5,7 +5,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"slices"
 	"sort"
 
 	"liftfuse/methods/air"
@@ -77,7 +76,7 @@ func Windows(src io.Reader, name string, e *campaign.RideHeightEntry, li int, ca
 	if err != nil {
 		return nil, nil, err
 	}
-	return ps[0].f.windows, ps[0].keptTrace(), nil
+	return ps[0].f.windows, ps[0].trace, nil
 }
 
 // pass is one entry's reduction of one log, fed a row at a time, so that
@@ -284,23 +283,9 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		if p.ma != nil {
 			avg = p.ma.Mean()
 		}
-		if p.trace == nil {
-			p.trace = make([]TracePoint, 0, maxTrace)
-		}
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
-}
-
-// keptTrace returns the pass's trace to keep with the result. The trace
-// is made with room for maxTrace points on its first (a long log fills
-// it); one that filled less than half of it is copied to its own length,
-// so that a short log's result does not hold the whole room.
-func (p *pass) keptTrace() []TracePoint {
-	if 2*len(p.trace) < cap(p.trace) {
-		return slices.Clone(p.trace)
-	}
-	return p.trace
 }
 
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed

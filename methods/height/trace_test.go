@@ -12,7 +12,7 @@ import (
 // second or third sample as the times round), and stops at maxTrace
 // points however long the log — a 40 s log and one 10 % past the cap
 // (common practice (no source): a plot's excerpt is bounded); a short
-// log's trace is kept at its own length, not in the whole room.
+// log's trace holds no more than twice its own length.
 func TestTraceDecimation(t *testing.T) {
 	cal := Calibration{Gain: 10}
 	for _, tc := range []struct {
