@@ -250,7 +250,8 @@ func closeSlices(t *testing.T, what string, got, want []float64) {
 
 // rowReplicates is the replicates' d² computed row by row, as before the
 // structured prediction term (repMean): t = A·(μ(x) − μ̄) from each row's
-// mean, plus the same error draw C·z (statNoise). Same seed, same draws.
+// mean, plus the same error draw C·z (statNoise's C, multiplied here by
+// gonum rather than by statNoise.add). Same seed, same draws.
 func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint64) []float64 {
 	rng := newRand(seed, 900+uint64(e))
 	noise := newStatNoise(full, e, st.A)
@@ -263,6 +264,9 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 	x := make([]float64, full.dim())
 	y := make([]float64, len(st.rows))
 	t := make([]float64, len(st.t))
+	k := len(t)
+	C, z := mat.NewDense(k, k, noise.c), make([]float64, k)
+	var cz mat.VecDense
 	var out []float64
 	others.drawsOf(sharedCols(full, e, others.p.m), func(theta, phi []float64) {
 		for range per {
@@ -276,7 +280,11 @@ func rowReplicates(full *model, e int, st *looStat, others *Posterior, seed uint
 			for i := range t {
 				t[i] = floats.Dot(st.A.RawRowView(i), y)
 			}
-			noise.add(t, rng)
+			for j := range z {
+				z[j] = rng.NormFloat64()
+			}
+			cz.MulVec(C, mat.NewVecDense(k, z)) // statNoise.add's draw, by gonum
+			floats.Add(t, cz.RawVector().Data)
 			out = append(out, quadForm(st.Vp, t))
 		}
 	})

@@ -53,12 +53,15 @@ func (st *looStat) referenceP(full *model, e int, others *Posterior, rank int) f
 
 // replicates draws d² of replicate data sets of entry e (see referenceP).
 func (st *looStat) replicates(full *model, e int, others *Posterior, rng *rand.Rand) []float64 {
-	noise := newStatNoise(full, e, st.A)
-	need := sharedCols(full, e, others.p.m)
 	draws := others.nDraws()
-	if draws == 0 || noise == nil {
+	if draws == 0 {
 		return nil
 	}
+	noise := newStatNoise(full, e, st.A)
+	if noise == nil {
+		return nil
+	}
+	need := sharedCols(full, e, others.p.m)
 	per := (referenceReps + draws - 1) / draws
 	op := len(others.p.m.lin)
 	x := make([]float64, full.dim())
