@@ -35,7 +35,10 @@ func cholesky(a, l []float64, lay *layout) bool {
 			fj := first[j]
 			if fj == j {
 				// Row j is its diagonal alone (a run's wind, say): there
-				// is nothing to subtract, L_jj is all.
+				// is nothing to subtract, L_jj is all. The general path
+				// gives the same quotient, but forming its empty sum for
+				// the many such rows cost a quarter of the factorisation
+				// at 24 configurations (12.3 against 9.0 µs).
 				li[j] = ai[j] / l[base[j]+j]
 				continue
 			}
