@@ -39,13 +39,11 @@ func forwardSolve(l []float64, n int, x []float64) {
 	blas64.Trsv(blas.NoTrans, L, blas64.Vector{N: n, Inc: 1, Data: x[:n]})
 }
 
-// rankOne adds alpha·x·yᵀ to the r×c matrix a.
+// rankOne adds alpha·x·yᵀ to the r×c matrix a (dger, through gonum).
 func rankOne(a []float64, r, c int, alpha float64, x, y []float64) {
-	for i := range r {
-		ax := alpha * x[i]
-		row := a[i*c : (i+1)*c]
-		for j := range row {
-			row[j] += ax * y[j]
-		}
+	if r == 0 || c == 0 {
+		return
 	}
+	blas64.Ger(alpha, blas64.Vector{N: r, Inc: 1, Data: x[:r]}, blas64.Vector{N: c, Inc: 1, Data: y[:c]},
+		blas64.General{Rows: r, Cols: c, Stride: c, Data: a[:r*c]})
 }
