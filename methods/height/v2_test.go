@@ -173,53 +173,75 @@ func TestGustShared(t *testing.T) {
 	}
 }
 
-// TestRestOffset: the windows at rest, and only they, carry their axle's
-// rest offset with the sensor's lever weight (1 for a sensor at its axle),
-// and its sd is the friction band the axle's entry states
-// (the model of restName; common practice (no source): Coulomb friction
-// holds a suspension anywhere in its band).
+// TestRestOffset: the windows at rest, and only they, carry each axle's
+// rest offset with the sensor's lever weight on that axle — 1 for a sensor
+// at its axle; for a laser x behind the front axle of a car of wheelbase
+// L, 1 − x/L on the front and x/L on the rear (the rigid body's line
+// through the axles, as TestLeverWeights) — and its sd is the friction
+// band the axle's entries state (the model of restName; common practice
+// (no source): Coulomb friction holds a suspension anywhere in its band).
 func TestRestOffset(t *testing.T) {
-	c := simulate(t, 5, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
-	es := []*campaign.RideHeightEntry{&c.Evidence.RideHeight[0], &c.Evidence.RideHeight[1]}
-	es[0].FrictionMm, es[1].FrictionMm = 0.1, 0.3
-	rs, err := height.ReduceAll(c, es, height.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, want := range []struct {
-		name string
-		sd   float64
-	}{{"rest-stick/front", 0.1}, {"rest-stick/rear", 0.3}} {
-		ev, atRest := rs[i].Evidence, 0
-		for _, w := range rs[i].Windows {
-			if w.SpeedKmh < gust.Stop {
-				atRest++
+	for _, behind := range []float64{0, 0.8} {
+		t.Run(fmt.Sprintf("laser %.1f m behind the rear axle", behind), func(t *testing.T) {
+			c := simulate(t, 5, truth{beta: [4]float64{0.1, 0.05, 0.12, -0.05}, fs: 1, rs: 1, grow: 0.5, growSD: 0.5})
+			es := []*campaign.RideHeightEntry{&c.Evidence.RideHeight[0], &c.Evidence.RideHeight[1]}
+			es[0].FrictionMm, es[1].FrictionMm = 0.1, 0.3
+			L := c.Vehicle.WheelbaseM
+			x := L + behind
+			es[1].XM = x
+			rs, err := height.ReduceAll(c, es, height.Options{})
+			if err != nil {
+				t.Fatal(err)
 			}
+			sds := map[string]float64{"rest-stick/front": 0.1, "rest-stick/rear": 0.3}
+			weights := []map[string]float64{{"rest-stick/front": 1}, {"rest-stick/rear": 1}}
+			if behind > 0 {
+				weights[1] = map[string]float64{"rest-stick/front": 1 - x/L, "rest-stick/rear": x / L}
+			}
+			for i, want := range weights {
+				checkRestOffset(t, rs[i], want, sds)
+			}
+		})
+	}
+}
+
+// checkRestOffset checks that the windows at rest of r's evidence, and
+// only they, carry the rest offsets named in want with those
+// coefficients, and that the offsets' sds are sds'.
+func checkRestOffset(t *testing.T, r *height.Result, want, sds map[string]float64) {
+	t.Helper()
+	ev, atRest := r.Evidence, 0
+	for _, w := range r.Windows {
+		if w.SpeedKmh < gust.Stop {
+			atRest++
 		}
-		carried := 0
-		for _, bl := range ev.Blocks {
-			for _, o := range bl.Obs {
-				for _, k := range o.Nuis {
-					if k.Name == want.name {
-						carried++
-						if k.C != 1 {
-							t.Errorf("%s: %s coefficient %g, want the lever weight 1", ev.Entry, k.Name, k.C)
-						}
-					}
+	}
+	carried := map[string]int{}
+	for _, bl := range ev.Blocks {
+		for _, o := range bl.Obs {
+			for _, k := range o.Nuis {
+				if _, ok := sds[k.Name]; !ok {
+					continue
+				}
+				carried[k.Name]++
+				if w, ok := want[k.Name]; !ok || math.Abs(k.C-w) > 1e-12 {
+					t.Errorf("%s: %s coefficient %g, want the lever weight %g", ev.Entry, k.Name, k.C, w)
 				}
 			}
 		}
-		if atRest == 0 || carried != atRest {
-			t.Errorf("%s: %d observations carry %s, want the %d windows at rest", ev.Entry, carried, want.name, atRest)
+	}
+	for name := range want {
+		if atRest == 0 || carried[name] != atRest {
+			t.Errorf("%s: %d observations carry %s, want the %d windows at rest", ev.Entry, carried[name], name, atRest)
 		}
 		sd := -1.0
 		for _, n := range ev.Nuisances {
-			if n.Name == want.name {
+			if n.Name == name {
 				sd = n.SD
 			}
 		}
-		if sd != want.sd {
-			t.Errorf("%s: %s sd %g, want %g", ev.Entry, want.name, sd, want.sd)
+		if sd != sds[name] {
+			t.Errorf("%s: %s sd %g, want %g", ev.Entry, name, sd, sds[name])
 		}
 	}
 }
