@@ -120,15 +120,6 @@ func (d *delay) grow() {
 	d.buf, d.head = buf, 0
 }
 
-// pop returns the oldest queued sample if it is at least edge older than
-// now.
-func (d *delay) pop(now, edge float64) (sample, bool) {
-	if !d.ready(now, edge) {
-		return sample{}, false
-	}
-	return d.shift(), true
-}
-
 // ready reports whether the oldest queued sample is at least edge older
 // than now.
 func (d *delay) ready(now, edge float64) bool {

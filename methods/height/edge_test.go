@@ -160,3 +160,10 @@ func edgeRun(t *testing.T, tol, dt, accel, holdHz, t0 float64) (ws []Window, sta
 	}
 	return ws, start, end
 }
+
+// add feeds a sample of configuration config ("" for none) and direction
+// dir, as the pass does row by row (setConfig, feed).
+func (f *finder) add(s sample, config string, dir int) {
+	f.setConfig(config)
+	f.feed(s, dir)
+}

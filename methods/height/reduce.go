@@ -360,16 +360,9 @@ type win struct {
 	tail         delay // its last EdgeS(tol) + held lag of samples, not yet used
 }
 
-// add feeds a sample of configuration config ("" for none) and direction
-// dir.
-func (f *finder) add(s sample, config string, dir int) {
-	f.setConfig(config)
-	f.feed(s, dir)
-}
-
 // setConfig sets the configuration of the samples fed next ("" for
-// none). A feed of every sample takes them as add does, without comparing
-// their ids.
+// none): feed then compares an epoch counter, not the ids, sample by
+// sample.
 func (f *finder) setConfig(id string) {
 	if id != f.id {
 		f.id = id
@@ -377,7 +370,7 @@ func (f *finder) setConfig(id string) {
 	}
 }
 
-// feed is add for a sample of the configuration last set.
+// feed adds a sample of the configuration last set and direction dir.
 func (f *finder) feed(s sample, dir int) {
 	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
 		f.settle(s.t, s.v)
@@ -471,12 +464,8 @@ func (f *finder) settle(t, v float64) {
 	f.pending = false
 	c := &f.pend
 	edge := min(EdgeFor(f.tol, rateOver(c.last, c.lastV, t, v))+max(0, f.held.lag()-MinEdgeS), c.tail.edge)
-	for {
-		u, ok := c.tail.pop(c.last, edge)
-		if !ok {
-			break
-		}
-		c.use(u, f.rho)
+	for c.tail.ready(c.last, edge) {
+		c.use(c.tail.shift(), f.rho)
 	}
 	if c.h.N() < 3 {
 		return
