@@ -157,7 +157,7 @@ func (b *builder) sensitivities(idx []int, X *mat.Dense, y, wt []float64, col ma
 	sens := make([]float64, len(idx))
 	for k, i := range idx {
 		w := b.res.Windows[i]
-		if w.Probe || w.SpeedKmh < gust.Stop {
+		if w.Probe || w.AtRest() {
 			continue
 		}
 		dir := float64(w.Direction)

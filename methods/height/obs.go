@@ -7,7 +7,6 @@ import (
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
-	"liftfuse/methods/gust"
 )
 
 // builder turns an entry's windows into evidence. For window i of log l in
@@ -196,8 +195,8 @@ func (b *builder) block(li int, idx []int, used map[string]bool) (evidence.Block
 	for k, i := range idx {
 		w := b.res.Windows[i]
 		o := b.obs(li, i, w, tbar)
-		if r := run[k]; r >= 0 && b.gustSD > 0 && b.gust.sens[li][k] != 0 {
-			o.Nuis = append(o.Nuis, evidence.Coef{Name: b.gust.names[li][r], C: b.gust.sens[li][k]})
+		if r := run[k]; r >= 0 && b.gustSD > 0 && w.GustSens != 0 {
+			o.Nuis = append(o.Nuis, evidence.Coef{Name: b.gust.names[li][r], C: w.GustSens})
 		}
 		for _, s := range o.Scales {
 			used[s.Name] = true
@@ -233,7 +232,7 @@ func (b *builder) obs(li, i int, w Window, tbar float64) evidence.Obs {
 	if b.e.Drift {
 		o.Nuis = append(o.Nuis, evidence.Coef{Name: b.driftName(li), C: (w.From+w.To)/2 - tbar})
 	}
-	if w.SpeedKmh < gust.Stop { // at rest: the standstill of the run-to-run wind and the taps
+	if w.AtRest() {
 		for _, s := range b.res.Lever.Axles {
 			if restSD(b.c, s.Axle) > 0 {
 				o.Nuis = append(o.Nuis, evidence.Coef{Name: restName(s.Axle), C: s.W})

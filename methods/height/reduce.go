@@ -46,6 +46,11 @@ type Window struct {
 	GustSens float64
 }
 
+// AtRest reports whether the window stands still: below gust.Stop, where
+// neither the run-to-run wind nor the taps' airflow reach it, and where
+// friction holds the body (restName).
+func (w Window) AtRest() bool { return w.SpeedKmh < gust.Stop }
+
 // TracePoint is one sample of the decimated trace kept for plots.
 type TracePoint struct {
 	T, SpeedKmh   float64
@@ -481,7 +486,7 @@ func (f *finder) settle(t, v float64) {
 		HeightMM: c.h.Mean(), SE: se, Scatter: math.Sqrt(c.h.Variance()),
 		AccelMs2: air.KmhToMs(e.a),
 	}
-	e.atSpeed = w.SpeedKmh >= gust.Stop
+	e.atSpeed = !w.AtRest()
 	f.ends = append(f.ends, e)
 	w.AirKmh = w.SpeedKmh
 	if c.probe {
