@@ -96,6 +96,8 @@ func TestReadRules(t *testing.T) {
 			return 100
 		}
 		_, _, err := Windows(strings.NewReader(rulesLog(A, sp)), "x.csv", rulesEntry(false), 0, cal, 1.2, "only")
+		// t = 5.0 s is row i = 50, line 52 after the header; its speed
+		// cell starts after "5.0,", at column 5.
 		var pe *logs.ParseError
 		if !errors.As(err, &pe) || !errors.Is(err, campaign.ErrRange) || pe.Line != 52 || pe.Column != 5 {
 			t.Errorf("error %v, want a range error at line 52, column 5", err)
