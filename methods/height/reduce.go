@@ -94,7 +94,6 @@ type pass struct {
 	cols []logs.Column
 	ix   campaign.LogIndex // into cols
 	at   []int             // cols[k] → index in the shared reader
-	air  int               // index in cols of the airspeed column, or -1
 	// the shared reader's indices of the time, speed, signal and airspeed
 	// columns (−1: none), read on every row
 	tk, vk, hk, ak int
@@ -120,7 +119,7 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	cols, ix := l.LogColumns()
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
-	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, air: ix.Airspeed, rho: rho, segs: segs,
+	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
 	if ix.Config < 0 && len(segs) == 0 {
@@ -198,7 +197,7 @@ func shareColumns(ps []*pass) []logs.Column {
 			return p.at[k]
 		}
 		p.rows = campaign.NewRows(p.c, p.l, at(p.ix.Time), at(p.ix.Direction), at(p.ix.Config))
-		p.tk, p.vk, p.hk, p.ak = at(p.ix.Time), at(p.ix.Speed), at(p.ix.Signal), at(p.air)
+		p.tk, p.vk, p.hk, p.ak = at(p.ix.Time), at(p.ix.Speed), at(p.ix.Signal), at(p.ix.Airspeed)
 	}
 	return cols
 }
