@@ -210,9 +210,9 @@ const maxHeightMm = 1e4
 // log with a tiny first time step cannot ask for a huge buffer.
 const maxAverageLen = 1 << 16
 
-// standstillKmh is how far below zero a logged speed may read before it is
+// negSpeedTolKmh is how far below zero a logged speed may read before it is
 // an error: GPS speed at a standstill jitters around zero.
-const standstillKmh = 2.0
+const negSpeedTolKmh = 2.0
 
 // row feeds the reader's current row to the pass; joined is the speed
 // from a speed file (km/h), NaN when the log has its own speed column.
@@ -224,7 +224,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.vk)))
 	}
 	h := p.cal.MM(r.Float(p.hk))
-	if !(v >= -standstillKmh) || math.Abs(h) > maxHeightMm {
+	if !(v >= -negSpeedTolKmh) || math.Abs(h) > maxHeightMm {
 		var err error
 		if v, h, err = p.speedAndHeight(r, joined); err != nil {
 			p.err = err
@@ -294,7 +294,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed
 // file when the log has no speed column) and calibrated height (mm). A
-// speed below −standstillKmh or a height beyond maxHeightMm is an error at
+// speed below −negSpeedTolKmh or a height beyond maxHeightMm is an error at
 // its cell; a small negative speed (GPS jitter at rest) reads as 0. row
 // reads the common row itself and calls it for any other.
 func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err error) {
@@ -305,7 +305,7 @@ func (p *pass) speedAndHeight(r *logs.Reader, joined float64) (v, h float64, err
 	}
 	if ix.Speed >= 0 {
 		v = air.MsToKmh(p.l.SpeedToMs(r.Float(p.at[ix.Speed])))
-		if v < -standstillKmh {
+		if v < -negSpeedTolKmh {
 			return 0, 0, &logs.ParseError{File: r.File(), Line: r.Line(), Column: r.Column(p.at[ix.Speed]), Field: p.l.SpeedColumn(),
 				Err: fmt.Errorf("%w: speed %g km/h is negative", campaign.ErrRange, v)}
 		}
