@@ -25,8 +25,8 @@ func splitChains(chains [][]float64) [][]float64 {
 	return out
 }
 
-// scratch holds the buffers of one diagnosis, reused through a pool: the
-// sampler diagnoses several quantities after every batch.
+// scratch holds the buffers of one diagnosis or estimate, reused through
+// a pool: the sampler diagnoses several quantities after every batch.
 type scratch struct {
 	vals, z, fz, folded []float64
 	// scores[r−1] is the normal score of rank r among scoresN values
@@ -35,6 +35,11 @@ type scratch struct {
 	keys, k2       []uint64
 	idx, i2, order []int32
 	count          [6][2048]int32 // argsort's digit counts
+	// draws holds one estimate's draws (Posterior.estimate): a result
+	// reports some three hundred figures, each from every draw of the
+	// fused posterior, which fresh buffers cleared and faulted in one by
+	// one
+	draws []float64
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}

@@ -8,7 +8,7 @@ import (
 )
 
 // TestEstimateBuffers: estimates made with recycled draw buffers
-// (estimateBufs), on two goroutines as the configurations' results are
+// (scratch.draws), on two goroutines as the configurations' results are
 // made, equal those from fresh buffers — every axle of every configuration
 // of a 3-configuration campaign, the wider totals between narrower ones so
 // that a buffer is reused both longer and shorter. It holds a buffer's

@@ -114,22 +114,13 @@ func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 		}
 		return Estimate{Mean: mean, SD: sd, Lo: mean - z*sd, Hi: mean + z*sd}, pneg
 	}
-	bp, _ := estimateBufs.Get().(*[]float64)
-	if bp == nil {
-		bp = new([]float64)
-	}
-	_, pooled := P.p.seriesInto(w, *bp) // the chains one after another
+	sc := scratchPool.Get().(*scratch)
+	_, pooled := P.p.seriesInto(w, sc.draws) // the chains one after another
 	e, pneg := summarizeOwned(pooled, P.level)
-	*bp = pooled
-	estimateBufs.Put(bp)
+	sc.draws = pooled
+	scratchPool.Put(sc)
 	return e, pneg
 }
-
-// estimateBufs recycles the draws of one estimate for the next: a result
-// reports some three hundred figures, each from every draw of the fused
-// posterior, which fresh buffers cleared and faulted in one by one
-// (seriesInto writes every value it returns).
-var estimateBufs sync.Pool
 
 // Quantity returns the estimate of an axle (front, rear or total) of a
 // configuration, and P(downforce).
