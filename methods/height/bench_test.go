@@ -40,6 +40,7 @@ func benchReduce(b *testing.B, n int) {
 	c, es := benchCampaign(name, n)
 	b.SetBytes(st.Size())
 	b.ReportAllocs()
+	cpu0 := logtest.CPUTime()
 	for b.Loop() {
 		rs, err := height.ReduceAll(c, es, height.Options{})
 		if err != nil {
@@ -49,4 +50,5 @@ func benchReduce(b *testing.B, n int) {
 			b.Fatalf("only %d windows", len(rs[0].Windows))
 		}
 	}
+	b.ReportMetric(float64(logtest.CPUTime()-cpu0)/float64(b.N), "cpu-ns/op")
 }

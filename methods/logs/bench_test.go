@@ -6,7 +6,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"syscall"
 	"testing"
 
 	"liftfuse/methods/logs"
@@ -64,7 +63,7 @@ func benchRead(b *testing.B, name string, workers int) {
 	}
 	b.SetBytes(int64(len(data)))
 	b.ReportAllocs()
-	cpu0 := cpuTime()
+	cpu0 := logtest.CPUTime()
 	for b.Loop() {
 		if n := readAll(b, bytes.NewReader(data), workers); n != 1_800_000 {
 			b.Fatalf("read %d rows", n)
@@ -72,16 +71,7 @@ func benchRead(b *testing.B, name string, workers int) {
 	}
 	// CPU time of all threads per read: steadier than wall time on a
 	// shared machine.
-	b.ReportMetric(float64(cpuTime()-cpu0)/float64(b.N), "cpu-ns/op")
-}
-
-// cpuTime is the process's user and system time in nanoseconds.
-func cpuTime() int64 {
-	var ru syscall.Rusage
-	if syscall.Getrusage(syscall.RUSAGE_SELF, &ru) != nil {
-		return 0
-	}
-	return ru.Utime.Nano() + ru.Stime.Nano()
+	b.ReportMetric(float64(logtest.CPUTime()-cpu0)/float64(b.N), "cpu-ns/op")
 }
 
 func readAll(b *testing.B, src io.Reader, workers int) int {

@@ -17,13 +17,17 @@ import "bytes"
 //     of the decimal (Clinger's fast path, as in fastFloat), the bits
 //     strconv.ParseFloat gives.
 //
-// The loops go a byte at a time: a column's cells have much the same
-// length from row to row, so the processor predicts where each loop ends
-// and runs ahead. A word-at-a-time digit conversion measured slower (each
-// cell then waits on the length found in the one before), and so did a
-// call per cell (the caller's values go to memory and back). The number is
-// read inline, with few values live, so that its digits stay in a register.
-func (r *Reader) fastCells(out []float64, row []byte, off, j, at int) (int, int) {
+// It is the way for the cells that shapedCells does not take: a cell in a
+// layout new to its column, whose shape it learns (shape.learn), a text
+// cell with quotes or spaces, a cell of more than eight bytes. The loops go
+// a byte at a time: a column's cells have much the same length from row to
+// row, so the processor predicts where each loop ends and runs ahead. A
+// word-at-a-time conversion of a cell found this way measured slower (each
+// cell then waits on the length found in the one before: a shape knows it
+// beforehand), and so did a call per cell (the caller's values go to memory
+// and back). The number is read inline, with few values live, so that its
+// digits stay in a register.
+func (r *Reader) fastCells(sh []shape, out []float64, row []byte, off, j, at int) (int, int) {
 	for ; j < len(r.plan) && at <= len(row); j++ {
 		k := r.plan[j]
 		if k >= 0 && r.kind[k] == kindNum {
@@ -57,6 +61,7 @@ func (r *Reader) fastCells(out []float64, row []byte, off, j, at int) (int, int)
 				x = -x
 			}
 			out[k] = x
+			sh[j].learn(row[at:i], frac, r.dec)
 			at = i + 1
 			continue
 		}

@@ -11,13 +11,20 @@ import (
 
 // fastOne runs fastCells over a row whose first cell is cell (a
 // one-column plan), with tail after the row in its buffer, as a reused
-// block has. ok: the word-at-a-time path read the cell.
-func fastOne(cell, rest, tail string, delim, dec byte, kind uint8) (x float64, ok bool) {
+// block has. ok: the fast path read the cell. It reads the row twice, the
+// second time with the shape learnt from the first; x2 and ok2 are what
+// that second reading gave.
+func fastOne(cell, rest, tail string, delim, dec byte, kind uint8) (x float64, ok bool, x2 float64, ok2 bool) {
 	r := &Reader{plan: []int{0}, kind: []uint8{kind}, delim: delim, dec: dec}
 	buf := []byte(cell + rest + tail)
+	row := buf[:len(cell)+len(rest)]
+	sh := make([]shape, 1)
 	out := []float64{math.NaN()}
-	j, _ := r.fastCells(out, buf[:len(cell)+len(rest)], 0, 0, 0)
-	return out[0], j == 1
+	j, _ := r.fastCells(sh, out, row, 0, 0, 0)
+	x, ok = out[0], j == 1
+	out[0] = math.NaN()
+	j, _ = r.fastCells(sh, out, row, 0, 0, 0)
+	return x, ok, out[0], j == 1
 }
 
 // pad follows a row in a block's buffer: the next line, here empty.
@@ -33,7 +40,10 @@ func checkFast(t *testing.T, cell string, dec byte) {
 		delim = ';'
 	}
 	for _, after := range []struct{ rest, tail string }{{"", "9999999999"}, {string(delim) + "1", pad}, {"", ""}} {
-		x, ok := fastOne(cell, after.rest, after.tail, delim, dec, kindNum)
+		x, ok, x2, ok2 := fastOne(cell, after.rest, after.tail, delim, dec, kindNum)
+		if ok2 != ok || ok && math.Float64bits(x2) != math.Float64bits(x) {
+			t.Fatalf("cell %q read as %v (%v), by its shape as %v (%v)", cell, x, ok, x2, ok2)
+		}
 		if !ok {
 			continue
 		}
@@ -83,7 +93,7 @@ func TestFastCells(t *testing.T) {
 			if tt.dec == ',' {
 				delim = ';'
 			}
-			x, ok := fastOne(tt.cell, string(delim)+"2", pad, delim, tt.dec, kindNum)
+			x, ok, _, _ := fastOne(tt.cell, string(delim)+"2", pad, delim, tt.dec, kindNum)
 			switch {
 			case math.IsNaN(tt.want) && ok:
 				t.Fatalf("read %v, want the general path", x)
@@ -120,7 +130,7 @@ func TestFastText(t *testing.T) {
 		cell string
 		ok   bool
 	}{{"base", true}, {"wing 2", true}, {" base", false}, {"\"base\"", false}, {"", false}, {"bäse", true}, {"é", false}} {
-		if _, ok := fastOne(tt.cell, ",1", pad, ',', '.', kindText); ok != tt.ok {
+		if _, ok, _, _ := fastOne(tt.cell, ",1", pad, ',', '.', kindText); ok != tt.ok {
 			t.Errorf("cell %q: read %v, want %v", tt.cell, ok, tt.ok)
 		}
 	}

@@ -18,8 +18,20 @@ func (r *Reader) parse(b *block, data []byte) *block {
 	if need := len(r.cols) * (len(data)/r.rowBytes*9/8 + 16); cap(b.vals) < need {
 		b.vals = make([]float64, 0, need)
 	}
+	if cap(b.shapes) < len(r.plan) {
+		b.shapes = make([]shape, len(r.plan))
+	}
+	b.shapes = b.shapes[:len(r.plan)]
+	for j, k := range r.plan { // learnt afresh: the block may have served another log
+		b.shapes[j] = shape{k: k, text: k >= 0 && r.kind[k] == kindText}
+	}
+	// The common row (not blank, with room, every cell in its column's
+	// shape) is read here, its cells straight into vals; parseRow takes
+	// any other up from the cell where shapedCells stopped.
+	sh, vals, nc := b.shapes, b.vals, len(r.cols)
+	quick, rows := r.format.Empty != EmptySkip, 0
 	line, blank := 0, 0
-	for off := 0; off < len(data); {
+	for off := 0; off < len(data) && b.err == nil; {
 		e := bytes.IndexByte(data[off:], '\n')
 		next := off + e + 1
 		if e < 0 {
@@ -29,29 +41,40 @@ func (r *Reader) parse(b *block, data []byte) *block {
 		line++
 		if e > maxLineSize {
 			b.err = &ParseError{File: r.file, Line: line, Err: ErrLongLine}
-			return b
+			break
 		}
 		if len(row) > 0 && row[len(row)-1] == '\r' {
 			row = row[:len(row)-1]
 		}
+		j, at := 0, 0 // where parseRow takes the row up
+		if n := len(vals); quick && blank == 0 && len(row) > 0 && row[0] != ' ' && row[0] != '\t' && n+nc <= cap(vals) {
+			if j, at = r.shapedCells(sh, vals[n:n+nc], row, off, 0, 0); j == len(sh) {
+				vals, rows, off = vals[:n+nc], rows+1, next
+				continue
+			}
+		}
+		rowOff := off
+		off = next
 		if (len(row) == 0 || row[0] == ' ' || row[0] == '\t') && isBlank(row) {
 			if blank == 0 {
 				blank = line
 			}
-			off = next
 			continue
 		}
 		if blank != 0 {
 			b.err = &ParseError{File: r.file, Line: blank, Err: ErrBlankLine}
-			return b
+			break
 		}
-		if err := r.parseRow(b, row, off, line); err != nil && err != errSkipRow {
+		b.vals, b.rows, rows = vals, b.rows+rows, 0
+		if err := r.parseRow(b, row, rowOff, line, j, at); err != nil && err != errSkipRow {
 			b.err = err
-			return b
 		}
-		off = next
+		vals = b.vals
 	}
-	b.lines, b.trailing = line, blank
+	b.vals, b.rows = vals, b.rows+rows
+	if b.err == nil {
+		b.lines, b.trailing = line, blank
+	}
 	return b
 }
 
@@ -68,21 +91,28 @@ func isBlank(row []byte) bool {
 var errSkipRow = errors.New("row skipped")
 
 // parseRow appends one row's asked-for cells to b, reading the cells up
-// to the last asked-for one (the rest of the line is not looked at). Plain
-// cells are read where they are found (fastCells); a cell that is not
-// plain takes the general path (cell: spaces, quotes, an exponent, many
-// digits, an empty cell, a time), and the ones after it go back to
-// fastCells. A row dropped by the empty-cell policy returns errSkipRow.
-func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
+// to the last asked-for one (the rest of the line is not looked at), from
+// cell j at byte at: the cells before it are in place already, just past
+// b.vals' length (parse read them there, where there was room). Cells in
+// their column's shape are read by shapedCells, other plain cells where
+// they are found (fastCells); a cell that is not plain takes the general
+// path (cell: spaces, quotes, an exponent, many digits, an empty cell, a
+// time), and the ones after it go back to fastCells. A row dropped by the
+// empty-cell policy returns errSkipRow.
+func (r *Reader) parseRow(b *block, row []byte, off, line, j, at int) error {
 	nc := len(r.cols)
 	base := len(b.vals)
-	if base+nc > cap(b.vals) {
+	if base+nc > cap(b.vals) { // j is 0: no cell is in place
 		b.vals = append(b.vals, make([]float64, nc)...)
 	}
 	b.vals = b.vals[:base+nc]
 	out := b.vals[base : base+nc]
-	if j, at := r.fastCells(out, row, off, 0, 0); j < len(r.plan) {
-		if err := r.slowCells(out, row, off, line, j, at); err != nil {
+	j, at = r.shapedCells(b.shapes, out, row, off, j, at)
+	if j < len(r.plan) {
+		j, at = r.fastCells(b.shapes, out, row, off, j, at)
+	}
+	if j < len(r.plan) {
+		if err := r.slowCells(b.shapes, out, row, off, line, j, at); err != nil {
 			b.vals = b.vals[:base]
 			return err
 		}
@@ -96,7 +126,7 @@ func (r *Reader) parseRow(b *block, row []byte, off, line int) error {
 
 // slowCells reads the rest of a row from cell j at byte at, where
 // fastCells stopped: each cell it cannot take goes the general way.
-func (r *Reader) slowCells(out []float64, row []byte, off, line, j, at int) error {
+func (r *Reader) slowCells(sh []shape, out []float64, row []byte, off, line, j, at int) error {
 	for {
 		if at > len(row) {
 			return r.shortRow(out, r.plan[j:], len(row), line)
@@ -105,7 +135,7 @@ func (r *Reader) slowCells(out []float64, row []byte, off, line, j, at int) erro
 		if err := r.cell(out, r.plan[j], row, at, end, line, off); err != nil {
 			return err
 		}
-		if j, at = r.fastCells(out, row, off, j+1, end+1); j == len(r.plan) {
+		if j, at = r.fastCells(sh, out, row, off, j+1, end+1); j == len(r.plan) {
 			return nil
 		}
 	}
