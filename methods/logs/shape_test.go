@@ -1,6 +1,8 @@
 package logs
 
 import (
+	"bytes"
+	"errors"
 	"math"
 	"strconv"
 	"strings"
@@ -139,6 +141,63 @@ func FuzzShapes(f *testing.F) {
 		}
 		if y, yok, _, _ := fastOne(b, "", "", delim, dec, kindNum); !yok || math.Float64bits(y) != math.Float64bits(x) {
 			t.Fatalf("%q by the shape of %q = %v; the byte loop: %v (%v)", b, a, x, y, yok)
+		}
+	})
+}
+
+// FuzzShapedRows: a log read whole (each row's cells tried in the shapes
+// of the row before) gives every row the values that the row gives read
+// alone after the header (no shape to try: the byte loop), and the row
+// whose cell is not a number or missing fails alone too.
+func FuzzShapedRows(f *testing.F) {
+	f.Add("t,v,w\n0.001,35.11,-3.09\n0.002,35.58,0.22\n0.003,35.60,-3.1\n", false)
+	f.Add("t;v;w\n1,5;2;x\n1,6;2;y\n1,7;20;z\n", true)
+	f.Add("t,v,w\n1.5,2,3\n1.6,2,3,4\n1.7,\n1.8,2\n", false)
+	f.Add("t,v,w\n0.001,35.11,a\n0.0021,3.511,b\n-0.002,35.1x,c\n", false)
+	f.Add("t,v,w\n-1.5,2.5,a\n+1.5,2,5,b\n1.5,25.,c\n", false)
+	f.Fuzz(func(t *testing.T, src string, comma bool) {
+		fm := Format{Delimiter: ',', Decimal: '.', HeaderLine: 1, SkipLines: NoSkip} // the header first, no units row
+		if comma {
+			fm.Delimiter, fm.Decimal = ';', ','
+		}
+		cols := []Column{{Name: "t"}, {Name: "v"}, {Name: "w", Text: true}}
+		head, body, ok := strings.Cut(src, "\n")
+		if !ok {
+			return
+		}
+		r, err := NewReaderFormat(strings.NewReader(src), "w.csv", cols, fm)
+		if err != nil {
+			return
+		}
+		defer r.Close()
+		lines := strings.Split(body, "\n")
+		readAlone := func(line int) (*Reader, error) {
+			a, err := NewReaderFormat(strings.NewReader(head+"\n"+lines[line-2]+"\n"), "a.csv", cols, fm)
+			if err == nil && !a.Next() {
+				err = a.Err()
+			}
+			return a, err
+		}
+		for r.Next() {
+			a, err := readAlone(r.Line())
+			if err != nil {
+				t.Fatalf("line %d %q: read whole, but alone: %v", r.Line(), lines[r.Line()-2], err)
+			}
+			for k := range 2 {
+				if math.Float64bits(r.Float(k)) != math.Float64bits(a.Float(k)) {
+					t.Fatalf("line %d %q, column %d: %v whole, %v alone", r.Line(), lines[r.Line()-2], k, r.Float(k), a.Float(k))
+				}
+			}
+			if !bytes.Equal(r.Text(2), a.Text(2)) {
+				t.Fatalf("line %d %q: text %q whole, %q alone", r.Line(), lines[r.Line()-2], r.Text(2), a.Text(2))
+			}
+			a.Close()
+		}
+		var pe *ParseError
+		if errors.As(r.Err(), &pe) && (errors.Is(pe, ErrNotNumber) || errors.Is(pe, ErrMissingCell)) {
+			if _, err := readAlone(pe.Line); err == nil {
+				t.Fatalf("line %d %q: %v whole, read alone", pe.Line, lines[pe.Line-2], r.Err())
+			}
 		}
 	})
 }
