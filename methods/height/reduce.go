@@ -247,10 +247,13 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	// log's columns when it has them (an unknown id reads as none, and
 	// fails the read at its end), else its segments, else the only one
 	// (set once, newPass).
-	config, logged, err := p.rows.Row(r)
-	if err != nil {
-		p.err = err
-		return
+	config, logged, ok := "", 0, false
+	if logged, ok = p.rows.Quick(r); !ok {
+		var err error
+		if config, logged, err = p.rows.Row(r); err != nil {
+			p.err = err
+			return
+		}
 	}
 	dir := 0
 	switch {
@@ -278,7 +281,10 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	p.f.feed(sample{t: t, v: v, h: h, qa: qa}, dir)
 
 	// Smoothed trace for plots; the estimates use the raw samples.
-	y := p.lp.Step(t, h)
+	y, ok := p.lp.quick(t, h)
+	if !ok {
+		y = p.lp.Step(t, h)
+	}
 	if p.ma != nil {
 		p.ma.Add(h)
 	}
@@ -379,7 +385,9 @@ func (f *finder) feed(s sample, dir int) {
 	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
 		f.settle(s.t, s.v)
 	}
-	f.held.observe(s.t, s.v)
+	if !f.held.quick(s.t, s.v) { // observe, inline for the common sample
+		f.held.observe(s.t, s.v)
+	}
 	c := &f.cur
 	if !f.open || dir != c.dir || f.epoch != c.epoch || !c.speed.Admits(s.v, f.tol) {
 		f.reopen(s, dir)
@@ -389,11 +397,17 @@ func (f *finder) feed(s sample, dir int) {
 		c.last, c.lastV = s.t, s.v
 		c.speed.Add(s.v)
 		if s.t-c.opened >= c.lead-timeSlack {
+			if c.tail.full() {
+				c.tail.grow()
+			}
 			c.tail.push(s)
 			for c.tail.ready(s.t, c.tail.edge) {
 				c.use(c.tail.shift(), f.rho)
 			}
 		}
+	}
+	if f.hist.full() {
+		f.hist.prune()
 	}
 	f.hist.push(s.t, s.v)
 	f.lastT, f.lastV = s.t, s.v
