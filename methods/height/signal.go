@@ -74,11 +74,11 @@ func (m *MovingAverage) Step(x float64) float64 {
 	return m.Mean()
 }
 
-// Add adds x; Mean then reads what Step would have returned.
+// Add adds x; Mean then reads what Step would have returned. Until the
+// buffer is full the sample it drops is a +0 that has never been added,
+// and s − (+0) is s (a −0 and a NaN included), so it drops one whatever.
 func (m *MovingAverage) Add(x float64) {
-	if m.full {
-		m.sum -= m.buf[m.next]
-	}
+	m.sum -= m.buf[m.next]
 	m.buf[m.next] = x
 	m.sum += x
 	m.next++
