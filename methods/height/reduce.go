@@ -395,8 +395,8 @@ type win struct {
 	config       string
 	epoch        int // the finder's epoch when it opened: config is still its id while they are equal
 	dir          int
-	opened, last float64 // the admitted span, s
-	lastV        float64 // the last admitted speed, km/h
+	opened, last float64 // the admitted span, s; last set by close
+	lastV        float64 // the last admitted speed, km/h, set by close
 	lead         float64 // the edge left out at its start, s
 	from, to     float64 // the span of the samples used, s
 	speed        steady.Band
@@ -431,7 +431,7 @@ func (f *finder) feed(s sample, dir int) {
 	c := &f.cur
 	if (!f.pending || !(s.t-f.pend.last >= RateSpanS-timeSlack)) && f.open && dir == c.dir && f.epoch == c.epoch &&
 		!c.tail.full() && !f.hist.full() && c.speed.Admits(s.v, f.tol) && f.held.quick(s.t, s.v) {
-		f.join(s)
+		c.speed.Add(s.v) // join, but its tail's edge is the last sample's: quick kept the lag
 		f.hist.push(s.t, s.v)
 		f.lastT, f.lastV = s.t, s.v
 		if s.t-c.opened >= c.lead-timeSlack { // queue, inline: its tail has room
@@ -474,11 +474,11 @@ func (f *finder) feedAny(s sample, dir int) {
 	}
 }
 
-// join adds s, admitted, to the open window's span and band.
+// join adds s, admitted, to the open window's band, and sets its tail's
+// edge from the held speed's lag as of s.
 func (f *finder) join(s sample) {
 	c := &f.cur
 	c.tail.edge = f.longest + f.held.lag()
-	c.last, c.lastV = s.t, s.v
 	c.speed.Add(s.v)
 }
 
@@ -546,6 +546,9 @@ func (f *finder) close() {
 		return
 	}
 	f.open = false
+	// every sample fed while a window is open joins it, so the latest
+	// is its last
+	f.cur.last, f.cur.lastV = f.lastT, f.lastV
 	if f.cur.last-f.cur.opened < f.minDur {
 		return
 	}
