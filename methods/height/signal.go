@@ -41,11 +41,12 @@ func (f *LowPass) Step(t, x float64) float64 {
 	return f.y
 }
 
-// quick is Step for a sample after a step within 1e-9 of the last one
-// (the common sample: logged times carry rounding, so such a step reuses
-// the last α, the difference being far below any filter's concern), small enough to inline into a caller's loop, which
-// Step is not: it returns the filtered value and true, or false for Step
-// to take the sample.
+// quick is Step for a sample after a step within 1e-9 of the last one,
+// the common sample: logged times carry rounding, so such a step reuses
+// the last α (the difference is far below any filter's concern). It is
+// small enough to inline into a caller's loop, which Step is not, and
+// returns the filtered value and true, or false for Step to take the
+// sample.
 func (f *LowPass) quick(t, x float64) (float64, bool) {
 	if dt := t - f.t; !f.begun || math.Abs(dt-f.dt) > 1e-9*f.dt {
 		return 0, false
