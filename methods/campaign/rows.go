@@ -43,25 +43,39 @@ func NewRows(c *Campaign, l *LogSpec, time, dir, cfg int) *Rows {
 // ("" without a config column, or for an unknown id, which is listed by
 // Done) and direction (0 without a direction column). A direction other
 // than ±1 is an error (a *Problem at its cell): the read stops there.
-// It is called on every row: its common case (no config column, a valid
-// direction or none) is a few instructions, and row does the rest.
+// It is called on every row: Quick takes the common one.
 func (k *Rows) Row(r *logs.Reader) (config string, dir int, err error) {
-	k.n++
-	k.t1 = r.Float(k.time) // time increases strictly (the reader's rule)
-	if k.n > 1 && k.cfg < 0 {
-		if k.dir < 0 {
-			return "", 0, nil
-		}
-		if d := r.Float(k.dir); d == 1 || d == -1 {
-			return "", int(d), nil
-		}
+	if dir, ok := k.Quick(r); ok {
+		return "", dir, nil
 	}
 	return k.row(r)
 }
 
-// row is Row past the count and the time: the first row's time, the
-// direction, the configuration id.
+// Quick is Row for the common row, small enough to inline into a
+// caller's loop: a row after the first, in a log without a config
+// column, whose direction is ±1 or not logged. It returns the direction
+// and true, or, having done nothing, false: Row then takes the row.
+func (k *Rows) Quick(r *logs.Reader) (dir int, ok bool) {
+	if k.n == 0 || k.cfg >= 0 {
+		return 0, false
+	}
+	if k.dir >= 0 {
+		d := r.Float(k.dir)
+		if d != 1 && d != -1 {
+			return 0, false
+		}
+		dir = int(d)
+	}
+	k.n++
+	k.t1 = r.Float(k.time) // time increases strictly (the reader's rule)
+	return dir, true
+}
+
+// row is Row for any row: the count, the time, the first row's time,
+// the direction, the configuration id.
 func (k *Rows) row(r *logs.Reader) (config string, dir int, err error) {
+	k.n++
+	k.t1 = r.Float(k.time)
 	if k.n == 1 {
 		k.t0 = k.t1
 	}

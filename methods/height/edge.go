@@ -98,11 +98,12 @@ type delay struct {
 // reset empties the queue, keeping its buffer.
 func (d *delay) reset() { d.head, d.n = 0, 0 }
 
-// push queues s.
+// full reports whether the ring has no room for push; grow makes some.
+func (d *delay) full() bool { return d.n == len(d.buf) }
+
+// push queues s; the ring must not be full. Without the call to grow it
+// inlines into the caller, which grows the ring on its rare path.
 func (d *delay) push(s sample) {
-	if d.n == len(d.buf) {
-		d.grow()
-	}
 	// field by field: a whole sample would be copied from where the
 	// caller spilled it in two 16-byte loads over four 8-byte stores,
 	// which the processor cannot forward (a stall on every sample)
@@ -142,11 +143,12 @@ func (d *delay) shift() sample {
 // doubles when they are fewer than half of it. Amortised O(1) per sample.
 type recent struct{ s [][2]float64 } // (t, v), t increasing
 
-// push adds a sample.
+// full reports whether the buffer has no room for push; prune makes
+// some.
+func (r *recent) full() bool { return len(r.s) == cap(r.s) }
+
+// push adds a sample; the buffer must not be full (as delay.push).
 func (r *recent) push(t, v float64) {
-	if len(r.s) == cap(r.s) {
-		r.prune()
-	}
 	n := len(r.s)
 	r.s = r.s[:n+1]
 	r.s[n][0], r.s[n][1] = t, v // apart, as in delay.push
@@ -197,15 +199,33 @@ func (r *recent) approach(t, v float64) float64 {
 // 0.158 sd so.
 type holdLag struct {
 	t, v, upd          float64 // the last sample and the last change, s and km/h
-	n                  int     // samples seen
+	seen               bool    // t and v are set
 	changed            bool    // upd is set
 	sampleDT, updateDT float64 // shortest step, shortest interval between changes (s; 0 unknown)
+	minIv              float64 // updateDT, or +Inf while unknown; set with sampleDT (setLag)
 	lagS               float64 // lag's value, set when either changes
+}
+
+// quick observes the common sample, once the step is known, and reports
+// whether it did: a step no shorter than the shortest, and the speed held
+// or changed no sooner than the shortest interval known (a change then
+// moves only upd); observe takes any other. quick is small enough to
+// inline into the finder's loop, which observe, called on every sample,
+// is not.
+func (h *holdLag) quick(t, v float64) bool {
+	if h.sampleDT != 0 && t-h.t >= h.sampleDT && (v == h.v || t-h.upd >= h.minIv) {
+		if v != h.v {
+			h.upd = t
+		}
+		h.t, h.v = t, v
+		return true
+	}
+	return false
 }
 
 // observe takes a sample's time t (s) and speed v (km/h).
 func (h *holdLag) observe(t, v float64) {
-	if h.n > 0 {
+	if h.seen {
 		if dt := t - h.t; dt > 0 && (h.sampleDT == 0 || dt < h.sampleDT) {
 			h.sampleDT = dt
 			h.setLag()
@@ -219,16 +239,17 @@ func (h *holdLag) observe(t, v float64) {
 		}
 	}
 	h.t, h.v = t, v
-	h.n++
+	h.seen = true
 }
 
 // lag returns the hold's lag, s.
 func (h *holdLag) lag() float64 { return h.lagS }
 
-// setLag sets the lag from the shortest step and update interval.
+// setLag sets the lag from the shortest step and update interval, and
+// quick's bound on the interval.
 func (h *holdLag) setLag() {
-	h.lagS = 0
+	h.lagS, h.minIv = 0, math.Inf(1)
 	if h.updateDT != 0 {
-		h.lagS = max(0, h.updateDT-h.sampleDT)
+		h.lagS, h.minIv = max(0, h.updateDT-h.sampleDT), h.updateDT
 	}
 }

@@ -101,6 +101,7 @@ type pass struct {
 
 	segs    []campaign.Segment
 	seg     int
+	plain   bool // no config column and no segments: a row's direction is its logged one (where)
 	f       finder
 	lp      LowPass
 	ma      *MovingAverage
@@ -122,7 +123,7 @@ func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, 
 	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, rho: rho, segs: segs,
 		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
 		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
-	if ix.Config < 0 && len(segs) == 0 {
+	if p.plain = ix.Config < 0 && len(segs) == 0; p.plain {
 		p.f.setConfig(only) // every sample's
 	}
 	return p
@@ -148,19 +149,8 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 	if join != nil {
 		defer join.Close()
 	}
-	for r.Next() {
-		speed := math.NaN() // km/h, from the speed file when there is one
-		if join != nil {
-			if speed, err = join.Kmh(); err != nil {
-				return nil, err
-			}
-		}
-		for _, p := range ps {
-			p.row(r, speed)
-			if p.err != nil {
-				return nil, p.err
-			}
-		}
+	if err := readRows(r, join, ps); err != nil {
+		return nil, err
 	}
 	if err := r.Err(); err != nil {
 		return nil, err
@@ -172,6 +162,36 @@ func readLog(src io.Reader, name string, ps []*pass) ([]*pass, error) {
 		p.f.finish()
 	}
 	return ps, nil
+}
+
+// readRows feeds the reader's rows to the passes, with the speed of join
+// when it is not nil. A log read by one pass without a speed file, the
+// common case, has a loop of its own: the general one cost about 20 more
+// instructions per row (callgrind, the 1 kHz benchmark log).
+func readRows(r *logs.Reader, join *campaign.SpeedJoin, ps []*pass) error {
+	if p := ps[0]; len(ps) == 1 && join == nil {
+		for r.Next() {
+			if p.row(r, math.NaN()); p.err != nil {
+				return p.err
+			}
+		}
+		return nil
+	}
+	for r.Next() {
+		speed := math.NaN() // km/h, from the speed file when there is one
+		if join != nil {
+			var err error
+			if speed, err = join.Kmh(); err != nil {
+				return err
+			}
+		}
+		for _, p := range ps {
+			if p.row(r, speed); p.err != nil {
+				return p.err
+			}
+		}
+	}
+	return nil
 }
 
 // shareColumns returns the columns the passes ask for, each once, and
@@ -217,7 +237,6 @@ const negSpeedTolKmh = 2.0
 // row feeds the reader's current row to the pass; joined is the speed
 // from a speed file (km/h), NaN when the log has its own speed column.
 func (p *pass) row(r *logs.Reader, joined float64) {
-	ix := &p.ix
 	t := r.Float(p.tk)
 	v := joined // speedAndHeight, inline for the common row
 	if p.vk >= 0 {
@@ -233,40 +252,18 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	} else if !(v > 0) { // max(v, 0), v not NaN here
 		v = 0
 	}
-	if p.ma == nil && !math.IsNaN(p.prevT) {
-		p.firstDT = t - p.prevT
-		p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
-		if p.firstDT > 0 {
-			p.gapDT = max(1, 10*p.firstDT)
-		}
+	if p.ma == nil {
+		p.begin(t)
 	}
 	gap := t-p.prevT > p.gapDT // false on the first row (prevT is NaN)
 	p.prevT = t
-
-	// Which configuration and direction does this sample belong to? The
-	// log's columns when it has them (an unknown id reads as none, and
-	// fails the read at its end), else its segments, else the only one
-	// (set once, newPass).
-	config, logged, err := p.rows.Row(r)
-	if err != nil {
-		p.err = err
-		return
-	}
-	dir := 0
-	switch {
-	case ix.Config >= 0:
-		p.f.setConfig(config)
-	case len(p.segs) > 0:
-		for p.seg < len(p.segs) && t > p.segs[p.seg].ToS {
-			p.seg++
+	dir, ok := p.rows.Quick(r)
+	if !ok || !p.plain {
+		var err error
+		if dir, err = p.where(r, t, dir, ok); err != nil {
+			p.err = err
+			return
 		}
-		if p.seg < len(p.segs) && t >= p.segs[p.seg].FromS {
-			config, dir = p.segs[p.seg].Config, p.segs[p.seg].Direction
-		}
-		p.f.setConfig(config)
-	}
-	if ix.Direction >= 0 {
-		dir = logged
 	}
 	if gap {
 		p.f.close()
@@ -278,7 +275,10 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	p.f.feed(sample{t: t, v: v, h: h, qa: qa}, dir)
 
 	// Smoothed trace for plots; the estimates use the raw samples.
-	y := p.lp.Step(t, h)
+	y, ok := p.lp.quick(t, h)
+	if !ok {
+		y = p.lp.Step(t, h)
+	}
 	if p.ma != nil {
 		p.ma.Add(h)
 	}
@@ -290,6 +290,50 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 		p.trace = append(p.trace, TracePoint{T: t, SpeedKmh: v, Raw: h, LowPass: y, MovingAverage: avg})
 		p.keep = t + traceStep
 	}
+}
+
+// begin sizes the moving average and the gap from the log's first step,
+// on its second row (t).
+func (p *pass) begin(t float64) {
+	if math.IsNaN(p.prevT) {
+		return
+	}
+	p.firstDT = t - p.prevT
+	p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
+	if p.firstDT > 0 {
+		p.gapDT = max(1, 10*p.firstDT)
+	}
+}
+
+// where returns the direction of the row at t, after it has set the
+// finder's configuration for it. The log's columns give them when it
+// has them (an unknown id reads as none, and fails the read at its end),
+// else its segments, else the only one (set once, newPass). logged is the
+// row's direction when checked, that is when Rows.Quick took the row;
+// otherwise Rows.Row checks it here.
+func (p *pass) where(r *logs.Reader, t float64, logged int, checked bool) (dir int, err error) {
+	config := ""
+	if !checked {
+		if config, logged, err = p.rows.Row(r); err != nil {
+			return 0, err
+		}
+	}
+	switch {
+	case p.ix.Config >= 0:
+		p.f.setConfig(config)
+	case len(p.segs) > 0:
+		for p.seg < len(p.segs) && t > p.segs[p.seg].ToS {
+			p.seg++
+		}
+		if p.seg < len(p.segs) && t >= p.segs[p.seg].FromS {
+			config, dir = p.segs[p.seg].Config, p.segs[p.seg].Direction
+		}
+		p.f.setConfig(config)
+	}
+	if p.ix.Direction >= 0 {
+		dir = logged
+	}
+	return dir, nil
 }
 
 // speedAndHeight reads the row's ground speed (km/h; joined from a speed
@@ -351,8 +395,8 @@ type win struct {
 	config       string
 	epoch        int // the finder's epoch when it opened: config is still its id while they are equal
 	dir          int
-	opened, last float64 // the admitted span, s
-	lastV        float64 // the last admitted speed, km/h
+	opened, last float64 // the admitted span, s; last set by close
+	lastV        float64 // the last admitted speed, km/h, set by close
 	lead         float64 // the edge left out at its start, s
 	from, to     float64 // the span of the samples used, s
 	speed        steady.Band
@@ -375,28 +419,79 @@ func (f *finder) setConfig(id string) {
 }
 
 // feed adds a sample of the configuration last set and direction dir.
+// Its common sample (no pending window due to settle, the open window of
+// its configuration and direction admits it, holdLag.quick takes it, the
+// queues have room) runs here without a call but to use: each branch to
+// a rare call (settle, observe, reopen, grow, prune) made the compiler
+// spill and reload the sample around it, and queue as a call cost 10
+// instructions a row (callgrind, the 1 kHz benchmark log: 513.6 with
+// feedAny alone, 512.2 with queue called, 501.7 so). feedAny takes any
+// sample.
 func (f *finder) feed(s sample, dir int) {
-	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
-		f.settle(s.t, s.v)
-	}
-	f.held.observe(s.t, s.v)
 	c := &f.cur
-	if !f.open || dir != c.dir || f.epoch != c.epoch || !c.speed.Admits(s.v, f.tol) {
-		f.reopen(s, dir)
-	}
-	if f.open { // the sample joins the current window
-		c.tail.edge = f.longest + f.held.lag()
-		c.last, c.lastV = s.t, s.v
-		c.speed.Add(s.v)
-		if s.t-c.opened >= c.lead-timeSlack {
+	if (!f.pending || !(s.t-f.pend.last >= RateSpanS-timeSlack)) && f.open && dir == c.dir && f.epoch == c.epoch &&
+		!c.tail.full() && !f.hist.full() && c.speed.Admits(s.v, f.tol) && f.held.quick(s.t, s.v) {
+		c.speed.Add(s.v) // join, but its tail's edge is the last sample's: quick kept the lag
+		f.hist.push(s.t, s.v)
+		f.lastT, f.lastV = s.t, s.v
+		if s.t-c.opened >= c.lead-timeSlack { // queue, inline: its tail has room
 			c.tail.push(s)
 			for c.tail.ready(s.t, c.tail.edge) {
 				c.use(c.tail.shift(), f.rho)
 			}
 		}
+		return
+	}
+	f.feedAny(s, dir)
+}
+
+// feedAny is feed for any sample. It queues the sample after the speed
+// history takes it, as feed does: neither reads the other.
+func (f *finder) feedAny(s sample, dir int) {
+	if f.pending && s.t-f.pend.last >= RateSpanS-timeSlack {
+		f.settle(s.t, s.v)
+	}
+	if !f.held.quick(s.t, s.v) {
+		f.held.observe(s.t, s.v)
+	}
+	c := &f.cur
+	if !f.open || dir != c.dir || f.epoch != c.epoch || !c.speed.Admits(s.v, f.tol) {
+		f.reopen(s, dir)
+	}
+	if f.open {
+		f.join(s)
+		if c.tail.full() {
+			c.tail.grow()
+		}
+	}
+	if f.hist.full() {
+		f.hist.prune()
 	}
 	f.hist.push(s.t, s.v)
 	f.lastT, f.lastV = s.t, s.v
+	if f.open {
+		c.queue(s, f.rho)
+	}
+}
+
+// join adds s, admitted, to the open window's band, and sets its tail's
+// edge from the held speed's lag as of s.
+func (f *finder) join(s sample) {
+	c := &f.cur
+	c.tail.edge = f.longest + f.held.lag()
+	c.speed.Add(s.v)
+}
+
+// queue puts s, joined to the window, in its tail when it is clear of
+// the window's leading edge, and uses the samples the tail releases; the
+// tail must have room.
+func (c *win) queue(s sample, rho float64) {
+	if s.t-c.opened >= c.lead-timeSlack {
+		c.tail.push(s)
+		for c.tail.ready(s.t, c.tail.edge) {
+			c.use(c.tail.shift(), rho)
+		}
+	}
 }
 
 // reopen closes the current window for a sample of another configuration
@@ -451,6 +546,9 @@ func (f *finder) close() {
 		return
 	}
 	f.open = false
+	// every sample fed while a window is open joins it, so the latest
+	// is its last
+	f.cur.last, f.cur.lastV = f.lastT, f.lastV
 	if f.cur.last-f.cur.opened < f.minDur {
 		return
 	}

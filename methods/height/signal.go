@@ -27,18 +27,33 @@ func Cutoff(tau float64) float64 { return 1 / (2 * math.Pi * tau) }
 // Step feeds the sample x taken at time t and returns the filtered value.
 // The first sample initialises the output.
 func (f *LowPass) Step(t, x float64) float64 {
+	if y, ok := f.quick(t, x); ok {
+		return y
+	}
 	if !f.begun {
 		f.y, f.t, f.begun = x, t, true
 		return x
 	}
-	// Logged times carry rounding, so a step within 1e-9 of the last one
-	// reuses its α (the difference is far below any filter's concern).
-	if dt := t - f.t; math.Abs(dt-f.dt) > 1e-9*f.dt {
-		f.dt, f.a = dt, Alpha(dt, f.Tau)
-	}
+	f.dt = t - f.t // a new step (quick takes the last one again)
+	f.a = Alpha(f.dt, f.Tau)
 	f.y += f.a * (x - f.y)
 	f.t = t
 	return f.y
+}
+
+// quick is Step for a sample after a step within 1e-9 of the last one,
+// the common sample: logged times carry rounding, so such a step reuses
+// the last α (the difference is far below any filter's concern). It is
+// small enough to inline into a caller's loop, which Step is not, and
+// returns the filtered value and true, or false for Step to take the
+// sample.
+func (f *LowPass) quick(t, x float64) (float64, bool) {
+	if dt := t - f.t; !f.begun || math.Abs(dt-f.dt) > 1e-9*f.dt {
+		return 0, false
+	}
+	f.y += f.a * (x - f.y)
+	f.t = t
+	return f.y, true
 }
 
 // MovingAverage is the mean of the last N samples.
@@ -60,11 +75,11 @@ func (m *MovingAverage) Step(x float64) float64 {
 	return m.Mean()
 }
 
-// Add adds x; Mean then reads what Step would have returned.
+// Add adds x; Mean then reads what Step would have returned. Until the
+// buffer is full the sample it drops is a +0 that has never been added,
+// and s − (+0) is s (a −0 and a NaN included), so it drops one whatever.
 func (m *MovingAverage) Add(x float64) {
-	if m.full {
-		m.sum -= m.buf[m.next]
-	}
+	m.sum -= m.buf[m.next]
 	m.buf[m.next] = x
 	m.sum += x
 	m.next++
