@@ -121,7 +121,7 @@ func fuzzInput(t *testing.T, yml, csv []byte) (report.Input, error) {
 	if err != nil {
 		return report.Input{}, err
 	}
-	r, err := methods.Reduce(c, methods.Options{})
+	r, err := methods.Reduce(c, methods.Options{Height: height.Options{Trace: true}})
 	if err != nil {
 		return report.Input{}, err
 	}

@@ -13,6 +13,7 @@ import (
 	"liftfuse/methods"
 	"liftfuse/methods/air"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/height"
 	"liftfuse/report"
 )
 
@@ -26,7 +27,7 @@ func demoInput(t testing.TB, mutate func(*campaign.Campaign)) report.Input {
 	if mutate != nil {
 		mutate(c)
 	}
-	r, err := methods.Reduce(c, methods.Options{})
+	r, err := methods.Reduce(c, methods.Options{Height: height.Options{Trace: true}})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -60,9 +60,10 @@ func reduceLoaded(c *campaign.Campaign, opt methods.Options) (*methods.Reduced, 
 
 // reduce loads a campaign and runs every adapter, with a progress bar on
 // stderr when it is a terminal and not silenced. hashed says the output
-// carries the input hash (see load). check, if not nil, is called on the
-// loaded campaign before the (long) reduction.
-func reduce(file string, hashed, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
+// carries the input hash (see load); traced that it draws the logs'
+// traces (height.Options.Trace: the report). check, if not nil, is called
+// on the loaded campaign before the (long) reduction.
+func reduce(file string, hashed, traced, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*campaign.Campaign, *methods.Reduced, error) {
 	c, err := load(file, hashed)
 	if err != nil {
 		return nil, nil, err
@@ -72,14 +73,14 @@ func reduce(file string, hashed, quiet bool, stderr io.Writer, check func(*campa
 			return nil, nil, err
 		}
 	}
-	opt := methods.Options{}
+	opt := methods.Options{Height: height.Options{Trace: traced}}
 	if !quiet && isTerminal(stderr) {
-		opt.Height = height.Options{Progress: func(done, total int64) {
+		opt.Height.Progress = func(done, total int64) {
 			fmt.Fprintf(stderr, "\rreading logs %s %3.0f%%", bar(done, total), 100*float64(done)/float64(max(total, 1)))
 			if done >= total {
 				fmt.Fprint(stderr, "\r"+strings.Repeat(" ", 50)+"\r")
 			}
-		}}
+		}
 	}
 	r, err := reduceLoaded(c, opt)
 	if err != nil {
@@ -90,13 +91,14 @@ func reduce(file string, hashed, quiet bool, stderr io.Writer, check func(*campa
 
 // analyse loads, reduces and fuses a campaign.
 func analyse(file string, quiet bool, stderr io.Writer) (*analysis, error) {
-	return analyseChecked(file, quiet, stderr, nil)
+	return analyseChecked(file, false, quiet, stderr, nil)
 }
 
-// analyseChecked is analyse with a check of the loaded campaign before the
-// long work (see reduce).
-func analyseChecked(file string, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*analysis, error) {
-	c, r, err := reduce(file, true, quiet, stderr, check)
+// analyseChecked is analyse with the logs' traces kept when traced (for
+// the report's plots) and a check of the loaded campaign before the long
+// work (see reduce).
+func analyseChecked(file string, traced, quiet bool, stderr io.Writer, check func(*campaign.Campaign) error) (*analysis, error) {
+	c, r, err := reduce(file, true, traced, quiet, stderr, check)
 	if err != nil {
 		return nil, err
 	}

@@ -42,7 +42,7 @@ each entry says on its own. --json prints a result document with only
 }
 
 func runReduce(o reduceOptions, out, stderr io.Writer) error {
-	c, r, err := reduce(o.file, o.json, o.quiet, stderr, nil)
+	c, r, err := reduce(o.file, o.json, false, o.quiet, stderr, nil)
 	if err != nil {
 		return err
 	}

@@ -81,12 +81,19 @@ func reportArgs(cmd *cobra.Command, args []string) error {
 	return argsExactly(1, "one campaign file")(cmd, args)
 }
 
+// reportAnalysis checks that the outputs can be written, before and after
+// loading the campaign, and analyses it keeping the logs' traces, which
+// the report plots (height.Options.Trace).
+func reportAnalysis(file string, quiet bool, stderr io.Writer, outs []output) (*analysis, error) {
+	if err := checkOutputs(file, nil, outs...); err != nil {
+		return nil, err
+	}
+	return analyseChecked(file, true, quiet, stderr, func(c *campaign.Campaign) error { return checkOutputs(file, c, outs...) })
+}
+
 func runReport(ctx context.Context, o reportOptions, out, stderr io.Writer) error {
 	outs := o.outputs()
-	if err := checkOutputs(o.file, nil, outs...); err != nil {
-		return err
-	}
-	a, err := analyseChecked(o.file, o.quiet, stderr, func(c *campaign.Campaign) error { return checkOutputs(o.file, c, outs...) })
+	a, err := reportAnalysis(o.file, o.quiet, stderr, outs)
 	if err != nil {
 		return err
 	}

@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -12,7 +13,9 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"liftfuse/methods"
 	"liftfuse/methods/campaign"
+	"liftfuse/methods/height"
 	"liftfuse/report"
 )
 
@@ -128,5 +131,32 @@ func TestInputsMustBeRegular(t *testing.T) {
 				t.Errorf("exit %d, stderr %q; want exit 2 with %q", code, stderr, tt.inStderr)
 			}
 		})
+	}
+}
+
+// TestOnlyTheReportKeepsTraces: the report's analysis keeps each
+// ride-height log's trace, which it plots; fuse's (and plan's,
+// crosscheck's) leaves the filters out (height.Options.Trace).
+func TestOnlyTheReportKeepsTraces(t *testing.T) {
+	points := func(a *analysis) (n int) {
+		for _, r := range methods.Details[*height.Result](a.reduced) {
+			for _, tr := range r.Traces {
+				n += len(tr)
+			}
+		}
+		return n
+	}
+	a, err := reportAnalysis(demo, true, io.Discard, []output{{"-o", filepath.Join(t.TempDir(), "r.pdf")}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if points(a) == 0 {
+		t.Error("the report's analysis kept no trace point")
+	}
+	if a, err = analyse(demo, true, io.Discard); err != nil {
+		t.Fatal(err)
+	}
+	if n := points(a); n != 0 {
+		t.Errorf("fuse's analysis kept %d trace points", n)
 	}
 }

@@ -18,7 +18,7 @@ type Result struct {
 	Stiffness   Stiffness // at the sensor's own axle
 	Lever       Lever     // how the reading combines the axles
 	Windows     []Window
-	Traces      [][]TracePoint // per log
+	Traces      [][]TracePoint // per log; nil without Options.Trace
 	Evidence    evidence.Evidence
 	Detect      Detectability
 	// Dropped counts the windows above the entry's max_speed_kmh.
@@ -51,7 +51,7 @@ func Reduce(c *campaign.Campaign, e *campaign.RideHeightEntry, opt Options) (*Re
 // set up each entry and plan the reads, read each file, then finish each
 // entry (windows in order, the speed limit, evidence, warnings).
 func ReduceAll(c *campaign.Campaign, es []*campaign.RideHeightEntry, opt Options) ([]*Result, error) {
-	results, groups, err := planReads(c, es)
+	results, groups, err := planReads(c, es, opt.Trace)
 	if err != nil {
 		return nil, err
 	}
@@ -78,7 +78,7 @@ type readGroup struct {
 
 // planReads prepares every entry and groups its logs by file and time
 // column, so that each file is read once.
-func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result, []*readGroup, error) {
+func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry, traced bool) ([]*Result, []*readGroup, error) {
 	only := ""
 	if len(c.Configurations) == 1 {
 		only = c.Configurations[0].ID
@@ -102,7 +102,7 @@ func planReads(c *campaign.Campaign, es []*campaign.RideHeightEntry) ([]*Result,
 				byKey[key] = g
 				groups = append(groups, g)
 			}
-			p := newPass(e, li, res.Calibration, rho, only)
+			p := newPass(e, li, res.Calibration, rho, only, traced)
 			p.c = c
 			g.passes = append(g.passes, p)
 		}

@@ -70,6 +70,11 @@ type Options struct {
 	// Progress, when set, is called now and then with the bytes read so far
 	// of the current log and its size.
 	Progress func(done, total int64)
+	// Trace keeps each log's decimated trace, raw and filtered
+	// (Result.Traces), for the report's plot. Without it the filters do
+	// not run: no other output shows them, and on a 1 kHz log they were
+	// a tenth of the per-row work.
+	Trace bool
 }
 
 // Windows reads one log of an entry and returns its steady windows and
@@ -77,7 +82,7 @@ type Options struct {
 // configuration of every sample when the log names none (no config column,
 // no segments: a one-configuration campaign).
 func Windows(src io.Reader, name string, e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) ([]Window, []TracePoint, error) {
-	ps, err := readLog(src, name, []*pass{newPass(e, li, cal, rho, only)})
+	ps, err := readLog(src, name, []*pass{newPass(e, li, cal, rho, only, true)})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -99,30 +104,31 @@ type pass struct {
 	tk, vk, hk, ak int
 	rho            float64
 
-	segs    []campaign.Segment
-	seg     int
-	plain   bool // no config column and no segments: a row's direction is its logged one (where)
-	f       finder
-	lp      LowPass
-	ma      *MovingAverage
-	trace   []TracePoint
-	keep    float64 // next trace time
-	prevT   float64
-	firstDT float64
-	gapDT   float64            // a step longer than this is a gap: max(1 s, 10 first steps); +Inf until known
-	c       *campaign.Campaign // checks the logged configuration ids; nil: none
-	rows    *campaign.Rows     // the log's row rules, for this read
-	err     error
+	segs   []campaign.Segment
+	seg    int
+	plain  bool // no config column and no segments: a row's direction is its logged one (where)
+	f      finder
+	traced bool // the trace is kept (Options.Trace): lp, ma, trace and keep are used
+	lp     LowPass
+	ma     *MovingAverage
+	trace  []TracePoint
+	keep   float64 // next trace time
+	prevT  float64
+	begun  bool               // the first step is known (begin)
+	gapDT  float64            // a step longer than this is a gap: max(1 s, 10 first steps); +Inf until known
+	c      *campaign.Campaign // checks the logged configuration ids; nil: none
+	rows   *campaign.Rows     // the log's row rules, for this read
+	err    error
 }
 
-func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string) *pass {
+func newPass(e *campaign.RideHeightEntry, li int, cal Calibration, rho float64, only string, traced bool) *pass {
 	l := &e.Logs[li]
 	cols, ix := l.LogColumns()
 	segs := append([]campaign.Segment(nil), l.Segments...)
 	sort.Slice(segs, func(i, j int) bool { return segs[i].FromS < segs[j].FromS })
 	p := &pass{e: e, li: li, l: l, cal: cal, cols: cols, ix: ix, rho: rho, segs: segs,
-		f:  finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
-		lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
+		f:      finder{tol: e.Steady.SpeedTolKmh, minDur: e.Steady.MinDurationS, rho: rho, log: li},
+		traced: traced, lp: LowPass{Tau: e.FilterTauS}, keep: math.Inf(-1), prevT: math.NaN(), gapDT: math.Inf(1)}
 	if p.plain = ix.Config < 0 && len(segs) == 0; p.plain {
 		p.f.setConfig(only) // every sample's
 	}
@@ -252,7 +258,7 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	} else if !(v > 0) { // max(v, 0), v not NaN here
 		v = 0
 	}
-	if p.ma == nil {
+	if !p.begun {
 		p.begin(t)
 	}
 	gap := t-p.prevT > p.gapDT // false on the first row (prevT is NaN)
@@ -275,6 +281,9 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	p.f.feed(sample{t: t, v: v, h: h, qa: qa}, dir)
 
 	// Smoothed trace for plots; the estimates use the raw samples.
+	if !p.traced {
+		return
+	}
 	y, ok := p.lp.quick(t, h)
 	if !ok {
 		y = p.lp.Step(t, h)
@@ -292,16 +301,19 @@ func (p *pass) row(r *logs.Reader, joined float64) {
 	}
 }
 
-// begin sizes the moving average and the gap from the log's first step,
-// on its second row (t).
+// begin sizes the gap and the moving average (of a traced pass) from the
+// log's first step, on its second row (t).
 func (p *pass) begin(t float64) {
 	if math.IsNaN(p.prevT) {
 		return
 	}
-	p.firstDT = t - p.prevT
-	p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/p.firstDT), maxAverageLen)))
-	if p.firstDT > 0 {
-		p.gapDT = max(1, 10*p.firstDT)
+	p.begun = true
+	dt := t - p.prevT
+	if p.traced {
+		p.ma = NewMovingAverage(int(min(math.Round(p.e.FilterTauS/dt), maxAverageLen)))
+	}
+	if dt > 0 {
+		p.gapDT = max(1, 10*dt)
 	}
 }
 
