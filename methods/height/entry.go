@@ -18,7 +18,7 @@ type Result struct {
 	Stiffness   Stiffness // at the sensor's own axle
 	Lever       Lever     // how the reading combines the axles
 	Windows     []Window
-	Traces      [][]TracePoint // per log; nil without Options.Trace
+	Traces      [][]TracePoint // per log; each nil without Options.Trace
 	Evidence    evidence.Evidence
 	Detect      Detectability
 	// Dropped counts the windows above the entry's max_speed_kmh.

@@ -18,8 +18,8 @@ import "bytes"
 //     strconv.ParseFloat gives.
 //
 // It is the way for the cells that shapedCells does not take: a cell in a
-// layout new to its column, whose shape it learns (shape.learn), a text
-// cell with quotes or spaces, a cell of more than eight bytes. The loops go
+// layout new to its column, whose shape it learns (shape.learn), a cell of
+// more than eight bytes, the cells after one of those. The loops go
 // a byte at a time: a column's cells have much the same length from row to
 // row, so the processor predicts where each loop ends and runs ahead. A
 // word-at-a-time conversion of a cell found this way measured slower (each

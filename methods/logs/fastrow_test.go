@@ -11,20 +11,27 @@ import (
 
 // fastOne runs fastCells over a row whose first cell is cell (a
 // one-column plan), with tail after the row in its buffer, as a reused
-// block has. ok: the fast path read the cell. It reads the row twice, the
-// second time with the shape learnt from the first; x2 and ok2 are what
-// that second reading gave.
+// block has. ok: the fast path read the cell. It then reads the row again
+// by the shape the first reading learnt (shapedCells); x2 and ok2 are
+// what that second reading gave.
 func fastOne(cell, rest, tail string, delim, dec byte, kind uint8) (x float64, ok bool, x2 float64, ok2 bool) {
 	r := &Reader{plan: []int{0}, kind: []uint8{kind}, delim: delim, dec: dec}
-	buf := []byte(cell + rest + tail)
-	row := buf[:len(cell)+len(rest)]
-	sh := make([]shape, 1)
+	row := inBuffer(cell+rest, tail)
+	sh := []shape{{k: 0, text: kind == kindText}}
 	out := []float64{math.NaN()}
 	j, _ := r.fastCells(sh, out, row, 0, 0, 0)
 	x, ok = out[0], j == 1
 	out[0] = math.NaN()
-	j, _ = r.fastCells(sh, out, row, 0, 0, 0)
+	j, _ = r.shapedCells(sh, out, row, 0, 0, 0)
 	return x, ok, out[0], j == 1
+}
+
+// inBuffer returns row in a buffer that holds tail after it and ends
+// there (its capacity), as a block's buffer holds the next line's bytes.
+func inBuffer(row, tail string) []byte {
+	buf := make([]byte, len(row)+len(tail))
+	copy(buf[copy(buf, row):], tail)
+	return buf[:len(row)]
 }
 
 // pad follows a row in a block's buffer: the next line, here empty.
@@ -41,7 +48,8 @@ func checkFast(t *testing.T, cell string, dec byte) {
 	}
 	for _, after := range []struct{ rest, tail string }{{"", "9999999999"}, {string(delim) + "1", pad}, {"", ""}} {
 		x, ok, x2, ok2 := fastOne(cell, after.rest, after.tail, delim, dec, kindNum)
-		if ok2 != ok || ok && math.Float64bits(x2) != math.Float64bits(x) {
+		// by its shape when its eight bytes are in the buffer: the bits the byte loop read
+		if ok2 && (!ok || math.Float64bits(x2) != math.Float64bits(x)) || ok && len(cell) <= 8 && len(after.tail) >= 8 && !ok2 {
 			t.Fatalf("cell %q read as %v (%v), by its shape as %v (%v)", cell, x, ok, x2, ok2)
 		}
 		if !ok {

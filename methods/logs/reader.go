@@ -145,8 +145,8 @@ type block struct {
 	// times as int64 nanoseconds in the float's bits until Next converts
 	// them, text as a span of data packed in the bits (see span).
 	vals []float64
-	// shapes holds the layout of each planned column's last cell, for
-	// the next row (shape)
+	// shapes holds the layout of each planned column's cell that the
+	// byte loop last read, tried on the next rows (shape)
 	shapes []shape
 	// trailing is the line of the first blank line after the last row, or 0
 	trailing int

@@ -125,7 +125,10 @@ func (r *Reader) shapedCells(sh []shape, out []float64, row []byte, off, j, at i
 		w := binary.LittleEndian.Uint64(row[at : at+8])
 		x := w ^ '0'*ones // digits become 0 to 9
 		// the high bit of each byte that is not a digit: of x+0x76 when
-		// x ≥ 10, of x when x ≥ 0x80 (no byte carries into the next)
+		// x ≥ 10, of x when x ≥ 0x80. A byte x ≥ 0x8a carries into the
+		// next, but it is flagged itself, a carry only reaches the bytes
+		// after it, and a flagged byte fails the check unless it is the
+		// sign or the mark, which exact holds below 0x80.
 		if ((x+(0x80-10)*ones)|x)&highs&s.care != s.other || w&s.mask != s.exact {
 			return j, at
 		}

@@ -17,9 +17,8 @@ func shapeRead(a, b, tail string, delim, dec byte) (float64, bool) {
 	sh := []shape{{k: 0}}
 	out := []float64{math.NaN()}
 	r.fastCells(sh, out, []byte(a), 0, 0, 0)
-	buf := []byte(b + tail)
 	out[0] = math.NaN()
-	j, _ := r.shapedCells(sh, out, buf[:len(b)], 0, 0, 0)
+	j, _ := r.shapedCells(sh, out, inBuffer(b, tail), 0, 0, 0)
 	return out[0], j == 1
 }
 
@@ -105,8 +104,7 @@ func TestShapeStopsLearning(t *testing.T) {
 	out := make([]float64, 1)
 	for i := range 2 * maxMisses {
 		cell := []string{"-3.09", "0.22"}[i%2]
-		buf := []byte(cell + "\n9999999")
-		if j, _ := r.shapedCells(sh, out, buf[:len(cell)], 0, 0, 0); j == 1 {
+		if j, _ := r.shapedCells(sh, out, inBuffer(cell, "\n9999999"), 0, 0, 0); j == 1 {
 			t.Fatalf("row %d: %q read by the shape of the row before", i, cell)
 		}
 		r.fastCells(sh, out, []byte(cell), 0, 0, 0)
