@@ -68,7 +68,7 @@ const (
 
 const (
 	// chunkSize is the bytes of log per block: for liftfuse reduce on the
-	// benchmark log (farm-bench, 15–21 pairs), 256 KiB took 2–3 % longer
+	// benchmark log (whole processes, 15–21 pairs in turn), 256 KiB took 2–3 % longer
 	// and 2 MiB more, 512 KiB longer still, 64 KiB the same.
 	chunkSize   = 128 << 10
 	maxLineSize = 1 << 20
