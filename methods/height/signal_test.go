@@ -40,6 +40,32 @@ func TestLowPass(t *testing.T) {
 	}
 }
 
+// TestLowPassJitteredSteps: on a log whose sample times jitter (a logger's
+// clock), each step takes its own α = 1 − e^(−Δt/τ) (the exact
+// discretisation above), reusing the last one only for a step within 1e-9
+// of it: the output follows the step-by-step recursion to 1e-12.
+func TestLowPassJitteredSteps(t *testing.T) {
+	const tau = 0.5
+	f := height.LowPass{Tau: tau}
+	var tm, want float64
+	for i := range 2000 {
+		dt := 0.01 * (1 + 0.004*math.Sin(float64(i))) // ±0.4 % jitter
+		if i%3 == 0 {
+			dt = 0.01 // steps repeated, as a clean clock writes them
+		}
+		x := math.Sin(float64(i) / 50)
+		if i == 0 {
+			want = x
+		} else {
+			tm += dt
+			want += -math.Expm1(-dt/tau) * (x - want)
+		}
+		if got := f.Step(tm, x); math.Abs(got-want) > 1e-12 {
+			t.Fatalf("sample %d: %.15f, the recursion with its own step %.15f", i, got, want)
+		}
+	}
+}
+
 func TestMovingAverage(t *testing.T) {
 	m := height.NewMovingAverage(3)
 	var got []float64
