@@ -11,6 +11,7 @@ import (
 
 	"liftfuse/fuse"
 	"liftfuse/methods"
+	"liftfuse/methods/logs/logtest"
 	"liftfuse/methods/sim"
 )
 
@@ -63,14 +64,14 @@ func BenchmarkScale(b *testing.B) {
 			in := scaleInput(b, n)
 			b.ReportAllocs()
 			runtime.GC()
-			cpu0 := cpuTime(b)
+			cpu0 := logtest.CPUTime()
 			for b.Loop() {
 				if _, err := fuse.Run(in); err != nil {
 					b.Fatal(err)
 				}
 			}
 			if cpu0 >= 0 {
-				b.ReportMetric(float64((cpuTime(b)-cpu0).Microseconds())/1000/float64(b.N), "cpu-ms/op")
+				b.ReportMetric(float64((logtest.CPUTime()-cpu0).Microseconds())/1000/float64(b.N), "cpu-ms/op")
 			}
 		})
 	}

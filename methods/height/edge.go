@@ -86,9 +86,9 @@ const timeSlack = 1e-9
 // delay holds a window's samples until they are the longest edge older
 // than the newest one, so that the samples of a window's last edge seconds
 // — perhaps the start of the ramp that closes it — wait until the
-// departure rate is known (finder.settle). Its queue is a ring whose size, a power
-// of two, doubles when it is full: O(1) per sample and nothing copied once
-// it has grown to one edge of samples, its memory.
+// departure rate is known (finder.settle). Its queue is a ring whose
+// size, a power of two, doubles when it is full: O(1) per sample and
+// nothing copied once it has grown to one edge of samples, its memory.
 type delay struct {
 	edge    float64  // s
 	buf     []sample // len 0 or a power of two

@@ -605,8 +605,9 @@ func (f *finder) settle(t, v float64) {
 }
 
 // finish closes the open window and settles the pending one at the log's
-// end, then sets each window's acceleration error: the variance of a batch mean of the speed and the correlation of adjacent
-// ones are pooled over the log's windows at speed (batchnoise.go).
+// end, then sets each window's acceleration error: the variance of a
+// batch mean of the speed and the correlation of adjacent ones are pooled
+// over the log's windows at speed (batchnoise.go).
 func (f *finder) finish() {
 	f.close()
 	if f.pending {

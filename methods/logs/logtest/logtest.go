@@ -1,5 +1,6 @@
-// Package logtest writes the logs the benchmarks of the log reader and the
-// adapters read, so that they read the same file.
+// Package logtest holds what the benchmarks of the log reader, the
+// adapters and the fusion share: the logs they read (written once, so that
+// they read the same file) and the process's CPU time (CPUTime).
 package logtest
 
 import (
