@@ -13,20 +13,23 @@ import (
 // last bits, reusing one scratch as the diagnostics do.
 func TestArgsort(t *testing.T) {
 	rng := newRand(3, 1)
-	gen := map[string]func(i int) float64{
-		"normal":      func(int) float64 { return rng.NormFloat64() },
-		"ties":        func(int) float64 { return float64(rng.IntN(7)) - 3 },
-		"signed zero": func(i int) float64 { return []float64{0, math.Copysign(0, -1), 1, -1}[i%4] },
-		"binades":     func(int) float64 { return math.Exp(40*rng.NormFloat64()) * float64(1-2*rng.IntN(2)) },
-		"last bits":   func(int) float64 { return math.Float64frombits(math.Float64bits(1.5) + uint64(rng.IntN(300))) },
-		"constant":    func(int) float64 { return 2.5 },
+	gens := []struct {
+		name string
+		gen  func(i int) float64
+	}{
+		{"normal", func(int) float64 { return rng.NormFloat64() }},
+		{"ties", func(int) float64 { return float64(rng.IntN(7)) - 3 }},
+		{"signed zero", func(i int) float64 { return []float64{0, math.Copysign(0, -1), 1, -1}[i%4] }},
+		{"binades", func(int) float64 { return math.Exp(40*rng.NormFloat64()) * float64(1-2*rng.IntN(2)) }},
+		{"last bits", func(int) float64 { return math.Float64frombits(math.Float64bits(1.5) + uint64(rng.IntN(300))) }},
+		{"constant", func(int) float64 { return 2.5 }},
 	}
 	sc := new(scratch)
-	for _, name := range []string{"normal", "ties", "signed zero", "binades", "last bits", "constant"} {
+	for _, g := range gens {
 		for _, n := range []int{1, 2, 17, 256, 3001} {
 			vals := make([]float64, n)
 			for i := range vals {
-				vals[i] = gen[name](i)
+				vals[i] = g.gen(i)
 			}
 			want := make([]int32, n)
 			for i := range want {
@@ -40,7 +43,7 @@ func TestArgsort(t *testing.T) {
 				return cmp.Compare(vals[a], vals[b])
 			})
 			if got := sc.argsort(vals); !slices.Equal(got, want) {
-				t.Errorf("%s, n=%d: argsort differs from the stable sort", name, n)
+				t.Errorf("%s, n=%d: argsort differs from the stable sort", g.name, n)
 			}
 		}
 	}

@@ -135,7 +135,7 @@ func (m *model) basisAdjoint(phi []float64, c *cond, gb *gradBuf, dF []float64) 
 	t, mL, u := m.terms, gb.mL, gb.u
 	for k, bs := range t.bases {
 		if bs.constant() {
-			continue // its value, and so its adjoint's weight, is fixed
+			continue // its value does not move with φ (∂v/∂φ = 0): it adds nothing to the gradient
 		}
 		var s float64
 		for n := t.lamPtr[k]; n < t.lamPtr[k+1]; n++ {

@@ -115,7 +115,7 @@ func (P *Posterior) estimate(w []entryRef) (Estimate, float64) {
 		return Estimate{Mean: mean, SD: sd, Lo: mean - z*sd, Hi: mean + z*sd}, pneg
 	}
 	sc := scratchPool.Get().(*scratch)
-	_, pooled := P.p.seriesInto(w, sc.draws) // the chains one after another
+	pooled := P.p.pooledInto(w, sc.draws)
 	e, pneg := summarizeOwned(pooled, P.level)
 	sc.draws = pooled
 	scratchPool.Put(sc)

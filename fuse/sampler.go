@@ -479,15 +479,31 @@ func (p *posterior) seriesInto(w []entryRef, buf []float64) ([][]float64, []floa
 	return storesSeries(p.draws, p.n, w, buf)
 }
 
+// pooledInto writes the draws of a linear combination into buf, grown as
+// needed, the chains one after another, and returns it: the pooled draws
+// an estimate summarises, without the chains cut apart.
+func (p *posterior) pooledInto(w []entryRef, buf []float64) []float64 {
+	return combineInto(p.draws, p.n, w, buf)
+}
+
 // storesSeries is seriesInto over the first n draws of given chains.
 func storesSeries(chains []*drawStore, n int, w []entryRef, buf []float64) ([][]float64, []float64) {
-	buf = grow(buf, len(chains)*n)
+	buf = combineInto(chains, n, w, buf)
 	out := make([][]float64, len(chains))
-	for c, d := range chains {
+	for c := range chains {
 		out[c] = buf[c*n : (c+1)*n]
-		d.combine(w, out[c])
 	}
 	return out, buf
+}
+
+// combineInto writes the first n draws of w of each chain into buf, grown
+// as needed, the chains one after another.
+func combineInto(chains []*drawStore, n int, w []entryRef, buf []float64) []float64 {
+	buf = grow(buf, len(chains)*n)
+	for c, d := range chains {
+		d.combine(w, buf[c*n:(c+1)*n])
+	}
+	return buf
 }
 
 // newRand returns a seeded generator for stream k.

@@ -111,6 +111,8 @@ func TestSplitPairs(t *testing.T) {
 	}{
 		{"constant first", []basis{constant, wind, constant}, []int{0, 2, 3, 5}, []int32{0, 1, 1, 0, 1},
 			[]bool{true, true, false, true, false}, []int{0, 0, 1, 2}, []int32{1, 1}, []float64{3, 5}},
+		{"constants after a varying basis", []basis{constant, wind, constant, constant}, []int{0, 2, 3, 4, 5}, []int32{0, 1, 1, 1, 1},
+			[]bool{true, true, false, false, false}, []int{0, 0, 1, 2, 3}, []int32{1, 1, 1}, []float64{3, 4, 5}},
 		{"varying first", []basis{wind, constant}, []int{0, 1, 3}, []int32{2, 0, 2},
 			[]bool{false, true, false}, []int{0, 1, 2}, []int32{2, 2}, []float64{1, 3}},
 		{"no constant", []basis{wind}, []int{0, 2}, []int32{0, 1},
