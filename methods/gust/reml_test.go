@@ -204,3 +204,30 @@ func TestScatterREML(t *testing.T) {
 
 // restrictedLogLik is the group's restricted log-likelihood of σ_g².
 func (g Group) restrictedLogLik(s2 float64) (float64, bool) { return g.prepare().logLik(s2) }
+
+// TestGridWorkers: the grid shared by two goroutines, or by three (points
+// left over at the end), gives the serial grid's result to the bit, as
+// posteriorGrid says (each point computed alike, summed in one order).
+func TestGridWorkers(t *testing.T) {
+	groups := []Group{arrowheadGroup(), runJoinGroup(), oneBlockGroup()}
+	serial := func(s2 float64) float64 {
+		var ll float64
+		for _, g := range groups {
+			if v, ok := g.restrictedLogLik(s2); ok {
+				ll += v
+			}
+		}
+		return ll
+	}
+	wantSD, wantSDSD := posteriorN(serial, 1.5, gridN)
+	for _, workers := range []int{2, 3} {
+		sd, sdsd := posteriorGrid(1.5, gridN+1, workers, func() func(float64) float64 { return serial })
+		sd1, sdsd1 := posteriorN(serial, 1.5, gridN+1)
+		if sd != sd1 || sdsd != sdsd1 {
+			t.Errorf("%d workers on %d points: (%v, %v), serial (%v, %v)", workers, gridN+1, sd, sdsd, sd1, sdsd1)
+		}
+	}
+	if sd, sdsd := ScatterREML(groups, 1.5); sd != wantSD || sdsd != wantSDSD {
+		t.Errorf("ScatterREML = (%v, %v), the serial grid (%v, %v)", sd, sdsd, wantSD, wantSDSD)
+	}
+}
