@@ -23,11 +23,17 @@ type proposal struct {
 	comps []component // the blocks of θ refreshed after every joint step
 	// ownSigns: every sign involves one component only
 	ownSigns bool
+	// still: the joint step cannot move a chain once it has begun — no φ
+	// and no shared nuisances, so it would propose the components' held
+	// draws again (one entry's signs alone); the component steps do all
+	// the moving
+	still bool
 }
 
 // newProposal builds the proposal around a Laplace fit.
 func (m *model) newProposal(mode []float64, cov *mat.SymDense) (*proposal, error) {
 	pr := &proposal{m: m, mode: mode, d: len(m.phi), p: len(m.lin), comps: m.components(), ownSigns: true}
+	pr.still = pr.d == 0 && m.lay.shared() == pr.p
 	for _, comps := range m.signComps {
 		pr.ownSigns = pr.ownSigns && len(comps) == 1
 	}
@@ -167,6 +173,10 @@ func (ch *chainState) proposed(d int) *cond {
 // from the first acceptance on.
 func (pr *proposal) step(ch *chainState, n int) {
 	for range n {
+		if pr.still && ch.begun {
+			pr.refreshAll(ch)
+			continue
+		}
 		lw := pr.propose(ch)
 		ch.tries++
 		if !math.IsInf(lw, -1) && (!ch.begun || math.Log(ch.rng.Float64()) < lw-ch.lw) {
@@ -180,15 +190,8 @@ func (pr *proposal) step(ch *chainState, n int) {
 				ch.cur = 1 - ch.cur
 			}
 		}
-		if !ch.begun {
-			continue
-		}
-		for k := range pr.comps {
-			pr.refresh(ch, &pr.comps[k])
-		}
-		ch.stage.add(ch.theta, ch.phi)
-		if ch.stage.n == stageDraws {
-			ch.stage.flush(ch.draws, ch.phis)
+		if ch.begun {
+			pr.refreshAll(ch)
 		}
 	}
 	ch.stage.flush(ch.draws, ch.phis)

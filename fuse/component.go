@@ -69,16 +69,35 @@ func (m *model) signLogProb(signs []int, theta []float64) float64 {
 	return s + math.Log(prod)
 }
 
-// refresh makes the component step for component k of a chain's state.
-func (pr *proposal) refresh(ch *chainState, k *component) {
-	m, c := pr.m, &ch.conds[ch.cur]
+// refreshAll makes every component step, given the current conditioning
+// c, and records the chain's state. The shared nuisances' x_S = θ_S − m_S,
+// which no component step moves, are set once for all of them.
+func (pr *proposal) refreshAll(ch *chainState) {
+	c := &ch.conds[ch.cur]
 	if pr.d == 0 {
 		c = &ch.conds[0]
 	}
-	lay, l, p, x, theta := c.lay, c.l, c.p, ch.x, ch.theta
-	for i := k.shared; i < p; i++ {
-		x[i] = theta[lay.col[i]] - c.mean[lay.col[i]]
+	if len(pr.comps) > 0 {
+		lay := c.lay
+		for i := pr.comps[0].shared; i < c.p; i++ {
+			ch.x[i] = ch.theta[lay.col[i]] - c.mean[lay.col[i]]
+		}
 	}
+	for k := range pr.comps {
+		pr.refresh(ch, &pr.comps[k], c)
+	}
+	ch.stage.add(ch.theta, ch.phi)
+	if ch.stage.n == stageDraws {
+		ch.stage.flush(ch.draws, ch.phis)
+	}
+}
+
+// refresh makes the component step for component k of a chain's state,
+// given the conditioning c and the shared nuisances' x_S in ch.x (see
+// refreshAll).
+func (pr *proposal) refresh(ch *chainState, k *component, c *cond) {
+	m := pr.m
+	lay, l, p, x, theta := c.lay, c.l, c.p, ch.x, ch.theta
 	for i := k.lo; i < k.hi; i++ {
 		x[i] = ch.rng.NormFloat64()
 		ch.zp[i] = x[i] // the proposal's standardised draw, kept on acceptance

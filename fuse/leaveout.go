@@ -24,9 +24,9 @@ type looFits struct {
 	full *model
 	// setAlone and setOthers are the settings of the standalone and the
 	// others' fits; start is the joint posterior's mode of φ, where every
-	// fit begins.
+	// fit begins, with the curvature there.
 	setAlone, setOthers Settings
-	start               map[string]float64
+	start               *warmStart
 }
 
 // leaveOneOut fits each entry alone and every entry but it: 2M independent
@@ -44,7 +44,7 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	M := len(evs)
 	set := full.set
 	lo := &looFits{alone: make([]*Posterior, M), others: make([]*Posterior, M), pOff: make([]float64, M),
-		ag: make([]*Agreement, M), st: make([]*looStat, M), agOf: make([]*Posterior, M), full: full, setAlone: set, setOthers: set, start: modeStart(full, P)}
+		ag: make([]*Agreement, M), st: make([]*looStat, M), agOf: make([]*Posterior, M), full: full, setAlone: set, setOthers: set, start: newWarmStart(full, P.p)}
 	// Their differences between configurations are not reported: their
 	// diagnostics need not track them.
 	lo.setAlone.reference, lo.setOthers.reference = "", ""
@@ -73,18 +73,6 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	return lo, nil
 }
 
-// modeStart returns the joint posterior's mode of φ by parameter name (empty
-// for a closed-form posterior).
-func modeStart(full *model, P *Posterior) map[string]float64 {
-	start := map[string]float64{}
-	for i, p := range full.phi {
-		if P.p.phiMode != nil {
-			start[p.name] = P.p.phiMode[i]
-		}
-	}
-	return start
-}
-
 // fitAlone fits one entry on its own, p(θ | y_e), and compacts it (see
 // Posterior.compact): should its nuisances' draws be wanted later, the
 // same seeded fit is made again.
@@ -98,7 +86,9 @@ func (lo *looFits) fitAlone(ev evidence.Evidence) (*Posterior, error) {
 
 // fitAloneWhole is fitAlone without the compaction.
 func (lo *looFits) fitAloneWhole(ev evidence.Evidence) (*Posterior, error) {
-	am, err := newModel([]evidence.Evidence{ev}, lo.setAlone)
+	set := lo.setAlone
+	set.track = ev.Informs
+	am, err := newModel([]evidence.Evidence{ev}, set)
 	if err != nil {
 		return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
 	}
@@ -113,7 +103,9 @@ func (lo *looFits) fitAloneWhole(ev evidence.Evidence) (*Posterior, error) {
 // othersModel is the model of every entry but entry ei.
 func (lo *looFits) othersModel(evs []evidence.Evidence, ei int) (*model, error) {
 	rest := append(append([]evidence.Evidence(nil), evs[:ei]...), evs[ei+1:]...)
-	om, err := newModel(rest, lo.setOthers)
+	set := lo.setOthers
+	set.track = evs[ei].Informs
+	om, err := newModel(rest, set)
 	if err != nil {
 		return nil, err
 	}

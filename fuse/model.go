@@ -28,6 +28,10 @@ type Settings struct {
 	// reference is the result's reference configuration (Input.Reference):
 	// the differences to it are tracked by the sampler's diagnostics too.
 	reference string
+	// track, when set, are the only quantities whose convergence gates
+	// the sampling (see trackedColumns): those of the one entry a
+	// standalone or leave-one-out fit is made for.
+	track []evidence.Quantity
 }
 
 // Fallbacks when a caller leaves Settings zero; the campaign's defaults
@@ -175,9 +179,9 @@ type model struct {
 	// uninformative); inflateSys[e] > 1 multiplies the prior sds of the
 	// nuisances and scale factors that e alone owns.
 	inflate, inflateSys []float64
-	// start is where the Laplace fit begins, by φ name (zero elsewhere):
-	// the joint posterior's mode, for the fits that leave entries out.
-	start map[string]float64
+	// start is where the Laplace fit begins (zero where nil or silent):
+	// the joint posterior's, for the fits that leave entries out.
+	start *warmStart
 
 	priorOnce sync.Once
 	prior     *prior // prior terms under this variant's inflation

@@ -230,7 +230,9 @@ func Standalone(evs []evidence.Evidence, set Settings) (*Result, error) {
 	res := &Result{Format: ResultFormat, Credible: set.Credible, Configs: []ConfigResult{}, Deltas: []DeltaResult{}, Warnings: []string{},
 		DownWeighted: []string{}, Checks: []Check{}}
 	for _, ev := range evs {
-		alone, err := Fit([]evidence.Evidence{ev}, set)
+		one := set
+		one.track = ev.Informs // the quantities it reports
+		alone, err := Fit([]evidence.Evidence{ev}, one)
 		if err != nil {
 			return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
 		}

@@ -66,7 +66,8 @@ type posterior struct {
 	phiDraws []*drawStore // per chain: the non-linear draws
 	n        int          // draws per chain
 	phiMode  []float64
-	logZ     float64 // Laplace estimate of log p(y), for the robust layer
+	phiCov   *mat.SymDense // the Laplace fit's inverse curvature at phiMode
+	logZ     float64       // Laplace estimate of log p(y), for the robust layer
 	diag     Diagnostics
 }
 
@@ -133,28 +134,14 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		return nil, nil, -f, nil
 	}
 	lf := &laplaceFns{m: m}
-	x0 := make([]float64, d)
-	for i, p := range m.phi {
-		x0[i] = m.start[p.name] // a warm start where one is known
-	}
+	x0 := m.start.point(m.phi)
 	if math.IsInf(lf.f(x0), 1) {
 		var c cond
 		if err := m.condition(x0, &c); err != nil {
 			return nil, nil, 0, err
 		}
 	}
-	// A failed line search or the iteration limit still leaves a usable best
-	// point; the chains correct for an imperfect proposal.
-	// It stops where two iterations gain less than 1e-5 in log density
-	// (the objective's rounding keeps the gradient from ever reaching the
-	// threshold on a large campaign).
-	conv := &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 2}
-	prob := optimize.Problem{Func: lf.f, Grad: lf.grad}
-	res, _ := optimize.Minimize(prob, x0, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
-	mode = x0
-	if res != nil && !math.IsInf(res.F, 0) && !math.IsNaN(res.F) {
-		mode = res.X // also when the optimiser stopped early: its best point
-	}
+	mode = lf.minimize(x0, m.start.whitener(m.phi, m.priorTerms().phiSD))
 	H := lf.hessian(mode)
 	var ch mat.Cholesky
 	cov = mat.NewSymDense(d, nil)
@@ -170,6 +157,44 @@ func (m *model) laplace() (mode []float64, cov *mat.SymDense, logZ float64, err 
 		logZ += math.Log(p.sd)
 	}
 	return mode, cov, logZ, nil
+}
+
+// minimize returns the mode of f by BFGS (gonum optimize) from x0, over
+// u with φ = x0 + T·u when a whitener T is given (see warmStart.whitener).
+// A failed line search or the iteration limit still leaves a usable best
+// point; the chains correct for an imperfect proposal. It stops where two
+// iterations gain less than 1e-5 in log density (the objective's rounding
+// keeps the gradient from ever reaching the threshold on a large
+// campaign).
+func (lf *laplaceFns) minimize(x0 []float64, T *mat.TriDense) []float64 {
+	d := len(x0)
+	prob := optimize.Problem{Func: lf.f, Grad: lf.grad}
+	start := x0
+	x, gx := make([]float64, d), make([]float64, d)
+	at := func(u []float64) []float64 { // φ = x0 + T·u
+		mat.NewVecDense(d, x).MulVec(T, mat.NewVecDense(d, u))
+		for i := range x {
+			x[i] += x0[i]
+		}
+		return x
+	}
+	if T != nil {
+		prob.Func = func(u []float64) float64 { return lf.f(at(u)) }
+		prob.Grad = func(g, u []float64) {
+			lf.grad(gx, at(u))
+			mat.NewVecDense(d, g).MulVec(T.T(), mat.NewVecDense(d, gx))
+		}
+		start = make([]float64, d)
+	}
+	conv := &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 2}
+	res, _ := optimize.Minimize(prob, start, &optimize.Settings{GradientThreshold: 1e-4, MajorIterations: 200, Converger: conv}, &optimize.BFGS{})
+	if res == nil || math.IsInf(res.F, 0) || math.IsNaN(res.F) {
+		return x0
+	}
+	if T == nil {
+		return res.X // also when the optimiser stopped early: its best point
+	}
+	return slices.Clone(at(res.X))
 }
 
 // laplaceFns are the Laplace fit's objective, gradient and curvature,
@@ -250,7 +275,7 @@ func (m *model) sample() (*posterior, error) {
 	if err != nil {
 		return nil, err
 	}
-	post.phiMode, post.logZ = mode, logZ
+	post.phiMode, post.phiCov, post.logZ = mode, cov, logZ
 	prop, err := m.newProposal(mode, cov)
 	if err != nil {
 		return nil, err
@@ -436,9 +461,25 @@ func (post *posterior) keep() {
 // the front, rear and total β of every configuration the evidence speaks
 // of (the others are the prior, drawn exactly) and, given the reference
 // configuration of the result (Settings.reference), each one's difference
-// to it — every figure of the result that is a linear function of β.
+// to it — every figure of the result that is a linear function of β. A
+// fit made for one entry (Settings.track) tracks that entry's quantities
+// alone: its standalone figures, or those its agreement with the others
+// compares. Every quantity tracked is one more chance for R̂'s own noise
+// to exceed its bound: the five others' fits of a 24-configuration day,
+// tracking the 72 axles where an entry's figures are 24, drew 6552 where
+// their first batches were 4800; tracking the entry's, 6164.
 func (m *model) trackedColumns() [][]entryRef {
 	var out [][]entryRef
+	if m.set.track != nil {
+		seen := map[evidence.Quantity]bool{}
+		for _, q := range m.set.track {
+			if m.informed[q.Config] && !seen[q] {
+				seen[q] = true
+				out = append(out, m.quantity(q))
+			}
+		}
+		return out
+	}
 	axles := []string{evidence.AxleFront, evidence.AxleRear, evidence.AxleTotal}
 	for _, c := range m.set.Configs {
 		if !m.informed[c] {
