@@ -58,7 +58,7 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 	parallel(2*M, func(j int) {
 		switch ei := j % M; {
 		case j >= M:
-			lo.alone[ei], errs[2*ei] = lo.fitAlone(evs[ei])
+			lo.alone[ei], errs[2*ei] = lo.fitAlone(ei, evs[ei])
 		case M > 1:
 			if lo.others[ei], errs[2*ei+1] = lo.fitOthers(evs, ei); errs[2*ei+1] == nil {
 				lo.pOff[ei] = full.pOff(ei, P.p.logZ)
@@ -76,18 +76,18 @@ func leaveOneOut(full *model, P *Posterior, evs []evidence.Evidence) (*looFits, 
 // fitAlone fits one entry on its own, p(θ | y_e), and compacts it (see
 // Posterior.compact): should its nuisances' draws be wanted later, the
 // same seeded fit is made again.
-func (lo *looFits) fitAlone(ev evidence.Evidence) (*Posterior, error) {
-	P, err := lo.fitAloneWhole(ev)
+func (lo *looFits) fitAlone(ei int, ev evidence.Evidence) (*Posterior, error) {
+	P, err := lo.fitAloneWhole(ei, ev)
 	if err == nil {
-		P.compact(func() (*Posterior, error) { return lo.fitAloneWhole(ev) }, nil)
+		P.compact(func() (*Posterior, error) { return lo.fitAloneWhole(ei, ev) }, nil)
 	}
 	return P, err
 }
 
 // fitAloneWhole is fitAlone without the compaction.
-func (lo *looFits) fitAloneWhole(ev evidence.Evidence) (*Posterior, error) {
+func (lo *looFits) fitAloneWhole(ei int, ev evidence.Evidence) (*Posterior, error) {
 	set := lo.setAlone
-	set.track = ev.Informs
+	set.track = lo.entryQuantities(ei, ev)
 	am, err := newModel([]evidence.Evidence{ev}, set)
 	if err != nil {
 		return nil, fmt.Errorf("entry %q alone: %w", ev.Entry, err)
@@ -100,11 +100,27 @@ func (lo *looFits) fitAloneWhole(ev evidence.Evidence) (*Posterior, error) {
 	return P, nil
 }
 
+// entryQuantities are the quantities a fit made for entry ei tracks (see
+// Settings.track): those it informs — its standalone figures — and the
+// lift of every axle its data read, among which its agreement names the
+// worst disagreement that the planner and the cross-check then read from
+// the standalone and the others' posteriors (a laser between the axles
+// reads both axles' lift but informs its own).
+func (lo *looFits) entryQuantities(ei int, ev evidence.Evidence) []evidence.Quantity {
+	out := append([]evidence.Quantity{}, ev.Informs...)
+	for _, c := range lo.full.entryCols(ei) {
+		if lp := lo.full.lin[c]; lp.kind == kindBeta {
+			out = append(out, evidence.Quantity{Config: lp.config, Axle: lp.axle})
+		}
+	}
+	return out
+}
+
 // othersModel is the model of every entry but entry ei.
 func (lo *looFits) othersModel(evs []evidence.Evidence, ei int) (*model, error) {
 	rest := append(append([]evidence.Evidence(nil), evs[:ei]...), evs[ei+1:]...)
 	set := lo.setOthers
-	set.track = evs[ei].Informs
+	set.track = lo.entryQuantities(ei, evs[ei])
 	om, err := newModel(rest, set)
 	if err != nil {
 		return nil, err

@@ -292,6 +292,10 @@ func (m *model) sample() (*posterior, error) {
 	post.diag.Accept = float64(acc) / float64(tries)
 	post.diag.Draws = post.n * nChains
 	post.diag.Sampler = fmt.Sprintf("independence Metropolis–Hastings, %d chains, Student-t proposal from a Laplace fit over %d non-linear parameters, linear parameters drawn exactly given them, each configuration's redrawn after every step", nChains, prop.d)
+	if prop.still {
+		// Accept then counts the chains' first steps only.
+		post.diag.Sampler = fmt.Sprintf("Metropolis within Gibbs, %d chains: each configuration's block drawn from its conditional Gaussian and kept by its signs' ratio (no non-linear parameters, no shared nuisances)", nChains)
+	}
 	return post, nil
 }
 

@@ -389,18 +389,19 @@ func posteriorGrid(scale float64, n, workers int, newLoglik func() func(s2 float
 	}
 	top := 5 * scale
 	lp := make([]float64, n)
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			loglik := newLoglik()
-			for k := w; k < n; k += workers {
-				s := top * (float64(k) + 0.5) / float64(n)
-				lp[k] = -0.5*s*s/(scale*scale) + loglik(s*s)
-			}
-		}()
+	points := func(w int) {
+		loglik := newLoglik()
+		for k := w; k < n; k += workers {
+			s := top * (float64(k) + 0.5) / float64(n)
+			lp[k] = -0.5*s*s/(scale*scale) + loglik(s*s)
+		}
 	}
+	var wg sync.WaitGroup
+	for w := 1; w < workers; w++ {
+		wg.Add(1)
+		go func() { defer wg.Done(); points(w) }()
+	}
+	points(0)
 	wg.Wait()
 	best := math.Inf(-1)
 	for _, v := range lp {
