@@ -5,8 +5,6 @@ import (
 	"reflect"
 	"testing"
 
-	"liftfuse/methods"
-	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 )
 
@@ -16,16 +14,7 @@ import (
 // on the demo the entries inform different axles, so tracking a
 // neighbour's would differ.
 func TestOthersTrackLeftOut(t *testing.T) {
-	c, err := campaign.Load("../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	r, err := methods.Reduce(c, methods.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	evs := r.Evidence()
-	set := Settings{Configs: []string{"baseline", "ducktail"}, Seed: 1, Credible: 0.9}.withDefaults()
+	evs, set := demoEvidence(t)
 	full, err := newModel(evs, set)
 	if err != nil {
 		t.Fatal(err)

@@ -1,13 +1,13 @@
 package fuse
 
 import (
+	"liftfuse/methods"
+	"liftfuse/methods/campaign"
 	"math"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
 
-	"liftfuse/methods"
-	"liftfuse/methods/campaign"
 	"liftfuse/methods/evidence"
 )
 
@@ -20,16 +20,7 @@ import (
 // optimiser's answer does not depend on where it starts on a concave
 // problem).
 func TestWarmStart(t *testing.T) {
-	c, err := campaign.Load("../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	r, err := methods.Reduce(c, methods.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	evs := r.Evidence()
-	set := Settings{Configs: []string{"baseline", "ducktail"}, Seed: 1, Credible: 0.9}.withDefaults()
+	evs, set := demoEvidence(t)
 	full, err := newModel(evs, set)
 	if err != nil {
 		t.Fatal(err)
@@ -103,4 +94,19 @@ func TestWhitener(t *testing.T) {
 	if none.whitener(phi, []float64{1, 1, 1}) != nil || none.point(phi)[2] != 0 {
 		t.Error("no warm start: want no whitener and a start at zero")
 	}
+}
+
+// demoEvidence returns the demo campaign's evidence, reduced, and the
+// settings of its fusion, for the internal tests that build its models.
+func demoEvidence(tb testing.TB) ([]evidence.Evidence, Settings) {
+	tb.Helper()
+	c, err := campaign.Load("../examples/ducktail-fastback/campaign.yaml", campaign.Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	r, err := methods.Reduce(c, methods.Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return r.Evidence(), Settings{Configs: []string{"baseline", "ducktail"}, Seed: 1, Credible: 0.9}.withDefaults()
 }
